@@ -1,0 +1,89 @@
+import type { SurveyRecord } from '../data/survey.js';
+
+/** Transitions of one site, as sparse `[from, to, n]` cells: what the site bootstrap resamples. */
+export interface SiteCounts {
+  readonly site: string;
+  readonly group?: string;
+  readonly cells: readonly (readonly [number, number, number])[];
+}
+
+/** Pairs of consecutive surveys that were not exactly one step apart, by their gap in time units. */
+export interface SkippedPairs {
+  readonly gap: number;
+  readonly pairs: number;
+}
+
+export interface TransitionCounts {
+  readonly k: number;
+  /** Row-major k×k: `counts[i*k + j]` transitions from state i to state j, pooled over sites. */
+  readonly counts: Float64Array;
+  readonly sites: readonly SiteCounts[];
+  readonly transitions: number;
+  readonly skipped: readonly SkippedPairs[];
+  /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
+  readonly firstLine: Int32Array;
+}
+
+/**
+ * Count transitions between consecutive surveys of the same site that are exactly `step` time units
+ * apart, pooled over sites (Anderson & Goodman 1957: the pooled counts are the sufficient
+ * statistic of a stationary first-order chain observed on independent sites).
+ *
+ * Pairs with any other gap are not silently dropped: they are tallied by gap in `skipped`.
+ */
+export function countTransitions(records: readonly SurveyRecord[], k: number, step: number): TransitionCounts {
+  const counts = new Float64Array(k * k);
+  const firstLine = new Int32Array(k * k);
+  const bySite = groupBySite(records);
+  const sites: SiteCounts[] = [];
+  const skipped = new Map<number, number>();
+  let transitions = 0;
+  for (const [site, rows] of bySite) {
+    const ordered = [...rows].sort((a, b) => a.time - b.time);
+    const cells = new Map<number, number>();
+    for (let n = 1; n < ordered.length; n++) {
+      const before = ordered[n - 1]!;
+      const after = ordered[n]!;
+      const gap = after.time - before.time;
+      if (gap !== step) {
+        skipped.set(gap, (skipped.get(gap) ?? 0) + 1);
+        continue;
+      }
+      const cell = before.state * k + after.state;
+      counts[cell] += 1;
+      if (firstLine[cell] === 0) firstLine[cell] = after.line;
+      cells.set(cell, (cells.get(cell) ?? 0) + 1);
+      transitions += 1;
+    }
+    const group = ordered[0]!.group;
+    const sparse = [...cells.entries()]
+      .sort((a, b) => a[0] - b[0])
+      .map(([cell, n]) => [Math.floor(cell / k), cell % k, n] as const);
+    sites.push(group === undefined ? { site, cells: sparse } : { site, group, cells: sparse });
+  }
+  const skippedList = [...skipped.entries()].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  return { k, counts, sites, transitions, skipped: skippedList, firstLine };
+}
+
+/** Sites in order of first appearance, so the per-site list is stable for a given file. */
+function groupBySite(records: readonly SurveyRecord[]): Map<string, SurveyRecord[]> {
+  const bySite = new Map<string, SurveyRecord[]>();
+  for (const r of records) {
+    const list = bySite.get(r.site);
+    if (list) list.push(r);
+    else bySite.set(r.site, [r]);
+  }
+  return bySite;
+}
+
+/** Sum sparse per-site cells back into a dense k×k table (the counts of any set of sites add up). */
+export function addSiteCells(target: Float64Array, k: number, cells: SiteCounts['cells'], weight = 1): void {
+  for (const [i, j, n] of cells) target[i * k + j] += weight * n;
+}
+
+/** The most common gap among skipped pairs: what `--step` should probably be. */
+export function likelyStep(skipped: readonly SkippedPairs[]): number | undefined {
+  let best: SkippedPairs | undefined;
+  for (const s of skipped) if (s.gap > 0 && (!best || s.pairs > best.pairs)) best = s;
+  return best?.gap;
+}

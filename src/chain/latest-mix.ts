@@ -1,0 +1,27 @@
+import type { SurveyRecord } from '../data/survey.js';
+
+export interface SurveyedMix {
+  /** The latest survey time in the table. */
+  readonly time: number;
+  /** Number of sites in each state at that time, in state order. */
+  readonly counts: readonly number[];
+  readonly shares: readonly number[];
+  readonly sites: number;
+}
+
+/**
+ * The mix of states among the sites surveyed at the latest survey time: the natural starting point
+ * of a forecast. Sites last seen earlier are not carried forward (their state now is unknown).
+ */
+export function latestSurveyedMix(records: readonly SurveyRecord[], k: number): SurveyedMix {
+  let time = -Infinity;
+  for (const r of records) if (r.time > time) time = r.time;
+  const counts = new Array<number>(k).fill(0);
+  let sites = 0;
+  for (const r of records) {
+    if (r.time !== time) continue;
+    counts[r.state]! += 1;
+    sites += 1;
+  }
+  return { time, counts, shares: counts.map((c) => c / sites), sites };
+}

@@ -1,0 +1,44 @@
+import { Command, CommanderError } from 'commander';
+import { SereError, formatError } from '../errors.js';
+import { TOOL_VERSION } from '../version.js';
+import { registerFit } from './fit-command.js';
+import { registerForecast } from './forecast-command.js';
+import type { Io } from './io.js';
+
+/** Exit codes: the public surface, documented in the README. */
+export const EXIT = { ok: 0, badInput: 1, usage: 2, internal: 70 } as const;
+
+/**
+ * The whole CLI as a function: parse `argv`, run one command, return the exit code. The
+ * executable only calls this; tests call it directly with their own `io`.
+ */
+export async function run(argv: readonly string[], io: Io): Promise<number> {
+  const program = new Command('sere')
+    .description('Forecast how the mix of land states changes, from repeated site surveys (fitted Markov chains).')
+    .version(TOOL_VERSION)
+    .option('--debug', 'print a stack trace for internal errors')
+    .exitOverride()
+    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
+    .showHelpAfterError('(run sere --help for usage)');
+  registerFit(program, io);
+  registerForecast(program, io);
+  for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
+
+  try {
+    await program.parseAsync([...argv], { from: 'user' });
+    return EXIT.ok;
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      // Help and --version exit 0; every other commander error (unknown option, missing argument, no command) is usage.
+      return err.exitCode === 0 ? EXIT.ok : EXIT.usage;
+    }
+    if (err instanceof SereError) {
+      io.stderr(`sere: error: ${formatError(err)}\n`);
+      return EXIT.badInput;
+    }
+    const debug = argv.includes('--debug');
+    const detail = err instanceof Error ? (debug ? err.stack ?? err.message : err.message) : String(err);
+    io.stderr(`sere: internal error: ${detail}\n${debug ? '' : '(run again with --debug for details, and please report it)\n'}`);
+    return EXIT.internal;
+  }
+}

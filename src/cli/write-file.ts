@@ -1,0 +1,23 @@
+import { existsSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import { SereError } from '../errors.js';
+
+/**
+ * Write a file atomically: to a temporary file beside it, then rename, so that a reader never sees
+ * half a file and a failure leaves nothing behind. An existing file is kept unless `force`.
+ */
+export function writeFileAtomic(file: string, text: string, force: boolean): void {
+  if (existsSync(file) && !force) {
+    throw new SereError('FILE_EXISTS', 'already exists and was left untouched', { file },
+      'choose another name, or pass --force to replace it');
+  }
+  const temporary = join(dirname(file), `.${basename(file)}.${process.pid}.tmp`);
+  try {
+    writeFileSync(temporary, text);
+    renameSync(temporary, file);
+  } catch (err) {
+    rmSync(temporary, { force: true });
+    const reason = (err as NodeJS.ErrnoException).code ?? 'write failed';
+    throw new SereError('CANNOT_WRITE', `cannot write the file (${reason})`, { file }, 'check that the folder exists and is writable');
+  }
+}

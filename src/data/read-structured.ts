@@ -1,0 +1,76 @@
+import { isMap, isNode, isScalar, LineCounter, parseDocument, type Document } from 'yaml';
+import type { z } from 'zod';
+import { SereError, type ErrorCode, type Place } from '../errors.js';
+import { readTextFile } from './read-text-file.js';
+
+export type KeyPath = readonly (string | number)[];
+
+export interface Structured<T> {
+  readonly value: T;
+  readonly sha256: string;
+  /** file:line:column of the node at a key path (or of its nearest existing parent). */
+  locate(path: KeyPath): Place;
+}
+
+/** `start.shares.reedbed`, `show[2]`. */
+export function formatKeyPath(path: KeyPath): string {
+  return path.reduce<string>((out, key) =>
+    typeof key === 'number' ? `${out}[${key}]` : out ? `${out}.${key}` : key, '');
+}
+
+/**
+ * Read a YAML (or JSON — JSON is YAML 1.2) file and validate it against a zod schema. The yaml
+ * library's LineCounter and node ranges turn a zod issue's key path into file:line:column, so the
+ * user is sent to the exact spot; unknown keys (typos) point at the key itself.
+ */
+export function readStructured<T>(file: string, schema: z.ZodType<T>, what: string, code: ErrorCode): Structured<T> {
+  const { text, sha256 } = readTextFile(file, what);
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
+  const syntax = doc.errors[0];
+  if (syntax) {
+    const pos = syntax.linePos?.[0];
+    throw new SereError('BAD_YAML', `not valid YAML/JSON: ${syntax.message.split('\n')[0]!.replace(/ at line \d+, column \d+:?$/, '')}`,
+      { file, line: pos?.line, column: pos?.col }, `fix the ${what}'s syntax at that spot`);
+  }
+  const locate = (path: KeyPath): Place => locateIn(doc, lineCounter, file, path);
+  const parsed = schema.safeParse(doc.toJS());
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0]!;
+    const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol');
+    const keys = issue.code === 'unrecognized_keys' ? issue.keys : [];
+    const path = keys.length > 0 ? [...base, keys[0]!] : base;
+    const place = keys.length > 0 ? locateKey(doc, lineCounter, file, base, keys[0]!) : locate(path);
+    const message = keys.length > 0 ? `unknown key '${keys[0]}'` : issue.message;
+    throw new SereError(code, message, { ...place, path: formatKeyPath(path) || undefined },
+      keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
+  }
+  return { value: parsed.data, sha256, locate };
+}
+
+function position(lineCounter: LineCounter, file: string, offset: number): Place {
+  const { line, col } = lineCounter.linePos(offset);
+  return { file, line, column: col };
+}
+
+function locateIn(doc: Document, lineCounter: LineCounter, file: string, path: KeyPath): Place {
+  for (let n = path.length; n >= 0; n--) {
+    const node = n === 0 ? doc.contents : doc.getIn(path.slice(0, n), true);
+    if (isNode(node) && node.range) {
+      return { ...position(lineCounter, file, node.range[0]), path: formatKeyPath(path) || undefined };
+    }
+  }
+  return { file, path: formatKeyPath(path) || undefined };
+}
+
+function locateKey(doc: Document, lineCounter: LineCounter, file: string, parent: KeyPath, key: string): Place {
+  const map = parent.length === 0 ? doc.contents : doc.getIn(parent, true);
+  if (isMap(map)) {
+    for (const pair of map.items) {
+      if (isScalar(pair.key) && pair.key.value === key && pair.key.range) {
+        return position(lineCounter, file, pair.key.range[0]);
+      }
+    }
+  }
+  return locateIn(doc, lineCounter, file, parent);
+}

@@ -1,0 +1,139 @@
+import { parse } from 'csv-parse/sync';
+import { SereError } from '../errors.js';
+import { readTextFile } from './read-text-file.js';
+import { resolveStates, type StateResolver } from './states.js';
+import type { SurveyColumns, SurveyRecord, SurveyTable } from './survey.js';
+
+export interface ReadSurveyOptions {
+  readonly columns: SurveyColumns;
+  /** Declared states, in the user's order; when absent, states are inferred and sorted. */
+  readonly states?: readonly string[];
+}
+
+interface RawRow {
+  readonly fields: readonly string[];
+  readonly line: number;
+}
+
+const INTEGER = /^[+-]?\d+$/;
+
+/**
+ * Read a long survey table (one row per site and survey) and validate it completely before any
+ * counting: every problem is reported with the file, the line and the column, and nothing is
+ * written when one is found.
+ */
+export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyTable {
+  const { text, sha256 } = readTextFile(file, 'survey table');
+  if (text.trim() === '') {
+    throw new SereError('EMPTY_FILE', 'the survey table is empty', { file },
+      'add a header row (site,time,state) and one row per site and survey');
+  }
+  const rows = parseRows(file, text);
+  const header = rows[0]!;
+  const index = columnIndex(file, header, options.columns);
+  const body = rows.slice(1);
+  if (body.length === 0) {
+    throw new SereError('EMPTY_FILE', 'the survey table has a header but no survey rows', { file, line: header.line },
+      'add one row per site and survey below the header');
+  }
+
+  const labels: { label: string; line: number; column: number }[] = [];
+  for (const row of body) {
+    for (const [key, at] of Object.entries(index) as [keyof SurveyColumns, number][]) {
+      if (key === 'group') continue;
+      if (row.fields[at] === '') {
+        throw new SereError('EMPTY_VALUE', `empty ${key} in column ${at + 1} ('${header.fields[at]}')`,
+          { file, line: row.line, column: at + 1 }, `fill in the ${key} or remove the row`);
+      }
+    }
+    const time = row.fields[index.time]!;
+    if (!INTEGER.test(time)) {
+      throw new SereError('BAD_TIME', `time '${time}' in column ${index.time + 1} is not a whole number`,
+        { file, line: row.line, column: index.time + 1 }, 'write survey times as integers such as 2024');
+    }
+    labels.push({ label: row.fields[index.state]!, line: row.line, column: index.state + 1 });
+  }
+
+  const resolver = resolveStates(file, labels, options.states);
+  const records = body.map((row) => toRecord(row, index, resolver));
+  const repeatedRows = checkDuplicates(file, records, resolver.states);
+  return { file, states: resolver.states, records: uniqueRecords(records), repeatedRows, sha256 };
+}
+
+function parseRows(file: string, text: string): RawRow[] {
+  try {
+    const parsed = parse(text, { info: true, trim: true, skip_empty_lines: true, bom: true }) as unknown as
+      { record: string[]; info: { lines: number } }[];
+    return parsed.map(({ record, info }) => ({ fields: record, line: info.lines }));
+  } catch (err) {
+    const e = err as { code?: string; lines?: number; message?: string };
+    const detail = (e.message ?? 'unreadable').replace(/ on line \d+$| at line \d+$/, '');
+    throw new SereError('NOT_CSV', `not a readable CSV table: ${detail}`, { file, line: e.lines },
+      'save the survey table as comma-separated values with the same number of fields on every row');
+  }
+}
+
+type ColumnIndex = { site: number; time: number; state: number; group?: number };
+
+function columnIndex(file: string, header: RawRow, columns: SurveyColumns): ColumnIndex {
+  const find = (role: string, name: string): number => {
+    const at = header.fields.indexOf(name);
+    if (at < 0) {
+      const found = header.fields.map((f) => `'${f}'`).join(', ');
+      throw new SereError('MISSING_COLUMN', `no '${name}' column for the ${role} (header has ${found})`,
+        { file, line: header.line },
+        `add a '${name}' column, or name the column that holds the ${role} with --${role}-column`);
+    }
+    return at;
+  };
+  const index: ColumnIndex = {
+    site: find('site', columns.site),
+    time: find('time', columns.time),
+    state: find('state', columns.state),
+  };
+  if (columns.group !== undefined) index.group = find('group', columns.group);
+  return index;
+}
+
+function toRecord(row: RawRow, index: ColumnIndex, resolver: StateResolver): SurveyRecord {
+  const record: SurveyRecord = {
+    site: row.fields[index.site]!,
+    time: Number.parseInt(row.fields[index.time]!, 10),
+    state: resolver.indexOf(row.fields[index.state]!),
+    line: row.line,
+  };
+  return index.group === undefined ? record : { ...record, group: row.fields[index.group]! };
+}
+
+/**
+ * A site surveyed twice at the same time must agree with itself: two different states are an
+ * error naming both lines; an exact repeat is counted, reported and used once.
+ */
+function checkDuplicates(file: string, records: readonly SurveyRecord[], states: readonly string[]): number {
+  const seen = new Map<string, SurveyRecord>();
+  let repeated = 0;
+  for (const r of records) {
+    const key = JSON.stringify([r.site, r.time]);
+    const first = seen.get(key);
+    if (first === undefined) {
+      seen.set(key, r);
+    } else if (first.state !== r.state) {
+      throw new SereError('DUPLICATE_SURVEY',
+        `site '${r.site}' at time ${r.time} is '${states[r.state]}' here but '${states[first.state]}' on line ${first.line}`,
+        { file, line: r.line }, 'keep one of the two rows');
+    } else {
+      repeated += 1;
+    }
+  }
+  return repeated;
+}
+
+function uniqueRecords(records: readonly SurveyRecord[]): SurveyRecord[] {
+  const seen = new Set<string>();
+  return records.filter((r) => {
+    const key = JSON.stringify([r.site, r.time]);
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
+}

@@ -1,0 +1,39 @@
+import { quantileSorted } from 'd3-array';
+
+/** An equal-tailed band of draws: median and the (1 − level)/2 and (1 + level)/2 quantiles. */
+export interface Band {
+  readonly median: number;
+  readonly low: number;
+  readonly high: number;
+}
+
+/**
+ * Equal-tailed band of a sample by linear interpolation between order statistics (Hyndman & Fan
+ * 1996, type 7 — the default of R and numpy), via d3-array's quantileSorted. Sorts `sample` in place.
+ */
+export function bandOf(sample: Float64Array, level: number): Band & { mean: number } {
+  sample.sort();
+  // quantileSorted only indexes and reads .length; its type declaration asks for a plain array.
+  const sorted = sample as unknown as number[];
+  const tail = (1 - level) / 2;
+  let sum = 0;
+  for (let i = 0; i < sample.length; i++) sum += sample[i]!;
+  return {
+    median: quantileSorted(sorted, 0.5)!,
+    low: quantileSorted(sorted, tail)!,
+    high: quantileSorted(sorted, 1 - tail)!,
+    mean: sum / sample.length,
+  };
+}
+
+/**
+ * Band of whole numbers (steps, years) that stays on the whole numbers: the inverse of the
+ * empirical distribution function (Hyndman & Fan 1996, type 1), so a median year is a year that
+ * occurred in some draw, never 2031.5. Sorts `sample` in place.
+ */
+export function discreteBandOf(sample: Int32Array, level: number): Band {
+  sample.sort();
+  const tail = (1 - level) / 2;
+  const at = (p: number): number => sample[Math.max(0, Math.ceil(p * sample.length) - 1)]!;
+  return { median: at(0.5), low: at(tail), high: at(1 - tail) };
+}

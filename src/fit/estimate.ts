@@ -1,0 +1,21 @@
+import { maximumLikelihood, posteriorSummary, type PointEstimate, type PosteriorSummary } from '../chain/estimates.js';
+import { stationaryMix, type StationaryResult } from '../chain/stationary.js';
+import { fitPrior, type Fit } from './fit.js';
+
+export interface FitEstimates {
+  readonly mle: PointEstimate;
+  readonly posterior: PosteriorSummary;
+  /** Stationary mix of the MLE, or the closed classes when there is more than one. */
+  readonly stationary: StationaryResult;
+}
+
+export function estimateFit(fit: Fit, level: number): FitEstimates {
+  const k = fit.states.length;
+  const alpha = fitPrior(fit);
+  const mle = maximumLikelihood(fit.counts, alpha, k);
+  return {
+    mle,
+    posterior: posteriorSummary(fit.counts, alpha, k, level),
+    stationary: stationaryMix(mle.p, k),
+  };
+}

@@ -1,0 +1,42 @@
+import { SereError, type Place } from '../errors.js';
+import type { SurveyColumns } from '../data/survey.js';
+import type { PriorSpec } from '../chain/prior.js';
+
+/** Everything that decides a fit besides the survey table itself. */
+export interface FitSettings {
+  readonly step: number;
+  readonly prior: PriorSpec;
+  readonly states?: readonly string[];
+  /** Transitions declared impossible (structural zeros), as [from, to] labels. */
+  readonly impossible: readonly (readonly [string, string])[];
+  readonly columns: SurveyColumns;
+}
+
+/** Parse `from>to` pairs, e.g. `woodland>open-water`. */
+export function parseImpossible(items: readonly string[], place: Place): [string, string][] {
+  return items.map((item) => {
+    const parts = item.split('>').map((s) => s.trim());
+    if (parts.length !== 2 || parts[0] === '' || parts[1] === '') {
+      throw new SereError('BAD_OPTION', `'${item}' is not a transition written FROM>TO`, place,
+        'write each impossible transition as from>to, e.g. woodland>open-water');
+    }
+    return [parts[0]!, parts[1]!];
+  });
+}
+
+/** A mask of structural zeros in state order; unknown labels are an error naming the option. */
+export function impossibleMask(pairs: FitSettings['impossible'], states: readonly string[], place: Place): Uint8Array {
+  const k = states.length;
+  const mask = new Uint8Array(k * k);
+  for (const [from, to] of pairs) {
+    const i = states.indexOf(from);
+    const j = states.indexOf(to);
+    const unknown = i < 0 ? from : j < 0 ? to : undefined;
+    if (unknown !== undefined) {
+      throw new SereError('UNKNOWN_STATE', `impossible transition ${from}>${to} names unknown state '${unknown}'`, place,
+        `use one of: ${states.join(', ')}`);
+    }
+    mask[i * k + j] = 1;
+  }
+  return mask;
+}

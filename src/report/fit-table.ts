@@ -1,0 +1,56 @@
+import type { ChalkInstance } from 'chalk';
+import type { Fit } from '../fit/fit.js';
+import type { FitEstimates } from '../fit/estimate.js';
+import { pseudoCount } from '../chain/prior.js';
+import { levelLabel, percent, probability, probabilityBand } from './numbers.js';
+import { makeTable } from './style.js';
+
+/** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
+export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance): string {
+  const { states } = fit;
+  const k = states.length;
+  const lines: string[] = [];
+  const matrix = (title: string, cell: (c: number) => string): void => {
+    lines.push('', style.bold(title));
+    const table = makeTable(['from → to', ...states], style, ['left', ...states.map(() => 'right' as const)]);
+    states.forEach((name, i) => table.push([name, ...states.map((_, j) => cell(i * k + j))]));
+    lines.push(table.toString());
+  };
+
+  lines.push(style.bold(`Fit of ${fit.input.file}`));
+  lines.push(`${fit.sites.length} sites · ${fit.surveys} surveys (${fit.firstTime}–${fit.latest.time}) · ` +
+    `${fit.transitions} transitions of one ${fit.step}-year step`);
+  for (const { gap, pairs } of fit.skipped) {
+    lines.push(style.yellow(`skipped: ${pairs} pair${pairs === 1 ? '' : 's'} of consecutive surveys ${gap} years apart (not one step)`));
+  }
+  if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
+  lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
+    (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
+
+  const impossible = new Set(fit.impossible.map(([a, b]) => states.indexOf(a) * k + states.indexOf(b)));
+  matrix('Transition counts, from → to', (c) => String(fit.counts[c]));
+  matrix('Maximum-likelihood probabilities, from → to', (c) => impossible.has(c) ? '—' : probability(est.mle.p[c]!));
+  const { posterior } = est;
+  matrix(`Posterior mean [${levelLabel(posterior.level)}], from → to`, (c) =>
+    impossible.has(c) ? '—' : probabilityBand(posterior.mean[c]!, posterior.low[c]!, posterior.high[c]!));
+  if (impossible.size > 0) lines.push(style.dim('— declared impossible: zero in every draw'));
+
+  for (const i of est.mle.rowsFromPrior) {
+    lines.push(style.yellow(`flag: '${states[i]}' was never surveyed as a from-state; its row comes from the prior alone`));
+  }
+  for (const i of est.mle.rowsNeverLeft) {
+    lines.push(style.yellow(`flag: '${states[i]}' was never seen to leave; the MLE makes it absorbing, the posterior does not`));
+  }
+
+  lines.push('', style.bold('Stationary (long-run) mix of the MLE'));
+  if (est.stationary.unique) {
+    const mix = est.stationary.mix;
+    lines.push(states.map((name, s) => `${name} ${percent(mix[s]!)}%`).join(' · '));
+  } else {
+    const classes = est.stationary.closedClasses.map((c) => `{${c.map((s) => states[s]).join(', ')}}`).join(', ');
+    lines.push(style.yellow(`no single long-run mix: the chain has ${est.stationary.closedClasses.length} closed classes ${classes}`));
+  }
+  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${fit.latest.sites} sites)`));
+  lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
+  return lines.join('\n') + '\n';
+}

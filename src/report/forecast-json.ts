@@ -1,0 +1,49 @@
+import type { ForecastResult } from '../engine/forecast.js';
+import { TOOL_VERSION } from '../version.js';
+
+/**
+ * The documented JSON of `sere forecast --json`: one entry per scenario, everything keyed by state
+ * name, arrays by year. No timestamps, so that the same inputs and seed give byte-identical output.
+ */
+export function forecastJson(results: readonly ForecastResult[]): object {
+  return { format: 'sere-forecast', format_version: 1, tool_version: TOOL_VERSION, scenarios: results.map(scenarioJson) };
+}
+
+function scenarioJson(r: ForecastResult): object {
+  const { scenario: sc } = r;
+  const { fit } = sc;
+  const byState = <T>(f: (s: number) => T): Record<string, T> =>
+    Object.fromEntries(fit.states.map((name, s) => [name, f(s)]));
+  return {
+    name: sc.name,
+    file: sc.file,
+    sha256: sc.sha256,
+    data: { file: fit.input.file, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
+    states: fit.states,
+    step: fit.step,
+    uncertainty: { source: sc.source, draws: r.draws, seed: r.seed },
+    level: sc.level,
+    start: { year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!) },
+    years: r.years,
+    shares: byState((s) => r.shares[s]),
+    stationary: r.stationary.bands
+      ? byState((s) => { const b = r.stationary.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
+      : null,
+    stationary_draws: { unique: r.stationary.unique, not_unique: r.stationary.notUnique },
+    dominance: r.dominance && sc.target
+      ? {
+        state: fit.states[sc.target.state],
+        threshold: sc.target.share,
+        probability: r.dominance.probability,
+        median: r.dominance.year?.median ?? null,
+        low: r.dominance.year?.low ?? null,
+        high: r.dominance.year?.high ?? null,
+      }
+      : null,
+    most_common: byState((s) => {
+      const m = r.mostCommon[s]!;
+      return { probability: m.probability, median: m.year?.median ?? null, low: m.year?.low ?? null, high: m.year?.high ?? null };
+    }),
+    notes: r.notes,
+  };
+}

@@ -1,0 +1,62 @@
+import type { ChalkInstance } from 'chalk';
+import type { ForecastResult } from '../engine/forecast.js';
+import { levelLabel, percent, percentBand, yearBand } from './numbers.js';
+import { CAUTION, makeTable } from './style.js';
+
+/** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
+export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
+  const { scenario: sc } = r;
+  const { fit } = sc;
+  const states = fit.states;
+  const band = levelLabel(sc.level);
+  const lines: string[] = [];
+  lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
+  lines.push(`data: ${fit.input.file} · ${fit.sites.length} sites · ${fit.transitions} transitions · ${fit.step}-year steps`);
+  lines.push(`uncertainty: ${sc.source} · ${r.draws} draw${r.draws === 1 ? '' : 's'} · seed ${r.seed} · bands ${band}`);
+  lines.push(sc.start.from === 'latest'
+    ? `start: ${sc.start.year}, the latest surveyed mix (${fit.latest.sites} sites)`
+    : `start: ${sc.start.year}, shares given in the scenario`);
+  for (const note of r.notes) lines.push(style.yellow(`note: ${note}`));
+
+  lines.push('', style.bold(`Share of the area by year, % — median [${band}]`));
+  const shown = sc.showSteps;
+  const shares = makeTable(['state', ...shown.map((t) => String(r.years[t]))], style,
+    ['left', ...shown.map(() => 'right' as const)]);
+  states.forEach((name, s) => {
+    const b = r.shares[s]!;
+    shares.push([name, ...shown.map((t) => percentBand({ median: b.median[t]!, low: b.low[t]!, high: b.high[t]! }))]);
+  });
+  lines.push(shares.toString());
+
+  lines.push('', style.bold(`Long-run (stationary) mix, % — median [${band}] over draws`));
+  if (r.stationary.bands) {
+    const table = makeTable(['state', 'share'], style, ['left', 'right']);
+    states.forEach((name, s) => table.push([name, percentBand(r.stationary.bands![s]!)]));
+    lines.push(table.toString());
+  }
+  if (r.stationary.notUnique > 0) {
+    lines.push(style.yellow(`${r.stationary.notUnique} of ${r.draws} draws have more than one closed class: ` +
+      'their long-run mix depends on the start and is left out of these bands.'));
+  }
+
+  const last = r.years[r.years.length - 1];
+  if (r.dominance && sc.target) {
+    const target = `${states[sc.target.state]} covering at least ${percent(sc.target.share)}% of the whole area`;
+    lines.push('', style.bold(`Landscape target: ${target}`));
+    lines.push(`  chance it is reached by ${last}: ${percent(r.dominance.probability)}%`);
+    lines.push(r.dominance.year
+      ? `  first year, among draws that reach it: ${yearBand(r.dominance.year)}`
+      : '  reached in no draw within the horizon');
+    lines.push(style.dim('  (a share of the whole landscape, not the time for any one site to change)'));
+  }
+
+  lines.push('', style.bold(`When each state first becomes the most common in the landscape (to ${last})`));
+  const common = makeTable(['state', 'chance', `first year [${band}]`], style, ['left', 'right', 'right']);
+  states.forEach((name, s) => {
+    const m = r.mostCommon[s]!;
+    common.push([name, `${percent(m.probability)}%`, m.year ? yearBand(m.year) : '—']);
+  });
+  lines.push(common.toString());
+  lines.push('', style.dim(CAUTION));
+  return lines.join('\n') + '\n';
+}

@@ -1,0 +1,34 @@
+import type { Band } from '../engine/quantiles.js';
+
+/** A share as a whole percent; shares under half a percent but above zero show as "<1". */
+export function percent(x: number): string {
+  if (x > 0 && x < 0.005) return '<1';
+  return String(Math.round(x * 100));
+}
+
+/** `median [low–high]` as percents; a band that has collapsed to a point shows the point alone. */
+export function percentBand(b: Band): string {
+  const [m, lo, hi] = [percent(b.median), percent(b.low), percent(b.high)];
+  return lo === hi && lo === m ? m : `${m} [${lo}–${hi}]`;
+}
+
+export function probability(x: number): string {
+  return x.toFixed(3);
+}
+
+/** A probability with its interval, two decimals each so a 6-state matrix fits in 100 columns. */
+export function probabilityBand(median: number, low: number, high: number): string {
+  const f = (x: number): string => x.toFixed(2);
+  return low === high ? f(median) : `${f(median)} [${f(low)}–${f(high)}]`;
+}
+
+export function yearBand(b: Band): string {
+  return b.low === b.high ? String(b.median) : `${b.median} [${b.low}–${b.high}]`;
+}
+
+/** The band's tails as a label: level 0.9 → "5%–95%". */
+export function levelLabel(level: number): string {
+  const tail = ((1 - level) / 2) * 100;
+  const fmt = (x: number): string => String(Number(x.toFixed(2)));
+  return `${fmt(tail)}%–${fmt(100 - tail)}%`;
+}

@@ -1,0 +1,120 @@
+import { basename, dirname, relative, resolve } from 'node:path';
+import { SereError, type Place } from '../errors.js';
+import { readStructured, type KeyPath } from '../data/read-structured.js';
+import { DEFAULT_COLUMNS } from '../data/survey.js';
+import { fitFromFile, DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
+import type { Fit } from '../fit/fit.js';
+import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { scenarioSchema, type ScenarioFile } from './schema.js';
+import type { Scenario } from './scenario.js';
+
+/** Explicit starting shares must sum to 1 within this (absolute); they are typed by hand. */
+export const SHARES_SUM_TOLERANCE = 1e-9;
+
+/** Years after the start shown when the scenario does not say (common reporting horizons). */
+const DEFAULT_SHOW_YEARS = [5, 10, 20, 50];
+
+/**
+ * Load a scenario file: validate its shape (zod), fit or load its data (paths are relative to the
+ * scenario file), then check every name and number against that fit, each error pointing at
+ * file:line:column and the key path.
+ */
+export function loadScenario(file: string): Scenario {
+  const { value: s, sha256, locate } = readStructured(file, scenarioSchema, 'scenario file', 'BAD_SCENARIO');
+  const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
+    throw new SereError(code, what, locate(path), hint);
+  };
+  // Relative to the scenario file; shown and recorded relative to the working folder, so output
+  // does not carry this machine's absolute paths.
+  const dataFile = relative(process.cwd(), resolve(dirname(file), s.data));
+  const isFitFile = dataFile.toLowerCase().endsWith('.json');
+  if (isFitFile && s.fit) fail('BAD_SCENARIO', 'fit settings apply only to a survey table, not to a fit file', ['fit'],
+    'remove the fit block, or name the survey table (.csv) in data');
+  const fit = fitFromFile(dataFile, fitSettings(s, locate(['fit', 'impossible'])));
+  const states = fit.states;
+  const stateIndex = (name: string, path: KeyPath): number => {
+    const i = states.indexOf(name);
+    if (i < 0) fail('UNKNOWN_STATE', `unknown state '${name}'`, path, `use one of: ${states.join(', ')}`);
+    return i;
+  };
+
+  const start = s.start === 'latest'
+    ? { year: fit.latest.time, shares: Float64Array.from(fit.latest.shares), from: 'latest' as const }
+    : { year: s.start.year, shares: givenShares(s.start.shares, states.length, stateIndex, fail), from: 'given' as const };
+
+  const stepsOf = (years: number, path: KeyPath): number => {
+    if (years % fit.step !== 0) {
+      fail('BAD_SCENARIO', `${years} years is not a whole number of ${fit.step}-year steps`, path,
+        `use a multiple of ${fit.step}`);
+    }
+    return years / fit.step;
+  };
+  const horizonSteps = 'steps' in s.horizon ? s.horizon.steps : stepsOf(s.horizon.years, ['horizon', 'years']);
+  const showSteps = s.show
+    ? withStart(s.show.map((years, n) => {
+      const steps = stepsOf(years, ['show', n]);
+      if (steps > horizonSteps) fail('BAD_SCENARIO', `year ${years} is beyond the horizon`, ['show', n], 'extend the horizon or drop it');
+      return steps;
+    }))
+    : defaultShowSteps(fit.step, horizonSteps);
+
+  return {
+    name: s.name ?? basename(file).replace(/\.ya?ml$/i, ''),
+    file,
+    sha256,
+    fit,
+    source: s.uncertainty.source,
+    draws: s.uncertainty.source === 'point' ? 1 : s.uncertainty.draws,
+    seed: s.uncertainty.seed,
+    start,
+    horizonSteps,
+    showSteps,
+    level: s.level,
+    target: s.target ? { state: stateIndex(s.target.state, ['target', 'state']), share: s.target.share } : undefined,
+  };
+}
+
+function fitSettings(s: ScenarioFile, impossiblePlace: Place): FitSettings {
+  const f = s.fit;
+  if (!f) return DEFAULT_FIT_SETTINGS;
+  return {
+    step: f.step ?? DEFAULT_FIT_SETTINGS.step,
+    prior: f.prior ?? DEFAULT_FIT_SETTINGS.prior,
+    states: f.states,
+    impossible: parseImpossible(f.impossible ?? [], impossiblePlace),
+    columns: { ...DEFAULT_COLUMNS, ...f.columns },
+  };
+}
+
+function givenShares(
+  shares: Record<string, number>, k: number,
+  stateIndex: (name: string, path: KeyPath) => number,
+  fail: (code: 'BAD_SHARES', what: string, path: KeyPath, hint: string) => never,
+): Float64Array {
+  const mix = new Float64Array(k);
+  let total = 0;
+  for (const [name, share] of Object.entries(shares)) {
+    mix[stateIndex(name, ['start', 'shares', name])] = share;
+    total += share;
+  }
+  if (Math.abs(total - 1) > SHARES_SUM_TOLERANCE) {
+    fail('BAD_SHARES', `starting shares sum to ${total}, not 1`, ['start', 'shares'],
+      'make the shares add up to 1 (states left out count as 0)');
+  }
+  return mix;
+}
+
+/** The start year is always shown; the rest in increasing order, once each. */
+function withStart(steps: readonly number[]): number[] {
+  return [...new Set([0, ...steps])].sort((a, b) => a - b);
+}
+
+/** Start, then the usual 5/10/20/50-year marks that fall on a step, then the horizon itself. */
+function defaultShowSteps(step: number, horizonSteps: number): number[] {
+  const steps = new Set<number>([0]);
+  for (const years of DEFAULT_SHOW_YEARS) {
+    if (years % step === 0 && years / step <= horizonSteps) steps.add(years / step);
+  }
+  steps.add(horizonSteps);
+  return [...steps].sort((a, b) => a - b);
+}

@@ -1,0 +1,42 @@
+import { addSiteCells } from '../chain/counts.js';
+import { maximumLikelihood } from '../chain/estimates.js';
+import { fitPrior, type Fit } from '../fit/fit.js';
+import type { MatrixDraws } from './draws.js';
+import type { RandomSource } from './random.js';
+
+/**
+ * Site bootstrap: resample whole sites with replacement and refit the MLE, once per draw (Efron &
+ * Tibshirani 1993, ch. 6). Resampling sites, not single transitions, keeps each site's own
+ * sequence together, so the bands also carry any between-site heterogeneity the pooled Dirichlet
+ * posterior ignores.
+ *
+ * A from-state with no transitions in a resample has no MLE; that row takes the full-data MLE
+ * (itself the prior mean when the state was never observed) and the number of such rows is
+ * reported.
+ */
+export function bootstrapDraws(fit: Fit, count: number, random: RandomSource): MatrixDraws {
+  const k = fit.states.length;
+  const alpha = fitPrior(fit);
+  const full = maximumLikelihood(fit.counts, alpha, k).p;
+  const data = new Float64Array(count * k * k);
+  const resampled = new Float64Array(k * k);
+  const n = fit.sites.length;
+  let emptyRows = 0;
+  for (let d = 0; d < count; d++) {
+    resampled.fill(0);
+    for (let s = 0; s < n; s++) addSiteCells(resampled, k, fit.sites[random.integer(n)]!.cells);
+    const base = d * k * k;
+    for (let i = 0; i < k; i++) {
+      let total = 0;
+      for (let j = 0; j < k; j++) total += resampled[i * k + j]!;
+      const source = total > 0 ? resampled : full;
+      const scale = total > 0 ? total : 1;
+      if (total === 0) emptyRows += 1;
+      for (let j = 0; j < k; j++) data[base + i * k + j] = source[i * k + j]! / scale;
+    }
+  }
+  const notes = emptyRows > 0
+    ? [`${emptyRows} resampled rows had no transitions and took the full-data estimate`]
+    : [];
+  return { k, count, data, source: 'bootstrap', notes };
+}

@@ -1,0 +1,38 @@
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+/**
+ * The data flow runs one way (DESIGN.md): each stage may import only the stages upstream of it.
+ * Kept as a test, not prose, so the layering cannot drift.
+ */
+const allowed: Record<string, string[]> = {
+  data: [],
+  chain: ['data'],
+  fit: ['data', 'chain'],
+  uncertainty: ['chain', 'fit'],
+  scenario: ['data', 'chain', 'fit', 'uncertainty'],
+  engine: ['chain', 'fit', 'uncertainty', 'scenario'],
+  report: ['chain', 'fit', 'engine', 'scenario'],
+  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'report'],
+};
+
+function sources(dir: string): string[] {
+  return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
+    e.isDirectory() ? sources(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : []);
+}
+
+describe('layering', () => {
+  for (const [stage, upstream] of Object.entries(allowed)) {
+    it(`src/${stage} imports only ${upstream.length ? upstream.join(', ') : 'no other stage'}`, () => {
+      const offenders: string[] = [];
+      for (const file of sources(join('src', stage))) {
+        const text = readFileSync(file, 'utf8');
+        for (const [, target] of text.matchAll(/from '\.\.\/([a-z-]+)\//g)) {
+          if (target !== stage && target !== undefined && target in allowed && !upstream.includes(target)) offenders.push(`${file} → ${target}`);
+        }
+      }
+      expect(offenders).toEqual([]);
+    });
+  }
+});

@@ -1,0 +1,67 @@
+import { describe, expect, it } from 'vitest';
+import { CAUTION } from '../../src/report/style.js';
+import { sere } from './binary.js';
+
+const sc = (name: string): string => `test/fixtures/scenarios/${name}`;
+
+describe('sere forecast (built binary)', () => {
+  it('prints tables with the seed, plain text off a TTY, ending with the caution line', () => {
+    const r = sere(['forecast', sc('good.yaml')]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toContain('seed 11');
+    expect(r.stdout).toContain('Share of the area by year, % — median [5%–95%]');
+    expect(r.stdout).toContain('Landscape target: c covering at least 50% of the whole area');
+    expect(r.stdout.trimEnd().endsWith(CAUTION)).toBe(true);
+    expect(r.stdout).not.toContain('\u001b[');
+  });
+
+  it('gives byte-identical JSON for the same inputs and seed', () => {
+    const a = sere(['forecast', sc('good.yaml'), '--json']);
+    const b = sere(['forecast', sc('good.yaml'), '--json']);
+    expect(a.code).toBe(0);
+    expect(a.stdout).toBe(b.stdout);
+    const c = sere(['forecast', sc('good.yaml'), '--json', '--seed', '12']);
+    expect(c.stdout).not.toBe(a.stdout);
+  });
+
+  it('--json has the documented keys per scenario', () => {
+    const json = JSON.parse(sere(['forecast', sc('good.yaml'), '--json']).stdout);
+    const s = json.scenarios[0];
+    expect(json.format).toBe('sere-forecast');
+    expect(s.years).toEqual([7, 8, 9, 10, 11, 12]);
+    expect(Object.keys(s.shares)).toEqual(['a', 'b', 'c']);
+    expect(Object.keys(s.shares.a)).toEqual(['median', 'low', 'high', 'mean']);
+    expect(s.shares.c.median).toHaveLength(6);
+    expect(s.shares.c.median[0]).toBe(1);
+    expect(Object.keys(s.stationary.b)).toEqual(['median', 'low', 'high']);
+    expect(Object.keys(s.dominance)).toEqual(['state', 'threshold', 'probability', 'median', 'low', 'high']);
+    expect(s.dominance).toMatchObject({ state: 'c', threshold: 0.5, probability: 1, median: 7 });
+    expect(s.uncertainty).toEqual({ source: 'posterior', draws: 200, seed: 11 });
+  });
+
+  it('prints a fresh seed on stderr when none is given, and --draws overrides the scenario', () => {
+    const r = sere(['forecast', sc('typo.yaml').replace('typo', 'no-seed'), '--draws', '50', '--json']);
+    expect(r.code).toBe(0);
+    const seed = /using seed (\d+)/.exec(r.stderr)?.[1];
+    expect(seed).toBeDefined();
+    expect(JSON.parse(r.stdout).scenarios[0].uncertainty).toEqual({ source: 'posterior', draws: 50, seed: Number(seed) });
+  });
+
+  const bad: [string, string][] = [
+    ['typo.yaml', `${sc('typo.yaml')}:3:1 (targte): unknown key 'targte'`],
+    ['unknown-state.yaml', `${sc('unknown-state.yaml')}:4:10 (target.state): unknown state 'woodland'`],
+    ['shares.yaml', `${sc('shares.yaml')}:5:11 (start.shares): starting shares sum to 0.9`],
+    ['bad-yaml.yaml', `${sc('bad-yaml.yaml')}:3:1: not valid YAML/JSON`],
+    ['bad-csv.yaml', 'test/fixtures/bad-time.csv:3:2: time'],
+    ['missing.yaml', `${sc('missing.yaml')}: cannot read the scenario file`],
+  ];
+  for (const [name, message] of bad) {
+    it(`${name}: exit 1 with one line naming file:line:column and key path`, () => {
+      const r = sere(['forecast', sc(name)]);
+      expect(r.code).toBe(1);
+      expect(r.stdout).toBe('');
+      expect(r.stderr).toContain(message);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    });
+  }
+});

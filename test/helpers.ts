@@ -1,0 +1,52 @@
+import fc from 'fast-check';
+import { multiply, matrix, type Matrix } from 'mathjs';
+import type { MatrixDraws } from '../src/uncertainty/draws.js';
+import type { Fit } from '../src/fit/fit.js';
+import type { Scenario } from '../src/scenario/scenario.js';
+
+/** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
+export const stochasticMatrix = (k: number): fc.Arbitrary<number[][]> =>
+  fc.array(fc.array(fc.integer({ min: 0, max: 1000 }), { minLength: k, maxLength: k }), { minLength: k, maxLength: k })
+    .map((rows) => rows.map((row, i) => {
+      const w = row.map((x, j) => x + (i === j ? 1 : 0));
+      const total = w.reduce((a, b) => a + b, 0);
+      return w.map((x) => x / total);
+    }));
+
+/** A random probability vector of length k. */
+export const mixOf = (k: number): fc.Arbitrary<number[]> =>
+  fc.array(fc.integer({ min: 0, max: 1000 }), { minLength: k, maxLength: k })
+    .map((w) => { const v = w.map((x, i) => x + (i === 0 ? 1 : 0)); const t = v.reduce((a, b) => a + b, 0); return v.map((x) => x / t); });
+
+export function drawsOf(matrices: number[][][]): MatrixDraws {
+  const k = matrices[0]!.length;
+  return { k, count: matrices.length, data: Float64Array.from(matrices.flat(2)), source: 'point', notes: [] };
+}
+
+/** x P^t with mathjs: the independent reference for the typed-array kernel. */
+export function mathjsProjection(x: number[], P: number[][], t: number): number[] {
+  let v: Matrix = matrix([x]);
+  for (let n = 0; n < t; n++) v = multiply(v, matrix(P)) as Matrix;
+  return (v.toArray() as number[][])[0]!;
+}
+
+/** A fit with given counts and nothing else, for sampler tests. */
+export function fitWithCounts(states: string[], counts: number[][], prior: Fit['prior'] = 'jeffreys',
+  impossible: [string, string][] = []): Fit {
+  return {
+    input: { file: 'test.csv', sha256: '' }, states, step: 1, prior, impossible,
+    counts: Float64Array.from(counts.flat()), sites: [], transitions: counts.flat().reduce((a, b) => a + b, 0),
+    skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
+    latest: { time: 0, counts: states.map(() => 1), shares: states.map(() => 1 / states.length), sites: states.length },
+  };
+}
+
+
+/** A scenario over a fit with sensible defaults, for engine tests. */
+export function scenarioFor(fit: Fit, overrides: Partial<Scenario> = {}): Scenario {
+  return {
+    name: 'test', file: 'test.yaml', sha256: '', fit, source: 'posterior', draws: 500, seed: 1,
+    start: { year: 2000, shares: Float64Array.from(fit.latest.shares), from: 'latest' },
+    horizonSteps: 10, showSteps: [0, 5, 10], level: 0.9, ...overrides,
+  };
+}
