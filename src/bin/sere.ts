@@ -2,4 +2,4 @@
 import { run } from '../cli/run.js';
 import { processIo } from '../cli/io.js';
 
-process.exitCode = await run(process.argv.slice(2), processIo());
+void run(process.argv.slice(2), processIo()).then((code) => { process.exitCode = code; });

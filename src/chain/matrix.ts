@@ -1,11 +1,5 @@
-/**
- * A row-stochastic k×k matrix stored row-major in a flat array: `p[i*k + j] = P(next = j | now = i)`.
- * Row = from state, column = to state, everywhere inside sere.
- */
-export interface StochasticMatrix {
-  readonly k: number;
-  readonly p: Float64Array;
-}
+// Every matrix inside sere is row-stochastic and stored row-major in a flat array:
+// p[i*k + j] = P(next = j | now = i); row = from state, column = to state.
 
 /** Rows of a flat k×k matrix as nested arrays (for JSON and tables). */
 export function toRows(p: ArrayLike<number>, k: number, offset = 0): number[][] {

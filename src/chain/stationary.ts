@@ -1,4 +1,4 @@
-import { communicatingClasses } from './classes.js';
+import { communicatingClasses, type ChainClasses } from './classes.js';
 
 export type StationaryResult =
   | { readonly unique: true; readonly mix: Float64Array }
@@ -13,7 +13,11 @@ export type StationaryResult =
  * so rather than return one of infinitely many answers.
  */
 export function stationaryMix(p: ArrayLike<number>, k: number, offset = 0): StationaryResult {
-  const { classes, closed } = communicatingClasses(p, k, offset);
+  return stationaryGivenClasses(p, k, offset, communicatingClasses(p, k, offset));
+}
+
+/** As stationaryMix, with the classes already known (they depend only on which entries are positive). */
+export function stationaryGivenClasses(p: ArrayLike<number>, k: number, offset: number, { classes, closed }: ChainClasses): StationaryResult {
   const closedClasses = classes.filter((_, c) => closed[c]);
   if (closedClasses.length !== 1) return { unique: false, closedClasses };
   const members = closedClasses[0]!;

@@ -15,7 +15,7 @@ export function progressReporter(enabled: boolean, label: string): { update(done
     update(done, total) {
       if (!bar && Date.now() - started < SHOW_AFTER_MS) return;
       if (!bar) {
-        bar = new SingleBar({ format: `${label} [{bar}] {percentage}% · {value}/{total} draws`, stream: process.stderr, hideCursor: true });
+        bar = new SingleBar({ format: `${label} [{bar}] {percentage}% · {value}/{total} draws`, stream: process.stderr, hideCursor: true, clearOnComplete: true });
         bar.start(total, done);
       }
       bar.update(done);

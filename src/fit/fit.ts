@@ -2,7 +2,7 @@ import { SereError } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
 import { countTransitions, likelyStep, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
 import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
-import { priorMatrix, pseudoCount, type PriorSpec } from '../chain/prior.js';
+import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 
 /**
@@ -81,8 +81,4 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
 export function fitPrior(fit: Fit): Float64Array {
   const k = fit.states.length;
   return priorMatrix(k, fit.prior, impossibleMask(fit.impossible, fit.states, { path: 'impossible' }));
-}
-
-export function fitPseudoCount(fit: Fit): number {
-  return pseudoCount(fit.prior);
 }

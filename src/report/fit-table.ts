@@ -2,7 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { Fit } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
-import { levelLabel, percent, probability, probabilityBand } from './numbers.js';
+import { count, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
 import { makeTable } from './style.js';
 
 /** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
@@ -18,10 +18,10 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance): str
   };
 
   lines.push(style.bold(`Fit of ${fit.input.file}`));
-  lines.push(`${fit.sites.length} sites · ${fit.surveys} surveys (${fit.firstTime}–${fit.latest.time}) · ` +
-    `${fit.transitions} transitions of one ${fit.step}-year step`);
+  lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
+    `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
   for (const { gap, pairs } of fit.skipped) {
-    lines.push(style.yellow(`skipped: ${pairs} pair${pairs === 1 ? '' : 's'} of consecutive surveys ${gap} years apart (not one step)`));
+    lines.push(style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
   }
   if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
@@ -50,7 +50,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance): str
     const classes = est.stationary.closedClasses.map((c) => `{${c.map((s) => states[s]).join(', ')}}`).join(', ');
     lines.push(style.yellow(`no single long-run mix: the chain has ${est.stationary.closedClasses.length} closed classes ${classes}`));
   }
-  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${fit.latest.sites} sites)`));
+  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, fit.sites.length)})`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
 }

@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
-import { levelLabel, percent, percentBand, yearBand } from './numbers.js';
+import { count, latestCoverage, levelLabel, percent, percentBand, yearBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 
 /** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
@@ -11,10 +11,10 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const band = levelLabel(sc.level);
   const lines: string[] = [];
   lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
-  lines.push(`data: ${fit.input.file} · ${fit.sites.length} sites · ${fit.transitions} transitions · ${fit.step}-year steps`);
-  lines.push(`uncertainty: ${sc.source} · ${r.draws} draw${r.draws === 1 ? '' : 's'} · seed ${r.seed} · bands ${band}`);
+  lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
+  lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
-    ? `start: ${sc.start.year}, the latest surveyed mix (${fit.latest.sites} sites)`
+    ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`
     : `start: ${sc.start.year}, shares given in the scenario`);
   for (const note of r.notes) lines.push(style.yellow(`note: ${note}`));
 

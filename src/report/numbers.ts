@@ -32,3 +32,15 @@ export function levelLabel(level: number): string {
   const fmt = (x: number): string => String(Number(x.toFixed(2)));
   return `${fmt(tail)}%–${fmt(100 - tail)}%`;
 }
+
+/** "1 site", "60 sites". */
+export function count(n: number, noun: string): string {
+  return `${n} ${noun}${n === 1 ? '' : 's'}`;
+}
+
+/** How many sites the latest survey covered, and a warning when it missed some. */
+export function latestCoverage(latestSites: number, allSites: number): string {
+  return latestSites === allSites
+    ? count(latestSites, 'site')
+    : `${latestSites} of ${allSites} sites; the others were last surveyed earlier and are not in this mix`;
+}
