@@ -80,9 +80,13 @@ function columnIndex(file: string, header: RawRow, columns: SurveyColumns): Colu
     const at = header.fields.indexOf(name);
     if (at < 0) {
       const found = header.fields.map((f) => `'${f}'`).join(', ');
+      // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
+      const semicolons = header.fields.length === 1 && header.fields[0]!.includes(';');
       throw new SereError('MISSING_COLUMN', `no '${name}' column for the ${role} (header has ${found})`,
         { file, line: header.line },
-        `add a '${name}' column, or name the column that holds the ${role} with --${role}-column`);
+        semicolons
+          ? 'the file uses semicolons; save it with commas between values'
+          : `add a '${name}' column, or name the column that holds the ${role} with --${role}-column`);
     }
     return at;
   };

@@ -80,3 +80,11 @@ describe('bad survey tables', () => {
     expect(err.place.line).toBe(4);
   });
 });
+
+describe('a semicolon-separated file', () => {
+  it('is reported as a missing column with a hint about the separator', () => {
+    const err = errorOf(() => read('semicolon.csv'));
+    expect(err.code).toBe('MISSING_COLUMN');
+    expect(err.hint).toContain('semicolons');
+  });
+});
