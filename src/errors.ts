@@ -27,7 +27,8 @@ export type ErrorCode =
   | 'BAD_FIT_FILE'
   | 'BAD_YAML'
   | 'BAD_SCENARIO'
-  | 'BAD_SHARES';
+  | 'BAD_SHARES'
+  | 'BAD_MATRIX';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

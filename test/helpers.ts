@@ -2,7 +2,8 @@ import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
-import type { Scenario } from '../src/scenario/scenario.js';
+import type { Disturbance, Scenario, Treatment } from '../src/scenario/scenario.js';
+import type { RowChange } from '../src/chain/row-change.js';
 
 /** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
 export const stochasticMatrix = (k: number): fc.Arbitrary<number[][]> =>
@@ -47,6 +48,20 @@ export function scenarioFor(fit: Fit, overrides: Partial<Scenario> = {}): Scenar
   return {
     name: 'test', file: 'test.yaml', sha256: '', fit, source: 'posterior', draws: 500, seed: 1,
     start: { year: 2000, shares: Float64Array.from(fit.latest.shares), from: 'latest' },
-    horizonSteps: 10, showSteps: [0, 5, 10], level: 0.9, ...overrides,
+    horizonSteps: 10, showSteps: [0, 5, 10], level: 0.9, treatments: [], events: [], ...overrides,
   };
+}
+
+/** A treatment acting at full strength on every step of a horizon, unless told otherwise. */
+export function treatmentOf(row: number, change: RowChange, horizon: number, extra: Partial<Treatment> = {}): Treatment {
+  const weights = new Float64Array(horizon + 1).fill(1);
+  weights[0] = 0;
+  return { name: 't', row, change, weights, area: 1, parcel: 'p', place: {}, ...extra };
+}
+
+/** An event with the same chance every step 1 … horizon. */
+export function eventOf(rows: number[][], chance: number, horizon: number, scope: Disturbance['scope'] = 'landscape', name = 'e'): Disturbance {
+  const chances = new Float64Array(horizon + 1).fill(chance);
+  chances[0] = 0;
+  return { name, scope, chances, matrix: Float64Array.from(rows.flat()) };
 }

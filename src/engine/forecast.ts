@@ -1,8 +1,9 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomSource } from '../uncertainty/random.js';
-import { propagate, type Trajectories } from './propagate.js';
+import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
+import { simulate, type Simulation } from './simulate.js';
 import { stationaryOfDraws } from './stationary-draws.js';
 
 export interface ShareBands {
@@ -28,6 +29,9 @@ export interface ForecastResult {
   readonly years: number[];
   /** Per state, in state order. */
   readonly shares: ShareBands[];
+  /** Per state: prediction bands for the number of plots (whole numbers), when the scenario asks. */
+  readonly plots: ShareBands[] | null;
+  /** Of the drawn matrices (management and events aside). */
   readonly stationary: { readonly bands: Band[] | null; readonly unique: number; readonly notUnique: number };
   /** Landscape-level: the first year the target's share of the whole area reaches the threshold. */
   readonly dominance: FirstTime | null;
@@ -36,24 +40,32 @@ export interface ForecastResult {
   readonly notes: readonly string[];
 }
 
-/**
- * Run one scenario: draw matrices, propagate the starting mix, and summarise the draws into
- * bands by year, the stationary mix, and the landscape-level first times.
- */
+/** Run one scenario end to end: draw matrices, simulate, summarise. */
 export function runForecast(scenario: Scenario, random: RandomSource, onProgress?: (done: number, total: number) => void): ForecastResult {
+  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random);
+  return summarise(scenario, matrices, simulate(scenario, matrices, random.seed, {}, onProgress), random.seed);
+}
+
+/**
+ * Summarise a simulation into bands by year, the stationary mix of the draws, and the
+ * landscape-level first times.
+ */
+export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, seed: number): ForecastResult {
   const { fit, level } = scenario;
   const k = fit.states.length;
-  const matrices = drawMatrices(fit, scenario.source, scenario.draws, random);
-  const paths = propagate(matrices, scenario.start.shares, scenario.horizonSteps, { target: scenario.target, onProgress });
-  const years = Array.from({ length: scenario.horizonSteps + 1 }, (_, t) => scenario.start.year + t * fit.step);
+  const { paths } = sim;
+  const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
   const stationary = stationaryOfDraws(matrices);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   return {
     scenario,
-    seed: random.seed,
+    seed,
     draws: matrices.count,
     years,
-    shares: Array.from({ length: k }, (_, s) => shareBands(paths, s, level)),
+    shares: Array.from({ length: k }, (_, s) => bandsByStep(paths.shares, paths.draws, paths.recorded.length, k, s, level)),
+    plots: sim.plots
+      ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, paths.draws, paths.recorded.length, k, s, level))
+      : null,
     stationary: {
       bands: stationary.unique > 0
         ? Array.from({ length: k }, (_, s) => bandOf(strided(stationary.mixes, s, k, stationary.unique), level))
@@ -63,22 +75,30 @@ export function runForecast(scenario: Scenario, random: RandomSource, onProgress
     },
     dominance: scenario.target ? firstTime(paths.firstAtTarget, 0, 1, level, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
-    notes: matrices.notes,
+    notes: sim.notes,
   };
 }
 
-function shareBands(paths: Trajectories, state: number, level: number): ShareBands {
-  const { draws, k, shares, recorded } = paths;
-  const R = recorded.length;
+/**
+ * Bands of one state's values over draws at each recorded step, from a [draw][step][state]
+ * array. Whole-number data (plot counts) get whole-number bands (type 1 quantiles).
+ */
+function bandsByStep(values: Float64Array | Int32Array, draws: number, steps: number, k: number, state: number, level: number): ShareBands {
   const out: ShareBands = { median: [], low: [], high: [], mean: [] };
-  const column = new Float64Array(draws);
-  for (let r = 0; r < R; r++) {
-    for (let d = 0; d < draws; d++) column[d] = shares[(d * R + r) * k + state]!;
-    const band = bandOf(column, level);
+  const whole = values instanceof Int32Array;
+  const column = whole ? new Int32Array(draws) : new Float64Array(draws);
+  for (let r = 0; r < steps; r++) {
+    let sum = 0;
+    for (let d = 0; d < draws; d++) {
+      const v = values[(d * steps + r) * k + state]!;
+      column[d] = v;
+      sum += v;
+    }
+    const band = whole ? discreteBandOf(column as Int32Array, level) : bandOf(column as Float64Array, level);
     out.median.push(band.median);
     out.low.push(band.low);
     out.high.push(band.high);
-    out.mean.push(band.mean);
+    out.mean.push(sum / draws);
   }
   return out;
 }

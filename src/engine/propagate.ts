@@ -1,9 +1,11 @@
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { DominanceTarget } from '../scenario/scenario.js';
+import type { RowChangeOutcome } from '../chain/row-change.js';
+import type { RunPlan } from './plan.js';
+import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
-
 
 export interface Trajectories {
   readonly draws: number;
@@ -23,24 +25,31 @@ export interface PropagateOptions {
   readonly target?: DominanceTarget;
   /** Steps whose shares to keep (default: every step 0 … horizon). */
   readonly record?: readonly number[];
+  /** Treatments, sub-populations and events; default: the drawn matrix every step. */
+  readonly plan?: RunPlan;
+  /** For each of `plan.landscapeEvents`, the years it strikes (see eventHits). */
+  readonly hits?: readonly Uint8Array[];
   readonly onProgress?: (done: number, total: number) => void;
+  readonly onOutcome?: (draw: number, treatment: number, outcome: RowChangeOutcome) => void;
 }
 
 /**
- * Propagate the starting mix through each draw's matrix: x_{t+1} = x_t P_d (row vector times a
- * row-stochastic matrix), for t = 0 … horizon − 1, keeping the shares at the recorded steps and
- * tracking, at every step, when the target first dominates and when each state first becomes the
- * most common.
+ * Propagate the starting mix through each draw's matrices: x_{t+1} = x_t P (row vector times a
+ * row-stochastic matrix) in every sub-population, then landscape events x ← x·E in the years they
+ * strike; the landscape's mix is the sum over sub-populations. Keeps the shares at the recorded
+ * steps and tracks, at every step, when the target first dominates and when each state first
+ * becomes the most common.
  *
- * The hot loop of sere: D × H × k² multiply-adds over flat typed arrays, two scratch rows, no
- * allocation inside. Only the recorded steps are stored, because memory, not arithmetic, is the
- * cost at scale (100,000 draws × 101 steps × 10 states would be 808 MB). Shares are not
- * renormalised: every sampler divides each row by its own sum, so rows sum to 1 within a few ulps
- * and the total share drifts by about horizon × 1e-16.
+ * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
+ * once, no allocation inside. Only the recorded steps are stored, because memory, not arithmetic,
+ * is the cost at scale (100,000 draws × 101 steps × 10 states would be 808 MB). Shares are not
+ * renormalised: every matrix row sums to 1 within a few ulps, so the total share drifts by about
+ * horizon × 1e-16.
  */
 export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon: number, options: PropagateOptions = {}): Trajectories {
-  const { target, onProgress } = options;
+  const { target, onProgress, plan, hits = [] } = options;
   const { k, count: D, data: P } = draws;
+  const k2 = k * k;
   const steps = horizon + 1;
   const recorded = options.record ? [...options.record] : Array.from({ length: steps }, (_, t) => t);
   const slotOf = new Int32Array(steps).fill(-1);
@@ -49,35 +58,60 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
   const shares = new Float64Array(D * R * k);
   const firstAtTarget = new Int32Array(D).fill(-1);
   const firstMostCommon = new Int32Array(D * k).fill(-1);
-  let x = new Float64Array(k);
-  let y = new Float64Array(k);
+
+  const trivial = !plan || plan.trivial;
+  const G = plan ? plan.groups.length : 1;
+  const weights = plan ? plan.groups.map((g) => g.weight) : [1];
+  const planOf = plan?.planOf;
+  const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
+  const ws = plan && !trivial ? planWorkspace(plan) : undefined;
+  const xs = new Float64Array(G * k);
+  const total = new Float64Array(k);
+  const y = new Float64Array(k);
+  const z = new Float64Array(k);
   const progressEvery = 1024;
+
   for (let d = 0; d < D; d++) {
-    const base = d * k * k;
-    for (let s = 0; s < k; s++) x[s] = start[s]!;
+    if (ws) fillPlanMatrices(plan!, P, d * k2, ws, options.onOutcome && ((tr, outcome) => options.onOutcome!(d, tr, outcome)));
+    const M = ws ? ws.matrices : P;
+    for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[g * k + s] = weights[g]! * start[s]!;
     for (let t = 0; t < steps; t++) {
-      if (t > 0) {
-        const x0 = x[0]!;
-        for (let j = 0; j < k; j++) y[j] = x0 * P[base + j]!;
-        for (let i = 1; i < k; i++) {
-          const xi = x[i]!;
-          if (xi === 0) continue;
-          const row = base + i * k;
-          for (let j = 0; j < k; j++) y[j] += xi * P[row + j]!;
+      if (t === 0) {
+        for (let s = 0; s < k; s++) total[s] = start[s]!;
+      } else {
+        total.fill(0);
+        for (let g = 0; g < G; g++) {
+          const base = ws ? planOf![t * G + g]! * k2 : d * k2;
+          const xo = g * k;
+          const x0 = xs[xo]!;
+          for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
+          for (let i = 1; i < k; i++) {
+            const xi = xs[xo + i]!;
+            if (xi === 0) continue;
+            const row = base + i * k;
+            for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
+          }
+          for (let e = 0; e < landscape.length; e++) {
+            if (hits[e]![d * steps + t] === 0) continue;
+            const E = landscape[e]!;
+            z.fill(0);
+            for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }
+            y.set(z);
+          }
+          for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] += y[s]!; }
         }
-        const swap = x; x = y; y = swap;
       }
       const slot = slotOf[t]!;
       if (slot >= 0) {
         const out = (d * R + slot) * k;
-        for (let s = 0; s < k; s++) shares[out + s] = x[s]!;
+        for (let s = 0; s < k; s++) shares[out + s] = total[s]!;
       }
       let largest = 0;
-      for (let s = 0; s < k; s++) if (x[s]! > largest) largest = x[s]!;
+      for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
       for (let s = 0; s < k; s++) {
-        if (firstMostCommon[d * k + s] === -1 && x[s]! >= largest - MOST_COMMON_TOLERANCE) firstMostCommon[d * k + s] = t;
+        if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) firstMostCommon[d * k + s] = t;
       }
-      if (target && firstAtTarget[d] === -1 && x[target.state]! >= target.share) firstAtTarget[d] = t;
+      if (target && firstAtTarget[d] === -1 && total[target.state]! >= target.share) firstAtTarget[d] = t;
     }
     if (onProgress && (d + 1) % progressEvery === 0) onProgress(d + 1, D);
   }

@@ -4,9 +4,11 @@ import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { fitFromFile, DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
 import type { Fit } from '../fit/fit.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { impossibleMask, parseImpossible, type FitSettings } from '../fit/settings.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
+import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
+import { largestRemainder } from './largest-remainder.js';
 
 /** Explicit starting shares must sum to 1 within this (absolute); they are typed by hand. */
 export const SHARES_SUM_TOLERANCE = 1e-9;
@@ -14,12 +16,20 @@ export const SHARES_SUM_TOLERANCE = 1e-9;
 /** Years after the start shown when the scenario does not say (common reporting horizons). */
 const DEFAULT_SHOW_YEARS = [5, 10, 20, 50];
 
+/** Load a scenario file that describes exactly one scenario (no `alternatives`). */
+export function loadScenario(file: string): Scenario {
+  const all = loadScenarios(file);
+  if (all.length !== 1) throw new Error(`internal: ${file} lists ${all.length} alternatives`);
+  return all[0]!;
+}
+
 /**
  * Load a scenario file: validate its shape (zod), fit or load its data (paths are relative to the
  * scenario file), then check every name and number against that fit, each error pointing at
- * file:line:column and the key path.
+ * file:line:column and the key path. A file with `alternatives` gives one scenario per
+ * alternative (the first is the baseline), all sharing data, start, horizon and uncertainty.
  */
-export function loadScenario(file: string): Scenario {
+export function loadScenarios(file: string): Scenario[] {
   const { value: s, sha256, locate } = readStructured(file, scenarioSchema, 'scenario file', 'BAD_SCENARIO');
   const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
     throw new SereError(code, what, locate(path), hint);
@@ -58,20 +68,56 @@ export function loadScenario(file: string): Scenario {
     }))
     : defaultShowSteps(fit.step, horizonSteps);
 
-  return {
-    name: s.name ?? basename(file).replace(/\.ya?ml$/i, ''),
-    file,
-    sha256,
-    fit,
-    source: s.uncertainty.source,
-    draws: s.uncertainty.source === 'point' ? 1 : s.uncertainty.draws,
-    seed: s.uncertainty.seed,
-    start,
-    horizonSteps,
-    showSteps,
-    level: s.level,
-    target: s.target ? { state: stateIndex(s.target.state, ['target', 'state']), share: s.target.share } : undefined,
+  const ctx: ResolveContext = {
+    states, step: fit.step, startYear: start.year, horizonSteps,
+    impossible: impossibleMask(fit.impossible, states, { path: 'impossible' }),
+    stateIndex, locate,
   };
+  const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));
+  const baseName = s.name ?? basename(file).replace(/\.ya?ml$/i, '');
+  const alternatives = s.alternatives ?? [{ name: baseName, treatments: [], events: [] }];
+  const topTreatments = s.treatments.map((value, n) => ({ value, path: ['treatments', n] as KeyPath }));
+  const topEvents = s.events.map((value, n) => ({ value, path: ['events', n] as KeyPath }));
+  return alternatives.map((alt, a) => {
+    const treatments = resolveTreatments(ctx, [...topTreatments,
+      ...alt.treatments.map((value, n) => ({ value, path: ['alternatives', a, 'treatments', n] as KeyPath }))]);
+    const events = resolveEvents(ctx, [...topEvents,
+      ...alt.events.map((value, n) => ({ value, path: ['alternatives', a, 'events', n] as KeyPath }))]);
+    // The MLE alone needs one draw — unless event years or plot counts are random, which need replicates.
+    const random = plots !== undefined || events.some((e) => e.scope === 'landscape');
+    return {
+      name: s.alternatives ? `${baseName}: ${alt.name}` : baseName,
+      file,
+      sha256,
+      fit,
+      source: s.uncertainty.source,
+      draws: s.uncertainty.source === 'point' && !random ? 1 : s.uncertainty.draws,
+      seed: s.uncertainty.seed,
+      start,
+      horizonSteps,
+      showSteps,
+      level: s.level,
+      target: s.target ? { state: stateIndex(s.target.state, ['target', 'state']), share: s.target.share } : undefined,
+      treatments,
+      events,
+      plots,
+    };
+  });
+}
+
+/**
+ * Plots at the start: with `plots: latest` and the latest surveyed mix, the actual counts of that
+ * survey; otherwise the given number of plots split by the starting shares (largest remainder).
+ */
+function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['start'], place: Place): Scenario['plots'] {
+  if (plots === 'latest') {
+    if (start.from !== 'latest') {
+      throw new SereError('BAD_SCENARIO', "plots: latest needs start: latest (the plots of the latest survey)", place,
+        'give the number of plots instead');
+    }
+    return { total: fit.latest.sites, start: fit.latest.counts };
+  }
+  return { total: plots, start: largestRemainder(Array.from(start.shares), plots) };
 }
 
 function fitSettings(s: ScenarioFile, impossiblePlace: Place): FitSettings {

@@ -1,4 +1,6 @@
+import type { Place } from '../errors.js';
 import type { Fit } from '../fit/fit.js';
+import type { RowChange } from '../chain/row-change.js';
 
 /** A scenario with every reference resolved against its fit: what the engine runs. */
 export interface Scenario {
@@ -16,6 +18,12 @@ export interface Scenario {
   readonly showSteps: readonly number[];
   readonly level: number;
   readonly target?: DominanceTarget;
+  /** Management, in the order it composes within a year (file order). */
+  readonly treatments: readonly Treatment[];
+  /** Disturbances, in the order they strike within a year (file order). */
+  readonly events: readonly Disturbance[];
+  /** Forecast plot counts too: how many plots, and how many start in each state. */
+  readonly plots?: { readonly total: number; readonly start: readonly number[] };
 }
 
 /** A landscape-level goal: the target state's share of the whole area reaching a threshold. */
@@ -23,4 +31,29 @@ export interface DominanceTarget {
   readonly state: number;
   /** Share of the area at or above which the target state "dominates". */
   readonly share: number;
+}
+
+export interface Treatment {
+  readonly name: string;
+  /** The from-state whose row it changes. */
+  readonly row: number;
+  readonly change: RowChange;
+  /** Strength for each step 0 … horizon (0 = not acting, 1 = full), ramp included. */
+  readonly weights: Float64Array;
+  /** Share of the whole area treated. */
+  readonly area: number;
+  /** Treatments with the same parcel act on the same land. */
+  readonly parcel: string;
+  /** Where it is written, for errors found when it meets the fitted matrix. */
+  readonly place: Place;
+}
+
+export interface Disturbance {
+  readonly name: string;
+  /** landscape: the whole area is hit in the same year; site: each site independently. */
+  readonly scope: 'landscape' | 'site';
+  /** Chance of a hit during each step 0 … horizon (0 outside the event's years). */
+  readonly chances: Float64Array;
+  /** k×k row-major: where a hit site goes; rows not given in the file are identity rows. */
+  readonly matrix: Float64Array;
 }

@@ -36,6 +36,61 @@ const horizonSchema = z.union([
   z.strictObject({ steps: positiveInt('horizon.steps') }),
 ], { error: 'horizon must be { years: N } or { steps: N }' });
 
+const probability = (what: string) => z.number({ error: `${what} must be a number` })
+  .min(0, { error: `${what} must be between 0 and 1` }).max(1, { error: `${what} must be between 0 and 1` });
+
+/** A window of calendar years, first and last inclusive. */
+const yearWindow = z.tuple([z.number().int(), z.number().int()], { error: 'years must be [first, last], two whole years' })
+  .refine(([a, b]) => a <= b, { error: 'years must be [first, last] with first ≤ last' });
+
+/**
+ * A management treatment: changes the from-row of `state` by exactly one of multiply / set / move.
+ * The untouched cells of the row are rescaled so the row sums to 1 (README, "Treatments").
+ */
+export const treatmentSchema = z.strictObject({
+  name: z.string({ error: 'every treatment needs a name' }).min(1),
+  state: stateName,
+  multiply: z.record(z.string(), z.number().nonnegative({ error: 'a factor cannot be negative' })).optional(),
+  set: z.record(z.string(), probability('a set probability')).optional(),
+  move: z.strictObject({ from: stateName, to: stateName, share: probability('move.share') }).optional(),
+  /** Default: every year of the forecast. */
+  years: yearWindow.optional(),
+  /** Years to reach full effect, linearly; default 0 (full effect at once). */
+  ramp: z.number().int().nonnegative({ error: 'ramp is a whole number of years, 0 or more' }).default(0),
+  /** Share of the whole area treated; default 1. */
+  area: z.number().gt(0, { error: 'area must be above 0 (leave the treatment out instead)' }).max(1, { error: 'area must be at most 1' }).default(1),
+  /** Treatments naming the same parcel act on the same land; default: a parcel of its own. */
+  parcel: z.string().min(1).optional(),
+}).refine((t) => [t.multiply, t.set, t.move].filter((x) => x !== undefined).length === 1,
+  { error: 'a treatment needs exactly one of multiply, set or move' });
+
+/** A disturbance: a transition matrix (rows not given leave those sites unchanged) striking by chance. */
+export const eventSchema = z.strictObject({
+  name: z.string({ error: 'every event needs a name' }).min(1),
+  /** landscape: the whole area in the same year; site: each site independently. Default landscape. */
+  scope: z.enum(['landscape', 'site'], { error: 'scope must be landscape or site' }).default('landscape'),
+  chance: probability('chance').optional(),
+  /** Return interval in years: a yearly chance of 1/every. */
+  every: z.number().gt(0, { error: 'every is a return interval in years, above 0' }).optional(),
+  years: yearWindow.optional(),
+  matrix: z.record(z.string(), z.record(z.string(), probability('an event probability'))),
+}).refine((e) => (e.chance === undefined) !== (e.every === undefined),
+  { error: 'an event needs exactly one of chance (per year) or every (return interval in years)' });
+
+export type TreatmentFile = z.infer<typeof treatmentSchema>;
+export type EventFile = z.infer<typeof eventSchema>;
+
+/** One management alternative in a file that lists several; the first is the baseline. */
+const alternativeSchema = z.strictObject({
+  name: z.string({ error: 'every alternative needs a name' }).min(1),
+  description: z.string().optional(),
+  treatments: z.array(treatmentSchema).default([]),
+  events: z.array(eventSchema).default([]),
+});
+
+/** Most plots a count forecast simulates one by one. */
+export const MAX_PLOTS = 1_000_000;
+
 /**
  * The scenario file (YAML). Every option states its default here and in the README.
  * Unknown keys are errors (a typo must not silently fall back to a default).
@@ -66,6 +121,15 @@ export const scenarioSchema = z.strictObject({
     state: stateName,
     share: z.number().gt(0, { error: 'target.share must be above 0' }).max(1, { error: 'target.share must be at most 1' }),
   }).optional(),
+  /** Also forecast how many of N plots are in each state: a number, or 'latest' (the sites of the latest survey). */
+  plots: z.union([z.literal('latest'), positiveInt('plots').max(MAX_PLOTS, { error: `plots must be at most ${MAX_PLOTS}` })],
+    { error: "plots must be a whole number or 'latest'" }).optional(),
+  /** Management, applied in every alternative. */
+  treatments: z.array(treatmentSchema).default([]),
+  /** Disturbances, applied in every alternative. */
+  events: z.array(eventSchema).default([]),
+  /** Alternatives to compare, the first being the baseline; each adds its own treatments and events. */
+  alternatives: z.array(alternativeSchema).min(1, { error: 'list at least one alternative' }).optional(),
 });
 
 export type ScenarioFile = z.infer<typeof scenarioSchema>;

@@ -12,6 +12,6 @@ export function drawMatrices(fit: Fit, source: UncertaintySource, count: number,
   switch (source) {
     case 'posterior': return posteriorDraws(fit, count, random);
     case 'bootstrap': return bootstrapDraws(fit, count, random);
-    case 'point': return pointDraws(fit);
+    case 'point': return pointDraws(fit, count);
   }
 }

@@ -42,3 +42,17 @@ export function seededRandom(seed: number): RandomSource {
 export function freshSeed(): number {
   return 1 + Math.floor(Math.random() * (MAX_SEED - 1));
 }
+
+/**
+ * A seed for a named sub-stream (an event's years, the plot simulation), derived from the run's
+ * seed with FNV-1a (Fowler, Noll & Vo) over the name. Alternatives compared in one run draw a named
+ * stream identically, which gives them common random numbers: the same storm years for all.
+ */
+export function deriveSeed(seed: number, name: string): number {
+  let h = 0x811c9dc5 ^ seed;
+  for (const ch of `${seed}:${name}`) {
+    h ^= ch.codePointAt(0)!;
+    h = Math.imul(h, 0x01000193);
+  }
+  return 1 + ((h >>> 0) % MAX_SEED);
+}

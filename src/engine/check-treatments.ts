@@ -1,0 +1,26 @@
+import { SereError } from '../errors.js';
+import { maximumLikelihood } from '../chain/estimates.js';
+import { fitPrior } from '../fit/fit.js';
+import type { Scenario } from '../scenario/scenario.js';
+import type { RunPlan } from './plan.js';
+import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+
+/**
+ * Check the treatments once, on the fitted (MLE) matrix, before any draw: a factor that pushes a
+ * probability above 1, or a change with nothing left in the row to rescale, is the user's error
+ * and is reported at the treatment's place. Individual draws that stray are capped and counted.
+ */
+export function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
+  if (plan.trivial || plan.treatments.length === 0) return;
+  const k = plan.k;
+  const { p } = maximumLikelihood(scenario.fit.counts, fitPrior(scenario.fit), k);
+  fillPlanMatrices(plan, p, 0, planWorkspace(plan), (treatment, outcome) => {
+    const t = plan.treatments[treatment]!;
+    const state = scenario.fit.states[t.row];
+    throw outcome === 'capped'
+      ? new SereError('BAD_SCENARIO', `treatment '${t.name}' pushes probabilities out of '${state}' above 1 on the fitted matrix`,
+        t.place, 'use a smaller factor or value (sere fit shows the fitted probabilities)')
+      : new SereError('BAD_SCENARIO', `treatment '${t.name}' cannot be met: nothing else out of '${state}' is left to rescale`,
+        t.place, `every other transition out of '${state}' is zero on the fitted matrix; use move, or set values summing to 1`);
+  });
+}

@@ -1,0 +1,46 @@
+import { changeRow, type RowChangeOutcome } from '../chain/row-change.js';
+import type { RunPlan } from './plan.js';
+
+/** Scratch space for building one draw's year matrices, allocated once per run. */
+export interface PlanWorkspace {
+  readonly matrices: Float64Array;
+  readonly row: Float64Array;
+  readonly product: Float64Array;
+}
+
+export function planWorkspace(plan: RunPlan): PlanWorkspace {
+  const k2 = plan.k * plan.k;
+  return { matrices: new Float64Array(plan.plans.length * k2), row: new Float64Array(plan.k), product: new Float64Array(k2) };
+}
+
+/**
+ * Build every year recipe's matrix for one draw into `ws.matrices`: copy the drawn matrix, apply
+ * the treatments in order, then fold in each site-scope event as T ← T·((1 − c)I + cE) — a site
+ * makes its yearly transition and is then hit with chance c, independently of other sites.
+ * `onOutcome` hears of every change that was capped or could not be met.
+ */
+export function fillPlanMatrices(plan: RunPlan, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
+  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
+  const { k } = plan;
+  const k2 = k * k;
+  plan.plans.forEach((recipe, p) => {
+    const at = p * k2;
+    for (let c = 0; c < k2; c++) ws.matrices[at + c] = base[baseOffset + c]!;
+    for (const { treatment, weight } of recipe.changes) {
+      const tr = plan.treatments[treatment]!;
+      const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);
+      if (outcome !== 'ok') onOutcome?.(treatment, outcome);
+    }
+    for (const { event, chance } of recipe.siteEvents) {
+      const E = plan.events[event]!.matrix;
+      for (let i = 0; i < k; i++) {
+        for (let j = 0; j < k; j++) {
+          let hit = 0;
+          for (let l = 0; l < k; l++) hit += ws.matrices[at + i * k + l]! * E[l * k + j]!;
+          ws.product[i * k + j] = (1 - chance) * ws.matrices[at + i * k + j]! + chance * hit;
+        }
+      }
+      ws.matrices.set(ws.product, at);
+    }
+  });
+}

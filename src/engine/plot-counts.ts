@@ -1,0 +1,80 @@
+import type { MatrixDraws } from '../uncertainty/draws.js';
+import type { Multinomial } from '../uncertainty/multinomial.js';
+import type { RunPlan } from './plan.js';
+import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+
+export interface PlotCounts {
+  readonly draws: number;
+  readonly recorded: readonly number[];
+  /** Layout [draw][recorded step][state]: number of plots. */
+  readonly counts: Int32Array;
+}
+
+/**
+ * Number of plots in each state, simulated plot by plot in aggregate: each step, the plots in
+ * state i move on as Multinomial(nᵢ, row i of the year's matrix), and a landscape event moves every
+ * plot by its row of the event matrix. This adds the chance of individual plots (process noise)
+ * to the uncertainty about the matrix, so the bands are prediction bands for "how many of our N
+ * plots". Plots are placed in the partial-area parcels at random at the start of each draw.
+ */
+export function simulatePlots(draws: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
+  readonly record: readonly number[];
+  readonly hits: readonly Uint8Array[];
+  readonly multinomial: Multinomial;
+}): PlotCounts {
+  const { k, count: D, data: P } = draws;
+  const k2 = k * k;
+  const horizon = plan.horizon;
+  const steps = horizon + 1;
+  const { record, hits, multinomial } = options;
+  const slotOf = new Int32Array(steps).fill(-1);
+  record.forEach((t, r) => { slotOf[t] = r; });
+  const R = record.length;
+  const counts = new Int32Array(D * R * k);
+  const G = plan.groups.length;
+  const groupWeights = Float64Array.from(plan.groups, (g) => g.weight);
+  const ws = planWorkspace(plan);
+  const landscape = plan.landscapeEvents.map((e) => plan.events[e]!.matrix);
+  let now = new Int32Array(G * k);
+  let next = new Int32Array(G * k);
+  const split = new Int32Array(G);
+  const moved = new Int32Array(k);
+
+  for (let d = 0; d < D; d++) {
+    if (!plan.trivial) fillPlanMatrices(plan, P, d * k2, ws);
+    now.fill(0);
+    for (let s = 0; s < k; s++) {
+      split.fill(0);
+      multinomial(start[s]!, groupWeights, 0, G, split, 0);
+      for (let g = 0; g < G; g++) now[g * k + s] = split[g]!;
+    }
+    for (let t = 0; t < steps; t++) {
+      if (t > 0) {
+        next.fill(0);
+        for (let g = 0; g < G; g++) {
+          const M = plan.trivial ? P : ws.matrices;
+          const base = plan.trivial ? d * k2 : plan.planOf[t * G + g]! * k2;
+          for (let i = 0; i < k; i++) {
+            const n = now[g * k + i]!;
+            if (n > 0) multinomial(n, M, base + i * k, k, next, g * k);
+          }
+          for (let e = 0; e < landscape.length; e++) {
+            if (hits[e]![d * steps + t] === 0) continue;
+            moved.fill(0);
+            for (let i = 0; i < k; i++) {
+              const n = next[g * k + i]!;
+              if (n > 0) multinomial(n, landscape[e]!, i * k, k, moved, 0);
+            }
+            next.set(moved, g * k);
+          }
+        }
+        const swap = now; now = next; next = swap;
+      }
+      const slot = slotOf[t]!;
+      if (slot < 0) continue;
+      const out = (d * R + slot) * k;
+      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s] += now[g * k + s]!;
+    }
+  }
+  return { draws: D, recorded: record, counts };
+}
