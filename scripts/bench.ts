@@ -5,8 +5,13 @@
  *    as draws·years·states² per second, best of 3 runs on one core.
  * 2. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows).
  * 3. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
+ * 4. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
+ *    a partial area and a landscape event), wall time with start-up (best of 5).
  */
 import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { propagate } from '../src/engine/propagate.js';
 import { posteriorDraws } from '../src/uncertainty/posterior.js';
@@ -60,8 +65,44 @@ const fit: Fit = {
 const samplingMs = best(3, () => posteriorDraws(fit, D, seededRandom(2)));
 console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: ${(samplingMs / 1000).toFixed(2)} s`);
 
-const demoMs = best(5, () => {
-  const r = spawnSync(process.execPath, ['dist/sere.mjs', 'forecast', 'scenarios/brenhollow/no-action.yaml'], { encoding: 'utf8' });
+const wall = (args: string[]): number => best(5, () => {
+  const r = spawnSync(process.execPath, ['dist/sere.mjs', ...args], { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(r.stderr);
 });
+const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
 console.log(`demo forecast (scenarios/brenhollow/no-action.yaml, 4000 draws × 50 years), wall incl. start-up: ${(demoMs / 1000).toFixed(3)} s (target: under 0.5 s)`);
+
+/** A 6-state survey table (300 sites × 10 years, a fixed LCG) and a 4-alternative scenario, in a temp folder. */
+function compareFixture(): string {
+  const dir = mkdtempSync(join(tmpdir(), 'sere-bench-'));
+  const random = seededRandom(99);
+  const rows = ['site,time,state'];
+  for (let site = 0; site < 300; site++) {
+    let state = random.integer(6);
+    for (let year = 2015; year <= 2024; year++) {
+      rows.push(`p${site},${year},s${state}`);
+      const u = random.uniform();
+      state = u < 0.7 ? state : u < 0.9 ? Math.min(5, state + 1) : random.integer(6);
+    }
+  }
+  writeFileSync(join(dir, 'surveys.csv'), rows.join('\n') + '\n');
+  writeFileSync(join(dir, 'options.yaml'), [
+    'data: surveys.csv',
+    'uncertainty: { draws: 4000, seed: 5 }',
+    'horizon: { years: 50 }',
+    'target: { state: s5, share: 0.4 }',
+    'events: [{ name: fire, every: 20, matrix: { s4: { s0: 0.5, s4: 0.5 }, s5: { s0: 0.5, s5: 0.5 } } }]',
+    'alternatives:',
+    '  - name: baseline',
+    '  - name: boost',
+    '    treatments: [{ name: boost, state: s3, multiply: { s4: 1.5 } }]',
+    '  - name: partial',
+    '    treatments: [{ name: partial, state: s1, set: { s2: 0.3 }, area: 0.4, years: [2026, 2035], ramp: 3 }]',
+    '  - name: move',
+    '    treatments: [{ name: move, state: s5, move: { from: s5, to: s4, share: 0.2 } }]',
+    '',
+  ].join('\n'));
+  return join(dir, 'options.yaml');
+}
+const compareMs = wall(['compare', compareFixture()]);
+console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall incl. start-up: ${(compareMs / 1000).toFixed(3)} s (target: under 1 s)`);

@@ -1,10 +1,11 @@
 import type { Command } from 'commander';
-import { loadScenario } from '../scenario/load-scenario.js';
+import { loadScenarios } from '../scenario/load-scenario.js';
 import { runForecast } from '../engine/forecast.js';
 import { forecastJson } from '../report/forecast-json.js';
 import { forecastTable } from '../report/forecast-table.js';
 import { makeStyle } from '../report/style.js';
-import { freshSeed, seededRandom } from '../uncertainty/random.js';
+import { seededRandom } from '../uncertainty/random.js';
+import { chooseSeed } from './seed.js';
 import type { Io } from './io.js';
 import { positiveInteger } from './parse-options.js';
 import { progressReporter } from './progress.js';
@@ -24,15 +25,13 @@ export function registerForecast(program: Command, io: Io): void {
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((files: string[], opts: ForecastOptions) => {
       // Load and check every scenario before running any, so a typo in the last one costs nothing.
-      const scenarios = files.map((file) => {
-        const s = loadScenario(file);
-        return opts.draws && s.source !== 'point' ? { ...s, draws: opts.draws } : s;
-      });
+      const scenarios = files.flatMap((file) => loadScenarios(file))
+        .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
+      // A file's alternatives share one seed, and so the same draws and event years.
+      const seeds = new Map<string, number>();
       const results = scenarios.map((scenario) => {
-        const seed = opts.seed ?? scenario.seed ?? freshSeed();
-        if (scenario.seed === undefined && opts.seed === undefined) {
-          io.stderr(`${scenario.file}: no seed given; using seed ${seed} (add "seed: ${seed}" under uncertainty to repeat this run)\n`);
-        }
+        const seed = seeds.get(scenario.file) ?? chooseSeed(scenario, opts.seed, io);
+        seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
           return runForecast(scenario, seededRandom(seed), progress.update);

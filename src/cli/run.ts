@@ -3,6 +3,7 @@ import { SereError, formatError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { registerFit } from './fit-command.js';
 import { registerForecast } from './forecast-command.js';
+import { registerCompare } from './compare-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -22,6 +23,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
     .showHelpAfterError('(run sere --help for usage)');
   registerFit(program, io);
   registerForecast(program, io);
+  registerCompare(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
 
   try {

@@ -4,7 +4,9 @@ import type { RandomSource } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
-import { stationaryOfDraws } from './stationary-draws.js';
+import { stationaryOfDraws, type StationaryDraws } from './stationary-draws.js';
+import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
+import { columnStart, type DrawLayout } from './layout.js';
 
 export interface ShareBands {
   readonly median: number[];
@@ -25,7 +27,9 @@ export interface ForecastResult {
   readonly scenario: Scenario;
   readonly seed: number;
   readonly draws: number;
-  /** Calendar year of every step 0 … horizon. */
+  /** The steps summarised (every step 0 … horizon for a forecast; the shown ones in a comparison). */
+  readonly steps: readonly number[];
+  /** Calendar year of each of `steps`; every by-year array below is aligned with it. */
   readonly years: number[];
   /** Per state, in state order. */
   readonly shares: ShareBands[];
@@ -37,6 +41,8 @@ export interface ForecastResult {
   readonly dominance: FirstTime | null;
   /** Per state: the first year it is the most common state in the landscape. */
   readonly mostCommon: FirstTime[];
+  /** Where the band at the horizon comes from, when more than one source adds to it. */
+  readonly split: UncertaintySplit | null;
   readonly notes: readonly string[];
 }
 
@@ -47,25 +53,25 @@ export function runForecast(scenario: Scenario, random: RandomSource, onProgress
 }
 
 /**
- * Summarise a simulation into bands by year, the stationary mix of the draws, and the
- * landscape-level first times.
+ * Summarise a simulation into bands by year, the stationary mix of the draws, the
+ * landscape-level first times, and the uncertainty split.
  */
-export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, seed: number): ForecastResult {
+export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, seed: number,
+  options: { readonly split?: boolean; readonly stationary?: StationaryDraws } = {}): ForecastResult {
   const { fit, level } = scenario;
   const k = fit.states.length;
   const { paths } = sim;
   const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
-  const stationary = stationaryOfDraws(matrices);
+  const stationary = options.stationary ?? stationaryOfDraws(matrices);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   return {
     scenario,
     seed,
     draws: matrices.count,
+    steps: paths.recorded,
     years,
-    shares: Array.from({ length: k }, (_, s) => bandsByStep(paths.shares, paths.draws, paths.recorded.length, k, s, level)),
-    plots: sim.plots
-      ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, paths.draws, paths.recorded.length, k, s, level))
-      : null,
+    shares: Array.from({ length: k }, (_, s) => bandsByStep(paths.shares, paths, s, level)),
+    plots: sim.plots ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, paths, s, level)) : null,
     stationary: {
       bands: stationary.unique > 0
         ? Array.from({ length: k }, (_, s) => bandOf(strided(stationary.mixes, s, k, stationary.unique), level))
@@ -75,26 +81,27 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     },
     dominance: scenario.target ? firstTime(paths.firstAtTarget, 0, 1, level, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
+    split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, seed),
     notes: sim.notes,
   };
 }
 
 /**
- * Bands of one state's values over draws at each recorded step, from a [draw][step][state]
- * array. Whole-number data (plot counts) get whole-number bands (type 1 quantiles).
+ * Bands of one state's values over draws at each recorded step. Whole-number data (plot counts)
+ * get whole-number bands (type 1 quantiles).
  */
-function bandsByStep(values: Float64Array | Int32Array, draws: number, steps: number, k: number, state: number, level: number): ShareBands {
+function bandsByStep(values: Float64Array | Int32Array, layout: DrawLayout, state: number, level: number): ShareBands {
   const out: ShareBands = { median: [], low: [], high: [], mean: [] };
-  const whole = values instanceof Int32Array;
-  const column = whole ? new Int32Array(draws) : new Float64Array(draws);
+  const { draws, steps } = layout;
+  // Selection reorders its input, and the draws must stay aligned for comparisons: work on a
+  // copy, one scratch array reused for every step (a fresh slice each time fed the collector).
+  const column = values instanceof Int32Array ? new Int32Array(draws) : new Float64Array(draws);
   for (let r = 0; r < steps; r++) {
+    const from = columnStart(layout, r, state);
+    column.set(values.subarray(from, from + draws));
     let sum = 0;
-    for (let d = 0; d < draws; d++) {
-      const v = values[(d * steps + r) * k + state]!;
-      column[d] = v;
-      sum += v;
-    }
-    const band = whole ? discreteBandOf(column as Int32Array, level) : bandOf(column as Float64Array, level);
+    for (let d = 0; d < draws; d++) sum += column[d]!;
+    const band = column instanceof Int32Array ? discreteBandOf(column, level) : bandOf(column, level);
     out.median.push(band.median);
     out.low.push(band.low);
     out.high.push(band.high);

@@ -2,11 +2,11 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { Multinomial } from '../uncertainty/multinomial.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import type { DrawLayout } from './layout.js';
 
-export interface PlotCounts {
-  readonly draws: number;
+export interface PlotCounts extends DrawLayout {
   readonly recorded: readonly number[];
-  /** Layout [draw][recorded step][state]: number of plots. */
+  /** Number of plots, layout [recorded step][state][draw] (see layout.ts). */
   readonly counts: Int32Array;
 }
 
@@ -72,9 +72,9 @@ export function simulatePlots(draws: MatrixDraws, plan: RunPlan, start: readonly
       }
       const slot = slotOf[t]!;
       if (slot < 0) continue;
-      const out = (d * R + slot) * k;
-      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s] += now[g * k + s]!;
+      const out = slot * k * D + d;
+      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s * D] += now[g * k + s]!;
     }
   }
-  return { draws: D, recorded: record, counts };
+  return { draws: D, steps: R, k, recorded: record, counts };
 }

@@ -1,4 +1,4 @@
-import { quantileSorted } from 'd3-array';
+import { quantilesBySelection } from './select.js';
 
 /** An equal-tailed band of draws: median and the (1 − level)/2 and (1 + level)/2 quantiles. */
 export interface Band {
@@ -8,22 +8,16 @@ export interface Band {
 }
 
 /**
- * Equal-tailed band of a sample by linear interpolation between order statistics (Hyndman & Fan
- * 1996, type 7 — the default of R and numpy), via d3-array's quantileSorted. Sorts `sample` in place.
+ * Equal-tailed band of a sample: the (1 − level)/2, 0.5 and (1 + level)/2 quantiles by linear
+ * interpolation between order statistics (Hyndman & Fan 1996, type 7 — the default of R and
+ * numpy). Reorders `sample` in place.
  */
 export function bandOf(sample: Float64Array, level: number): Band & { mean: number } {
-  sample.sort();
-  // quantileSorted only indexes and reads .length; its type declaration asks for a plain array.
-  const sorted = sample as unknown as number[];
   const tail = (1 - level) / 2;
   let sum = 0;
   for (let i = 0; i < sample.length; i++) sum += sample[i]!;
-  return {
-    median: quantileSorted(sorted, 0.5)!,
-    low: quantileSorted(sorted, tail)!,
-    high: quantileSorted(sorted, 1 - tail)!,
-    mean: sum / sample.length,
-  };
+  const [low, median, high] = quantilesBySelection(sample, [tail, 0.5, 1 - tail]) as [number, number, number];
+  return { median, low, high, mean: sum / sample.length };
 }
 
 /**

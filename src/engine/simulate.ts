@@ -28,7 +28,7 @@ export interface Switches {
  * draws with the same seed meets the same storms and the same plot-level chance.
  */
 export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number, switches: Switches = {},
-  onProgress?: (done: number, total: number) => void): Simulation {
+  onProgress?: (done: number, total: number) => void, record?: readonly number[]): Simulation {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
@@ -39,7 +39,7 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number
   const hits = plan.landscapeEvents.map((e) => eventHits(seed, plan.events[e]!, D, H));
   const trouble = new Map<number, Set<number>>();
   const paths = propagate(matrices, scenario.start.shares, H, {
-    target: scenario.target, plan, hits, onProgress,
+    target: scenario.target, plan, hits, onProgress, record,
     onOutcome: (draw, treatment) => {
       const draws = trouble.get(treatment) ?? new Set<number>();
       draws.add(draw);

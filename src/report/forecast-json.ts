@@ -9,7 +9,7 @@ export function forecastJson(results: readonly ForecastResult[]): object {
   return { format: 'sere-forecast', format_version: 1, tool_version: TOOL_VERSION, scenarios: results.map(scenarioJson) };
 }
 
-function scenarioJson(r: ForecastResult): object {
+export function scenarioJson(r: ForecastResult): object {
   const { scenario: sc } = r;
   const { fit } = sc;
   const byState = <T>(f: (s: number) => T): Record<string, T> =>
@@ -26,6 +26,9 @@ function scenarioJson(r: ForecastResult): object {
     start: { year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!) },
     years: r.years,
     shares: byState((s) => r.shares[s]),
+    plots: r.plots && sc.plots ? { total: sc.plots.total, start: byState((s) => sc.plots!.start[s]!), ...byState((s) => r.plots![s]) } : null,
+    treatments: sc.treatments.map((t) => ({ name: t.name, state: fit.states[t.row], area: t.area })),
+    events: sc.events.map((e) => ({ name: e.name, scope: e.scope })),
     stationary: r.stationary.bands
       ? byState((s) => { const b = r.stationary.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
       : null,
@@ -44,6 +47,17 @@ function scenarioJson(r: ForecastResult): object {
       const m = r.mostCommon[s]!;
       return { probability: m.probability, median: m.year?.median ?? null, low: m.year?.low ?? null, high: m.year?.high ?? null };
     }),
+    uncertainty_split: r.split
+      ? {
+        quantity: r.split.quantity,
+        width: byState((s) => r.split!.width[s]),
+        sources: r.split.sources.map((src) => ({
+          source: src.source,
+          width_without: byState((s) => src.widthWithout[s]),
+          variance_share: byState((s) => src.varianceShare[s]),
+        })),
+      }
+      : null,
     notes: r.notes,
   };
 }

@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
-import { count, latestCoverage, levelLabel, percent, percentBand, yearBand } from './numbers.js';
+import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 
 /** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
@@ -16,10 +16,12 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   lines.push(sc.start.from === 'latest'
     ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`
     : `start: ${sc.start.year}, shares given in the scenario`);
+  for (const t of sc.treatments) lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the area` : ''})`);
+  for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope)`);
   for (const note of r.notes) lines.push(style.yellow(`note: ${note}`));
 
   lines.push('', style.bold(`Share of the area by year, % — median [${band}]`));
-  const shown = sc.showSteps;
+  const shown = sc.showSteps.map((t) => r.steps.indexOf(t));
   const shares = makeTable(['state', ...shown.map((t) => String(r.years[t]))], style,
     ['left', ...shown.map(() => 'right' as const)]);
   states.forEach((name, s) => {
@@ -28,7 +30,17 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   });
   lines.push(shares.toString());
 
-  lines.push('', style.bold(`Long-run (stationary) mix, % — median [${band}] over draws`));
+  if (r.plots && sc.plots) {
+    lines.push('', style.bold(`Plots in each state, of ${sc.plots.total} — median [${band}], a prediction band`));
+    const plots = makeTable(['state', ...shown.map((t) => String(r.years[t]))], style, ['left', ...shown.map(() => 'right' as const)]);
+    states.forEach((name, s) => {
+      const b = r.plots![s]!;
+      plots.push([name, ...shown.map((t) => wholeBand({ median: b.median[t]!, low: b.low[t]!, high: b.high[t]! }))]);
+    });
+    lines.push(plots.toString());
+  }
+
+  lines.push('', style.bold(`Long-run (stationary) mix of the fitted chain, % — median [${band}] over draws`));
   if (r.stationary.bands) {
     const table = makeTable(['state', 'share'], style, ['left', 'right']);
     states.forEach((name, s) => table.push([name, percentBand(r.stationary.bands![s]!)]));
@@ -45,7 +57,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
     lines.push('', style.bold(`Landscape target: ${target}`));
     lines.push(`  chance it is reached by ${last}: ${percent(r.dominance.probability)}%`);
     lines.push(r.dominance.year
-      ? `  first year, among draws that reach it: ${yearBand(r.dominance.year)}`
+      ? `  first year, among draws that reach it: ${wholeBand(r.dominance.year)}`
       : '  reached in no draw within the horizon');
     lines.push(style.dim('  (a share of the whole landscape, not the time for any one site to change)'));
   }
@@ -54,9 +66,31 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const common = makeTable(['state', 'chance', `first year [${band}]`], style, ['left', 'right', 'right']);
   states.forEach((name, s) => {
     const m = r.mostCommon[s]!;
-    common.push([name, `${percent(m.probability)}%`, m.year ? yearBand(m.year) : '—']);
+    common.push([name, `${percent(m.probability)}%`, m.year ? wholeBand(m.year) : '—']);
   });
   lines.push(common.toString());
+  if (r.split) lines.push('', ...splitTable(r, style));
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
+}
+
+const SOURCE_LABEL = { matrix: 'the fitted matrix', events: 'event years', plots: 'plot-level chance' } as const;
+
+/** Band width at the horizon, and what it would be with each source of uncertainty switched off. */
+function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
+  const split = r.split!;
+  const last = r.years[r.years.length - 1];
+  const unit = split.quantity === 'plots' ? 'share of plots' : 'share of area';
+  const table = makeTable(['state', 'band width', ...split.sources.map((s) => `without ${SOURCE_LABEL[s.source]}`)], style,
+    ['left', 'right', ...split.sources.map(() => 'right' as const)]);
+  r.scenario.fit.states.forEach((name, s) => {
+    table.push([name, points(split.width[s]!), ...split.sources.map((src) =>
+      `${points(src.widthWithout[s]!)} (${percent(Math.max(0, src.varianceShare[s]!))}% of variance)`)]);
+  });
+  return [style.bold(`Where the uncertainty in ${last} comes from — band width in percentage points (${unit})`), table.toString(),
+    style.dim('A large share for the fitted matrix means more surveys would narrow the bands; event years and plot-level chance will not shrink with more data.')];
+}
+
+function points(x: number): string {
+  return (x * 100).toFixed(1);
 }

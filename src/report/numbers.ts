@@ -22,7 +22,8 @@ export function probabilityBand(median: number, low: number, high: number): stri
   return low === high ? f(median) : `${f(median)} [${f(low)}–${f(high)}]`;
 }
 
-export function yearBand(b: Band): string {
+/** A band of whole numbers (years, plots): `median [low–high]`, or the point when it has collapsed. */
+export function wholeBand(b: Band): string {
   return b.low === b.high ? String(b.median) : `${b.median} [${b.low}–${b.high}]`;
 }
 

@@ -87,6 +87,7 @@ export function loadScenarios(file: string): Scenario[] {
     const random = plots !== undefined || events.some((e) => e.scope === 'landscape');
     return {
       name: s.alternatives ? `${baseName}: ${alt.name}` : baseName,
+      alternative: s.alternatives ? alt.name : undefined,
       file,
       sha256,
       fit,

@@ -5,6 +5,8 @@ import type { RowChange } from '../chain/row-change.js';
 /** A scenario with every reference resolved against its fit: what the engine runs. */
 export interface Scenario {
   readonly name: string;
+  /** In a file listing alternatives, this alternative's own name (shown in comparisons). */
+  readonly alternative?: string;
   readonly file: string;
   readonly sha256: string;
   readonly fit: Fit;

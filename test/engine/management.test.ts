@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { matrix, multiply, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { simulate } from '../../src/engine/simulate.js';
+import { mixAt } from '../../src/engine/layout.js';
 import { pointDraws } from '../../src/uncertainty/point.js';
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
 import { seededRandom } from '../../src/uncertainty/random.js';
@@ -14,8 +15,7 @@ const H = 12;
 const x0 = [0.7, 0.2, 0.1];
 const base = scenarioFor(fit, { horizonSteps: H, start: { year: 2020, shares: Float64Array.from(x0), from: 'given' } });
 
-const sharesAt = (sim: ReturnType<typeof simulate>, d: number, t: number): number[] =>
-  Array.from(sim.paths.shares.subarray((d * (H + 1) + t) * 3, (d * (H + 1) + t) * 3 + 3));
+const sharesAt = (sim: ReturnType<typeof simulate>, d: number, t: number): number[] => mixAt(sim.paths.shares, sim.paths, d, t);
 
 function expectSame(a: number[], b: number[], tol = 1e-12): void {
   a.forEach((x, s) => expect(Math.abs(x - b[s]!)).toBeLessThan(tol));
@@ -129,7 +129,7 @@ describe('plot counts', () => {
     const mean = [0, 0, 0];
     for (let d = 0; d < 4000; d++) {
       let total = 0;
-      for (let s = 0; s < 3; s++) { const n = counts[(d * (H + 1) + H) * 3 + s]!; total += n; mean[s]! += n / 4000; }
+      mixAt(counts, sim.plots!, d, H).forEach((n, s) => { total += n; mean[s]! += n / 4000; });
       expect(total).toBe(N);
     }
     // E[counts_H] = N · x₀Pᴴ; the sd of a count is at most √(N/4) ≈ 3.9, so 4000 draws put the mean within 0.25.

@@ -1,5 +1,6 @@
 import { describe, it } from 'vitest';
 import { propagate } from '../../src/engine/propagate.js';
+import { mixAt } from '../../src/engine/layout.js';
 import { drawsOf } from '../helpers.js';
 import { check, expectClose, toleranceOf } from './checks.js';
 
@@ -9,7 +10,7 @@ describe('projection x_{t+1} = x_t P', () => {
   const draws = drawsOf([P]);
   const sharesAt = (start: number[], t: number, horizon: number): number[] => {
     const paths = propagate(draws, start, horizon);
-    return Array.from(paths.shares.subarray(t * 3, t * 3 + 3));
+    return mixAt(paths.shares, paths, 0, t);
   };
 
   it('Land of Oz P² and P⁶ rows: Grinstead & Snell ch. 11, Example 11.2 / Table 11.1', () => {

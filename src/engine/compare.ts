@@ -1,0 +1,125 @@
+import type { Scenario } from '../scenario/scenario.js';
+import { drawMatrices } from '../uncertainty/draw-matrices.js';
+import type { RandomSource } from '../uncertainty/random.js';
+import { summarise, type ForecastResult, type ShareBands } from './forecast.js';
+import { bandOf, discreteBandOf, type Band } from './quantiles.js';
+import { simulate, type Simulation } from './simulate.js';
+import { stationaryOfDraws } from './stationary-draws.js';
+import { drawIndex } from './layout.js';
+
+/** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
+export const TIE_TOLERANCE = 1e-12;
+
+/** How often one alternative beats another over the draws; the three add up to 1. */
+export interface Odds {
+  readonly more: number;
+  readonly tie: number;
+  readonly less: number;
+}
+
+export interface AlternativeComparison {
+  readonly result: ForecastResult;
+  /** Per state, at each of the baseline's shown steps: the band of (alternative − baseline) share over draws. */
+  readonly difference: ShareBands[];
+  /** Per state, at each shown step: how often the alternative gives more of that state than the baseline. */
+  readonly odds: Odds[][];
+  /** The landscape target, when the scenarios set one. */
+  readonly dominance: {
+    /** Chance of reaching it within the horizon: alternative minus baseline. */
+    readonly probabilityDifference: number;
+    /** Over all draws: reached sooner (or reached where the baseline never is), in the same year (or neither), later (or never). */
+    readonly timing: { readonly sooner: number; readonly same: number; readonly later: number };
+    /** Alternative's first year minus the baseline's, among draws where both reach it. */
+    readonly years: Band | null;
+  } | null;
+}
+
+export interface Comparison {
+  readonly baseline: ForecastResult;
+  readonly alternatives: readonly AlternativeComparison[];
+}
+
+/**
+ * Run alternatives on common random numbers: one set of matrix draws, and event years and plot
+ * noise from streams named by the seed, so that a difference between alternatives reflects the
+ * management, not sampling noise (common random numbers; e.g. Law & Kelton, Simulation Modeling
+ * and Analysis, ch. 11). The first scenario is the baseline.
+ */
+export function runComparison(scenarios: readonly Scenario[], random: RandomSource,
+  onProgress?: (done: number, total: number) => void): Comparison {
+  const first = scenarios[0]!;
+  const draws = Math.max(...scenarios.map((s) => s.draws));
+  const matrices = drawMatrices(first.fit, first.source, draws, random);
+  const total = draws * scenarios.length;
+  // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
+  const record = [...new Set([...first.showSteps, first.horizonSteps])].sort((a, b) => a - b);
+  const sims = scenarios.map((sc, n) =>
+    simulate(sc, matrices, random.seed, {}, onProgress && ((done) => onProgress(n * draws + done, total)), record));
+  // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
+  // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
+  const stationary = stationaryOfDraws(matrices);
+  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random.seed, { split: false, stationary }));
+  return {
+    baseline: results[0]!,
+    alternatives: results.slice(1).map((result, n) => compareTo(first, sims[0]!, sims[n + 1]!, result)),
+  };
+}
+
+function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result: ForecastResult): AlternativeComparison {
+  const k = baseline.fit.states.length;
+  const { draws, recorded } = base.paths;
+  const difference: ShareBands[] = [];
+  const odds: Odds[][] = [];
+  const column = new Float64Array(draws);
+  // Differences at the shown years only: they are what a manager reads, and each band costs a
+  // selection over all draws (the alternatives' own shares are still summarised every year).
+  const rows = baseline.showSteps.map((t) => recorded.indexOf(t));
+  for (let s = 0; s < k; s++) {
+    const bands: ShareBands = { median: [], low: [], high: [], mean: [] };
+    const byYear: Odds[] = [];
+    for (const r of rows) {
+      let more = 0; let tie = 0; let sum = 0;
+      for (let d = 0; d < draws; d++) {
+        const at = drawIndex(base.paths, d, r, s);
+        const diff = alt.paths.shares[at]! - base.paths.shares[at]!;
+        column[d] = diff;
+        sum += diff;
+        if (Math.abs(diff) <= TIE_TOLERANCE) tie += 1;
+        else if (diff > 0) more += 1;
+      }
+      const band = bandOf(column, baseline.level);
+      bands.median.push(band.median);
+      bands.low.push(band.low);
+      bands.high.push(band.high);
+      bands.mean.push(sum / draws);
+      byYear.push({ more: more / draws, tie: tie / draws, less: (draws - more - tie) / draws });
+    }
+    difference.push(bands);
+    odds.push(byYear);
+  }
+  return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null };
+}
+
+function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenario): AlternativeComparison['dominance'] {
+  const a = base.paths.firstAtTarget;
+  const b = alt.paths.firstAtTarget;
+  const draws = a.length;
+  let reachedA = 0; let reachedB = 0; let sooner = 0; let same = 0;
+  const both: number[] = [];
+  for (let d = 0; d < draws; d++) {
+    const ta = a[d]!; const tb = b[d]!;
+    if (ta >= 0) reachedA += 1;
+    if (tb >= 0) reachedB += 1;
+    // "Never" counts as later than any year within the horizon.
+    const ra = ta < 0 ? Infinity : ta;
+    const rb = tb < 0 ? Infinity : tb;
+    if (rb < ra) sooner += 1;
+    else if (rb === ra) same += 1;
+    if (ta >= 0 && tb >= 0) both.push((tb - ta) * baseline.fit.step);
+  }
+  return {
+    probabilityDifference: (reachedB - reachedA) / draws,
+    timing: { sooner: sooner / draws, same: same / draws, later: (draws - sooner - same) / draws },
+    years: both.length > 0 ? discreteBandOf(Int32Array.from(both), baseline.level) : null,
+  };
+}

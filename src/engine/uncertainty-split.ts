@@ -1,0 +1,77 @@
+import type { Scenario } from '../scenario/scenario.js';
+import type { MatrixDraws } from '../uncertainty/draws.js';
+import { pointDraws } from '../uncertainty/point.js';
+import { bandOf } from './quantiles.js';
+import { simulate, type Simulation, type Switches } from './simulate.js';
+import { drawIndex } from './layout.js';
+
+export type UncertaintySourceName = 'matrix' | 'events' | 'plots';
+
+export interface SourceShare {
+  readonly source: UncertaintySourceName;
+  /** Per state: band width at the horizon with this source switched off. */
+  readonly widthWithout: number[];
+  /** Per state: 1 − Var(without)/Var(full), the share of the variance this source adds (may overlap). */
+  readonly varianceShare: number[];
+}
+
+export interface UncertaintySplit {
+  /** What the widths measure: share of the area, or share of the plots when plots are counted. */
+  readonly quantity: 'area' | 'plots';
+  /** Per state: band width at the horizon with every source on. */
+  readonly width: number[];
+  readonly sources: readonly SourceShare[];
+}
+
+/**
+ * Where the band at the horizon comes from, found by switching each source of uncertainty off in
+ * turn and rerunning on the same random numbers: the fitted matrix (replaced by the MLE — more
+ * surveys shrink this part), landscape events (replaced by their expected effect each year), and
+ * plot-level chance (shares instead of counts). Sources interact, so the shares need not add up
+ * to 1; they say which source matters, not an exact budget. Only sources present are listed.
+ */
+export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full: Simulation, seed: number): UncertaintySplit | null {
+  const present: UncertaintySourceName[] = [];
+  if (scenario.source !== 'point') present.push('matrix');
+  if (scenario.events.some((e) => e.scope === 'landscape')) present.push('events');
+  if (scenario.plots) present.push('plots');
+  if (present.length < 2) return null;
+  const quantity = scenario.plots ? 'plots' : 'area';
+  const fullStats = horizonStats(full, scenario, quantity === 'plots');
+  const sources = present.map((source) => {
+    const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
+    const draws = source === 'matrix' ? pointDraws(scenario.fit, matrices.count) : matrices;
+    const off = simulate(scenario, draws, seed, switches);
+    const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');
+    return {
+      source,
+      widthWithout: stats.map((s) => s.width),
+      varianceShare: stats.map((s, state) => {
+        const v = fullStats[state]!.variance;
+        return v > 0 ? 1 - s.variance / v : 0;
+      }),
+    };
+  });
+  return { quantity, width: fullStats.map((s) => s.width), sources };
+}
+
+/** Per state at the horizon: band width and variance over draws, as a share (of area or of plots). */
+function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { width: number; variance: number }[] {
+  const k = scenario.fit.states.length;
+  const { draws, recorded } = sim.paths;
+  const last = recorded.indexOf(scenario.horizonSteps);
+  const total = scenario.plots?.total ?? 1;
+  return Array.from({ length: k }, (_, s) => {
+    const column = new Float64Array(draws);
+    for (let d = 0; d < draws; d++) {
+      const at = drawIndex(sim.paths, d, last, s);
+      column[d] = plots ? sim.plots!.counts[at]! / total : sim.paths.shares[at]!;
+    }
+    let mean = 0;
+    for (const v of column) mean += v / draws;
+    let variance = 0;
+    for (const v of column) variance += (v - mean) ** 2 / draws;
+    const band = bandOf(column, scenario.level);
+    return { width: band.high - band.low, variance };
+  });
+}

@@ -1,0 +1,83 @@
+import type { ChalkInstance } from 'chalk';
+import type { Comparison } from '../engine/compare.js';
+import { levelLabel, percent, percentBand, wholeBand } from './numbers.js';
+import { CAUTION, makeTable } from './style.js';
+import type { Scenario } from '../scenario/scenario.js';
+
+const label = (s: Scenario): string => s.alternative ?? s.name;
+
+/** Side-by-side terminal tables of alternatives against the baseline. */
+export function comparisonTable(c: Comparison, style: ChalkInstance): string {
+  const base = c.baseline;
+  const sc = base.scenario;
+  const states = sc.fit.states;
+  const band = levelLabel(sc.level);
+  // Positions of the shown steps among the steps summarised (the horizon may be there too).
+  const shown = sc.showSteps.map((t) => base.steps.indexOf(t));
+  const years = shown.map((t) => String(base.years[t]));
+  const all = [base, ...c.alternatives.map((a) => a.result)];
+  const lines: string[] = [];
+  lines.push(style.bold(`Comparison of ${all.length} alternatives — baseline: ${sc.name}`));
+  lines.push(`data: ${sc.fit.input.file} · uncertainty: ${sc.source} · ${base.draws} draws · seed ${base.seed} · bands ${band}`);
+  lines.push('Every alternative runs on the same matrix draws and event years (common random numbers).');
+  for (const r of all) for (const note of r.notes) lines.push(style.yellow(`note (${r.scenario.name}): ${note}`));
+
+  lines.push('', style.bold(`Share of the area by year, % — median [${band}]`));
+  const shares = makeTable(['state / alternative', ...years], style, ['left', ...shown.map(() => 'right' as const)]);
+  states.forEach((name, s) => {
+    shares.push([style.bold(name), ...shown.map(() => '')]);
+    for (const r of all) {
+      const b = r.shares[s]!;
+      shares.push([`  ${label(r.scenario)}`, ...shown.map((t) => percentBand({ median: b.median[t]!, low: b.low[t]!, high: b.high[t]! }))]);
+    }
+  });
+  lines.push(shares.toString());
+
+  lines.push('', style.bold(`Difference from the baseline, percentage points — median [${band}] (chance of more · of a tie)`));
+  const diffs = makeTable(['state / alternative', ...years.slice(1)], style, ['left', ...shown.slice(1).map(() => 'right' as const)]);
+  states.forEach((name, s) => {
+    diffs.push([style.bold(name), ...shown.slice(1).map(() => '')]);
+    for (const a of c.alternatives) {
+      const d = a.difference[s]!;
+      diffs.push([`  ${label(a.result.scenario)}`, ...shown.slice(1).map((_, n) => {
+        const t = n + 1; // differences are kept at the shown years; the start year, a certain tie, is left out
+        const o = a.odds[s]![t]!;
+        const odds = o.tie === 1 ? 'tie' : `${percent(o.more)}%${o.tie > 0 ? ` · ${percent(o.tie)}%` : ''}`;
+        return `${signedBand({ median: signedPoints(d.median[t]!), low: signedPoints(d.low[t]!), high: signedPoints(d.high[t]!) })} (${odds})`;
+      })]);
+    }
+  });
+  lines.push(diffs.toString());
+
+  if (sc.target) {
+    const last = base.years[base.years.length - 1];
+    lines.push('', style.bold(`Landscape target: ${states[sc.target.state]} covering at least ${percent(sc.target.share)}% of the whole area, by ${last}`));
+    const t = makeTable(['alternative', 'chance', 'first year', 'chance vs baseline', 'sooner · same · later', 'years earlier (−) or later'], style,
+      ['left', 'right', 'right', 'right', 'right', 'right']);
+    t.push([label(base.scenario), `${percent(base.dominance!.probability)}%`, base.dominance!.year ? wholeBand(base.dominance!.year) : '—', '', '', '']);
+    for (const a of c.alternatives) {
+      const dom = a.result.dominance!;
+      const diff = a.dominance!;
+      t.push([label(a.result.scenario), `${percent(dom.probability)}%`, dom.year ? wholeBand(dom.year) : '—',
+        `${signedPoints(diff.probabilityDifference)} pts`,
+        `${percent(diff.timing.sooner)}% · ${percent(diff.timing.same)}% · ${percent(diff.timing.later)}%`,
+        diff.years ? signedBand(diff.years) : '—']);
+    }
+    lines.push(t.toString());
+  }
+  lines.push('', style.dim(CAUTION));
+  return lines.join('\n') + '\n';
+}
+
+/** A share difference in percentage points with its sign (one decimal); zero shows as 0. */
+function signedPoints(x: number): string {
+  const v = Math.round(x * 1000) / 10;
+  if (v === 0) return '0';
+  return `${v > 0 ? '+' : '−'}${Math.abs(v).toFixed(1)}`;
+}
+
+/** `median [low – high]` for signed values: spaced dash, so "−14 – −1" cannot read as one number. */
+function signedBand(b: { median: number | string; low: number | string; high: number | string }): string {
+  const f = (x: number | string): string => (typeof x === 'number' ? (x > 0 ? `+${x}` : x < 0 ? `−${-x}` : '0') : x);
+  return b.low === b.high ? f(b.median) : `${f(b.median)} [${f(b.low)} – ${f(b.high)}]`;
+}
