@@ -3,6 +3,7 @@ import { SereError } from '../errors.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import { checkComparable } from '../scenario/comparable.js';
 import { runComparison } from '../engine/compare.js';
+import { checkScenarios } from '../engine/check-treatments.js';
 import { comparisonJson } from '../report/compare-json.js';
 import { comparisonTable } from '../report/compare-table.js';
 import { makeStyle } from '../report/style.js';
@@ -33,6 +34,7 @@ export function registerCompare(program: Command, io: Io): void {
           'name two or more scenario files, or list alternatives in the file');
       }
       checkComparable(scenarios);
+      checkScenarios(scenarios);
       const seed = chooseSeed(scenarios[0]!, opts.seed, io);
       const progress = progressReporter(io.progress, 'comparing');
       let comparison;

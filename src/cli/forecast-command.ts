@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import { runForecast } from '../engine/forecast.js';
+import { checkScenarios } from '../engine/check-treatments.js';
 import { forecastJson } from '../report/forecast-json.js';
 import { forecastTable } from '../report/forecast-table.js';
 import { makeStyle } from '../report/style.js';
@@ -27,6 +28,7 @@ export function registerForecast(program: Command, io: Io): void {
       // Load and check every scenario before running any, so a typo in the last one costs nothing.
       const scenarios = files.flatMap((file) => loadScenarios(file))
         .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
+      checkScenarios(scenarios);
       // A file's alternatives share one seed, and so the same draws and event years.
       const seeds = new Map<string, number>();
       const results = scenarios.map((scenario) => {

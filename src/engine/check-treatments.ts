@@ -2,7 +2,7 @@ import { SereError } from '../errors.js';
 import { maximumLikelihood } from '../chain/estimates.js';
 import { fitPrior } from '../fit/fit.js';
 import type { Scenario } from '../scenario/scenario.js';
-import type { RunPlan } from './plan.js';
+import { buildPlan, type RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 
 /**
@@ -23,4 +23,9 @@ export function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): vo
       : new SereError('BAD_SCENARIO', `treatment '${t.name}' cannot be met: nothing else out of '${state}' is left to rescale`,
         t.place, `every other transition out of '${state}' is zero on the fitted matrix; use move, or set values summing to 1`);
   });
+}
+
+/** Check every scenario's treatments on the fitted matrix: the CLI calls this before any run or message. */
+export function checkScenarios(scenarios: readonly Scenario[]): void {
+  for (const scenario of scenarios) checkTreatmentsOnEstimate(scenario, buildPlan(scenario));
 }
