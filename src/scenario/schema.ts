@@ -48,19 +48,24 @@ const yearWindow = z.tuple([z.number().int(), z.number().int()], { error: 'years
  * The untouched cells of the row are rescaled so the row sums to 1 (README, "Treatments").
  */
 export const treatmentSchema = z.strictObject({
-  name: z.string({ error: 'every treatment needs a name' }).min(1),
-  state: stateName,
-  multiply: z.record(z.string(), z.number().nonnegative({ error: 'a factor cannot be negative' })).optional(),
-  set: z.record(z.string(), probability('a set probability')).optional(),
-  move: z.strictObject({ from: stateName, to: stateName, share: probability('move.share') }).optional(),
+  name: z.string({ error: 'every treatment needs a name' }).min(1).describe('Shown in tables; treatments sharing a name in a comparison are the same treatment.'),
+  state: stateName.describe('The from-state whose transitions the treatment changes (sites in this state).'),
+  multiply: z.record(z.string(), z.number().nonnegative({ error: 'a factor cannot be negative' })).optional()
+    .describe('Multiply the probability of going to each listed state by its factor; the rest of the row is rescaled.'),
+  set: z.record(z.string(), probability('a set probability')).optional()
+    .describe('Set the probability of going to each listed state; the rest of the row is rescaled.'),
+  move: z.strictObject({ from: stateName, to: stateName, share: probability('move.share') }).optional()
+    .describe('Move a share of the probability of going to `from` over to `to`; the row sum is unchanged.'),
   /** Default: every year of the forecast. */
-  years: yearWindow.optional(),
+  years: yearWindow.optional().describe('First and last calendar year it acts (inclusive); default: every year.'),
   /** Years to reach full effect, linearly; default 0 (full effect at once). */
-  ramp: z.number().int().nonnegative({ error: 'ramp is a whole number of years, 0 or more' }).default(0),
+  ramp: z.number().int().nonnegative({ error: 'ramp is a whole number of years, 0 or more' }).default(0)
+    .describe('Years to reach full effect, linearly; default 0.'),
   /** Share of the whole area treated; default 1. */
-  area: z.number().gt(0, { error: 'area must be above 0 (leave the treatment out instead)' }).max(1, { error: 'area must be at most 1' }).default(1),
+  area: z.number().gt(0, { error: 'area must be above 0 (leave the treatment out instead)' }).max(1, { error: 'area must be at most 1' }).default(1)
+    .describe('Share of the whole area treated, tracked as its own sub-population; default 1.'),
   /** Treatments naming the same parcel act on the same land; default: a parcel of its own. */
-  parcel: z.string().min(1).optional(),
+  parcel: z.string().min(1).optional().describe('Treatments naming the same parcel act on the same land; default: a parcel of its own.'),
 }).refine((t) => [t.multiply, t.set, t.move].filter((x) => x !== undefined).length === 1,
   { error: 'a treatment needs exactly one of multiply, set or move' });
 
@@ -68,12 +73,15 @@ export const treatmentSchema = z.strictObject({
 export const eventSchema = z.strictObject({
   name: z.string({ error: 'every event needs a name' }).min(1),
   /** landscape: the whole area in the same year; site: each site independently. Default landscape. */
-  scope: z.enum(['landscape', 'site'], { error: 'scope must be landscape or site' }).default('landscape'),
-  chance: probability('chance').optional(),
+  scope: z.enum(['landscape', 'site'], { error: 'scope must be landscape or site' }).default('landscape')
+    .describe('landscape: the whole area is hit in the same year; site: each site independently. Default landscape.'),
+  chance: probability('chance').optional().describe('Chance per year.'),
   /** Return interval in years: a yearly chance of 1/every. */
-  every: z.number().gt(0, { error: 'every is a return interval in years, above 0' }).optional(),
-  years: yearWindow.optional(),
-  matrix: z.record(z.string(), z.record(z.string(), probability('an event probability'))),
+  every: z.number().gt(0, { error: 'every is a return interval in years, above 0' }).optional()
+    .describe('Return interval in years (a chance of 1/every per year).'),
+  years: yearWindow.optional().describe('First and last calendar year it can strike; default: every year.'),
+  matrix: z.record(z.string(), z.record(z.string(), probability('an event probability')))
+    .describe('from-state → { to-state: probability }; rows not given are unaffected.'),
 }).refine((e) => (e.chance === undefined) !== (e.every === undefined),
   { error: 'an event needs exactly one of chance (per year) or every (return interval in years)' });
 
@@ -100,7 +108,8 @@ export const scenarioSchema = z.strictObject({
   name: z.string().min(1).optional(),
   description: z.string().optional(),
   /** A fit file from `sere fit --out` (.json) or a survey table (.csv) fitted on the fly. Required. */
-  data: z.string({ error: 'data is required: name a fit file (.json) or survey table (.csv)' }).min(1),
+  data: z.string({ error: 'data is required: name a fit file (.json) or survey table (.csv)' }).min(1)
+    .describe('A fit file from sere fit --out (.json) or a survey table (.csv), relative to this file.'),
   fit: fitSettingsSchema.optional(),
   uncertainty: z.strictObject({
     /** Default posterior. */
@@ -111,12 +120,14 @@ export const scenarioSchema = z.strictObject({
     seed: positiveInt('seed').max(MAX_SEED, { error: `seed must be at most ${MAX_SEED}` }).optional(),
   }).default({ source: 'posterior', draws: 4000 }),
   /** Default latest: the mix of the latest survey. */
-  start: startSchema.default('latest'),
-  horizon: horizonSchema,
+  start: startSchema.default('latest').describe("'latest' (the latest surveyed mix) or { year, shares }."),
+  horizon: horizonSchema.describe('How far ahead: { years: N } or { steps: N }.'),
   /** Years after the start shown in the terminal table; default 5, 10, 20, 50 up to the horizon. */
-  show: z.array(z.number().int().nonnegative({ error: 'show lists years after the start (0 or more)' })).optional(),
+  show: z.array(z.number().int().nonnegative({ error: 'show lists years after the start (0 or more)' })).optional()
+    .describe('Years after the start shown in tables; default 5, 10, 20, 50 within the horizon.'),
   /** Credible level of every band; default 0.9. */
-  level: z.number().gt(0, { error: 'level must be between 0 and 1' }).lt(1, { error: 'level must be between 0 and 1' }).default(0.9),
+  level: z.number().gt(0, { error: 'level must be between 0 and 1' }).lt(1, { error: 'level must be between 0 and 1' }).default(0.9)
+    .describe('Credible level of every band; default 0.9.'),
   target: z.strictObject({
     state: stateName,
     share: z.number().gt(0, { error: 'target.share must be above 0' }).max(1, { error: 'target.share must be at most 1' }),

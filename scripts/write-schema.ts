@@ -1,0 +1,36 @@
+/**
+ * Write the scenario file's JSON Schema (schema/scenario.schema.json) from the zod schema sere
+ * itself validates with, so editors can check and complete scenario files. Run `npm run schema`
+ * after changing src/scenario/schema.ts; a test fails while the committed file is out of date.
+ */
+import { writeFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { z } from 'zod';
+import { scenarioSchema } from '../src/scenario/schema.js';
+
+type Json = { [key: string]: unknown };
+
+/** Exactly-one-of rules are zod refinements, which JSON Schema cannot see: add them as oneOf. */
+function addExactlyOneOf(node: unknown): void {
+  if (Array.isArray(node)) { node.forEach(addExactlyOneOf); return; }
+  if (!node || typeof node !== 'object') return;
+  const obj = node as Json;
+  const props = obj['properties'] as Json | undefined;
+  if (props) {
+    for (const group of [['multiply', 'set', 'move'], ['chance', 'every']]) {
+      if (group.every((key) => key in props)) obj['oneOf'] = group.map((key) => ({ required: [key] }));
+    }
+  }
+  Object.values(obj).forEach(addExactlyOneOf);
+}
+
+export function scenarioJsonSchema(): string {
+  const schema = z.toJSONSchema(scenarioSchema, { io: 'input', unrepresentable: 'any' }) as Json;
+  addExactlyOneOf(schema);
+  const out = { $id: 'https://sere.invalid/scenario.schema.json', title: 'sere scenario file', ...schema };
+  return JSON.stringify(out, null, 2) + '\n';
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  writeFileSync(new URL('../../schema/scenario.schema.json', import.meta.url), scenarioJsonSchema());
+}

@@ -1,0 +1,32 @@
+import type { Command } from 'commander';
+import { loadScenarios } from '../scenario/load-scenario.js';
+import type { Scenario } from '../scenario/scenario.js';
+import { checkScenarios } from '../engine/check-treatments.js';
+import { positiveInteger } from './parse-options.js';
+
+/** The flags shared by commands that run scenarios. */
+export interface RunOptions {
+  seed?: number;
+  draws?: number;
+  json?: boolean;
+}
+
+export function withRunOptions(command: Command): Command {
+  return command
+    .argument('<scenario.yaml...>', 'scenario files (a file may list alternatives)')
+    .option('--seed <n>', 'random seed (overrides the scenario file)', positiveInteger)
+    .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', positiveInteger)
+    .option('--json', 'print the documented JSON on stdout instead of tables');
+}
+
+/**
+ * Load every scenario (one per alternative) and check its treatments on the fitted matrix before
+ * anything runs or is printed, so a typo in the last file costs nothing. `--draws` applies to
+ * scenarios that draw more than once.
+ */
+export function loadAndCheck(files: readonly string[], opts: RunOptions): Scenario[] {
+  const scenarios = files.flatMap((file) => loadScenarios(file))
+    .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
+  checkScenarios(scenarios);
+  return scenarios;
+}
