@@ -44,6 +44,7 @@ describe('sere compare (built binary)', () => {
     ['plots in one alternative only', [sc('managed-lite.yaml'), sc('managed.yaml')], 'plots differs'],
     ['different horizons', [sc('good.yaml'), sc('other-horizon.yaml')], `${sc('other-horizon.yaml')}: cannot be compared with ${sc('good.yaml')}: the horizon differs`],
     ['a treatment pushing a probability above 1', [sc('treat-above-one.yaml'), sc('treat-above-one.yaml')], `${sc('treat-above-one.yaml')}:4:5 (treatments[0]): treatment 'boost' pushes probabilities out of 'a' above 1`],
+    ['a change that cannot be met', [sc('treat-unmet.yaml'), sc('treat-unmet.yaml')], `${sc('treat-unmet.yaml')}:4:5 (treatments[0]): treatment 'thin' cannot be met`],
     ['an unknown state in a treatment', [sc('good.yaml'), sc('treat-unknown-state.yaml')], `${sc('treat-unknown-state.yaml')}:5:12 (treatments[0].state): unknown state 'woodland'`],
     ['conflicting windows', [sc('treat-conflict.yaml')], `${sc('treat-conflict.yaml')}:10:15 (treatments[1].set.c): sets b>c in 12`],
     ['an event row not summing to 1', [sc('event-row-sum.yaml')], `${sc('event-row-sum.yaml')}:7:10 (events[0].matrix.b): row 'b' of event 'flood' sums to 0.9`],
