@@ -13,6 +13,12 @@ export interface SkippedPairs {
   readonly pairs: number;
 }
 
+/** Transitions that started at one survey time: what tests of time-homogeneity compare. */
+export interface PeriodCounts {
+  readonly time: number;
+  readonly cells: readonly (readonly [number, number, number])[];
+}
+
 export interface TransitionCounts {
   readonly k: number;
   /** Row-major k×k: `counts[i*k + j]` transitions from state i to state j, pooled over sites. */
@@ -22,6 +28,10 @@ export interface TransitionCounts {
   readonly skipped: readonly SkippedPairs[];
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
   readonly firstLine: Int32Array;
+  /** Runs of three surveys each one step apart, as sparse `[i, j, l, n]`: the data of the order tests. */
+  readonly triples: readonly (readonly [number, number, number, number])[];
+  /** One-step transitions grouped by the time they started, in time order. */
+  readonly periods: readonly PeriodCounts[];
 }
 
 /**
@@ -37,6 +47,8 @@ export function countTransitions(records: readonly SurveyRecord[], k: number, st
   const bySite = groupBySite(records);
   const sites: SiteCounts[] = [];
   const skipped = new Map<number, number>();
+  const triples = new Map<number, number>();
+  const periods = new Map<number, Map<number, number>>();
   let transitions = 0;
   for (const [site, rows] of bySite) {
     const ordered = [...rows].sort((a, b) => a.time - b.time);
@@ -54,15 +66,30 @@ export function countTransitions(records: readonly SurveyRecord[], k: number, st
       if (firstLine[cell] === 0) firstLine[cell] = after.line;
       cells.set(cell, (cells.get(cell) ?? 0) + 1);
       transitions += 1;
+      const period = periods.get(before.time) ?? new Map<number, number>();
+      period.set(cell, (period.get(cell) ?? 0) + 1);
+      periods.set(before.time, period);
+      const earlier = ordered[n - 2];
+      if (earlier && before.time - earlier.time === step) {
+        const triple = (earlier.state * k + before.state) * k + after.state;
+        triples.set(triple, (triples.get(triple) ?? 0) + 1);
+      }
     }
     const group = ordered[0]!.group;
-    const sparse = [...cells.entries()]
-      .sort((a, b) => a[0] - b[0])
-      .map(([cell, n]) => [Math.floor(cell / k), cell % k, n] as const);
+    const sparse = sparseCells(cells, k);
     sites.push(group === undefined ? { site, cells: sparse } : { site, group, cells: sparse });
   }
   const skippedList = [...skipped.entries()].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
-  return { k, counts, sites, transitions, skipped: skippedList, firstLine };
+  return {
+    k, counts, sites, transitions, skipped: skippedList, firstLine,
+    triples: [...triples.entries()].sort((a, b) => a[0] - b[0])
+      .map(([c, n]) => [Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n] as const),
+    periods: [...periods.entries()].sort((a, b) => a[0] - b[0]).map(([time, m]) => ({ time, cells: sparseCells(m, k) })),
+  };
+}
+
+function sparseCells(cells: Map<number, number>, k: number): [number, number, number][] {
+  return [...cells.entries()].sort((a, b) => a[0] - b[0]).map(([cell, n]) => [Math.floor(cell / k), cell % k, n]);
 }
 
 /** Sites in order of first appearance, so the per-site list is stable for a given file. */

@@ -46,6 +46,9 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       last_time: fit.latest.time,
     },
     latest: fit.latest,
+    group_column: fit.groupColumn ?? null,
     site_counts: fit.sites,
+    period_counts: fit.periods ?? null,
+    order2_counts: fit.triples ?? null,
   };
 }

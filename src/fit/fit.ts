@@ -1,6 +1,6 @@
 import { SereError } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
-import { countTransitions, likelyStep, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
+import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
 import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { impossibleMask, type FitSettings } from './settings.js';
@@ -26,6 +26,12 @@ export interface Fit {
   readonly surveys: number;
   readonly firstTime: number;
   readonly latest: SurveyedMix;
+  /** Runs of three surveys one step apart, `[i, j, l, n]`: for the order tests (absent in old fit files). */
+  readonly triples?: readonly (readonly [number, number, number, number])[];
+  /** Transitions by the survey time they started: for time-homogeneity tests (absent in old fit files). */
+  readonly periods?: readonly PeriodCounts[];
+  /** The group column's name, when the survey table had one. */
+  readonly groupColumn?: string;
 }
 
 export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
@@ -74,6 +80,9 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     surveys: table.records.length,
     firstTime,
     latest: latestSurveyedMix(table.records, k),
+    triples: counted.triples,
+    periods: counted.periods,
+    groupColumn: settings.columns.group,
   };
 }
 

@@ -24,6 +24,9 @@ const fitFileSchema = z.object({
     first_time: z.number().int(),
   }),
   latest: z.object({ time: z.number().int(), counts: z.array(count), sites: count.min(1) }),
+  group_column: z.string().nullable().optional(),
+  period_counts: z.array(z.object({ time: z.number().int(), cells: z.array(z.tuple([count, count, count])) })).nullable().optional(),
+  order2_counts: z.array(z.tuple([count, count, count, count])).nullable().optional(),
   site_counts: z.array(z.object({
     site: z.string(),
     group: z.string().optional(),
@@ -43,6 +46,8 @@ export function loadFit(file: string): Fit {
   if (f.latest.counts.length !== k) bad(`latest.counts has ${f.latest.counts.length} entries for ${k} states`, ['latest', 'counts']);
   const counts = new Float64Array(f.counts.flat());
   const fromSites = new Float64Array(k * k);
+  f.order2_counts?.forEach(([i, j, l], c) => { if (i >= k || j >= k || l >= k) bad('state index out of range', ['order2_counts', c]); });
+  f.period_counts?.forEach((p, n) => p.cells.forEach(([i, j], c) => { if (i >= k || j >= k) bad('state index out of range', ['period_counts', n, 'cells', c]); }));
   f.site_counts.forEach((s, n) => {
     s.cells.forEach(([i, j], c) => { if (i >= k || j >= k) bad(`state index out of range`, ['site_counts', n, 'cells', c]); });
     addSiteCells(fromSites, k, s.cells);
@@ -64,5 +69,8 @@ export function loadFit(file: string): Fit {
     surveys: f.data.surveys,
     firstTime: f.data.first_time,
     latest: { ...f.latest, shares: f.latest.counts.map((c) => c / f.latest.sites) },
+    triples: f.order2_counts ?? undefined,
+    periods: f.period_counts ?? undefined,
+    groupColumn: f.group_column ?? undefined,
   };
 }

@@ -88,3 +88,19 @@ describe('a semicolon-separated file', () => {
     expect(err.hint).toContain('semicolons');
   });
 });
+
+describe('the quote-free fast path', () => {
+  it('splits exactly as csv-parse does (property: spaces, empty lines, CRLF, BOM)', async () => {
+    const fc = (await import('fast-check')).default;
+    const { csvParseRows, splitPlainCsv } = await import('../../src/data/read-survey-csv.js');
+    const field = fc.stringMatching(/^[ a-z0-9._-]{0,6}$/);
+    const table = fc.integer({ min: 1, max: 4 }).chain((width) =>
+      fc.array(fc.oneof(fc.array(field, { minLength: width, maxLength: width }).map((f) => f.join(',')), fc.constantFrom('', '  ')),
+        { minLength: 1, maxLength: 12 }));
+    fc.assert(fc.property(table, fc.boolean(), fc.boolean(), (lines, crlf, bom) => {
+      if (lines.every((l) => l.trim() === '')) return;
+      const text = (bom ? '\uFEFF' : '') + lines.join(crlf ? '\r\n' : '\n') + '\n';
+      expect(splitPlainCsv('t.csv', text)).toEqual(csvParseRows('t.csv', text));
+    }), { numRuns: 500 });
+  });
+});
