@@ -13,8 +13,9 @@ const allowed: Record<string, string[]> = {
   uncertainty: ['chain', 'fit'],
   scenario: ['data', 'chain', 'fit', 'uncertainty'],
   engine: ['chain', 'fit', 'uncertainty', 'scenario'],
-  report: ['chain', 'fit', 'engine', 'scenario'],
-  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'report'],
+  diagnostics: ['chain', 'fit', 'uncertainty', 'engine'],
+  report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics'],
+  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'report'],
 };
 
 function sources(dir: string): string[] {

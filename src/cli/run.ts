@@ -4,6 +4,7 @@ import { TOOL_VERSION } from '../version.js';
 import { registerFit } from './fit-command.js';
 import { registerForecast } from './forecast-command.js';
 import { registerCompare } from './compare-command.js';
+import { registerCheck } from './check-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -24,6 +25,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
   registerFit(program, io);
   registerForecast(program, io);
   registerCompare(program, io);
+  registerCheck(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
 
   try {

@@ -1,0 +1,75 @@
+import { extname } from 'node:path';
+import { InvalidArgumentError, type Command } from 'commander';
+import { SereError } from '../errors.js';
+import { checkChain } from '../diagnostics/check.js';
+import { fitFromFile } from '../fit/fit-from-file.js';
+import { checkJson } from '../report/check-json.js';
+import { checkTable } from '../report/check-table.js';
+import { makeStyle } from '../report/style.js';
+import { freshSeed, seededRandom } from '../uncertainty/random.js';
+import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
+import type { Io } from './io.js';
+import { level, positiveInteger } from './parse-options.js';
+
+interface CheckOptions extends FitFlags {
+  draws: number;
+  seed?: number;
+  level: number;
+  replicates: number;
+  simulate?: boolean;
+  periods?: [number, number][];
+  target?: string;
+  horizon: number;
+  json?: boolean;
+}
+
+/** `2015-2018,2019-2023` → [[2015, 2018], [2019, 2023]]: periods grouped by the year they start. */
+function periodRanges(value: string): [number, number][] {
+  return value.split(',').map((part) => {
+    const m = /^\s*(-?\d+)\s*-\s*(-?\d+)\s*$/.exec(part);
+    if (!m || Number(m[1]) > Number(m[2])) throw new InvalidArgumentError('expected ranges of start years such as 2015-2018,2019-2023.');
+    return [Number(m[1]), Number(m[2])];
+  });
+}
+
+const FIT_FLAGS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn'];
+
+export function registerCheck(program: Command, io: Io): void {
+  const command = withFitOptions(program.command('check')
+    .description('test the Markov assumptions and describe the chain: structure, passage times, settling, sensitivities')
+    .argument('<survey.csv|fit.json>', 'a survey table (fitted now, with the fit flags) or a fit file'))
+    .option('--draws <n>', 'posterior draws for the bands', positiveInteger, 1000)
+    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--level <p>', 'credible level of the bands', level, 0.9)
+    .option('--replicates <n>', 'bootstrap replicates for simulated p-values', positiveInteger, 999)
+    .option('--simulate', 'give a simulated p-value for every test, not only sparse ones')
+    .option('--periods <a-b,...>', 'group survey periods by start year, e.g. 2015-2018,2019-2023', periodRanges)
+    .option('--target <state>', 'rank transitions by their effect on this state’s share')
+    .option('--horizon <years>', 'with --target: the share this many years after the latest survey', positiveInteger, 20)
+    .option('--json', 'print the documented JSON on stdout instead of tables');
+  command.action((file: string, opts: CheckOptions) => {
+    const isFitFile = extname(file).toLowerCase() === '.json';
+    const given = FIT_FLAGS.filter((name) => command.getOptionValueSource(name) === 'cli');
+    if (isFitFile && given.length > 0) {
+      throw new SereError('BAD_OPTION', `fit flags (${given.join(', ')}) apply to a survey table, not to a fit file`, { file },
+        'drop them, or check the survey table itself');
+    }
+    const fit = fitFromFile(file, fitSettingsFrom(opts));
+    let target: { state: number; steps: number } | undefined;
+    if (opts.target !== undefined) {
+      const state = fit.states.indexOf(opts.target);
+      if (state < 0) throw new SereError('UNKNOWN_STATE', `unknown state '${opts.target}'`, { path: '--target' }, `use one of: ${fit.states.join(', ')}`);
+      if (opts.horizon % fit.step !== 0) {
+        throw new SereError('BAD_OPTION', `${opts.horizon} years is not a whole number of ${fit.step}-year steps`, { path: '--horizon' }, `use a multiple of ${fit.step}`);
+      }
+      target = { state, steps: opts.horizon / fit.step };
+    }
+    const seed = opts.seed ?? freshSeed();
+    if (opts.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+    const result = checkChain(fit, {
+      level: opts.level, draws: opts.draws, replicates: opts.replicates, simulateAll: Boolean(opts.simulate),
+      periodGroups: opts.periods, target,
+    }, seededRandom(seed));
+    io.stdout(opts.json ? JSON.stringify(checkJson(result), null, 2) + '\n' : checkTable(result, makeStyle(io.color)));
+  });
+}

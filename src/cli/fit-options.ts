@@ -1,0 +1,38 @@
+import type { Command } from 'commander';
+import { parsePrior } from '../chain/prior.js';
+import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { commaList, positiveInteger } from './parse-options.js';
+
+/** The flags that say how to fit a survey table, shared by `fit` and `check`. */
+export interface FitFlags {
+  step: number;
+  states?: string[];
+  prior: string;
+  impossible?: string[];
+  siteColumn: string;
+  timeColumn: string;
+  stateColumn: string;
+  groupColumn?: string;
+}
+
+export function withFitOptions(command: Command): Command {
+  return command
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', positiveInteger, 1)
+    .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
+    .option('--prior <p>', 'prior pseudo-count per cell: jeffreys (0.5), uniform (1) or a number', 'jeffreys')
+    .option('--impossible <from>to,...>', 'transitions that cannot happen (structural zeros)', commaList)
+    .option('--site-column <name>', 'column holding the site', 'site')
+    .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
+    .option('--state-column <name>', 'column holding the state', 'state')
+    .option('--group-column <name>', 'optional column holding a group (soil type, management unit)');
+}
+
+export function fitSettingsFrom(opts: FitFlags): FitSettings {
+  return {
+    step: opts.step,
+    prior: parsePrior(opts.prior, { path: '--prior' }),
+    states: opts.states,
+    impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),
+    columns: { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn },
+  };
+}

@@ -1,0 +1,40 @@
+import type { Fit } from '../fit/fit.js';
+import { posteriorDraws } from '../uncertainty/posterior.js';
+import type { RandomSource } from '../uncertainty/random.js';
+import { deriveSeed, seededRandom } from '../uncertainty/random.js';
+import { assumptionTests, type AssumptionTests } from './assumption-tests.js';
+import { chainProperties, type ChainProperties } from './chain-properties.js';
+
+export interface CheckSettings {
+  readonly level: number;
+  readonly draws: number;
+  readonly replicates: number;
+  readonly simulateAll: boolean;
+  readonly periodGroups?: readonly (readonly [number, number])[];
+  /** Sensitivity of a target's share this many steps ahead of the latest survey. */
+  readonly target?: { readonly state: number; readonly steps: number };
+}
+
+export interface CheckResult {
+  readonly fit: Fit;
+  readonly settings: CheckSettings;
+  readonly seed: number;
+  readonly tests: AssumptionTests;
+  readonly properties: ChainProperties;
+}
+
+/**
+ * Everything `sere check` reports: tests of the Markov assumptions and the fitted chain's
+ * properties with bands from posterior draws. The bootstrap p-values use their own named stream,
+ * so adding draws does not change them.
+ */
+export function checkChain(fit: Fit, settings: CheckSettings, random: RandomSource): CheckResult {
+  const draws = posteriorDraws(fit, settings.draws, random);
+  const tests = assumptionTests(fit, {
+    random: seededRandom(deriveSeed(random.seed, 'bootstrap-p-values')),
+    replicates: settings.replicates,
+    simulateAll: settings.simulateAll,
+    periodGroups: settings.periodGroups,
+  });
+  return { fit, settings, seed: random.seed, tests, properties: chainProperties(fit, draws, settings.level, settings.target) };
+}
