@@ -7,6 +7,8 @@
  * 3. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
  * 4. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
  *    a partial area and a landscape event), wall time with start-up (best of 5).
+ * 5. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
+ *    the bands, wall time with start-up (best of 3).
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -66,7 +68,7 @@ const samplingMs = best(3, () => posteriorDraws(fit, D, seededRandom(2)));
 console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: ${(samplingMs / 1000).toFixed(2)} s`);
 
 const wall = (args: string[]): number => best(5, () => {
-  const r = spawnSync(process.execPath, ['dist/sere.mjs', ...args], { encoding: 'utf8' });
+  const r = spawnSync(process.execPath, ['dist/cli/sere.mjs', ...args], { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(r.stderr);
 });
 const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
@@ -106,3 +108,26 @@ function compareFixture(): string {
 }
 const compareMs = wall(['compare', compareFixture()]);
 console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall incl. start-up: ${(compareMs / 1000).toFixed(3)} s (target: under 1 s)`);
+
+/** 10,000 sites × 10 annual surveys × 8 states from a first-order chain (MT19937, seed 8). */
+function checkFixture(): string {
+  const dir = mkdtempSync(join(tmpdir(), 'sere-bench-'));
+  const random = seededRandom(8);
+  const rows = ['site,time,state'];
+  for (let site = 0; site < 10_000; site++) {
+    let state = random.integer(8);
+    for (let year = 2015; year <= 2024; year++) {
+      rows.push(`p${site},${year},s${state}`);
+      const u = random.uniform();
+      state = u < 0.75 ? state : u < 0.9 ? (state + 1) % 8 : random.integer(8);
+    }
+  }
+  writeFileSync(join(dir, 'surveys.csv'), rows.join('\n') + '\n');
+  return join(dir, 'surveys.csv');
+}
+const checkFile = checkFixture();
+const checkMs = best(3, () => {
+  const r = spawnSync(process.execPath, ['dist/cli/sere.mjs', 'check', checkFile, '--draws', '1000', '--seed', '1'], { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(r.stderr);
+});
+console.log(`check: 10000 sites × 10 surveys × 8 states, 1000 posterior draws, wall incl. start-up: ${(checkMs / 1000).toFixed(3)} s (target: under 2 s)`);

@@ -29,6 +29,17 @@ export function maximumLikelihood(counts: Float64Array, alpha: Float64Array, k: 
   return { p, rowsFromPrior, rowsNeverLeft };
 }
 
+/** Posterior mean of each cell, (nᵢⱼ + αᵢⱼ) / Σⱼ (nᵢⱼ + αᵢⱼ); structural zeros stay 0. */
+export function posteriorMean(counts: Float64Array, alpha: Float64Array, k: number): Float64Array {
+  const mean = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) {
+    let a0 = 0;
+    for (let j = 0; j < k; j++) a0 += alpha[i * k + j] === 0 ? 0 : counts[i * k + j]! + alpha[i * k + j]!;
+    for (let j = 0; j < k; j++) mean[i * k + j] = alpha[i * k + j] === 0 ? 0 : (counts[i * k + j]! + alpha[i * k + j]!) / a0;
+  }
+  return mean;
+}
+
 export interface PosteriorSummary {
   readonly mean: Float64Array;
   readonly low: Float64Array;

@@ -1,16 +1,22 @@
 import type { Command } from 'commander';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
+import { existsSync } from 'node:fs';
+import { SereError } from '../errors.js';
 import { fitSurvey } from '../fit/fit.js';
+import { groupOf, groupsOf } from '../fit/fit-from-file.js';
+import { assumptionTests } from '../diagnostics/assumption-tests.js';
+import { seededRandom } from '../uncertainty/random.js';
 import { estimateFit } from '../fit/estimate.js';
 import { fitToJson } from '../fit/fit-json.js';
 import { fitTable } from '../report/fit-table.js';
-import { makeStyle } from '../report/style.js';
+import { makeStyle, makeTable } from '../report/style.js';
 import type { Io } from './io.js';
 import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { writeFileAtomic } from './write-file.js';
 
 interface FitOptions extends FitFlags {
+  by?: string;
   level: number;
   out?: string;
   force?: boolean;
@@ -25,7 +31,12 @@ export function registerFit(program: Command, io: Io): void {
     .option('--out <fit.json>', 'write the fit to this file (never overwrites without --force)')
     .option('--force', 'replace an existing --out file')
     .option('--json', 'print the fit as JSON on stdout instead of tables')
+    .option('--by <column>', 'one fit per value of this column, written as OUT-<value>.json (needs --out)')
     .action((file: string, opts: FitOptions) => {
+      if (opts.by !== undefined) {
+        fitByGroup(file, opts, io);
+        return;
+      }
       const settings = fitSettingsFrom(opts);
       const fit = fitSurvey(readSurveyCsv(file, { columns: settings.columns, states: opts.states }), settings);
       const estimates = estimateFit(fit, opts.level);
@@ -36,4 +47,40 @@ export function registerFit(program: Command, io: Io): void {
       }
       io.stdout(opts.json ? json : fitTable(fit, estimates, makeStyle(io.color)));
     });
+}
+
+/**
+ * `--by COLUMN`: one fit per group, all with the whole table's states, written next to --out as
+ * OUT-<group>.json. Every target is checked before anything is written, so a refusal to overwrite
+ * leaves no partial set; then a table of the groups and the test of whether they differ.
+ */
+function fitByGroup(file: string, opts: FitOptions, io: Io): void {
+  if (!opts.out) {
+    throw new SereError('BAD_OPTION', '--by writes one file per group and needs --out', { path: '--by' },
+      'add --out NAME.json; the groups go to NAME-<group>.json');
+  }
+  const settings = { ...fitSettingsFrom(opts), columns: { ...fitSettingsFrom(opts).columns, group: opts.by } };
+  const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
+  const whole = fitSurvey(table, settings);
+  const stem = opts.out.replace(/\.json$/i, '');
+  const groups = groupsOf(table).map((group) => {
+    const fit = fitSurvey(groupOf(table, group, opts.by), settings);
+    return { group, fit, out: `${stem}-${group.replace(/[^A-Za-z0-9_.-]/g, '_')}.json` };
+  });
+  for (const g of groups) {
+    if (existsSync(g.out) && !opts.force) {
+      throw new SereError('FILE_EXISTS', 'already exists and was left untouched (no group was written)', { file: g.out },
+        'choose another --out, or pass --force to replace the files');
+    }
+  }
+  for (const g of groups) writeFileAtomic(g.out, JSON.stringify(fitToJson(g.fit, estimateFit(g.fit, opts.level)), null, 2) + '\n', true);
+  const style = makeStyle(io.color);
+  const t = makeTable([opts.by!, 'sites', 'transitions', 'file'], style, ['left', 'right', 'right', 'left']);
+  for (const g of groups) t.push([g.group, String(g.fit.sites.length), String(g.fit.transitions), g.out]);
+  const test = assumptionTests(whole, { random: seededRandom(1), replicates: 999, simulateAll: false }).groups;
+  io.stdout(`${style.bold(`Fits by ${opts.by} of ${file}`)}\n${t.toString()}\n` + (test
+    ? `Do the groups differ? G² ${test.g2.toFixed(2)}, df ${test.df}, p ${test.pG2.toFixed(3)}` +
+      `${test.pBootstrap !== null ? ` (simulated p ${test.pBootstrap.toFixed(3)}, sparse table)` : ''} — ` +
+      'a small p-value means separate fits are warranted; see sere check.\n'
+    : ''));
 }

@@ -1,4 +1,4 @@
-import { maximumLikelihood } from '../chain/estimates.js';
+import { maximumLikelihood, posteriorMean } from '../chain/estimates.js';
 import { absorption, fundamentalMatrix, meanFirstPassage, type Absorption } from '../chain/fundamental.js';
 import { transitionSensitivities, type TransitionSensitivity } from '../chain/sensitivity.js';
 import { stepsToSettle } from '../chain/settling.js';
@@ -42,7 +42,7 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
   const mle = maximumLikelihood(fit.counts, fitPrior(fit), k).p;
   const structure = chainStructure(mle, k);
   const stationaryOf = (p: Float64Array, offset: number): Float64Array | null => {
-    const s = offset === 0 && p === mle ? structure : chainStructure(p, k, offset);
+    const s = p === mle ? structure : chainStructure(p, k, offset);
     const r = stationaryGivenClasses(p, k, offset, s);
     return r.unique ? r.mix : null;
   };
@@ -99,8 +99,13 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
     };
   }
 
-  const sensitivity = piMle
-    ? transitionSensitivities(mle, k, piMle, fundamentalMatrix(mle, k, piMle),
+  // Sensitivities at the posterior mean, the matrix the forecasts' draws centre on: unlike the MLE
+  // it gives every possible transition some probability, so a state never seen to leave does not
+  // make every other state's long-run share (and its sensitivity) zero.
+  const mean = posteriorMean(fit.counts, fitPrior(fit), k);
+  const piMean = stationaryOf(mean, 0);
+  const sensitivity = piMean
+    ? transitionSensitivities(mean, k, piMean, fundamentalMatrix(mean, k, piMean),
       impossibleMask(fit.impossible, fit.states, { path: 'impossible' }),
       target ? { start, steps: target.steps, target: target.state } : undefined)
     : [];

@@ -10,6 +10,8 @@ export interface FitSettings {
   /** Transitions declared impossible (structural zeros), as [from, to] labels. */
   readonly impossible: readonly (readonly [string, string])[];
   readonly columns: SurveyColumns;
+  /** Fit only the sites whose group column holds this value. */
+  readonly group?: string;
 }
 
 /** Parse `from>to` pairs, e.g. `woodland>open-water`. */

@@ -95,15 +95,15 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
     lines.push(style.yellow('  the fitted chain has more than one closed class: no single long-run mix to settle to'));
   }
 
-  section('What the forecast hinges on — transitions ranked by their effect, rows kept stochastic');
+  section('What the forecast hinges on — transitions ranked by their effect at the posterior mean, rows kept stochastic');
   if (pr.sensitivity.length > 0) {
     const target = settings.target;
     const rank = (x: typeof pr.sensitivity[number]): number =>
       target ? Math.abs(x.horizon ?? 0) : x.stationary.reduce((a, b) => a + Math.abs(b), 0) / 2;
     const top = [...pr.sensitivity].sort((a, b) => rank(b) - rank(a)).slice(0, 10);
     const head = target
-      ? ['transition', 'p', `long-run ${states[target.state]}`, `${states[target.state]} in ${fit.latest.time + target.steps * fit.step}`]
-      : ['transition', 'p', 'long-run mix moved', 'largest change'];
+      ? ['transition', 'p (posterior mean)', `long-run ${states[target.state]}`, `${states[target.state]} in ${fit.latest.time + target.steps * fit.step}`]
+      : ['transition', 'p (posterior mean)', 'long-run mix moved', 'largest change'];
     const t = makeTable(head, style, ['left', 'right', 'right', 'right']);
     for (const x of top) {
       const name = `${states[x.from]} → ${states[x.to]}`;

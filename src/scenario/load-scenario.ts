@@ -130,6 +130,7 @@ function fitSettings(s: ScenarioFile, impossiblePlace: Place): FitSettings {
     states: f.states,
     impossible: parseImpossible(f.impossible ?? [], impossiblePlace),
     columns: { ...DEFAULT_COLUMNS, ...f.columns },
+    group: f.group,
   };
 }
 

@@ -20,7 +20,9 @@ const fitSettingsSchema = z.strictObject({
     site: z.string().min(1).optional(),
     time: z.string().min(1).optional(),
     state: z.string().min(1).optional(),
+    group: z.string().min(1).optional(),
   }).optional(),
+  group: z.string().min(1).optional().describe("Fit only the sites of this group (the value in columns.group), e.g. a soil type's own fit."),
 });
 
 const startSchema = z.union([

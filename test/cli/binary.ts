@@ -8,7 +8,7 @@ export interface Run {
 
 /** Run the built executable (`npm test` builds first), as a user would, without a TTY. */
 export function sere(args: string[], env: Record<string, string> = {}): Run {
-  const result = spawnSync(process.execPath, ['dist/sere.mjs', ...args], {
+  const result = spawnSync(process.execPath, ['dist/cli/sere.mjs', ...args], {
     encoding: 'utf8',
     env: { ...process.env, NO_COLOR: '', ...env },
   });

@@ -89,3 +89,34 @@ describe('sere fit (built binary)', () => {
     expect(existsSync(out)).toBe(false);
   });
 });
+
+describe('sere fit --by (built binary)', () => {
+  it('writes one fit per group with the same states, and refuses to overwrite any of them', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sere-'));
+    const out = join(dir, 'soils.json');
+    const r = sere(['fit', fx('grouped.csv'), '--by', 'soil', '--out', out]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toContain('Do the groups differ?');
+    expect(readdirSync(dir).sort()).toEqual(['soils-clay.json', 'soils-sand.json']);
+    const clay = JSON.parse(readFileSync(join(dir, 'soils-clay.json'), 'utf8'));
+    const sand = JSON.parse(readFileSync(join(dir, 'soils-sand.json'), 'utf8'));
+    expect(clay.states).toEqual(['a', 'b']);
+    expect(sand.states).toEqual(['a', 'b']);
+    expect(clay.counts).toEqual([[0, 1], [1, 1]]);
+    expect(sand.counts).toEqual([[2, 0], [0, 1]]);
+    const again = sere(['fit', fx('grouped.csv'), '--by', 'soil', '--out', out]);
+    expect(again.code).toBe(1);
+    expect(again.stderr).toContain('no group was written');
+    expect(sere(['fit', fx('grouped.csv'), '--by', 'soil']).code).toBe(1);
+  });
+
+  it('a scenario can fit one group of a survey table', () => {
+    const r = sere(['forecast', 'test/fixtures/scenarios/group-fit.yaml', '--json']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).scenarios[0].data.transitions).toBe(3);
+    const bad = sere(['forecast', 'test/fixtures/scenarios/group-missing.yaml']);
+    expect(bad.code).toBe(1);
+    expect(bad.stderr).toContain("no rows with soil = 'peat'");
+    expect(bad.stderr).toContain('use one of: clay, sand');
+  });
+});

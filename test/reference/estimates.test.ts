@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { maximumLikelihood, posteriorSummary } from '../../src/chain/estimates.js';
+import { maximumLikelihood, posteriorMean, posteriorSummary } from '../../src/chain/estimates.js';
 import { check, expectClose, flat, toleranceOf } from './checks.js';
 import { toRows } from '../../src/chain/matrix.js';
 
@@ -52,6 +52,12 @@ describe('exact Beta marginals of the row-wise Dirichlet posterior', () => {
     const s = posteriorSummary(counts, uniformPrior(2), 2, 0.95);
     expectClose(s.mean[0], c.expected['posterior_mean'], toleranceOf(c, 'posterior_mean'), 'mean');
     expectClose([s.low[0], s.high[0]], c.expected['central_95'], toleranceOf(c, 'central_95'), 'central_95');
+  });
+
+  it('posteriorMean equals the means of the Beta marginals', () => {
+    const counts = Float64Array.from([5, 1, 0, 2, 0, 7, 1, 1, 1]);
+    const alpha = Float64Array.from([0.5, 0.5, 0, 0.5, 0.5, 0.5, 1, 1, 1]);
+    expect(Array.from(posteriorMean(counts, alpha, 3))).toEqual(Array.from(posteriorSummary(counts, alpha, 3, 0.9).mean));
   });
 
   it('gives structural zeros exactly 0 and a single possible destination exactly 1', () => {
