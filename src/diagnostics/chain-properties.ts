@@ -25,7 +25,14 @@ export interface ChainProperties {
   /** Ergodic chains: k×k mean first passage times, recurrence times on the diagonal. */
   readonly passage: Estimate[] | null;
   /** Chains with transient states: steps to reach a closed class, and where sites end. */
-  readonly absorption: { readonly transient: readonly number[]; readonly closedClasses: readonly (readonly number[])[]; readonly steps: Estimate[]; readonly ends: Estimate[] } | null;
+  readonly absorption: {
+    readonly transient: readonly number[];
+    readonly closedClasses: readonly (readonly number[])[];
+    /** The MLE's fundamental matrix N = (I − Q)⁻¹ over the transient states. */
+    readonly fundamental: Float64Array;
+    readonly steps: Estimate[];
+    readonly ends: Estimate[];
+  } | null;
   readonly settling: { readonly slem: Estimate; readonly damping: Estimate; readonly steps: Estimate } | null;
   readonly sensitivity: readonly TransitionSensitivity[];
 }
@@ -94,6 +101,7 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
     absorbed = {
       transient: aMle.transient,
       closedClasses: aMle.closedClasses,
+      fundamental: aMle.n,
       steps: aMle.transient.map((_, a) => estimate(aMle.steps[a]!, D, (d) => perDraw[d]?.steps[a] ?? null, level)),
       ends: Array.from({ length: aMle.transient.length * C }, (_, c) => estimate(aMle.b[c]!, D, (d) => perDraw[d]?.b[c] ?? null, level)),
     };

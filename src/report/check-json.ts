@@ -2,6 +2,7 @@ import type { CheckResult } from '../diagnostics/check.js';
 import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
 import { TOOL_VERSION } from '../version.js';
+import { toRows } from '../chain/matrix.js';
 
 /** The documented JSON of `sere check --json`. States by name; matrices as rows, row = from. */
 export function checkJson(r: CheckResult): object {
@@ -39,6 +40,7 @@ export function checkJson(r: CheckResult): object {
       ? {
         transient: names(pr.absorption.transient),
         closed_classes: pr.absorption.closedClasses.map(names),
+        fundamental_matrix: toRows(pr.absorption.fundamental, pr.absorption.transient.length),
         steps: pr.absorption.steps.map(est),
         ends: pr.absorption.transient.map((_, a) => pr.absorption!.closedClasses.map((__, c) => est(pr.absorption!.ends[a * pr.absorption!.closedClasses.length + c]!))),
       }

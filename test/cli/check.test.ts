@@ -26,6 +26,10 @@ describe('sere check (built binary)', () => {
     expect(j.residence.mudflat.point).toBeCloseTo(1 / (1 - 92 / 135), 12);
     expect(j.mean_first_passage[0][0].draws).toBe(200);
     expect(j.absorption.closed_classes).toEqual([['rank-grass']]);
+    expect(j.absorption.fundamental_matrix).toHaveLength(4);
+    // t = N·1: the steps to absorption are the row sums of N (Kemeny & Snell 1960).
+    j.absorption.fundamental_matrix.forEach((row: number[], a: number) =>
+      expect(row.reduce((x, y) => x + y, 0)).toBeCloseTo(j.absorption.steps[a].point, 9));
     expect(j.absorption.ends[0][0].point).toBeCloseTo(1, 12);
     expect(j.settling.slem.median).toBeGreaterThan(0.8);
     expect(j.sensitivity.target).toEqual({ state: 'high-marsh', steps: 20 });
