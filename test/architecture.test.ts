@@ -14,8 +14,9 @@ const allowed: Record<string, string[]> = {
   scenario: ['data', 'chain', 'fit', 'uncertainty'],
   engine: ['chain', 'fit', 'uncertainty', 'scenario'],
   diagnostics: ['chain', 'fit', 'uncertainty', 'engine'],
-  report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics'],
-  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'report'],
+  workspace: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'report'],
+  report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics', 'workspace'],
+  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'workspace', 'report'],
 };
 
 function sources(dir: string): string[] {

@@ -5,6 +5,7 @@ import { registerFit } from './fit-command.js';
 import { registerForecast } from './forecast-command.js';
 import { registerCompare } from './compare-command.js';
 import { registerCheck } from './check-command.js';
+import { registerSeason } from './season-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -26,6 +27,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
   registerForecast(program, io);
   registerCompare(program, io);
   registerCheck(program, io);
+  registerSeason(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
 
   try {

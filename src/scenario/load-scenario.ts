@@ -16,9 +16,14 @@ export const SHARES_SUM_TOLERANCE = 1e-9;
 /** Years after the start shown when the scenario does not say (common reporting horizons). */
 const DEFAULT_SHOW_YEARS = [5, 10, 20, 50];
 
+export interface LoadOptions {
+  /** A workspace's fit, used instead of the file's `data` and `fit` (which are then ignored). */
+  readonly fit?: Fit;
+}
+
 /** Load a scenario file that describes exactly one scenario (no `alternatives`). */
-export function loadScenario(file: string): Scenario {
-  const all = loadScenarios(file);
+export function loadScenario(file: string, options: LoadOptions = {}): Scenario {
+  const all = loadScenarios(file, options);
   if (all.length !== 1) throw new Error(`internal: ${file} lists ${all.length} alternatives`);
   return all[0]!;
 }
@@ -29,18 +34,12 @@ export function loadScenario(file: string): Scenario {
  * file:line:column and the key path. A file with `alternatives` gives one scenario per
  * alternative (the first is the baseline), all sharing data, start, horizon and uncertainty.
  */
-export function loadScenarios(file: string): Scenario[] {
+export function loadScenarios(file: string, options: LoadOptions = {}): Scenario[] {
   const { value: s, sha256, locate } = readStructured(file, scenarioSchema, 'scenario file', 'BAD_SCENARIO');
   const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
     throw new SereError(code, what, locate(path), hint);
   };
-  // Relative to the scenario file; shown and recorded relative to the working folder, so output
-  // does not carry this machine's absolute paths.
-  const dataFile = relative(process.cwd(), resolve(dirname(file), s.data));
-  const isFitFile = dataFile.toLowerCase().endsWith('.json');
-  if (isFitFile && s.fit) fail('BAD_SCENARIO', 'fit settings apply only to a survey table, not to a fit file', ['fit'],
-    'remove the fit block, or name the survey table (.csv) in data');
-  const fit = fitFromFile(dataFile, fitSettings(s, locate(['fit', 'impossible'])));
+  const fit = options.fit ?? fitOfData(s, file, fail, locate);
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);
@@ -119,6 +118,22 @@ function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['star
     return { total: fit.latest.sites, start: fit.latest.counts };
   }
   return { total: plots, start: largestRemainder(Array.from(start.shares), plots) };
+}
+
+function fitOfData(s: ScenarioFile, file: string,
+  fail: (code: 'BAD_SCENARIO', what: string, path: KeyPath, hint: string) => never, locate: (path: KeyPath) => Place): Fit {
+  if (s.data === undefined) {
+    return fail('BAD_SCENARIO', 'data is required: name a fit file (.json) or survey table (.csv)', ['data'],
+      'add "data: surveys.csv" (relative to this file), or run the scenario from a workspace');
+  }
+  // Relative to the scenario file; shown and recorded relative to the working folder, so output
+  // does not carry this machine's absolute paths.
+  const dataFile = relative(process.cwd(), resolve(dirname(file), s.data));
+  if (dataFile.toLowerCase().endsWith('.json') && s.fit) {
+    fail('BAD_SCENARIO', 'fit settings apply only to a survey table, not to a fit file', ['fit'],
+      'remove the fit block, or name the survey table (.csv) in data');
+  }
+  return fitFromFile(dataFile, fitSettings(s, locate(['fit', 'impossible'])));
 }
 
 function fitSettings(s: ScenarioFile, impossiblePlace: Place): FitSettings {

@@ -10,7 +10,7 @@ const positiveInt = (what: string) => z.number({ error: `${what} must be a numbe
 const stateName = z.string({ error: 'a state name is required' }).min(1, { error: 'a state name is required' });
 
 /** How to fit a survey table named by `data` (the same settings as `sere fit`'s flags). */
-const fitSettingsSchema = z.strictObject({
+export const fitSettingsSchema = z.strictObject({
   step: positiveInt('fit.step').optional(),
   prior: z.union([z.enum(['jeffreys', 'uniform']), z.number().positive()],
     { error: 'prior must be jeffreys, uniform or a positive number' }).optional(),
@@ -110,8 +110,8 @@ export const scenarioSchema = z.strictObject({
   name: z.string().min(1).optional(),
   description: z.string().optional(),
   /** A fit file from `sere fit --out` (.json) or a survey table (.csv) fitted on the fly. Required. */
-  data: z.string({ error: 'data is required: name a fit file (.json) or survey table (.csv)' }).min(1)
-    .describe('A fit file from sere fit --out (.json) or a survey table (.csv), relative to this file.'),
+  data: z.string({ error: 'data must name a fit file (.json) or survey table (.csv)' }).min(1).optional()
+    .describe('A fit file from sere fit --out (.json) or a survey table (.csv), relative to this file. Required, except in a workspace, whose surveys are used.'),
   fit: fitSettingsSchema.optional(),
   uncertainty: z.strictObject({
     /** Default posterior. */

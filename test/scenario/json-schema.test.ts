@@ -13,7 +13,7 @@ describe('schema/scenario.schema.json', () => {
     expect(treatment.oneOf).toEqual([{ required: ['multiply'] }, { required: ['set'] }, { required: ['move'] }]);
     expect(schema.properties.events.items.oneOf).toEqual([{ required: ['chance'] }, { required: ['every'] }]);
     expect(schema.properties.level.default).toBe(0.9);
-    expect(schema.required).toEqual(['data', 'horizon']);
+    expect(schema.required).toEqual(['horizon']);
   });
 });
 

@@ -1,0 +1,79 @@
+import { existsSync, readFileSync } from 'node:fs';
+import { basename, dirname, join, relative } from 'node:path';
+import { InvalidArgumentError, type Command } from 'commander';
+import { SereError } from '../errors.js';
+import { loadWorkspace, workspaceRoot } from '../workspace/workspace.js';
+import { runSeason } from '../workspace/season.js';
+import { freeRecordName, listRecords, writeFolderAtomic } from '../workspace/record-folder.js';
+import { readRecord } from '../workspace/read-record.js';
+import { initWorkspace } from '../workspace/init.js';
+import { seasonTable } from '../report/season-table.js';
+import { makeStyle } from '../report/style.js';
+import { freshSeed } from '../uncertainty/random.js';
+import type { Io } from './io.js';
+
+function isoDate(value: string): string {
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(value) || Number.isNaN(Date.parse(value))) throw new InvalidArgumentError('expected a date as YYYY-MM-DD.');
+  return value;
+}
+
+export function registerSeason(program: Command, io: Io): void {
+  program.command('init')
+    .description('create a workspace holding the invented demo, ready for sere season')
+    .argument('<folder>', 'a new or empty folder')
+    .action((folder: string) => {
+      const files = initWorkspace(folder);
+      io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: cd ${folder} && sere season\n`);
+    });
+
+  program.command('season')
+    .description("every season: refit, rerun every scenario and comparison, write a dated record, say what changed")
+    .argument('[folder]', 'the workspace folder (holding sere-workspace.yaml); default: here')
+    .option('--date <YYYY-MM-DD>', "the record's date (default: today)", isoDate)
+    .option('--replay <record>', 'rerun a record from its own inputs and check every output is identical')
+    .action((folder: string | undefined, opts: { date?: string; replay?: string }) => {
+      if (opts.replay) {
+        replay(opts.replay, io);
+        return;
+      }
+      const root = workspaceRoot(folder);
+      const ws = loadWorkspace(root);
+      const recordsDir = join(root, ws.records);
+      const earlier = listRecords(recordsDir);
+      const last = earlier[earlier.length - 1];
+      const previous = last ? readRecord(join(recordsDir, last), last) : undefined;
+      const date = opts.date ?? new Date().toISOString().slice(0, 10);
+      const run = runSeason(ws, { date, freshSeed, previous });
+      const name = freeRecordName(recordsDir, date);
+      const target = join(recordsDir, name);
+      writeFolderAtomic(target, run.files);
+      io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
+    });
+}
+
+/** Rerun a record from the copies in its inputs/ folder, with its seeds and date, and compare. */
+function replay(record: string, io: Io): void {
+  if (!existsSync(join(record, 'manifest.json'))) {
+    throw new SereError('FILE_NOT_FOUND', 'is not a sere record (no manifest.json)', { file: record }, 'name a folder inside the records folder');
+  }
+  const stored = readRecord(record, basename(record));
+  const ws = loadWorkspace(join(record, 'inputs'));
+  const previousName = stored.manifest.previous;
+  const previousDir = previousName ? join(dirname(record), previousName) : undefined;
+  if (previousDir && !existsSync(join(previousDir, 'manifest.json'))) {
+    throw new SereError('FILE_NOT_FOUND', `the previous record ${previousName} is missing, so what changed cannot be redone`,
+      { file: previousDir }, 'replay within the records folder that holds both');
+  }
+  const seeds = Object.fromEntries(stored.manifest.scenarios.map((s) => [s.file, s.seed]));
+  const run = runSeason(ws, {
+    date: stored.manifest.date, seeds, freshSeed: () => { throw new Error('internal: a replay needs no fresh seed'); },
+    previous: previousDir ? readRecord(previousDir, previousName!) : undefined,
+  });
+  const differing = [...run.files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
+    .map(([path]) => path);
+  if (differing.length > 0) {
+    throw new SereError('BAD_FIT_FILE', `replay differs in ${differing.length} of ${run.files.size} files: ${differing.join(', ')}`,
+      { file: record }, 'same inputs and seeds should give identical files; was the record edited, or the tool version changed?');
+  }
+  io.stdout(`${record}: replayed from its own inputs; all ${run.files.size} files identical\n`);
+}

@@ -1,0 +1,51 @@
+import { createHash } from 'node:crypto';
+import { SereError } from '../errors.js';
+import { readSurveyCsv, type ReadSurveyOptions } from './read-survey-csv.js';
+import type { SurveyRecord, SurveyTable } from './survey.js';
+
+/**
+ * Several survey tables read as one — typically one file per season, the same sites surveyed
+ * again. States are the declared ones, or the union of every file's states, sorted; a site
+ * surveyed at the same time in two files must agree (the error names both files). The SHA-256 is
+ * of the files' own hashes in order, so any change in any file shows.
+ */
+export function readSurveyTables(files: readonly string[], options: ReadSurveyOptions): SurveyTable {
+  const tables = files.map((file) => readSurveyCsv(file, options));
+  if (tables.length === 1) return tables[0]!;
+  const states = options.states ? [...options.states] : [...new Set(tables.flatMap((t) => t.states))].sort();
+  if (!options.states) {
+    const byFold = new Map<string, string>();
+    for (const s of states) {
+      const clash = byFold.get(s.toLowerCase());
+      if (clash !== undefined) {
+        throw new SereError('STATE_CASE_CLASH', `state '${s}' in one survey file differs from '${clash}' in another only by case`,
+          { file: files.join(', ') }, 'use one spelling in every file, or declare the states');
+      }
+      byFold.set(s.toLowerCase(), s);
+    }
+  }
+  const seen = new Map<string, { file: string; record: SurveyRecord; label: string }>();
+  const records: SurveyRecord[] = [];
+  let repeatedRows = 0;
+  tables.forEach((table) => {
+    for (const r of table.records) {
+      const label = table.states[r.state]!;
+      const record = { ...r, state: states.indexOf(label) };
+      const key = `${r.site}\u0000${r.time}`;
+      const first = seen.get(key);
+      if (!first) {
+        seen.set(key, { file: table.file, record, label });
+        records.push(record);
+      } else if (first.label !== label) {
+        throw new SereError('DUPLICATE_SURVEY',
+          `site '${r.site}' at time ${r.time} is '${label}' here but '${first.label}' in ${first.file} line ${first.record.line}`,
+          { file: table.file, line: r.line }, 'keep one of the two rows');
+      } else {
+        repeatedRows += 1;
+      }
+    }
+    repeatedRows += table.repeatedRows;
+  });
+  const sha256 = createHash('sha256').update(tables.map((t) => t.sha256).join('\n')).digest('hex');
+  return { file: files.join(', '), states, records, repeatedRows, sha256 };
+}

@@ -1,0 +1,67 @@
+import { existsSync, readdirSync, readFileSync, rmdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { parseDocument } from 'yaml';
+import { SereError } from '../errors.js';
+import { writeFolderAtomic } from './record-folder.js';
+import { WORKSPACE_FILE } from './workspace.js';
+
+/** The demo's folder, found from wherever this code runs (sources, compiled, or bundled). */
+function demoFolder(): string {
+  for (const up of ['../../scenarios/brenhollow', '../../../scenarios/brenhollow']) {
+    const path = fileURLToPath(new URL(up, import.meta.url));
+    if (existsSync(join(path, 'surveys.csv'))) return path;
+  }
+  throw new Error('internal: the demo scenarios are not installed next to sere');
+}
+
+function schemaFile(): string {
+  for (const up of ['../../schema/scenario.schema.json', '../../../schema/scenario.schema.json']) {
+    const path = fileURLToPath(new URL(up, import.meta.url));
+    if (existsSync(path)) return path;
+  }
+  throw new Error('internal: schema/scenario.schema.json is not installed next to sere');
+}
+
+const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-grass'];
+
+/**
+ * A new workspace holding the invented Brenhollow demo, ready for `sere season`: the survey table,
+ * the demo scenarios (their own `data` and `fit` removed — the workspace supplies both), the
+ * scenario JSON Schema for editors, and the workspace file. The folder must not exist or be empty.
+ */
+export function initWorkspace(dir: string): string[] {
+  if (existsSync(dir) && readdirSync(dir).length > 0) {
+    throw new SereError('FILE_EXISTS', 'is not empty; nothing was written', { file: dir }, 'choose a new or empty folder');
+  }
+  const demo = demoFolder();
+  const files = new Map<string, string>();
+  files.set(WORKSPACE_FILE, [
+    '# A sere workspace (invented demo: Brenhollow Saltings). Run `sere season` here after each season\'s surveys.',
+    'name: Brenhollow Saltings',
+    'surveys:                      # add next season\'s table to this list',
+    '  - surveys/brenhollow-2015-2024.csv',
+    'fit:',
+    `  states: [${DEMO_STATES.join(', ')}]`,
+    '  impossible: [mudflat>high-marsh, rank-grass>mudflat]',
+    '  columns: { group: zone }',
+    'scenarios:',
+    '  - scenarios/no-action.yaml',
+    '  - scenarios/storm-surges.yaml',
+    '  - scenarios/options.yaml',
+    'records: records',
+    '',
+  ].join('\n'));
+  files.set('surveys/brenhollow-2015-2024.csv', readFileSync(join(demo, 'surveys.csv'), 'utf8'));
+  for (const name of ['no-action.yaml', 'storm-surges.yaml', 'options.yaml']) {
+    const doc = parseDocument(readFileSync(join(demo, name), 'utf8'));
+    doc.delete('data');
+    doc.delete('fit');
+    const text = doc.toString().replace(/^# yaml-language-server: .*$/m, '# yaml-language-server: $schema=../scenario.schema.json');
+    files.set(`scenarios/${name}`, text);
+  }
+  files.set('scenario.schema.json', readFileSync(schemaFile(), 'utf8'));
+  if (existsSync(dir)) rmdirSync(dir); // empty, checked above: the atomic write creates it afresh
+  writeFolderAtomic(dir, files);
+  return [...files.keys()];
+}

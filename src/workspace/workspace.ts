@@ -1,0 +1,77 @@
+import { join, relative, resolve } from 'node:path';
+import { z } from 'zod';
+import { SereError } from '../errors.js';
+import { readStructured } from '../data/read-structured.js';
+import { DEFAULT_COLUMNS } from '../data/survey.js';
+import { fitSettingsSchema } from '../scenario/schema.js';
+import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
+import { MAX_SEED } from '../uncertainty/random.js';
+
+/** The file that makes a folder a sere workspace. */
+export const WORKSPACE_FILE = 'sere-workspace.yaml';
+
+const workspaceSchema = z.strictObject({
+  name: z.string().min(1).describe('The landscape or project; shown in every record.'),
+  surveys: z.array(z.string().min(1)).min(1, { error: 'list at least one survey table' })
+    .describe('Survey tables (.csv), relative to the workspace; one per season is fine — they are read as one.'),
+  fit: fitSettingsSchema.optional(),
+  scenarios: z.array(z.string().min(1)).min(1, { error: 'list at least one scenario file' })
+    .describe('Scenario files run every season; a file listing alternatives is also compared.'),
+  records: z.string().min(1).default('records').describe('Folder of the dated records; default records.'),
+  seed: z.number().int().positive().max(MAX_SEED).optional()
+    .describe('Seed for scenarios that name none; default: a fresh seed, kept in the record.'),
+});
+
+export interface Workspace {
+  readonly root: string;
+  readonly file: string;
+  readonly name: string;
+  /** Paths relative to the root. */
+  readonly surveys: readonly string[];
+  readonly scenarios: readonly string[];
+  readonly records: string;
+  readonly seed?: number;
+  readonly fitSettings: FitSettings;
+}
+
+/** Read `sere-workspace.yaml` in `root`, checking that every file it names exists inside the folder. */
+export function loadWorkspace(root: string): Workspace {
+  const file = join(root, WORKSPACE_FILE);
+  const { value: w, locate } = readStructured(file, workspaceSchema, 'workspace file', 'BAD_SCENARIO');
+  const inside = (path: string, key: (string | number)[]): string => {
+    const rel = relative(root, resolve(root, path));
+    if (rel.startsWith('..')) {
+      throw new SereError('BAD_SCENARIO', `'${path}' is outside the workspace`, locate(key),
+        'keep surveys, scenarios and records inside the workspace folder, so a record can copy them');
+    }
+    return rel.split('\\').join('/');
+  };
+  const f = w.fit;
+  const fitSettings: FitSettings = f
+    ? {
+      step: f.step ?? DEFAULT_FIT_SETTINGS.step,
+      prior: f.prior ?? DEFAULT_FIT_SETTINGS.prior,
+      states: f.states,
+      impossible: parseImpossible(f.impossible ?? [], locate(['fit', 'impossible'])),
+      columns: { ...DEFAULT_COLUMNS, ...f.columns },
+      group: f.group,
+    }
+    : DEFAULT_FIT_SETTINGS;
+  return {
+    root,
+    file,
+    name: w.name,
+    surveys: w.surveys.map((s, n) => inside(s, ['surveys', n])),
+    scenarios: w.scenarios.map((s, n) => inside(s, ['scenarios', n])),
+    records: inside(w.records, ['records']),
+    seed: w.seed,
+    fitSettings,
+  };
+}
+
+/** The folder holding `sere-workspace.yaml`: the given one (default: the working folder). */
+export function workspaceRoot(dir: string | undefined): string {
+  return resolve(dir ?? '.');
+}
+
