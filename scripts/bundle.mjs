@@ -4,7 +4,11 @@
 // a chunk loaded only by that command — in one file they cost every command ~0.1 s to compile.
 // The bundle's code is exactly the compiled sources and pinned dependencies; `tsc` still
 // type-checks everything first.
+import { rmSync } from 'node:fs';
 import { build } from 'esbuild';
+
+// Chunks are named by content hash: clear the folder so stale ones do not pile up.
+rmSync('dist/cli', { recursive: true, force: true });
 
 await build({
   entryPoints: { sere: 'src/bin/sere.ts' },

@@ -6,13 +6,13 @@ import { makeStyle } from '../report/style.js';
 import { seededRandom } from '../uncertainty/random.js';
 import { chooseSeed } from './seed.js';
 import type { Io } from './io.js';
-import { loadAndCheck, withRunOptions, type RunOptions } from './scenario-run.js';
+import { loadAndCheck, withRunOptions, writeChart, type RunOptions } from './scenario-run.js';
 import { progressReporter } from './progress.js';
 
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
     .description('project the mix of states with credible bands, long-run mix and time to a landscape target'))
-    .action((files: string[], opts: RunOptions) => {
+    .action(async (files: string[], opts: RunOptions) => {
       const scenarios = loadAndCheck(files, opts);
       // A file's alternatives share one seed, and so the same draws and event years.
       const seeds = new Map<string, number>();
@@ -26,6 +26,10 @@ export function registerForecast(program: Command, io: Io): void {
           progress.stop();
         }
       });
+      if (opts.chart) {
+        const title = results.length === 1 ? results[0]!.scenario.name : `${results.length} scenarios`;
+        await writeChart(opts.chart, results, title, Boolean(opts.force), io);
+      }
       if (opts.json) {
         io.stdout(JSON.stringify(forecastJson(results), null, 2) + '\n');
         return;

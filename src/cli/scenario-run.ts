@@ -3,12 +3,17 @@ import { loadScenarios } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { positiveInteger } from './parse-options.js';
+import type { ForecastResult } from '../engine/forecast.js';
+import type { Io } from './io.js';
+import { writeFileAtomic } from './write-file.js';
 
 /** The flags shared by commands that run scenarios. */
 export interface RunOptions {
   seed?: number;
   draws?: number;
   json?: boolean;
+  chart?: string;
+  force?: boolean;
 }
 
 export function withRunOptions(command: Command): Command {
@@ -16,7 +21,17 @@ export function withRunOptions(command: Command): Command {
     .argument('<scenario.yaml...>', 'scenario files (a file may list alternatives)')
     .option('--seed <n>', 'random seed (overrides the scenario file)', positiveInteger)
     .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', positiveInteger)
-    .option('--json', 'print the documented JSON on stdout instead of tables');
+    .option('--json', 'print the documented JSON on stdout instead of tables')
+    .option('--chart <file.svg>', 'also draw a fan chart (SVG): shares by year with their bands, one panel per state')
+    .option('--force', 'replace an existing --chart file');
+}
+
+/** Draw the fan chart of `results` to `file` (vega loaded only when asked). */
+export async function writeChart(file: string, results: readonly ForecastResult[], title: string, force: boolean, io: Io): Promise<void> {
+  const { fanChartSpec } = await import('../report/charts.js');
+  const { renderSvg } = await import('../report/render-svg.js');
+  writeFileAtomic(file, await renderSvg(fanChartSpec(results, title)), force);
+  io.stderr(`wrote ${file}\n`);
 }
 
 /**

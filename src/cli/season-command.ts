@@ -31,9 +31,9 @@ export function registerSeason(program: Command, io: Io): void {
     .argument('[folder]', 'the workspace folder (holding sere-workspace.yaml); default: here')
     .option('--date <YYYY-MM-DD>', "the record's date (default: today)", isoDate)
     .option('--replay <record>', 'rerun a record from its own inputs and check every output is identical')
-    .action((folder: string | undefined, opts: { date?: string; replay?: string }) => {
+    .action(async (folder: string | undefined, opts: { date?: string; replay?: string }) => {
       if (opts.replay) {
-        replay(opts.replay, io);
+        await replay(opts.replay, io);
         return;
       }
       const root = workspaceRoot(folder);
@@ -43,7 +43,7 @@ export function registerSeason(program: Command, io: Io): void {
       const last = earlier[earlier.length - 1];
       const previous = last ? readRecord(join(recordsDir, last), last) : undefined;
       const date = opts.date ?? new Date().toISOString().slice(0, 10);
-      const run = runSeason(ws, { date, freshSeed, previous });
+      const run = await runSeason(ws, { date, freshSeed, previous });
       const name = freeRecordName(recordsDir, date);
       const target = join(recordsDir, name);
       writeFolderAtomic(target, run.files);
@@ -52,7 +52,7 @@ export function registerSeason(program: Command, io: Io): void {
 }
 
 /** Rerun a record from the copies in its inputs/ folder, with its seeds and date, and compare. */
-function replay(record: string, io: Io): void {
+async function replay(record: string, io: Io): Promise<void> {
   if (!existsSync(join(record, 'manifest.json'))) {
     throw new SereError('FILE_NOT_FOUND', 'is not a sere record (no manifest.json)', { file: record }, 'name a folder inside the records folder');
   }
@@ -65,7 +65,7 @@ function replay(record: string, io: Io): void {
       { file: previousDir }, 'replay within the records folder that holds both');
   }
   const seeds = Object.fromEntries(stored.manifest.scenarios.map((s) => [s.file, s.seed]));
-  const run = runSeason(ws, {
+  const run = await runSeason(ws, {
     date: stored.manifest.date, seeds, freshSeed: () => { throw new Error('internal: a replay needs no fresh seed'); },
     previous: previousDir ? readRecord(previousDir, previousName!) : undefined,
   });

@@ -46,13 +46,15 @@ export interface Comparison {
  * and Analysis, ch. 11). The first scenario is the baseline.
  */
 export function runComparison(scenarios: readonly Scenario[], random: RandomSource,
-  onProgress?: (done: number, total: number) => void): Comparison {
+  onProgress?: (done: number, total: number) => void, options: { readonly everyYear?: boolean } = {}): Comparison {
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
   const matrices = drawMatrices(first.fit, first.source, draws, random);
   const total = draws * scenarios.length;
   // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
-  const record = [...new Set([...first.showSteps, first.horizonSteps])].sort((a, b) => a - b);
+  const record = options.everyYear
+    ? Array.from({ length: first.horizonSteps + 1 }, (_, t) => t)
+    : [...new Set([...first.showSteps, first.horizonSteps])].sort((a, b) => a - b);
   const sims = scenarios.map((sc, n) =>
     simulate(sc, matrices, random.seed, {}, onProgress && ((done) => onProgress(n * draws + done, total)), record));
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.

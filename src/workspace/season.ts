@@ -50,7 +50,7 @@ export function stemOf(path: string): string {
  * JSON summaries, tidy CSV tables, what changed, and a manifest of hashes, seeds and version.
  * Paths inside outputs are relative to the workspace, so a record reruns identically elsewhere.
  */
-export function runSeason(ws: Workspace, options: SeasonOptions): SeasonRun {
+export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
   let table = readSurveyTables(surveyPaths, { columns: settings.columns, states: settings.states });
@@ -87,6 +87,13 @@ export function runSeason(ws: Workspace, options: SeasonOptions): SeasonRun {
     files.set(`tables/${stemOf(file)}.csv`, tidyCsv(results));
   }
   for (const { file, comparison } of comparisons) files.set(`comparisons/${stemOf(file)}.json`, json(comparisonJson(comparison)));
+  // Charts load vega on demand: it is large, and only records and --chart need it.
+  const { fanChartSpec } = await import('../report/charts.js');
+  const { renderSvg } = await import('../report/render-svg.js');
+  for (const { file, results } of forecasts) {
+    const title = results.length > 1 ? `${ws.name}: ${stemOf(file)} — alternatives compared` : results[0]!.scenario.name;
+    files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title)));
+  }
   files.set('changes.json', json(changes));
   files.set('manifest.json', json({
     format: 'sere-record',
