@@ -14,9 +14,10 @@ const allowed: Record<string, string[]> = {
   scenario: ['data', 'chain', 'fit', 'uncertainty'],
   engine: ['chain', 'fit', 'uncertainty', 'scenario'],
   diagnostics: ['chain', 'fit', 'uncertainty', 'engine'],
-  workspace: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'report'],
-  report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics', 'workspace'],
-  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'workspace', 'report'],
+  evaluation: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine'],
+  workspace: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'evaluation', 'report'],
+  report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics', 'evaluation', 'workspace'],
+  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'evaluation', 'workspace', 'report'],
 };
 
 function sources(dir: string): string[] {

@@ -6,6 +6,7 @@ import { registerForecast } from './forecast-command.js';
 import { registerCompare } from './compare-command.js';
 import { registerCheck } from './check-command.js';
 import { registerSeason } from './season-command.js';
+import { registerHindcast } from './hindcast-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -28,6 +29,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
   registerCompare(program, io);
   registerCheck(program, io);
   registerSeason(program, io);
+  registerHindcast(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
 
   try {

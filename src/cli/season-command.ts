@@ -40,10 +40,10 @@ export function registerSeason(program: Command, io: Io): void {
       const ws = loadWorkspace(root);
       const recordsDir = join(root, ws.records);
       const earlier = listRecords(recordsDir);
-      const last = earlier[earlier.length - 1];
-      const previous = last ? readRecord(join(recordsDir, last), last) : undefined;
+      const stored = earlier.map((name) => readRecord(join(recordsDir, name), name));
+      const previous = stored[stored.length - 1];
       const date = opts.date ?? new Date().toISOString().slice(0, 10);
-      const run = await runSeason(ws, { date, freshSeed, previous });
+      const run = await runSeason(ws, { date, freshSeed, previous, earlier: stored });
       const name = freeRecordName(recordsDir, date);
       const target = join(recordsDir, name);
       writeFolderAtomic(target, run.files);
@@ -65,9 +65,16 @@ async function replay(record: string, io: Io): Promise<void> {
       { file: previousDir }, 'replay within the records folder that holds both');
   }
   const seeds = Object.fromEntries(stored.manifest.scenarios.map((s) => [s.file, s.seed]));
+  const earlier = (stored.manifest.scored ?? []).map((name) => {
+    const dir = join(dirname(record), name);
+    if (!existsSync(join(dir, 'manifest.json'))) {
+      throw new SereError('FILE_NOT_FOUND', `the earlier record ${name} it scored is missing`, { file: dir }, 'replay within the records folder that holds both');
+    }
+    return readRecord(dir, name);
+  });
   const run = await runSeason(ws, {
     date: stored.manifest.date, seeds, freshSeed: () => { throw new Error('internal: a replay needs no fresh seed'); },
-    previous: previousDir ? readRecord(previousDir, previousName!) : undefined,
+    previous: previousDir ? readRecord(previousDir, previousName!) : undefined, earlier,
   });
   const differing = [...run.files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
     .map(([path]) => path);

@@ -50,6 +50,26 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       lines.push(style.dim('Fitted (MLE) probabilities that moved most:'), p.toString());
     }
   }
+  if (run.scores.length > 0) {
+    lines.push('', style.bold('Were earlier forecasts any good? (years now surveyed)'));
+    const groups = new Map<string, typeof run.scores[number][]>();
+    for (const sc of run.scores) {
+      const key = `${sc.record}\u0000${sc.scenario}`;
+      groups.set(key, [...(groups.get(key) ?? []), sc]);
+    }
+    const t = makeTable(['record', 'scenario', 'years', 'inside the band', 'log score', 'Brier score'], style,
+      ['left', 'left', 'left', 'right', 'right', 'right']);
+    for (const list of groups.values()) {
+      const inside = list.reduce((a, x) => a + x.covered, 0);
+      const total = list.reduce((a, x) => a + x.states, 0);
+      const mean = (f: (x: typeof list[number]) => number): string => (list.reduce((a, x) => a + f(x), 0) / list.length).toFixed(3);
+      t.push([list[0]!.record, list[0]!.scenario, list.map((x) => x.year).join(', '),
+        `${inside} of ${total}${list[0]!.plotBands ? '' : ' (share bands)'}`, mean((x) => x.logScore), mean((x) => x.brierScore)]);
+    }
+    lines.push(t.toString());
+    lines.push(style.dim('Only forecasts from the surveyed mix without treatments are scored; share bands leave out plot-level chance ' +
+      '(add plots to a scenario for prediction bands). Scores: per site, lower is better (Gneiting & Raftery 2007).'));
+  }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
 }

@@ -2,11 +2,14 @@ import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { SereError } from '../errors.js';
 import type { StoredFit, StoredForecast } from './changes.js';
+import type { ScorableForecast } from './score-records.js';
 
 export interface RecordManifest {
   readonly date: string;
   readonly previous: string | null;
   readonly scenarios: readonly { readonly file: string; readonly seed: number }[];
+  /** Earlier records whose forecasts this one scored. */
+  readonly scored: readonly string[];
   readonly contents: readonly string[];
 }
 
@@ -15,7 +18,7 @@ export interface StoredRecord {
   readonly dir: string;
   readonly manifest: RecordManifest;
   readonly fit: StoredFit;
-  readonly forecasts: readonly StoredForecast[];
+  readonly forecasts: readonly (StoredForecast & ScorableForecast)[];
 }
 
 function readJson<T>(file: string): T {
@@ -33,7 +36,7 @@ export function readRecord(dir: string, name: string): StoredRecord {
   const folder = join(dir, 'forecasts');
   const forecasts = existsSync(folder)
     ? readdirSync(folder).filter((f) => f.endsWith('.json')).sort()
-      .flatMap((f) => readJson<{ scenarios: StoredForecast[] }>(join(folder, f)).scenarios)
+      .flatMap((f) => readJson<{ scenarios: (StoredForecast & ScorableForecast)[] }>(join(folder, f)).scenarios)
     : [];
   return { name, dir, manifest, fit, forecasts };
 }

@@ -18,6 +18,8 @@ import { seededRandom } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
+import { scoreRecord, type RecordScore, type ScorableForecast } from './score-records.js';
+import { observedMixes } from '../evaluation/observed.js';
 
 export interface SeasonOptions {
   /** The record's date, YYYY-MM-DD. */
@@ -27,6 +29,8 @@ export interface SeasonOptions {
   readonly freshSeed: () => number;
   /** The previous record, read back, to say what changed. */
   readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly forecasts: readonly StoredForecast[] };
+  /** Earlier records whose forecasts are scored against the surveys made since. */
+  readonly earlier?: readonly { readonly name: string; readonly forecasts: readonly ScorableForecast[] }[];
 }
 
 export interface SeasonRun {
@@ -34,6 +38,7 @@ export interface SeasonRun {
   readonly forecasts: readonly { readonly file: string; readonly results: readonly ForecastResult[] }[];
   readonly comparisons: readonly { readonly file: string; readonly comparison: Comparison }[];
   readonly changes: Changes | null;
+  readonly scores: readonly RecordScore[];
   readonly seeds: Readonly<Record<string, number>>;
   /** Every file of the record, by path inside it. */
   readonly files: ReadonlyMap<string, string>;
@@ -78,6 +83,9 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
     : null;
 
+  const observed = observedMixes(table.records, fit.states.length);
+  const scores = (options.earlier ?? []).flatMap((r) => scoreRecord(r.name, r.forecasts, observed, fit.states));
+
   const files = new Map<string, string>();
   const json = (x: unknown): string => JSON.stringify(x, null, 2) + '\n';
   for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) files.set(`inputs/${rel}`, readFileSync(join(ws.root, rel), 'utf8'));
@@ -95,6 +103,7 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title)));
   }
   files.set('changes.json', json(changes));
+  files.set('scores.json', json(scores));
   files.set('manifest.json', json({
     format: 'sere-record',
     format_version: 1,
@@ -102,10 +111,11 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     workspace: ws.name,
     date: options.date,
     previous: options.previous?.name ?? null,
+    scored: (options.earlier ?? []).map((r) => r.name),
     data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
     scenarios: ws.scenarios.map((rel) => ({ file: rel, seed: seeds[rel] })),
     contents: [...files.keys()].sort(),
   }));
-  return { fit, forecasts, comparisons, changes, seeds, files };
+  return { fit, forecasts, comparisons, changes, scores, seeds, files };
 }
 

@@ -60,6 +60,18 @@ describe('sere season (built binary)', () => {
     expect(changes.transitions.now - changes.transitions.before).toBe(58);
     expect(changes.moved.length).toBeGreaterThan(0);
     expect(next.stdout).toContain('data changed: +58 transitions');
+    // The 2023 records forecast 2024, now surveyed: scored (no-action with share bands, storm
+    // surges with plot bands; the options file's treated alternatives are not scored).
+    const scores = JSON.parse(readFileSync(join(dir, 'records', '2026-09-30', 'scores.json'), 'utf8'));
+    const scoredFirst = scores.filter((x: { record: string }) => x.record === '2025-09-30');
+    // In the record's file order: forecasts/scenarios-no-action, -options, -storm-surges.
+    expect(scoredFirst.map((x: { scenario: string }) => x.scenario)).toEqual(['Brenhollow Saltings — no further management',
+      'Brenhollow options: do nothing', 'Brenhollow Saltings — no management, with storm surges']);
+    expect(scoredFirst.map((x: { year: number }) => x.year)).toEqual([2024, 2024, 2024]);
+    expect(scoredFirst.map((x: { plotBands: boolean }) => x.plotBands)).toEqual([false, false, true]);
+    // The generator never misses the last year's survey: all 60 plots were surveyed in 2024.
+    for (const x of scoredFirst) { expect(x.sites).toBe(60); expect(x.logScore).toBeGreaterThan(0); expect(x.covered).toBeLessThanOrEqual(5); }
+    expect(next.stdout).toContain('Were earlier forecasts any good?');
     expect(sere(['season', '--replay', join(dir, 'records', '2026-09-30')]).code).toBe(0);
   });
 

@@ -1,0 +1,54 @@
+import { InvalidArgumentError, type Command } from 'commander';
+import { readSurveyCsv } from '../data/read-survey-csv.js';
+import { hindcast } from '../evaluation/hindcast.js';
+import { hindcastTable } from '../report/hindcast-table.js';
+import { makeStyle } from '../report/style.js';
+import { TOOL_VERSION } from '../version.js';
+import { freshSeed } from '../uncertainty/random.js';
+import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
+import type { Io } from './io.js';
+import { level, positiveInteger } from './parse-options.js';
+import { SereError } from '../errors.js';
+
+interface HindcastOptions extends FitFlags {
+  years: number[];
+  draws: number;
+  level: number;
+  seed?: number;
+  json?: boolean;
+}
+
+const yearList = (value: string): number[] => value.split(',').map((v) => {
+  const n = Number(v);
+  if (!Number.isInteger(n) || n <= 0) throw new InvalidArgumentError('expected years ahead such as 1,2,5.');
+  return n;
+});
+
+export function registerHindcast(program: Command, io: Io): void {
+  withFitOptions(program.command('hindcast')
+    .description('how far ahead can the chain be trusted? refit on the past, forecast surveys already made, score them')
+    .argument('<survey.csv>', 'the survey table'))
+    .option('--years <a,b,...>', 'years ahead to test (multiples of the step)', yearList, [1, 2, 5])
+    .option('--draws <n>', 'posterior draws per forecast', positiveInteger, 500)
+    .option('--level <p>', 'credible level of the bands', level, 0.9)
+    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--json', 'print the documented JSON on stdout instead of tables')
+    .action((file: string, opts: HindcastOptions) => {
+      const settings = fitSettingsFrom(opts);
+      for (const y of opts.years) {
+        if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);
+      }
+      const seed = opts.seed ?? freshSeed();
+      if (opts.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+      const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
+      const { cases, summary } = hindcast(table, settings, {
+        horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, seed,
+      });
+      if (opts.json) {
+        io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 1, tool_version: TOOL_VERSION, file, seed, level: opts.level,
+          step: settings.step, summary: summary.map((s) => ({ ...s, years: s.steps * settings.step })), cases }, null, 2) + '\n');
+        return;
+      }
+      io.stdout(hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color)));
+    });
+}

@@ -1,0 +1,39 @@
+import { describe, expect, it } from 'vitest';
+import { brierScore, covered, logScore } from '../src/evaluation/scores.js';
+import { hindcast } from '../src/evaluation/hindcast.js';
+import { readSurveyCsv } from '../src/data/read-survey-csv.js';
+import { DEFAULT_COLUMNS } from '../src/data/survey.js';
+import { DEFAULT_FIT_SETTINGS } from '../src/fit/fit-from-file.js';
+
+describe('proper scores (Gneiting & Raftery 2007; worked by hand)', () => {
+  it('log score: −mean ln p of the observed states', () => {
+    // 3 sites in state 0 (p = .5) and 1 in state 2 (p = .25): −(3 ln .5 + ln .25)/4 = 5 ln 2 / 4.
+    expect(logScore([0.5, 0.25, 0.25], [3, 0, 1])).toBeCloseTo((5 * Math.log(2)) / 4, 14);
+    expect(logScore([1, 0, 0], [1, 1, 0])).toBe(Infinity);
+  });
+
+  it('Brier score: mean squared distance to the observed state', () => {
+    // Observed 0: (.5−1)² + .25² + .25² = .375; observed 2: .25 + .0625 + .5625 = .875; mean over 3 + 1.
+    expect(brierScore([0.5, 0.25, 0.25], [3, 0, 1])).toBeCloseTo((3 * 0.375 + 0.875) / 4, 14);
+    expect(brierScore([1, 0, 0], [5, 0, 0])).toBe(0);
+  });
+
+  it('coverage counts values inside their bands, ends included', () => {
+    expect(covered([0.1, 0.5, 0.9], [0.1, 0.2, 0.95], [0.2, 0.5, 1])).toBe(2);
+  });
+});
+
+describe('hindcast', () => {
+  it('forecasts every surveyed time from each earlier one, with persistence alongside', () => {
+    const table = readSurveyCsv('scenarios/brenhollow/surveys.csv', { columns: DEFAULT_COLUMNS });
+    const { cases, summary } = hindcast(table, DEFAULT_FIT_SETTINGS, { horizons: [1, 3], draws: 200, level: 0.9, seed: 4 });
+    // Surveys 2015–2024: one-step forecasts from 2016 … 2023 (2015 has no transitions yet), three-step from 2016 … 2021.
+    expect(cases.filter((c) => c.steps === 1).map((c) => c.origin)).toEqual([2016, 2017, 2018, 2019, 2020, 2021, 2022, 2023]);
+    expect(cases.filter((c) => c.steps === 3).map((c) => c.target)).toEqual([2019, 2020, 2021, 2022, 2023, 2024]);
+    expect(summary.map((s) => s.cases)).toEqual([8, 6]);
+    for (const s of summary) {
+      expect(s.coverage).toBeGreaterThan(0.5);
+      expect(s.logScore).toBeLessThan(s.persistenceLogScore + 0.05);
+    }
+  });
+});
