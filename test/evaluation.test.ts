@@ -37,3 +37,24 @@ describe('hindcast', () => {
     }
   });
 });
+
+describe('survey effort (preposterior)', () => {
+  it('expects narrower bands with more sites and more seasons, starting from the current width', async () => {
+    const { surveyEffort } = await import('../src/evaluation/survey-effort.js');
+    const { loadScenario } = await import('../src/scenario/load-scenario.js');
+    const { runForecast } = await import('../src/engine/forecast.js');
+    const { seededRandom } = await import('../src/uncertainty/random.js');
+    const scenario = { ...loadScenario('scenarios/brenhollow/no-action.yaml'), horizonSteps: 20 };
+    const effort = surveyEffort(scenario, { sites: [60, 240], seasons: [1, 5] }, { replicates: 8, draws: 300, seed: 9 });
+    const t = scenario.target!.state;
+    const cell = (sites: number, seasons: number): number => effort.cells.find((c) => c.sites === sites && c.seasons === seasons)!.widths[t]!;
+    expect(cell(60, 1)).toBeLessThan(effort.current[t]!);
+    expect(cell(240, 5)).toBeLessThan(cell(60, 1));
+    expect(cell(240, 5)).toBeLessThan(cell(240, 1));
+    // The current width is the forecast's own band width (different random numbers: within 15%).
+    const r = runForecast({ ...scenario, draws: 2000 }, seededRandom(3));
+    const last = r.years.length - 1;
+    const width = r.shares[t]!.high[last]! - r.shares[t]!.low[last]!;
+    expect(Math.abs(effort.current[t]! - width) / width).toBeLessThan(0.15);
+  });
+});

@@ -7,6 +7,7 @@ import { registerCompare } from './compare-command.js';
 import { registerCheck } from './check-command.js';
 import { registerSeason } from './season-command.js';
 import { registerHindcast } from './hindcast-command.js';
+import { registerEffort } from './effort-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -30,6 +31,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
   registerCheck(program, io);
   registerSeason(program, io);
   registerHindcast(program, io);
+  registerEffort(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
 
   try {

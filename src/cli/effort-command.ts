@@ -1,0 +1,46 @@
+import { InvalidArgumentError, type Command } from 'commander';
+import { loadScenario } from '../scenario/load-scenario.js';
+import { checkScenarios } from '../engine/check-treatments.js';
+import { surveyEffort } from '../evaluation/survey-effort.js';
+import { effortTable } from '../report/effort-table.js';
+import { makeStyle } from '../report/style.js';
+import { TOOL_VERSION } from '../version.js';
+import { freshSeed } from '../uncertainty/random.js';
+import type { Io } from './io.js';
+import { positiveInteger } from './parse-options.js';
+
+const counts = (value: string): number[] => value.split(',').map((v) => {
+  const n = Number(v);
+  if (!Number.isInteger(n) || n <= 0) throw new InvalidArgumentError('expected whole numbers such as 60,120,240.');
+  return n;
+});
+
+export function registerEffort(program: Command, io: Io): void {
+  program.command('effort')
+    .description('how much narrower would the bands be with more sites or more seasons of surveys?')
+    .argument('<scenario.yaml>', 'a scenario file (one scenario)')
+    .option('--sites <a,b,...>', 'sites surveyed each future season (default: 1, 2 and 4 times the latest survey)', counts)
+    .option('--seasons <a,b,...>', 'future seasons of surveys', counts, [1, 2, 5])
+    .option('--replicates <n>', 'simulated futures per cell', positiveInteger, 20)
+    .option('--draws <n>', 'posterior draws per band', positiveInteger, 500)
+    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--json', 'print the documented JSON on stdout instead of tables')
+    .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
+      const scenario = loadScenario(file);
+      checkScenarios([scenario]);
+      const n = scenario.fit.latest.sites;
+      const sites = opts.sites ?? [n, 2 * n, 4 * n];
+      const seed = opts.seed ?? scenario.seed ?? freshSeed();
+      if (opts.seed === undefined && scenario.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+      const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, seed });
+      if (opts.json) {
+        const states = scenario.fit.states;
+        const byState = (w: readonly number[]): Record<string, number> => Object.fromEntries(states.map((s, i) => [s, w[i]!]));
+        io.stdout(JSON.stringify({ format: 'sere-effort', format_version: 1, tool_version: TOOL_VERSION, scenario: scenario.name, seed,
+          level: scenario.level, horizon_year: scenario.start.year + scenario.horizonSteps * scenario.fit.step, replicates: effort.replicates,
+          current: byState(effort.current), cells: effort.cells.map((c) => ({ sites: c.sites, seasons: c.seasons, widths: byState(c.widths) })) }, null, 2) + '\n');
+        return;
+      }
+      io.stdout(effortTable(scenario, effort, makeStyle(io.color)));
+    });
+}

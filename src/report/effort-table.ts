@@ -1,0 +1,27 @@
+import type { ChalkInstance } from 'chalk';
+import type { SurveyEffort } from '../evaluation/survey-effort.js';
+import type { Scenario } from '../scenario/scenario.js';
+import { makeTable } from './style.js';
+
+/** Band widths at the horizon on a grid of future survey effort. */
+export function effortTable(scenario: Scenario, effort: SurveyEffort, style: ChalkInstance): string {
+  const states = scenario.fit.states;
+  const shown = scenario.target ? [scenario.target.state] : states.map((_, s) => s);
+  const year = scenario.start.year + scenario.horizonSteps * scenario.fit.step;
+  const seasons = [...new Set(effort.cells.map((c) => c.seasons))];
+  const sites = [...new Set(effort.cells.map((c) => c.sites))];
+  const lines = [style.bold(`Where to put survey effort — ${scenario.name}`),
+    `width of the ${Math.round(scenario.level * 100)}% band of the share in ${year}, percentage points; mean of ${effort.replicates} simulated futures`];
+  for (const s of shown) {
+    const t = makeTable([`${states[s]} — sites each season`, 'now', ...seasons.map((y) => `+${y} season${y === 1 ? '' : 's'}`)], style,
+      ['left', 'right', ...seasons.map(() => 'right' as const)]);
+    for (const n of sites) {
+      t.push([String(n), (effort.current[s]! * 100).toFixed(1),
+        ...seasons.map((y) => (effort.cells.find((c) => c.sites === n && c.seasons === y)!.widths[s]! * 100).toFixed(1))]);
+    }
+    lines.push(t.toString());
+  }
+  lines.push(style.dim('Preposterior analysis: future surveys simulated from the current posterior, then refitted. ' +
+    'Only the part of the band due to the fitted matrix shrinks; events and plot-level chance do not.'));
+  return lines.join('\n') + '\n';
+}

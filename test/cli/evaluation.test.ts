@@ -1,0 +1,26 @@
+import { describe, expect, it } from 'vitest';
+import { sere } from './binary.js';
+
+const demo = 'scenarios/brenhollow/surveys.csv';
+
+describe('sere hindcast and sere effort (built binary)', () => {
+  it('hindcast --json summarises coverage and scores by years ahead', () => {
+    const r = sere(['hindcast', demo, '--years', '1,3', '--draws', '150', '--seed', '2', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.format).toBe('sere-hindcast');
+    expect(j.summary.map((s: { years: number; cases: number }) => [s.years, s.cases])).toEqual([[1, 8], [3, 6]]);
+    expect(Object.keys(j.cases[0]).sort()).toEqual(['brierScore', 'covered', 'logScore', 'origin', 'persistenceBrierScore',
+      'persistenceLogScore', 'sites', 'states', 'steps', 'target']);
+    expect(sere(['hindcast', demo, '--years', '1,3', '--draws', '150', '--seed', '2', '--json']).stdout).toBe(r.stdout);
+  });
+
+  it('effort --json gives band widths on the grid, and rejects a malformed grid', () => {
+    const r = sere(['effort', 'scenarios/brenhollow/new-cell.yaml', '--sites', '30,120', '--seasons', '2', '--replicates', '3', '--draws', '100', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.cells.map((c: { sites: number; seasons: number }) => [c.sites, c.seasons])).toEqual([[30, 2], [120, 2]]);
+    expect(j.seed).toBe(7);
+    expect(sere(['effort', 'scenarios/brenhollow/new-cell.yaml', '--sites', 'many']).code).toBe(2);
+  });
+});
