@@ -1,3 +1,4 @@
+import { existsSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { z } from 'zod';
 import { SereError } from '../errors.js';
@@ -38,6 +39,10 @@ export interface Workspace {
 /** Read `sere-workspace.yaml` in `root`, checking that every file it names exists inside the folder. */
 export function loadWorkspace(root: string): Workspace {
   const file = join(root, WORKSPACE_FILE);
+  if (!existsSync(file)) {
+    throw new SereError('FILE_NOT_FOUND', `no ${WORKSPACE_FILE} in this folder`, { file: root },
+      'name the workspace folder, or create one with sere init FOLDER');
+  }
   const { value: w, locate } = readStructured(file, workspaceSchema, 'workspace file', 'BAD_SCENARIO');
   const inside = (path: string, key: (string | number)[]): string => {
     const rel = relative(root, resolve(root, path));

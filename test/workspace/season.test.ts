@@ -87,6 +87,12 @@ describe('sere season (built binary)', () => {
     expect(records(dir)).toEqual(['2025-09-30']);
   });
 
+  it('says how to make a workspace when the folder has none', () => {
+    const r = sere(['season', mkdtempSync(join(tmpdir(), 'sere-ws-'))]);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('no sere-workspace.yaml in this folder — name the workspace folder, or create one with sere init FOLDER');
+  });
+
   it('refuses to initialise a folder that is not empty', () => {
     const dir = mkdtempSync(join(tmpdir(), 'sere-ws-'));
     writeFileSync(join(dir, 'notes.txt'), 'mine');
