@@ -8,6 +8,8 @@ export interface ReadSurveyOptions {
   readonly columns: SurveyColumns;
   /** Declared states, in the user's order; when absent, states are inferred and sorted. */
   readonly states?: readonly string[];
+  /** One of several tables read as one (see read-survey-tables.ts): it may hold a single state. */
+  readonly partOfSeveral?: boolean;
 }
 
 export interface RawRow {
@@ -54,7 +56,7 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
     labels.push({ label: row.fields[index.state]!, line: row.line, column: index.state + 1 });
   }
 
-  const resolver = resolveStates(file, labels, options.states);
+  const resolver = resolveStates(file, labels, options.states, options.partOfSeveral ? 1 : 2);
   const { unique, repeated } = withoutDuplicates(file, body.map((row) => toRecord(row, index, resolver)), resolver.states);
   return { file, states: resolver.states, records: unique, repeatedRows: repeated, sha256 };
 }

@@ -10,9 +10,14 @@ import type { SurveyRecord, SurveyTable } from './survey.js';
  * of the files' own hashes in order, so any change in any file shows.
  */
 export function readSurveyTables(files: readonly string[], options: ReadSurveyOptions): SurveyTable {
-  const tables = files.map((file) => readSurveyCsv(file, options));
-  if (tables.length === 1) return tables[0]!;
+  if (files.length === 1) return readSurveyCsv(files[0]!, options);
+  // Each file alone may hold a single state (a season when every plot stayed put); the union must not.
+  const tables = files.map((file) => readSurveyCsv(file, { ...options, partOfSeveral: true }));
   const states = options.states ? [...options.states] : [...new Set(tables.flatMap((t) => t.states))].sort();
+  if (states.length < 2) {
+    throw new SereError('TOO_FEW_STATES', `every site in every survey table is in the same state ('${states[0]}')`,
+      { file: files.join(', ') }, 'a chain needs surveys that record at least two different states');
+  }
   if (!options.states) {
     const byFold = new Map<string, string>();
     for (const s of states) {

@@ -18,8 +18,8 @@ const foldLabel = (label: string): string => label.trim().toLowerCase();
  * Fix the list of states. Declared states keep the user's order and any other label is an error;
  * otherwise states are the distinct labels, sorted, and two that differ only by case are an error.
  */
-export function resolveStates(file: string, labels: readonly Label[], declared?: readonly string[]): StateResolver {
-  const states = declared ? checkDeclared(declared) : inferStates(file, labels);
+export function resolveStates(file: string, labels: readonly Label[], declared?: readonly string[], minStates = 2): StateResolver {
+  const states = declared ? checkDeclared(declared) : inferStates(file, labels, minStates);
   const index = new Map(states.map((s, i) => [s, i] as const));
   if (declared) {
     for (const { label, line, column } of labels) {
@@ -63,7 +63,7 @@ function checkDeclared(declared: readonly string[]): readonly string[] {
   return states;
 }
 
-function inferStates(file: string, labels: readonly Label[]): readonly string[] {
+function inferStates(file: string, labels: readonly Label[], minStates: number): readonly string[] {
   const firstSeen = new Map<string, Label>();
   const byFold = new Map<string, Label>();
   for (const l of labels) {
@@ -79,7 +79,7 @@ function inferStates(file: string, labels: readonly Label[]): readonly string[] 
     byFold.set(foldLabel(l.label), l);
   }
   const states = [...firstSeen.keys()].sort();
-  if (states.length < 2) {
+  if (states.length < minStates) {
     throw new SereError('TOO_FEW_STATES', `every site is in the same state ('${states[0]}')`, { file },
       'a chain needs surveys that record at least two different states');
   }

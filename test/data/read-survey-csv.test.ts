@@ -104,3 +104,22 @@ describe('the quote-free fast path', () => {
     }), { numRuns: 500 });
   });
 });
+
+describe('several survey tables read as one', () => {
+  it('takes the union of states, sorted, and keeps every record', async () => {
+    const { readSurveyTables } = await import('../../src/data/read-survey-tables.js');
+    const table = readSurveyTables([fixture('hand.csv'), fixture('next-season.csv')], { columns: DEFAULT_COLUMNS });
+    expect(table.states).toEqual(['a', 'b', 'c']);
+    expect(table.records).toHaveLength(12);
+    expect(table.records.at(-1)).toMatchObject({ site: 'B', time: 2025, state: 2 });
+    expect(table.sha256).toMatch(/^[0-9a-f]{64}$/);
+  });
+
+  it('names both files when a site disagrees with itself across them', async () => {
+    const { readSurveyTables } = await import('../../src/data/read-survey-tables.js');
+    const err = errorOf(() => readSurveyTables([fixture('hand.csv'), fixture('conflict-season.csv')], { columns: DEFAULT_COLUMNS }));
+    expect(err.code).toBe('DUPLICATE_SURVEY');
+    expect(err.place).toMatchObject({ file: fixture('conflict-season.csv'), line: 2 });
+    expect(err.message).toContain(`in ${fixture('hand.csv')} line 8`);
+  });
+});
