@@ -74,20 +74,31 @@ const wall = (args: string[]): number => best(5, () => {
 const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
 console.log(`demo forecast (scenarios/brenhollow/no-action.yaml, 4000 draws × 50 years), wall incl. start-up: ${(demoMs / 1000).toFixed(3)} s (target: under 0.5 s)`);
 
-/** A 6-state survey table (300 sites × 10 years, a fixed LCG) and a 4-alternative scenario, in a temp folder. */
-function compareFixture(): string {
+/**
+ * A temp folder with surveys.csv: `sites` sites surveyed 2015–2024 in states s0 … s(k−1), each
+ * year moved on by `next` (MT19937 from `seed`, so the table is the same every run).
+ */
+function surveyFolder(seed: number, sites: number, k: number, next: (state: number, random: ReturnType<typeof seededRandom>) => number): string {
   const dir = mkdtempSync(join(tmpdir(), 'sere-bench-'));
-  const random = seededRandom(99);
+  const random = seededRandom(seed);
   const rows = ['site,time,state'];
-  for (let site = 0; site < 300; site++) {
-    let state = random.integer(6);
+  for (let site = 0; site < sites; site++) {
+    let state = random.integer(k);
     for (let year = 2015; year <= 2024; year++) {
       rows.push(`p${site},${year},s${state}`);
-      const u = random.uniform();
-      state = u < 0.7 ? state : u < 0.9 ? Math.min(5, state + 1) : random.integer(6);
+      state = next(state, random);
     }
   }
   writeFileSync(join(dir, 'surveys.csv'), rows.join('\n') + '\n');
+  return dir;
+}
+
+/** A 6-state survey table (300 sites × 10 years) and a 4-alternative scenario. */
+function compareFixture(): string {
+  const dir = surveyFolder(99, 300, 6, (state, random) => {
+    const u = random.uniform();
+    return u < 0.7 ? state : u < 0.9 ? Math.min(5, state + 1) : random.integer(6);
+  });
   writeFileSync(join(dir, 'options.yaml'), [
     'data: surveys.csv',
     'uncertainty: { draws: 4000, seed: 5 }',
@@ -111,18 +122,10 @@ console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall
 
 /** 10,000 sites × 10 annual surveys × 8 states from a first-order chain (MT19937, seed 8). */
 function checkFixture(): string {
-  const dir = mkdtempSync(join(tmpdir(), 'sere-bench-'));
-  const random = seededRandom(8);
-  const rows = ['site,time,state'];
-  for (let site = 0; site < 10_000; site++) {
-    let state = random.integer(8);
-    for (let year = 2015; year <= 2024; year++) {
-      rows.push(`p${site},${year},s${state}`);
-      const u = random.uniform();
-      state = u < 0.75 ? state : u < 0.9 ? (state + 1) % 8 : random.integer(8);
-    }
-  }
-  writeFileSync(join(dir, 'surveys.csv'), rows.join('\n') + '\n');
+  const dir = surveyFolder(8, 10_000, 8, (state, random) => {
+    const u = random.uniform();
+    return u < 0.75 ? state : u < 0.9 ? (state + 1) % 8 : random.integer(8);
+  });
   return join(dir, 'surveys.csv');
 }
 const checkFile = checkFixture();

@@ -55,7 +55,7 @@ export interface PosteriorSummary {
  * destination is exactly 1 there.
  */
 export function posteriorSummary(counts: Float64Array, alpha: Float64Array, k: number, level: number): PosteriorSummary {
-  const mean = new Float64Array(k * k);
+  const mean = posteriorMean(counts, alpha, k);
   const low = new Float64Array(k * k);
   const high = new Float64Array(k * k);
   const tail = (1 - level) / 2;
@@ -66,7 +66,6 @@ export function posteriorSummary(counts: Float64Array, alpha: Float64Array, k: n
       const c = i * k + j;
       const a = alpha[c] === 0 ? 0 : counts[c]! + alpha[c]!;
       const b = a0 - a;
-      mean[c] = a / a0;
       if (a === 0 || b === 0) {
         low[c] = high[c] = mean[c]!;
       } else {

@@ -3,7 +3,8 @@ import { InvalidArgumentError, type Command } from 'commander';
 import { SereError } from '../errors.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
 import { makeStyle } from '../report/style.js';
-import { freshSeed, seededRandom } from '../uncertainty/random.js';
+import { seededRandom } from '../uncertainty/random.js';
+import { flagSeed } from './seed.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
 import { level, positiveInteger } from './parse-options.js';
@@ -66,8 +67,7 @@ export function registerCheck(program: Command, io: Io): void {
       }
       target = { state, steps: opts.horizon / fit.step };
     }
-    const seed = opts.seed ?? freshSeed();
-    if (opts.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+    const seed = flagSeed(opts.seed, io);
     const result = checkChain(fit, {
       level: opts.level, draws: opts.draws, replicates: opts.replicates, simulateAll: Boolean(opts.simulate),
       periodGroups: opts.periods, target,

@@ -5,7 +5,7 @@ import { surveyEffort } from '../evaluation/survey-effort.js';
 import { effortTable } from '../report/effort-table.js';
 import { makeStyle } from '../report/style.js';
 import { TOOL_VERSION } from '../version.js';
-import { freshSeed } from '../uncertainty/random.js';
+import { chooseSeed } from './seed.js';
 import type { Io } from './io.js';
 import { positiveInteger } from './parse-options.js';
 
@@ -30,8 +30,7 @@ export function registerEffort(program: Command, io: Io): void {
       checkScenarios([scenario]);
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
-      const seed = opts.seed ?? scenario.seed ?? freshSeed();
-      if (opts.seed === undefined && scenario.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+      const seed = chooseSeed(scenario, opts.seed, io);
       const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, seed });
       if (opts.json) {
         const states = scenario.fit.states;

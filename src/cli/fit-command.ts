@@ -59,7 +59,8 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
     throw new SereError('BAD_OPTION', '--by writes one file per group and needs --out', { path: '--by' },
       'add --out NAME.json; the groups go to NAME-<group>.json');
   }
-  const settings = { ...fitSettingsFrom(opts), columns: { ...fitSettingsFrom(opts).columns, group: opts.by } };
+  const flags = fitSettingsFrom(opts);
+  const settings = { ...flags, columns: { ...flags.columns, group: opts.by } };
   const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
   const whole = fitSurvey(table, settings);
   const stem = opts.out.replace(/\.json$/i, '');

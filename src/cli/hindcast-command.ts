@@ -4,7 +4,7 @@ import { hindcast } from '../evaluation/hindcast.js';
 import { hindcastTable } from '../report/hindcast-table.js';
 import { makeStyle } from '../report/style.js';
 import { TOOL_VERSION } from '../version.js';
-import { freshSeed } from '../uncertainty/random.js';
+import { flagSeed } from './seed.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
 import { level, positiveInteger } from './parse-options.js';
@@ -38,8 +38,7 @@ export function registerHindcast(program: Command, io: Io): void {
       for (const y of opts.years) {
         if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);
       }
-      const seed = opts.seed ?? freshSeed();
-      if (opts.seed === undefined) io.stderr(`no seed given; using seed ${seed} (pass --seed ${seed} to repeat this run)\n`);
+      const seed = flagSeed(opts.seed, io);
       const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
       const { cases, summary } = hindcast(table, settings, {
         horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, seed,

@@ -61,11 +61,13 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
     1 / (1 - mle[s * k + s]!), D, (d) => 1 / (1 - draws.data[d * K2 + s * k + s]!), level));
 
   const piMle = stationaryOf(mle, 0);
+  // Each draw's structure once, for the stationary mix, passage times and absorption alike.
+  const structures = Array.from({ length: D }, (_, d) => chainStructure(draws.data, k, d * K2));
   // Per draw once: stationary mix, and for irreducible draws Z and M. Posterior draws give every
   // possible transition some probability, so they are often irreducible where the MLE is not.
   const perDraw = Array.from({ length: D }, (_, d) => {
     const offset = d * K2;
-    const s = chainStructure(draws.data, k, offset);
+    const s = structures[d]!;
     const r = stationaryGivenClasses(draws.data, k, offset, s);
     if (!r.unique) return null;
     const m = s.irreducible ? meanFirstPassage(fundamentalMatrix(draws.data, k, r.mix, offset), k, r.mix) : null;
@@ -91,11 +93,12 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
   let absorbed: ChainProperties['absorption'] = null;
   const aMle = absorption(mle, k, structure);
   if (aMle) {
+    // Only draws with the MLE's transient states and closed classes are comparable; check that
+    // before inverting anything.
     const key = JSON.stringify([aMle.transient, aMle.closedClasses]);
-    const perDraw: (Absorption | null)[] = Array.from({ length: D }, (_, d) => {
-      const s = chainStructure(draws.data, k, d * K2);
-      const a = absorption(draws.data, k, s, d * K2);
-      return a && JSON.stringify([a.transient, a.closedClasses]) === key ? a : null;
+    const perDraw: (Absorption | null)[] = structures.map((s, d) => {
+      const closed = s.classes.filter((_, c) => s.closed[c]);
+      return JSON.stringify([s.transient, closed]) === key ? absorption(draws.data, k, s, d * K2) : null;
     });
     const C = aMle.closedClasses.length;
     absorbed = {

@@ -10,7 +10,7 @@ import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
  * probability above 1, or a change with nothing left in the row to rescale, is the user's error
  * and is reported at the treatment's place. Individual draws that stray are capped and counted.
  */
-export function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
+function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
   if (plan.trivial || plan.treatments.length === 0) return;
   const k = plan.k;
   const { p } = maximumLikelihood(scenario.fit.counts, fitPrior(scenario.fit), k);

@@ -1,9 +1,10 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomSource } from '../uncertainty/random.js';
-import { summarise, type ForecastResult, type ShareBands } from './forecast.js';
+import { appendBand, summarise, type ForecastResult, type ShareBands } from './forecast.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
+import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws } from './stationary-draws.js';
 import { drawIndex } from './layout.js';
 
@@ -47,6 +48,7 @@ export interface Comparison {
  */
 export function runComparison(scenarios: readonly Scenario[], random: RandomSource,
   onProgress?: (done: number, total: number) => void, options: { readonly everyYear?: boolean } = {}): Comparison {
+  checkScenarios(scenarios);
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
   const matrices = drawMatrices(first.fit, first.source, draws, random);
@@ -90,10 +92,7 @@ function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result
         else if (diff > 0) more += 1;
       }
       const band = bandOf(column, baseline.level);
-      bands.median.push(band.median);
-      bands.low.push(band.low);
-      bands.high.push(band.high);
-      bands.mean.push(sum / draws);
+      appendBand(bands, band, sum / draws);
       byYear.push({ more: more / draws, tie: tie / draws, less: (draws - more - tie) / draws });
     }
     difference.push(bands);

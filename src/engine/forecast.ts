@@ -4,6 +4,7 @@ import type { RandomSource } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
+import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, type StationaryDraws } from './stationary-draws.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
@@ -48,6 +49,7 @@ export interface ForecastResult {
 
 /** Run one scenario end to end: draw matrices, simulate, summarise. */
 export function runForecast(scenario: Scenario, random: RandomSource, onProgress?: (done: number, total: number) => void): ForecastResult {
+  checkScenarios([scenario]);
   const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random);
   return summarise(scenario, matrices, simulate(scenario, matrices, random.seed, {}, onProgress), random.seed);
 }
@@ -102,12 +104,17 @@ function bandsByStep(values: Float64Array | Int32Array, layout: DrawLayout, stat
     let sum = 0;
     for (let d = 0; d < draws; d++) sum += column[d]!;
     const band = column instanceof Int32Array ? discreteBandOf(column, level) : bandOf(column, level);
-    out.median.push(band.median);
-    out.low.push(band.low);
-    out.high.push(band.high);
-    out.mean.push(sum / draws);
+    appendBand(out, band, sum / draws);
   }
   return out;
+}
+
+/** Add one year's band and mean to by-year arrays. */
+export function appendBand(out: ShareBands, band: Band, mean: number): void {
+  out.median.push(band.median);
+  out.low.push(band.low);
+  out.high.push(band.high);
+  out.mean.push(mean);
 }
 
 /** Every `stride`-th value from `offset`: one state's column out of a [draw][state] array. */

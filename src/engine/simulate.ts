@@ -6,7 +6,6 @@ import { eventHits } from './event-hits.js';
 import { buildPlan } from './plan.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
 import { propagate, type Trajectories } from './propagate.js';
-import { checkTreatmentsOnEstimate } from './check-treatments.js';
 
 export interface Simulation {
   readonly paths: Trajectories;
@@ -25,7 +24,9 @@ export interface Switches {
 /**
  * Run one scenario on given matrix draws. Random event years and plot noise come from streams
  * named after the event and 'plots', derived from `seed`, so every alternative run on the same
- * draws with the same seed meets the same storms and the same plot-level chance.
+ * draws with the same seed meets the same storms and the same plot-level chance. Treatments must
+ * already have been checked on the fitted matrix (checkScenarios: runForecast and runComparison
+ * do it once, not on every rerun the uncertainty split or the effort grid makes).
  */
 export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number, switches: Switches = {},
   onProgress?: (done: number, total: number) => void, record?: readonly number[]): Simulation {
@@ -33,7 +34,6 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
   const plan = buildPlan(runScenario);
-  checkTreatmentsOnEstimate(scenario, plan);
   const D = matrices.count;
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(seed, plan.events[e]!, D, H));

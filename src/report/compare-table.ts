@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { Comparison } from '../engine/compare.js';
-import { levelLabel, percent, percentBand, wholeBand } from './numbers.js';
+import { levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import type { Scenario } from '../scenario/scenario.js';
 
@@ -71,13 +71,11 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
 
 /** A share difference in percentage points with its sign (one decimal); zero shows as 0. */
 function signedPoints(x: number): string {
-  const v = Math.round(x * 1000) / 10;
-  if (v === 0) return '0';
-  return `${v > 0 ? '+' : '−'}${Math.abs(v).toFixed(1)}`;
+  return signed(Math.round(x * 1000) / 10, 1);
 }
 
 /** `median [low – high]` for signed values: spaced dash, so "−14 – −1" cannot read as one number. */
 function signedBand(b: { median: number | string; low: number | string; high: number | string }): string {
-  const f = (x: number | string): string => (typeof x === 'number' ? (x > 0 ? `+${x}` : x < 0 ? `−${-x}` : '0') : x);
+  const f = (x: number | string): string => (typeof x === 'number' ? signed(x) : x);
   return b.low === b.high ? f(b.median) : `${f(b.median)} [${f(b.low)} – ${f(b.high)}]`;
 }

@@ -45,3 +45,10 @@ export function latestCoverage(latestSites: number, allSites: number): string {
     ? count(latestSites, 'site')
     : `${latestSites} of ${allSites} sites; the others were last surveyed earlier and are not in this mix`;
 }
+
+/** A signed number: +3, −2, 0 (a true minus sign); with `digits`, fixed decimals except for zero. */
+export function signed(x: number, digits?: number): string {
+  if (x === 0) return '0';
+  const size = digits === undefined ? String(Math.abs(x)) : Math.abs(x).toFixed(digits);
+  return `${x > 0 ? '+' : '−'}${size}`;
+}

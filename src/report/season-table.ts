@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { SeasonRun } from '../workspace/season.js';
-import { count, levelLabel, percentBand } from './numbers.js';
+import { count, levelLabel, percentBand, signed } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 
 /** What `sere season` prints: where the record went, the horizon shares, and what changed. */
@@ -72,8 +72,4 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
-}
-
-function signed(x: number): string {
-  return x > 0 ? `+${x}` : x < 0 ? `−${-x}` : '0';
 }

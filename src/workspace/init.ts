@@ -1,26 +1,21 @@
 import { existsSync, readdirSync, readFileSync, rmdirSync } from 'node:fs';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseDocument } from 'yaml';
 import { SereError } from '../errors.js';
 import { writeFolderAtomic } from './record-folder.js';
 import { WORKSPACE_FILE } from './workspace.js';
 
-/** The demo's folder, found from wherever this code runs (sources, compiled, or bundled). */
-function demoFolder(): string {
-  for (const up of ['../../scenarios/brenhollow', '../../../scenarios/brenhollow']) {
-    const path = fileURLToPath(new URL(up, import.meta.url));
-    if (existsSync(join(path, 'surveys.csv'))) return path;
+/**
+ * A file installed with sere (the demo, the schema), found from wherever this code runs: the
+ * sources and the compiled files sit two folders below the root, the bundle's chunks three.
+ */
+function installed(path: string): string {
+  for (const up of ['../../', '../../../']) {
+    const full = fileURLToPath(new URL(up + path, import.meta.url));
+    if (existsSync(full)) return full;
   }
-  throw new Error('internal: the demo scenarios are not installed next to sere');
-}
-
-function schemaFile(): string {
-  for (const up of ['../../schema/scenario.schema.json', '../../../schema/scenario.schema.json']) {
-    const path = fileURLToPath(new URL(up, import.meta.url));
-    if (existsSync(path)) return path;
-  }
-  throw new Error('internal: schema/scenario.schema.json is not installed next to sere');
+  throw new Error(`internal: ${path} is not installed next to sere`);
 }
 
 const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-grass'];
@@ -34,7 +29,7 @@ export function initWorkspace(dir: string): string[] {
   if (existsSync(dir) && readdirSync(dir).length > 0) {
     throw new SereError('FILE_EXISTS', 'is not empty; nothing was written', { file: dir }, 'choose a new or empty folder');
   }
-  const demo = demoFolder();
+  const demo = dirname(installed('scenarios/brenhollow/surveys.csv'));
   const files = new Map<string, string>();
   files.set(WORKSPACE_FILE, [
     '# A sere workspace (invented demo: Brenhollow Saltings). Run `sere season` here after each season\'s surveys.',
@@ -60,7 +55,7 @@ export function initWorkspace(dir: string): string[] {
     const text = doc.toString().replace(/^# yaml-language-server: .*$/m, '# yaml-language-server: $schema=../scenario.schema.json');
     files.set(`scenarios/${name}`, text);
   }
-  files.set('scenario.schema.json', readFileSync(schemaFile(), 'utf8'));
+  files.set('scenario.schema.json', readFileSync(installed('schema/scenario.schema.json'), 'utf8'));
   if (existsSync(dir)) rmdirSync(dir); // empty, checked above: the atomic write creates it afresh
   writeFolderAtomic(dir, files);
   return [...files.keys()];
