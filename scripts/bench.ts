@@ -17,12 +17,12 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { propagate } from '../src/engine/propagate.js';
 import { posteriorDraws } from '../src/uncertainty/posterior.js';
-import { seededRandom } from '../src/uncertainty/random.js';
+import { randomStreams } from '../src/uncertainty/random.js';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
-  const random = seededRandom(seed);
+  const random = randomStreams(seed);
   const data = new Float64Array(count * k * k);
   for (let r = 0; r < count * k; r++) {
     let total = 0;
@@ -64,7 +64,7 @@ const fit: Fit = {
   skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
   latest: { time: 0, counts: [], shares: [], sites: 0 },
 };
-const samplingMs = best(3, () => posteriorDraws(fit, D, seededRandom(2)));
+const samplingMs = best(3, () => posteriorDraws(fit, D, randomStreams(2)));
 console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: ${(samplingMs / 1000).toFixed(2)} s`);
 
 const wall = (args: string[]): number => best(5, () => {
@@ -78,9 +78,9 @@ console.log(`demo forecast (scenarios/brenhollow/no-action.yaml, 4000 draws × 5
  * A temp folder with surveys.csv: `sites` sites surveyed 2015–2024 in states s0 … s(k−1), each
  * year moved on by `next` (MT19937 from `seed`, so the table is the same every run).
  */
-function surveyFolder(seed: number, sites: number, k: number, next: (state: number, random: ReturnType<typeof seededRandom>) => number): string {
+function surveyFolder(seed: number, sites: number, k: number, next: (state: number, random: ReturnType<typeof randomStreams>) => number): string {
   const dir = mkdtempSync(join(tmpdir(), 'sere-bench-'));
-  const random = seededRandom(seed);
+  const random = randomStreams(seed);
   const rows = ['site,time,state'];
   for (let site = 0; site < sites; site++) {
     let state = random.integer(k);

@@ -25,6 +25,8 @@ export type ErrorCode =
   | 'BAD_PRIOR'
   | 'BAD_OPTION'
   | 'BAD_FIT_FILE'
+  | 'BAD_RECORD'
+  | 'REPLAY_DIFFERS'
   | 'BAD_YAML'
   | 'BAD_SCENARIO'
   | 'BAD_SHARES'

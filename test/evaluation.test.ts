@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { brierScore, covered, logScore } from '../src/evaluation/scores.js';
+import { randomStreams } from '../src/uncertainty/random.js';
 import { hindcast } from '../src/evaluation/hindcast.js';
 import { readSurveyCsv } from '../src/data/read-survey-csv.js';
 import { DEFAULT_COLUMNS } from '../src/data/survey.js';
@@ -26,7 +27,7 @@ describe('proper scores (Gneiting & Raftery 2007; worked by hand)', () => {
 describe('hindcast', () => {
   it('forecasts every surveyed time from each earlier one, with persistence alongside', () => {
     const table = readSurveyCsv('scenarios/brenhollow/surveys.csv', { columns: DEFAULT_COLUMNS });
-    const { cases, summary } = hindcast(table, DEFAULT_FIT_SETTINGS, { horizons: [1, 3], draws: 200, level: 0.9, seed: 4 });
+    const { cases, summary } = hindcast(table, DEFAULT_FIT_SETTINGS, { horizons: [1, 3], draws: 200, level: 0.9, random: randomStreams(4) });
     // Surveys 2015–2024: one-step forecasts from 2016 … 2023 (2015 has no transitions yet), three-step from 2016 … 2021.
     expect(cases.filter((c) => c.steps === 1).map((c) => c.origin)).toEqual([2016, 2017, 2018, 2019, 2020, 2021, 2022, 2023]);
     expect(cases.filter((c) => c.steps === 3).map((c) => c.target)).toEqual([2019, 2020, 2021, 2022, 2023, 2024]);
@@ -43,16 +44,16 @@ describe('survey effort (preposterior)', () => {
     const { surveyEffort } = await import('../src/evaluation/survey-effort.js');
     const { loadScenario } = await import('../src/scenario/load-scenario.js');
     const { runForecast } = await import('../src/engine/forecast.js');
-    const { seededRandom } = await import('../src/uncertainty/random.js');
+    const { randomStreams } = await import('../src/uncertainty/random.js');
     const scenario = { ...loadScenario('scenarios/brenhollow/no-action.yaml'), horizonSteps: 20 };
-    const effort = surveyEffort(scenario, { sites: [60, 240], seasons: [1, 5] }, { replicates: 8, draws: 300, seed: 9 });
+    const effort = surveyEffort(scenario, { sites: [60, 240], seasons: [1, 5] }, { replicates: 8, draws: 300, random: randomStreams(9) });
     const t = scenario.target!.state;
     const cell = (sites: number, seasons: number): number => effort.cells.find((c) => c.sites === sites && c.seasons === seasons)!.widths[t]!;
     expect(cell(60, 1)).toBeLessThan(effort.current[t]!);
     expect(cell(240, 5)).toBeLessThan(cell(60, 1));
     expect(cell(240, 5)).toBeLessThan(cell(240, 1));
     // The current width is the forecast's own band width (different random numbers: within 15%).
-    const r = runForecast({ ...scenario, draws: 2000 }, seededRandom(3));
+    const r = runForecast({ ...scenario, draws: 2000 }, randomStreams(3));
     const last = r.years.length - 1;
     const width = r.shares[t]!.high[last]! - r.shares[t]!.low[last]!;
     expect(Math.abs(effort.current[t]! - width) / width).toBeLessThan(0.15);

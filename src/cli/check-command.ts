@@ -3,7 +3,7 @@ import { InvalidArgumentError, type Command } from 'commander';
 import { SereError } from '../errors.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
 import { makeStyle } from '../report/style.js';
-import { seededRandom } from '../uncertainty/random.js';
+import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
@@ -71,7 +71,7 @@ export function registerCheck(program: Command, io: Io): void {
     const result = checkChain(fit, {
       level: opts.level, draws: opts.draws, replicates: opts.replicates, simulateAll: Boolean(opts.simulate),
       periodGroups: opts.periods, target,
-    }, seededRandom(seed));
+    }, randomStreams(seed));
     io.stdout(opts.json ? JSON.stringify(checkJson(result), null, 2) + '\n' : checkTable(result, makeStyle(io.color)));
   });
 }

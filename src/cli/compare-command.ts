@@ -5,7 +5,7 @@ import { runComparison } from '../engine/compare.js';
 import { comparisonJson } from '../report/compare-json.js';
 import { comparisonTable } from '../report/compare-table.js';
 import { makeStyle } from '../report/style.js';
-import { seededRandom } from '../uncertainty/random.js';
+import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { loadAndCheck, withRunOptions, writeChart, type RunOptions } from './scenario-run.js';
 import { progressReporter } from './progress.js';
@@ -25,7 +25,7 @@ export function registerCompare(program: Command, io: Io): void {
       const progress = progressReporter(io.progress, 'comparing');
       let comparison;
       try {
-        comparison = runComparison(scenarios, seededRandom(seed), progress.update, { everyYear: Boolean(opts.chart) });
+        comparison = runComparison(scenarios, randomStreams(seed), progress.update, { everyYear: Boolean(opts.chart) });
       } finally {
         progress.stop();
       }

@@ -6,6 +6,7 @@ import { effortTable } from '../report/effort-table.js';
 import { makeStyle } from '../report/style.js';
 import { TOOL_VERSION } from '../version.js';
 import { chooseSeed } from './seed.js';
+import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { positiveInteger } from './parse-options.js';
 
@@ -31,7 +32,7 @@ export function registerEffort(program: Command, io: Io): void {
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);
-      const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, seed });
+      const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, random: randomStreams(seed) });
       if (opts.json) {
         const states = scenario.fit.states;
         const byState = (w: readonly number[]): Record<string, number> => Object.fromEntries(states.map((s, i) => [s, w[i]!]));

@@ -5,7 +5,7 @@ import { SereError } from '../errors.js';
 import { fitSurvey } from '../fit/fit.js';
 import { groupOf, groupsOf } from '../fit/fit-from-file.js';
 import { assumptionTests } from '../diagnostics/assumption-tests.js';
-import { seededRandom } from '../uncertainty/random.js';
+import { randomStreams } from '../uncertainty/random.js';
 import { estimateFit } from '../fit/estimate.js';
 import { fitToJson } from '../fit/fit-json.js';
 import { fitTable } from '../report/fit-table.js';
@@ -78,7 +78,7 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
   const style = makeStyle(io.color);
   const t = makeTable([opts.by!, 'sites', 'transitions', 'file'], style, ['left', 'right', 'right', 'left']);
   for (const g of groups) t.push([g.group, String(g.fit.sites.length), String(g.fit.transitions), g.out]);
-  const test = assumptionTests(whole, { random: seededRandom(1), replicates: 999, simulateAll: false }).groups;
+  const test = assumptionTests(whole, { random: randomStreams(1), replicates: 999, simulateAll: false }).groups;
   io.stdout(`${style.bold(`Fits by ${opts.by} of ${file}`)}\n${t.toString()}\n` + (test
     ? `Do the groups differ? G² ${test.g2.toFixed(2)}, df ${test.df}, p ${test.pG2.toFixed(3)}` +
       `${test.pBootstrap !== null ? ` (simulated p ${test.pBootstrap.toFixed(3)}, sparse table)` : ''} — ` +

@@ -3,7 +3,7 @@ import { runForecast } from '../engine/forecast.js';
 import { forecastJson } from '../report/forecast-json.js';
 import { forecastTable } from '../report/forecast-table.js';
 import { makeStyle } from '../report/style.js';
-import { seededRandom } from '../uncertainty/random.js';
+import { randomStreams } from '../uncertainty/random.js';
 import { chooseSeed } from './seed.js';
 import type { Io } from './io.js';
 import { loadAndCheck, withRunOptions, writeChart, type RunOptions } from './scenario-run.js';
@@ -21,7 +21,7 @@ export function registerForecast(program: Command, io: Io): void {
         seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
-          return runForecast(scenario, seededRandom(seed), progress.update);
+          return runForecast(scenario, randomStreams(seed), progress.update);
         } finally {
           progress.stop();
         }

@@ -5,6 +5,7 @@ import { hindcastTable } from '../report/hindcast-table.js';
 import { makeStyle } from '../report/style.js';
 import { TOOL_VERSION } from '../version.js';
 import { flagSeed } from './seed.js';
+import { randomStreams } from '../uncertainty/random.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
 import { level, positiveInteger } from './parse-options.js';
@@ -41,7 +42,7 @@ export function registerHindcast(program: Command, io: Io): void {
       const seed = flagSeed(opts.seed, io);
       const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
       const { cases, summary } = hindcast(table, settings, {
-        horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, seed,
+        horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, random: randomStreams(seed),
       });
       if (opts.json) {
         io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 1, tool_version: TOOL_VERSION, file, seed, level: opts.level,

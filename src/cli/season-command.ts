@@ -43,7 +43,7 @@ export function registerSeason(program: Command, io: Io): void {
       const stored = earlier.map((name) => readRecord(join(recordsDir, name), name));
       const previous = stored[stored.length - 1];
       const date = opts.date ?? new Date().toISOString().slice(0, 10);
-      const run = await runSeason(ws, { date, freshSeed, previous, earlier: stored });
+      const run = await runSeason(ws, { date, fallbackSeed: freshSeed(), previous, earlier: stored });
       const name = freeRecordName(recordsDir, date);
       const target = join(recordsDir, name);
       writeFolderAtomic(target, run.files);
@@ -73,13 +73,13 @@ async function replay(record: string, io: Io): Promise<void> {
     return readRecord(dir, name);
   });
   const run = await runSeason(ws, {
-    date: stored.manifest.date, seeds, freshSeed: () => { throw new Error('internal: a replay needs no fresh seed'); },
+    date: stored.manifest.date, seeds,
     previous: previousDir ? readRecord(previousDir, previousName!) : undefined, earlier,
   });
   const differing = [...run.files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
     .map(([path]) => path);
   if (differing.length > 0) {
-    throw new SereError('BAD_FIT_FILE', `replay differs in ${differing.length} of ${run.files.size} files: ${differing.join(', ')}`,
+    throw new SereError('REPLAY_DIFFERS', `replay differs in ${differing.length} of ${run.files.size} files: ${differing.join(', ')}`,
       { file: record }, 'same inputs and seeds should give identical files; was the record edited, or the tool version changed?');
   }
   io.stdout(`${record}: replayed from its own inputs; all ${run.files.size} files identical\n`);

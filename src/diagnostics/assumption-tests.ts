@@ -5,7 +5,7 @@ import type { PeriodCounts, SiteCounts } from '../chain/counts.js';
 import type { Fit } from '../fit/fit.js';
 import { impossibleMask } from '../fit/settings.js';
 import { bootstrapPValue } from '../uncertainty/bootstrap-p-value.js';
-import type { RandomSource } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 
 /**
  * Cochran's (1954) rule, common practice: the chi-square approximation is doubted when more than a
@@ -42,7 +42,7 @@ export interface AssumptionTests {
 }
 
 export interface TestOptions {
-  readonly random: RandomSource;
+  readonly random: RandomStream;
   /** Replicates for bootstrap p-values. */
   readonly replicates: number;
   /** Bootstrap every test, not only sparse ones. */

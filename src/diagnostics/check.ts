@@ -1,7 +1,6 @@
 import type { Fit } from '../fit/fit.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
-import type { RandomSource } from '../uncertainty/random.js';
-import { deriveSeed, seededRandom } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { assumptionTests, type AssumptionTests } from './assumption-tests.js';
 import { chainProperties, type ChainProperties } from './chain-properties.js';
 
@@ -28,10 +27,10 @@ export interface CheckResult {
  * properties with bands from posterior draws. The bootstrap p-values use their own named stream,
  * so adding draws does not change them.
  */
-export function checkChain(fit: Fit, settings: CheckSettings, random: RandomSource): CheckResult {
-  const draws = posteriorDraws(fit, settings.draws, random);
+export function checkChain(fit: Fit, settings: CheckSettings, random: RandomStream): CheckResult {
+  const draws = posteriorDraws(fit, settings.draws, random.stream('matrices'));
   const tests = assumptionTests(fit, {
-    random: seededRandom(deriveSeed(random.seed, 'bootstrap-p-values')),
+    random: random.stream('bootstrap-p-values'),
     replicates: settings.replicates,
     simulateAll: settings.simulateAll,
     periodGroups: settings.periodGroups,

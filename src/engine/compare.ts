@@ -1,6 +1,6 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
-import type { RandomSource } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { appendBand, summarise, type ForecastResult, type ShareBands } from './forecast.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
@@ -46,23 +46,23 @@ export interface Comparison {
  * management, not sampling noise (common random numbers; e.g. Law & Kelton, Simulation Modeling
  * and Analysis, ch. 11). The first scenario is the baseline.
  */
-export function runComparison(scenarios: readonly Scenario[], random: RandomSource,
+export function runComparison(scenarios: readonly Scenario[], random: RandomStream,
   onProgress?: (done: number, total: number) => void, options: { readonly everyYear?: boolean } = {}): Comparison {
   checkScenarios(scenarios);
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
-  const matrices = drawMatrices(first.fit, first.source, draws, random);
+  const matrices = drawMatrices(first.fit, first.source, draws, random.stream('matrices'));
   const total = draws * scenarios.length;
   // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
   const record = options.everyYear
     ? Array.from({ length: first.horizonSteps + 1 }, (_, t) => t)
     : [...new Set([...first.showSteps, first.horizonSteps])].sort((a, b) => a - b);
   const sims = scenarios.map((sc, n) =>
-    simulate(sc, matrices, random.seed, {}, onProgress && ((done) => onProgress(n * draws + done, total)), record));
+    simulate(sc, matrices, random, {}, onProgress && ((done) => onProgress(n * draws + done, total)), record));
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   const stationary = stationaryOfDraws(matrices);
-  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random.seed, { split: false, stationary }));
+  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary }));
   return {
     baseline: results[0]!,
     alternatives: results.slice(1).map((result, n) => compareTo(first, sims[0]!, sims[n + 1]!, result)),

@@ -1,15 +1,15 @@
 import type { Disturbance } from '../scenario/scenario.js';
-import { deriveSeed, seededRandom } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 
 /**
  * The years a landscape-scope event strikes, per draw: `hits[d*(horizon+1) + t]` is 1 when it
- * strikes during step t. One uniform is drawn for every (draw, step) from the event's own stream,
+ * strikes during step t. One uniform is drawn for every (draw, step) from the event's own stream
+ * (`random` is the stream named after the event),
  * whatever its chance, so alternatives that share an event name share its uniforms: the same
  * years when the chance is the same, and coupled years (a higher chance adds years, never moves
  * them) when it differs.
  */
-export function eventHits(seed: number, event: Disturbance, draws: number, horizon: number): Uint8Array {
-  const random = seededRandom(deriveSeed(seed, `event:${event.name}`));
+export function eventHits(random: RandomStream, event: Disturbance, draws: number, horizon: number): Uint8Array {
   const steps = horizon + 1;
   const hits = new Uint8Array(draws * steps);
   for (let d = 0; d < draws; d++) {

@@ -1,6 +1,6 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
-import type { RandomSource } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
@@ -48,17 +48,17 @@ export interface ForecastResult {
 }
 
 /** Run one scenario end to end: draw matrices, simulate, summarise. */
-export function runForecast(scenario: Scenario, random: RandomSource, onProgress?: (done: number, total: number) => void): ForecastResult {
+export function runForecast(scenario: Scenario, random: RandomStream, onProgress?: (done: number, total: number) => void): ForecastResult {
   checkScenarios([scenario]);
-  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random);
-  return summarise(scenario, matrices, simulate(scenario, matrices, random.seed, {}, onProgress), random.seed);
+  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'));
+  return summarise(scenario, matrices, simulate(scenario, matrices, random, {}, onProgress), random);
 }
 
 /**
  * Summarise a simulation into bands by year, the stationary mix of the draws, the
  * landscape-level first times, and the uncertainty split.
  */
-export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, seed: number,
+export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, random: RandomStream,
   options: { readonly split?: boolean; readonly stationary?: StationaryDraws } = {}): ForecastResult {
   const { fit, level } = scenario;
   const k = fit.states.length;
@@ -68,7 +68,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   return {
     scenario,
-    seed,
+    seed: random.seed,
     draws: matrices.count,
     steps: paths.recorded,
     years,
@@ -83,7 +83,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     },
     dominance: scenario.target ? firstTime(paths.firstAtTarget, 0, 1, level, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
-    split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, seed),
+    split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random),
     notes: sim.notes,
   };
 }

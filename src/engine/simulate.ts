@@ -1,7 +1,7 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
-import { deriveSeed, seededRandom } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
 import { buildPlan } from './plan.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
@@ -23,12 +23,12 @@ export interface Switches {
 
 /**
  * Run one scenario on given matrix draws. Random event years and plot noise come from streams
- * named after the event and 'plots', derived from `seed`, so every alternative run on the same
+ * named after the event and 'plots', sub-streams of `random`, so every alternative run on the same
  * draws with the same seed meets the same storms and the same plot-level chance. Treatments must
  * already have been checked on the fitted matrix (checkScenarios: runForecast and runComparison
  * do it once, not on every rerun the uncertainty split or the effort grid makes).
  */
-export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number, switches: Switches = {},
+export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches = {},
   onProgress?: (done: number, total: number) => void, record?: readonly number[]): Simulation {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
@@ -36,7 +36,7 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number
   const plan = buildPlan(runScenario);
   const D = matrices.count;
   const H = scenario.horizonSteps;
-  const hits = plan.landscapeEvents.map((e) => eventHits(seed, plan.events[e]!, D, H));
+  const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
   const trouble = new Map<number, Set<number>>();
   const paths = propagate(matrices, scenario.start.shares, H, {
     target: scenario.target, plan, hits, onProgress, record,
@@ -53,7 +53,7 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, seed: number
   }
   const plots = scenario.plots && !switches.noPlots
     ? simulatePlots(matrices, plan, scenario.plots.start, {
-      record: paths.recorded, hits, multinomial: multinomialSampler(seededRandom(deriveSeed(seed, 'plots'))),
+      record: paths.recorded, hits, multinomial: multinomialSampler(random.stream('plots')),
     })
     : undefined;
   return { paths, plots, notes };

@@ -1,5 +1,6 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { pointDraws } from '../uncertainty/point.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
@@ -30,7 +31,7 @@ export interface UncertaintySplit {
  * plot-level chance (shares instead of counts). Sources interact, so the shares need not add up
  * to 1; they say which source matters, not an exact budget. Only sources present are listed.
  */
-export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full: Simulation, seed: number): UncertaintySplit | null {
+export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full: Simulation, random: RandomStream): UncertaintySplit | null {
   const present: UncertaintySourceName[] = [];
   if (scenario.source !== 'point') present.push('matrix');
   if (scenario.events.some((e) => e.scope === 'landscape')) present.push('events');
@@ -41,7 +42,7 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   const sources = present.map((source) => {
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
     const draws = source === 'matrix' ? pointDraws(scenario.fit, matrices.count) : matrices;
-    const off = simulate(scenario, draws, seed, switches);
+    const off = simulate(scenario, draws, random, switches);
     const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');
     return {
       source,

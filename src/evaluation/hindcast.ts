@@ -3,7 +3,7 @@ import { fitSurvey } from '../fit/fit.js';
 import type { FitSettings } from '../fit/settings.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
-import { deriveSeed, seededRandom } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { summarise } from '../engine/forecast.js';
 import { observedMixes } from './observed.js';
@@ -41,7 +41,7 @@ export interface HindcastSettings {
   readonly horizons: readonly number[];
   readonly draws: number;
   readonly level: number;
-  readonly seed: number;
+  readonly random: RandomStream;
 }
 
 /**
@@ -74,9 +74,9 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
         draws: options.draws, start: { year: origin, shares, from: 'given' }, horizonSteps: steps, showSteps: [0, steps],
         level: options.level, treatments: [], events: [], plots: { total: start.sites, start: start.counts },
       };
-      const seed = deriveSeed(options.seed, `hindcast:${origin}:${steps}`);
-      const matrices = drawMatrices(fit, 'posterior', options.draws, seededRandom(seed));
-      const result = summarise(scenario, matrices, simulate(scenario, matrices, seed, {}, undefined, [0, steps]), seed, { split: false });
+      const random = options.random.stream(`hindcast:${origin}:${steps}`);
+      const matrices = drawMatrices(fit, 'posterior', options.draws, random.stream('matrices'));
+      const result = summarise(scenario, matrices, simulate(scenario, matrices, random, {}, undefined, [0, steps]), random, { split: false });
       const last = result.steps.length - 1;
       const predicted = result.shares.map((b) => b.mean[last]!);
       const seen = at.counts.map((c) => c / at.sites);

@@ -1,7 +1,7 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
-import { deriveSeed, seededRandom, type RandomSource } from '../uncertainty/random.js';
+import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { columnStart } from '../engine/layout.js';
 import { bandOf } from '../engine/quantiles.js';
@@ -32,30 +32,30 @@ export interface SurveyEffort {
  * Uses posterior draws whatever the scenario's source (more data acts through the counts).
  */
 export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[]; seasons: readonly number[] },
-  options: { replicates: number; draws: number; seed: number }): SurveyEffort {
+  options: { replicates: number; draws: number; random: RandomStream }): SurveyEffort {
   const { fit } = scenario;
   const k = fit.states.length;
-  const widthsOf = (counts: Float64Array, seed: number): number[] => {
+  const widthsOf = (counts: Float64Array, random: RandomStream): number[] => {
     const updated = { ...fit, counts };
-    const matrices = posteriorDraws(updated, options.draws, seededRandom(seed));
-    const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, seed, {}, undefined, [scenario.horizonSteps]);
+    const matrices = posteriorDraws(updated, options.draws, random.stream('matrices'));
+    const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, random, {}, undefined, [scenario.horizonSteps]);
     return Array.from({ length: k }, (_, s) => {
       const from = columnStart(sim.paths, 0, s);
       const band = bandOf(sim.paths.shares.slice(from, from + sim.paths.draws), scenario.level);
       return band.high - band.low;
     });
   };
-  const current = widthsOf(fit.counts, deriveSeed(options.seed, 'current'));
+  const current = widthsOf(fit.counts, options.random.stream('current'));
   const cells: EffortCell[] = [];
   for (const sites of grid.sites) {
     for (const seasons of grid.seasons) {
       const sum = new Array<number>(k).fill(0);
       for (let r = 0; r < options.replicates; r++) {
-        const random = seededRandom(deriveSeed(options.seed, `effort:${sites}:${seasons}:${r}`));
+        const random = options.random.stream(`effort:${sites}:${seasons}:${r}`);
         const truth = posteriorDraws(fit, 1, random).data;
         const counts = Float64Array.from(fit.counts);
         simulateSurveys(truth, k, startingStates(fit.latest.counts, sites, random), seasons, counts, random);
-        widthsOf(counts, deriveSeed(options.seed, `effort-bands:${sites}:${seasons}:${r}`)).forEach((w, s) => { sum[s]! += w; });
+        widthsOf(counts, random.stream('bands')).forEach((w, s) => { sum[s]! += w; });
       }
       cells.push({ sites, seasons, widths: sum.map((x) => x / options.replicates) });
     }
@@ -64,7 +64,7 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
 }
 
 /** States of the sites surveyed next: the latest surveyed plots first, then new plots from the latest mix. */
-function startingStates(latest: readonly number[], sites: number, random: RandomSource): number[] {
+function startingStates(latest: readonly number[], sites: number, random: RandomStream): number[] {
   const states: number[] = [];
   latest.forEach((n, s) => { for (let i = 0; i < n; i++) states.push(s); });
   const kept = states.slice(0, sites);
@@ -77,7 +77,7 @@ function startingStates(latest: readonly number[], sites: number, random: Random
 }
 
 /** Each site makes `seasons` transitions under `truth`; the transitions are added to `counts`. */
-function simulateSurveys(truth: Float64Array, k: number, states: number[], seasons: number, counts: Float64Array, random: RandomSource): void {
+function simulateSurveys(truth: Float64Array, k: number, states: number[], seasons: number, counts: Float64Array, random: RandomStream): void {
   for (let s = 0; s < states.length; s++) {
     let state = states[s]!;
     for (let y = 0; y < seasons; y++) {

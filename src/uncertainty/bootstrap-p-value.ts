@@ -1,6 +1,6 @@
 import { stratifiedIndependence, type Table } from '../chain/contingency.js';
 import { multinomialSampler } from './multinomial.js';
-import type { RandomSource } from './random.js';
+import type { RandomStream } from './random.js';
 
 /**
  * A parametric-bootstrap p-value for a stratified independence test, for tables too sparse for
@@ -8,7 +8,7 @@ import type { RandomSource } from './random.js';
  * total and is redrawn from its stratum's pooled column proportions (for the order test, that is the
  * first-order fit) — and p = (1 + #{G²* ≥ G²}) / (B + 1) (Davison & Hinkley 1997, ch. 4).
  */
-export function bootstrapPValue(strata: readonly Table[], observedG2: number, replicates: number, random: RandomSource): number {
+export function bootstrapPValue(strata: readonly Table[], observedG2: number, replicates: number, random: RandomStream): number {
   const multinomial = multinomialSampler(random);
   const simulated = strata.map((t) => ({ rows: t.rows, cols: t.cols, counts: new Float64Array(t.rows * t.cols) }));
   const pooled = strata.map((t) => {

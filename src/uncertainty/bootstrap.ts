@@ -2,7 +2,7 @@ import { addSiteCells } from '../chain/counts.js';
 import { maximumLikelihood } from '../chain/estimates.js';
 import { fitPrior, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
-import type { RandomSource } from './random.js';
+import type { RandomStream } from './random.js';
 
 /**
  * Site bootstrap: resample whole sites with replacement and refit the MLE, once per draw (Efron &
@@ -14,7 +14,7 @@ import type { RandomSource } from './random.js';
  * (itself the prior mean when the state was never observed) and the number of such rows is
  * reported.
  */
-export function bootstrapDraws(fit: Fit, count: number, random: RandomSource): MatrixDraws {
+export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): MatrixDraws {
   const k = fit.states.length;
   const alpha = fitPrior(fit);
   const full = maximumLikelihood(fit.counts, alpha, k).p;

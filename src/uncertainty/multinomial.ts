@@ -1,5 +1,5 @@
 import binomialRandom from '@stdlib/random-base-binomial';
-import type { RandomSource } from './random.js';
+import type { RandomStream } from './random.js';
 
 export type Multinomial = (n: number, p: Float64Array, pOffset: number, k: number, out: Int32Array, outOffset: number) => void;
 
@@ -9,7 +9,7 @@ export type Multinomial = (n: number, p: Float64Array, pOffset: number, k: numbe
  * sampler on the same uniforms. Counts are *added* to `out`, so sub-populations can be summed in
  * place. Stops as soon as nothing is left to place, which makes sparse rows cheap.
  */
-export function multinomialSampler(random: RandomSource): Multinomial {
+export function multinomialSampler(random: RandomStream): Multinomial {
   const binomial = binomialRandom.factory({ prng: random.uniform });
   return (n, p, pOffset, k, out, outOffset) => {
     let left = n;

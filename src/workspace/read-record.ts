@@ -25,7 +25,7 @@ function readJson<T>(file: string): T {
   try {
     return JSON.parse(readFileSync(file, 'utf8')) as T;
   } catch {
-    throw new SereError('BAD_FIT_FILE', 'is missing or not valid JSON', { file }, 'a record must hold the files sere wrote; do not edit records');
+    throw new SereError('BAD_RECORD', 'is missing or not valid JSON', { file }, 'a record must hold the files sere wrote; do not edit records');
   }
 }
 

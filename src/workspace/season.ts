@@ -14,7 +14,8 @@ import { runComparison, type Comparison } from '../engine/compare.js';
 import { forecastJson } from '../report/forecast-json.js';
 import { comparisonJson } from '../report/compare-json.js';
 import { tidyCsv } from '../report/tidy-csv.js';
-import { seededRandom } from '../uncertainty/random.js';
+import { SereError } from '../errors.js';
+import { randomStreams } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
@@ -24,9 +25,10 @@ import { observedMixes } from '../evaluation/observed.js';
 export interface SeasonOptions {
   /** The record's date, YYYY-MM-DD. */
   readonly date: string;
-  /** Seeds by scenario file (a replay uses the record's); otherwise scenario, workspace, or fresh. */
+  /** Seeds by scenario file (a replay uses the record's); otherwise the scenario's, the workspace's, or `fallbackSeed`. */
   readonly seeds?: Readonly<Record<string, number>>;
-  readonly freshSeed: () => number;
+  /** The seed for files that name none, chosen (and so printable) where the run starts. */
+  readonly fallbackSeed?: number;
   /** The previous record, read back, to say what changed. */
   readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly forecasts: readonly StoredForecast[] };
   /** Earlier records whose forecasts are scored against the surveys made since. */
@@ -67,7 +69,11 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const seeds: Record<string, number> = {};
   const byFile = ws.scenarios.map((rel) => {
     const scenarios = loadScenarios(join(ws.root, rel), { fit }).map((s): Scenario => ({ ...s, file: rel }));
-    seeds[rel] = options.seeds?.[rel] ?? scenarios[0]!.seed ?? ws.seed ?? options.freshSeed();
+    const seed = options.seeds?.[rel] ?? scenarios[0]!.seed ?? ws.seed ?? options.fallbackSeed;
+    if (seed === undefined) {
+      throw new SereError('BAD_RECORD', `no seed is recorded for scenario ${rel}`, { file: rel }, 'rerun the season instead of replaying it');
+    }
+    seeds[rel] = seed;
     return { file: rel, scenarios };
   });
   for (const { scenarios } of byFile) {
@@ -75,10 +81,10 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     if (scenarios.length > 1) checkComparable(scenarios);
   }
   const forecasts = byFile.map(({ file, scenarios }) => ({
-    file, results: scenarios.map((s) => runForecast(s, seededRandom(seeds[file]!))),
+    file, results: scenarios.map((s) => runForecast(s, randomStreams(seeds[file]!))),
   }));
   const comparisons = byFile.filter((b) => b.scenarios.length > 1)
-    .map(({ file, scenarios }) => ({ file, comparison: runComparison(scenarios, seededRandom(seeds[file]!)) }));
+    .map(({ file, scenarios }) => ({ file, comparison: runComparison(scenarios, randomStreams(seeds[file]!)) }));
   const changes = options.previous
     ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
     : null;

@@ -3,12 +3,12 @@ import { describe, expect, it } from 'vitest';
 import { fanChartSpec } from '../../src/report/charts.js';
 import { renderSvg } from '../../src/report/render-svg.js';
 import { runForecast } from '../../src/engine/forecast.js';
-import { seededRandom } from '../../src/uncertainty/random.js';
+import { randomStreams } from '../../src/uncertainty/random.js';
 import { fitWithCounts, scenarioFor } from '../helpers.js';
 
 describe('fan charts', () => {
   const fit = fitWithCounts(['bare', 'grass', 'shrub'], [[40, 10, 0], [5, 30, 15], [2, 4, 36]]);
-  const result = runForecast(scenarioFor(fit, { draws: 300 }), seededRandom(2));
+  const result = runForecast(scenarioFor(fit, { draws: 300 }), randomStreams(2));
 
   it('render to SVG headless, the same bytes every time, naming the states', async () => {
     const svg = await renderSvg(fanChartSpec([result], 'test chart'));

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { loadScenario, loadScenarios } from '../../src/scenario/load-scenario.js';
 import { SereError } from '../../src/errors.js';
 import { runForecast } from '../../src/engine/forecast.js';
-import { seededRandom } from '../../src/uncertainty/random.js';
+import { randomStreams } from '../../src/uncertainty/random.js';
 
 const file = (name: string): string => `test/fixtures/scenarios/${name}`;
 
@@ -51,11 +51,11 @@ describe('treatments and events in scenario files', () => {
   }
 
   it('checks factors against the fitted matrix before running: a probability pushed above 1, a change that cannot be met', () => {
-    const above = errorOf(() => runForecast(loadScenario(file('treat-above-one.yaml')), seededRandom(1)));
+    const above = errorOf(() => runForecast(loadScenario(file('treat-above-one.yaml')), randomStreams(1)));
     expect(above.code).toBe('BAD_SCENARIO');
     expect(above.message).toMatch(/pushes probabilities out of 'a' above 1/);
     expect(above.place).toMatchObject({ file: file('treat-above-one.yaml'), line: 4, path: 'treatments[0]' });
-    const unmet = errorOf(() => runForecast(loadScenario(file('treat-unmet.yaml')), seededRandom(1)));
+    const unmet = errorOf(() => runForecast(loadScenario(file('treat-unmet.yaml')), randomStreams(1)));
     expect(unmet.message).toMatch(/cannot be met/);
     expect(unmet.place).toMatchObject({ line: 4, path: 'treatments[0]' });
   });

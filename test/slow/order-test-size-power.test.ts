@@ -2,16 +2,16 @@ import { describe, expect, it } from 'vitest';
 import { chiSquareUpperTail } from '../../src/chain/chi-square.js';
 import { stratifiedIndependence } from '../../src/chain/contingency.js';
 import { orderOneVsTwo } from '../../src/chain/markov-tests.js';
-import { seededRandom, type RandomSource } from '../../src/uncertainty/random.js';
+import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
 
-const pick = (random: RandomSource, p: readonly number[]): number => {
+const pick = (random: RandomStream, p: readonly number[]): number => {
   let u = random.uniform();
   for (let s = 0; s < p.length - 1; s++) { u -= p[s]!; if (u < 0) return s; }
   return p.length - 1;
 };
 
 /** Runs of three from `sites` sequences of `length` surveys; `next(prev, cur)` gives the next state's probabilities. */
-function triples(random: RandomSource, sites: number, length: number, next: (prev: number, cur: number) => readonly number[]): [number, number, number, number][] {
+function triples(random: RandomStream, sites: number, length: number, next: (prev: number, cur: number) => readonly number[]): [number, number, number, number][] {
   const counts = new Map<number, number>();
   for (let s = 0; s < sites; s++) {
     let prev = random.integer(3);
@@ -37,7 +37,7 @@ describe('order 1 vs 2 by simulation (fixed seeds)', () => {
   it('has about its nominal size on first-order data: 300 replicates of 200 sites × 6 surveys reject 5–27 times at α = 0.05', () => {
     // Expected 15 rejections; binomial sd √(300 · 0.05 · 0.95) ≈ 3.8, so the range is ±3 sd
     // (a correct test falls outside it about 0.3% of the time, for this fixed seed never).
-    const random = seededRandom(1957);
+    const random = randomStreams(1957);
     let count = 0;
     for (let r = 0; r < 300; r++) if (rejects(triples(random, 200, 6, (_prev, cur) => P[cur]!))) count += 1;
     expect(count).toBeGreaterThanOrEqual(5);
@@ -48,7 +48,7 @@ describe('order 1 vs 2 by simulation (fixed seeds)', () => {
     // Second order: after a change of state (prev ≠ cur) a site tends to return to where it was.
     const second = (prev: number, cur: number): number[] =>
       prev === cur ? P[cur]! : P[cur]!.map((p, s) => 0.5 * p + (s === prev ? 0.5 : 0));
-    const random = seededRandom(1975);
+    const random = randomStreams(1975);
     let count = 0;
     for (let r = 0; r < 100; r++) if (rejects(triples(random, 200, 6, second))) count += 1;
     expect(count).toBeGreaterThanOrEqual(95);
