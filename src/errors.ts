@@ -30,7 +30,10 @@ export type ErrorCode =
   | 'BAD_YAML'
   | 'BAD_SCENARIO'
   | 'BAD_SHARES'
-  | 'BAD_MATRIX';
+  | 'BAD_MATRIX'
+  | 'TOO_LARGE'
+  | 'BAD_WORKSPACE'
+  | 'BUSY';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

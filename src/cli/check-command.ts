@@ -7,7 +7,7 @@ import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
-import { level, positiveInteger } from './parse-options.js';
+import { drawsFlag, level, replicatesFlag, seedFlag, yearsFlag } from './parse-options.js';
 
 interface CheckOptions extends FitFlags {
   draws: number;
@@ -36,14 +36,14 @@ export function registerCheck(program: Command, io: Io): void {
   const command = withFitOptions(program.command('check')
     .description('test the Markov assumptions and describe the chain: structure, passage times, settling, sensitivities')
     .argument('<survey.csv|fit.json>', 'a survey table (fitted now, with the fit flags) or a fit file'))
-    .option('--draws <n>', 'posterior draws for the bands', positiveInteger, 1000)
-    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--draws <n>', 'posterior draws for the bands', drawsFlag, 1000)
+    .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--level <p>', 'credible level of the bands', level, 0.9)
-    .option('--replicates <n>', 'bootstrap replicates for simulated p-values', positiveInteger, 999)
+    .option('--replicates <n>', 'bootstrap replicates for simulated p-values', replicatesFlag, 999)
     .option('--simulate', 'give a simulated p-value for every test, not only sparse ones')
     .option('--periods <a-b,...>', 'group survey periods by start year, e.g. 2015-2018,2019-2023', periodRanges)
     .option('--target <state>', 'rank transitions by their effect on this state’s share')
-    .option('--horizon <years>', 'with --target: the share this many years after the latest survey', positiveInteger, 20)
+    .option('--horizon <years>', 'with --target: the share this many years after the latest survey', yearsFlag, 20)
     .option('--json', 'print the documented JSON on stdout instead of tables');
   command.action(async (file: string, opts: CheckOptions) => {
     // Loaded on demand: the diagnostics bring mathjs, whose set-up would add ~0.1 s to every

@@ -1,4 +1,4 @@
-import { InvalidArgumentError, type Command } from 'commander';
+import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
@@ -8,23 +8,19 @@ import { TOOL_VERSION } from '../version.js';
 import { chooseSeed } from './seed.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
-import { positiveInteger } from './parse-options.js';
+import { drawsFlag, replicatesFlag, seedFlag, wholeNumberList } from './parse-options.js';
+import { LIMITS } from '../limits.js';
 
-const counts = (value: string): number[] => value.split(',').map((v) => {
-  const n = Number(v);
-  if (!Number.isInteger(n) || n <= 0) throw new InvalidArgumentError('expected whole numbers such as 60,120,240.');
-  return n;
-});
 
 export function registerEffort(program: Command, io: Io): void {
   program.command('effort')
     .description('how much narrower would the bands be with more sites or more seasons of surveys?')
     .argument('<scenario.yaml>', 'a scenario file (one scenario)')
-    .option('--sites <a,b,...>', 'sites surveyed each future season (default: 1, 2 and 4 times the latest survey)', counts)
-    .option('--seasons <a,b,...>', 'future seasons of surveys', counts, [1, 2, 5])
-    .option('--replicates <n>', 'simulated futures per cell', positiveInteger, 20)
-    .option('--draws <n>', 'posterior draws per band', positiveInteger, 500)
-    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--sites <a,b,...>', 'sites surveyed each future season (default: 1, 2 and 4 times the latest survey)', wholeNumberList(LIMITS.effortSites, '60,120,240'))
+    .option('--seasons <a,b,...>', 'future seasons of surveys', wholeNumberList(LIMITS.effortSeasons, '1,2,5'), [1, 2, 5])
+    .option('--replicates <n>', 'simulated futures per cell', replicatesFlag, 20)
+    .option('--draws <n>', 'posterior draws per band', drawsFlag, 500)
+    .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
       const scenario = loadScenario(file);

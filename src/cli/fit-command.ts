@@ -41,11 +41,13 @@ export function registerFit(program: Command, io: Io): void {
       const fit = fitSurvey(readSurveyCsv(file, { columns: settings.columns, states: opts.states }), settings);
       const estimates = estimateFit(fit, opts.level);
       const json = JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n';
+      // Everything printed is made before anything is written: a failure leaves no file behind.
+      const printed = opts.json ? json : fitTable(fit, estimates, makeStyle(io.color));
       if (opts.out) {
         writeFileAtomic(opts.out, json, Boolean(opts.force));
         io.stderr(`wrote ${opts.out}\n`);
       }
-      io.stdout(opts.json ? json : fitTable(fit, estimates, makeStyle(io.color)));
+      io.stdout(printed);
     });
 }
 
@@ -68,17 +70,25 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
     const fit = fitSurvey(groupOf(table, group, opts.by), settings);
     return { group, fit, out: `${stem}-${group.replace(/[^A-Za-z0-9_.-]/g, '_')}.json` };
   });
+  groups.forEach((g, n) => {
+    const same = groups.findIndex((h) => h.out.toLowerCase() === g.out.toLowerCase());
+    if (same !== n) {
+      throw new SereError('BAD_OPTION', `groups '${groups[same]!.group}' and '${g.group}' would both be written to ${g.out}`,
+        { file, path: opts.by }, 'rename one of the groups in the survey table (file names keep only letters, digits, _ . -)');
+    }
+  });
   for (const g of groups) {
     if (existsSync(g.out) && !opts.force) {
       throw new SereError('FILE_EXISTS', 'already exists and was left untouched (no group was written)', { file: g.out },
         'choose another --out, or pass --force to replace the files');
     }
   }
-  for (const g of groups) writeFileAtomic(g.out, JSON.stringify(fitToJson(g.fit, estimateFit(g.fit, opts.level)), null, 2) + '\n', true);
+  const texts = groups.map((g) => JSON.stringify(fitToJson(g.fit, estimateFit(g.fit, opts.level)), null, 2) + '\n');
   const style = makeStyle(io.color);
   const t = makeTable([opts.by!, 'sites', 'transitions', 'file'], style, ['left', 'right', 'right', 'left']);
   for (const g of groups) t.push([g.group, String(g.fit.sites.length), String(g.fit.transitions), g.out]);
-  const test = assumptionTests(whole, { random: randomStreams(1), replicates: 999, simulateAll: false }).groups;
+  const test = assumptionTests(whole, { random: randomStreams(1).stream('group-test'), replicates: 999, simulateAll: false }).groups;
+  groups.forEach((g, n) => writeFileAtomic(g.out, texts[n]!, true));
   io.stdout(`${style.bold(`Fits by ${opts.by} of ${file}`)}\n${t.toString()}\n` + (test
     ? `Do the groups differ? G² ${test.g2.toFixed(2)}, df ${test.df}, p ${test.pG2.toFixed(3)}` +
       `${test.pBootstrap !== null ? ` (simulated p ${test.pBootstrap.toFixed(3)}, sparse table)` : ''} — ` +

@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { parsePrior } from '../chain/prior.js';
 import { parseImpossible, type FitSettings } from '../fit/settings.js';
-import { commaList, positiveInteger } from './parse-options.js';
+import { commaList, yearsFlag } from './parse-options.js';
 
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
@@ -17,7 +17,7 @@ export interface FitFlags {
 
 export function withFitOptions(command: Command): Command {
   return command
-    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', positiveInteger, 1)
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)
     .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
     .option('--prior <p>', 'prior pseudo-count per cell: jeffreys (0.5), uniform (1) or a number', 'jeffreys')
     .option('--impossible <from>to,...>', 'transitions that cannot happen (structural zeros)', commaList)

@@ -1,4 +1,4 @@
-import { InvalidArgumentError, type Command } from 'commander';
+import type { Command } from 'commander';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { hindcast } from '../evaluation/hindcast.js';
 import { hindcastTable } from '../report/hindcast-table.js';
@@ -8,7 +8,8 @@ import { flagSeed } from './seed.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
-import { level, positiveInteger } from './parse-options.js';
+import { drawsFlag, level, seedFlag, wholeNumberList } from './parse-options.js';
+import { LIMITS } from '../limits.js';
 import { SereError } from '../errors.js';
 
 interface HindcastOptions extends FitFlags {
@@ -19,20 +20,15 @@ interface HindcastOptions extends FitFlags {
   json?: boolean;
 }
 
-const yearList = (value: string): number[] => value.split(',').map((v) => {
-  const n = Number(v);
-  if (!Number.isInteger(n) || n <= 0) throw new InvalidArgumentError('expected years ahead such as 1,2,5.');
-  return n;
-});
 
 export function registerHindcast(program: Command, io: Io): void {
   withFitOptions(program.command('hindcast')
     .description('how far ahead can the chain be trusted? refit on the past, forecast surveys already made, score them')
     .argument('<survey.csv>', 'the survey table'))
-    .option('--years <a,b,...>', 'years ahead to test (multiples of the step)', yearList, [1, 2, 5])
-    .option('--draws <n>', 'posterior draws per forecast', positiveInteger, 500)
+    .option('--years <a,b,...>', 'years ahead to test (multiples of the step)', wholeNumberList(LIMITS.horizonSteps, '1,2,5'), [1, 2, 5])
+    .option('--draws <n>', 'posterior draws per forecast', drawsFlag, 500)
     .option('--level <p>', 'credible level of the bands', level, 0.9)
-    .option('--seed <n>', 'random seed (printed when not given)', positiveInteger)
+    .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: HindcastOptions) => {
       const settings = fitSettingsFrom(opts);
@@ -41,12 +37,15 @@ export function registerHindcast(program: Command, io: Io): void {
       }
       const seed = flagSeed(opts.seed, io);
       const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
-      const { cases, summary } = hindcast(table, settings, {
+      const { cases, summary, originsLeftOut } = hindcast(table, settings, {
         horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, random: randomStreams(seed),
       });
+      if (originsLeftOut > 0) {
+        io.stderr(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
+      }
       if (opts.json) {
         io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 1, tool_version: TOOL_VERSION, file, seed, level: opts.level,
-          step: settings.step, summary: summary.map((s) => ({ ...s, years: s.steps * settings.step })), cases }, null, 2) + '\n');
+          step: settings.step, origins_left_out: originsLeftOut, summary: summary.map((s) => ({ ...s, years: s.steps * settings.step })), cases }, null, 2) + '\n');
         return;
       }
       io.stdout(hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color)));

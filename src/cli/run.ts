@@ -42,11 +42,12 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
       // Help and --version exit 0; every other commander error (unknown option, missing argument, no command) is usage.
       return err.exitCode === 0 ? EXIT.ok : EXIT.usage;
     }
+    const debug = argv.includes('--debug');
     if (err instanceof SereError) {
-      io.stderr(`sere: error: ${formatError(err)}\n`);
+      // With --debug the code is printed too, so scripts and tests can tell errors apart without the wording.
+      io.stderr(`sere: error${debug ? ` [${err.code}]` : ''}: ${formatError(err)}\n`);
       return EXIT.badInput;
     }
-    const debug = argv.includes('--debug');
     const detail = err instanceof Error ? (debug ? err.stack ?? err.message : err.message) : String(err);
     io.stderr(`sere: internal error: ${detail}\n${debug ? '' : '(run again with --debug for details, and please report it)\n'}`);
     return EXIT.internal;

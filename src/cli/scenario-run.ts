@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
-import { positiveInteger } from './parse-options.js';
+import { drawsFlag, seedFlag } from './parse-options.js';
 import type { ForecastResult } from '../engine/forecast.js';
 import type { Io } from './io.js';
 import { writeFileAtomic } from './write-file.js';
@@ -19,8 +19,8 @@ export interface RunOptions {
 export function withRunOptions(command: Command): Command {
   return command
     .argument('<scenario.yaml...>', 'scenario files (a file may list alternatives)')
-    .option('--seed <n>', 'random seed (overrides the scenario file)', positiveInteger)
-    .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', positiveInteger)
+    .option('--seed <n>', 'random seed (overrides the scenario file)', seedFlag)
+    .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', drawsFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .option('--chart <file.svg>', 'also draw a fan chart (SVG): shares by year with their bands, one panel per state')
     .option('--force', 'replace an existing --chart file');

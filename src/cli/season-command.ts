@@ -1,11 +1,12 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, join, relative } from 'node:path';
 import { InvalidArgumentError, type Command } from 'commander';
-import { SereError } from '../errors.js';
+import { SereError, formatError } from '../errors.js';
 import { loadWorkspace, workspaceRoot } from '../workspace/workspace.js';
 import { runSeason } from '../workspace/season.js';
 import { freeRecordName, listRecords, writeFolderAtomic } from '../workspace/record-folder.js';
-import { readRecord } from '../workspace/read-record.js';
+import { readRecord, type StoredRecord } from '../workspace/read-record.js';
+import { prepareRecordsFolder, withRecordsLock } from '../workspace/records-lock.js';
 import { initWorkspace } from '../workspace/init.js';
 import { seasonTable } from '../report/season-table.js';
 import { makeStyle } from '../report/style.js';
@@ -39,16 +40,34 @@ export function registerSeason(program: Command, io: Io): void {
       const root = workspaceRoot(folder);
       const ws = loadWorkspace(root);
       const recordsDir = join(root, ws.records);
-      const earlier = listRecords(recordsDir);
-      const stored = earlier.map((name) => readRecord(join(recordsDir, name), name));
-      const previous = stored[stored.length - 1];
-      const date = opts.date ?? new Date().toISOString().slice(0, 10);
-      const run = await runSeason(ws, { date, fallbackSeed: freshSeed(), previous, earlier: stored });
-      const name = freeRecordName(recordsDir, date);
-      const target = join(recordsDir, name);
-      writeFolderAtomic(target, run.files);
-      io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
+      prepareRecordsFolder(recordsDir);
+      await withRecordsLock(recordsDir, (line) => io.stderr(`sere: ${line}\n`), async () => {
+        const stored = readableRecords(recordsDir, io);
+        const previous = stored[stored.length - 1];
+        const date = opts.date ?? new Date().toISOString().slice(0, 10);
+        const run = await runSeason(ws, { date, fallbackSeed: freshSeed(), previous, earlier: stored });
+        const name = freeRecordName(recordsDir, date);
+        const target = join(recordsDir, name);
+        writeFolderAtomic(target, run.files);
+        io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
+      });
     });
+}
+
+/**
+ * Earlier records, oldest first. One damaged or edited record must not stop every later season:
+ * it is reported (its path and what is wrong) and left out — neither compared with nor scored.
+ */
+function readableRecords(recordsDir: string, io: Io): StoredRecord[] {
+  return listRecords(recordsDir).flatMap((name) => {
+    try {
+      return [readRecord(join(recordsDir, name), name)];
+    } catch (err) {
+      if (!(err instanceof SereError)) throw err;
+      io.stderr(`sere: warning: skipped record ${name}: ${formatError(err)}\n`);
+      return [];
+    }
+  });
 }
 
 /** Rerun a record from the copies in its inputs/ folder, with its seeds and date, and compare. */

@@ -1,4 +1,4 @@
-import { isMap, isNode, isScalar, LineCounter, parseDocument, type Document } from 'yaml';
+import { isAlias, isMap, isNode, isScalar, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
 import { SereError, type ErrorCode, type Place } from '../errors.js';
 import { readTextFile } from './read-text-file.js';
@@ -34,7 +34,7 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
       { file, line: pos?.line, column: pos?.col }, `fix the ${what}'s syntax at that spot`);
   }
   const locate = (path: KeyPath): Place => locateIn(doc, lineCounter, file, path);
-  const parsed = schema.safeParse(doc.toJS());
+  const parsed = schema.safeParse(plainValue(doc, lineCounter, file, what));
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!;
     const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol');
@@ -46,6 +46,31 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
       keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
   return { value: parsed.data, sha256, locate };
+}
+
+/**
+ * The document as plain data. Aliases are where YAML input can hurt: one naming no anchor, or
+ * aliases nested to expand exponentially (an "alias bomb" — the yaml library stops past
+ * MAX_ALIAS_COUNT expansions). Both are the user's input, reported at the first alias.
+ */
+const MAX_ALIAS_COUNT = 1000;
+function plainValue(doc: Document, lineCounter: LineCounter, file: string, what: string): unknown {
+  try {
+    return doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
+  } catch (err) {
+    if (!(err instanceof ReferenceError)) throw err;
+    let at: Place = { file };
+    visit(doc, {
+      Alias(_, node) {
+        if (node.range) at = position(lineCounter, file, node.range[0]);
+        return visit.BREAK;
+      },
+    });
+    const unresolved = /unresolved alias/i.test(err.message);
+    throw new SereError('BAD_YAML',
+      unresolved ? 'an alias (*name) refers to no anchor (&name) defined before it' : 'aliases (*name) expand too many times',
+      at, unresolved ? `define the anchor before the alias, or write the value out in the ${what}` : `write the values out instead of nesting aliases in the ${what}`);
+  }
 }
 
 function position(lineCounter: LineCounter, file: string, offset: number): Place {

@@ -2,6 +2,7 @@ import { SereError } from '../errors.js';
 import { maximumLikelihood } from '../chain/estimates.js';
 import { fitPrior } from '../fit/fit.js';
 import type { Scenario } from '../scenario/scenario.js';
+import { checkRunSize } from './run-size.js';
 import { buildPlan, type RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 
@@ -25,7 +26,11 @@ function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
   });
 }
 
-/** Check every scenario's treatments on the fitted matrix: the CLI calls this before any run or message. */
+/**
+ * Check a run before it starts: its planned memory (alternatives sharing draws count together), and
+ * every scenario's treatments on the fitted matrix. Every run calls this once, before any draw.
+ */
 export function checkScenarios(scenarios: readonly Scenario[]): void {
+  if (scenarios.length > 0) checkRunSize(scenarios);
   for (const scenario of scenarios) checkTreatmentsOnEstimate(scenario, buildPlan(scenario));
 }

@@ -3,6 +3,7 @@ import { fitSurvey } from '../fit/fit.js';
 import type { FitSettings } from '../fit/settings.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
+import { LIMITS } from '../limits.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { summarise } from '../engine/forecast.js';
@@ -51,10 +52,14 @@ export interface HindcastSettings {
  * with what was surveyed at T. Coverage near the credible level and scores better than persistence
  * say how far ahead the chain can be trusted.
  */
-export function hindcast(table: SurveyTable, settings: FitSettings, options: HindcastSettings): { cases: HindcastCase[]; summary: HindcastSummary[] } {
+export function hindcast(table: SurveyTable, settings: FitSettings, options: HindcastSettings):
+  { cases: HindcastCase[]; summary: HindcastSummary[]; originsLeftOut: number } {
   const k = table.states.length;
   const observed = observedMixes(table.records, k);
-  const times = [...observed.keys()];
+  const every = [...observed.keys()];
+  // Each origin refits the chain on the surveys before it: a long series (thousands of survey
+  // times) is hindcast from its most recent origins only, which is where the trust matters.
+  const times = every.slice(-LIMITS.hindcastOrigins);
   const cases: HindcastCase[] = [];
   for (const origin of times) {
     const past = { ...table, records: table.records.filter((r) => r.time <= origin) };
@@ -100,5 +105,5 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       persistenceLogScore: mean((c) => c.persistenceLogScore), persistenceBrierScore: mean((c) => c.persistenceBrierScore),
     };
   }).filter((s) => s.cases > 0);
-  return { cases, summary };
+  return { cases, summary, originsLeftOut: every.length - times.length };
 }

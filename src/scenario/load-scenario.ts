@@ -1,4 +1,5 @@
 import { basename, dirname, relative, resolve } from 'node:path';
+import { LIMITS } from '../limits.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
@@ -24,7 +25,10 @@ export interface LoadOptions {
 /** Load a scenario file that describes exactly one scenario (no `alternatives`). */
 export function loadScenario(file: string, options: LoadOptions = {}): Scenario {
   const all = loadScenarios(file, options);
-  if (all.length !== 1) throw new Error(`internal: ${file} lists ${all.length} alternatives`);
+  if (all.length !== 1) {
+    throw new SereError('BAD_SCENARIO', `lists ${all.length} alternatives, and this command takes one scenario`, { file, path: 'alternatives' },
+      'give a file without alternatives (sere compare takes a file with them)');
+  }
   return all[0]!;
 }
 
@@ -59,6 +63,10 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     return years / fit.step;
   };
   const horizonSteps = 'steps' in s.horizon ? s.horizon.steps : stepsOf(s.horizon.years, ['horizon', 'years']);
+  if (horizonSteps > LIMITS.horizonSteps) {
+    fail('BAD_SCENARIO', `a horizon of ${horizonSteps} steps is beyond the limit of ${LIMITS.horizonSteps}`,
+      ['horizon', 'steps' in s.horizon ? 'steps' : 'years'], 'forecast a shorter horizon (see Limits in the README)');
+  }
   const showSteps = s.show
     ? withStart(s.show.map((years, n) => {
       const steps = stepsOf(years, ['show', n]);

@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { MAX_SEED } from '../uncertainty/random.js';
 
-/** Most draws a scenario may ask for: 1e6 draws × 100 steps × 10 states is already 8 GB of shares. */
-export const MAX_DRAWS = 1_000_000;
+import { LIMITS } from '../limits.js';
+
+const MAX_DRAWS = LIMITS.draws;
 
 const positiveInt = (what: string) => z.number({ error: `${what} must be a number` })
   .int({ error: `${what} must be a whole number` }).positive({ error: `${what} must be positive` });
@@ -34,8 +35,8 @@ const startSchema = z.union([
 ], { error: "start must be 'latest' or { year, shares }" });
 
 const horizonSchema = z.union([
-  z.strictObject({ years: positiveInt('horizon.years') }),
-  z.strictObject({ steps: positiveInt('horizon.steps') }),
+  z.strictObject({ years: positiveInt('horizon.years').max(LIMITS.horizonSteps * 100, { error: `horizon.years must be at most ${LIMITS.horizonSteps * 100}` }) }),
+  z.strictObject({ steps: positiveInt('horizon.steps').max(LIMITS.horizonSteps, { error: `horizon.steps must be at most ${LIMITS.horizonSteps}` }) }),
 ], { error: 'horizon must be { years: N } or { steps: N }' });
 
 const probability = (what: string) => z.number({ error: `${what} must be a number` })
@@ -98,8 +99,7 @@ const alternativeSchema = z.strictObject({
   events: z.array(eventSchema).default([]),
 });
 
-/** Most plots a count forecast simulates one by one. */
-export const MAX_PLOTS = 1_000_000;
+const MAX_PLOTS = LIMITS.plots;
 
 /**
  * The scenario file (YAML). Every option states its default here and in the README.

@@ -2,8 +2,10 @@ import { createHash } from 'node:crypto';
 import mt19937 from '@stdlib/random-base-mt19937';
 import gammaRandom from '@stdlib/random-base-gamma';
 
+import { LIMITS } from '../limits.js';
+
 /** Largest seed a user may give (seeds are 1 … 2³² − 1, the range MT19937 takes as one number). */
-export const MAX_SEED = 4294967295;
+export const MAX_SEED = LIMITS.seed;
 
 /**
  * The one way randomness travels in sere: a stream made once at the door (the CLI, from the

@@ -1,4 +1,4 @@
-import { existsSync, readdirSync, readFileSync, rmdirSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, rmdirSync, statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseDocument } from 'yaml';
@@ -26,6 +26,9 @@ const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-gras
  * scenario JSON Schema for editors, and the workspace file. The folder must not exist or be empty.
  */
 export function initWorkspace(dir: string): string[] {
+  if (existsSync(dir) && !statSync(dir).isDirectory()) {
+    throw new SereError('FILE_EXISTS', 'is a file, not a folder; nothing was written', { file: dir }, 'choose a new or empty folder');
+  }
   if (existsSync(dir) && readdirSync(dir).length > 0) {
     throw new SereError('FILE_EXISTS', 'is not empty; nothing was written', { file: dir }, 'choose a new or empty folder');
   }

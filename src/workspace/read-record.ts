@@ -1,6 +1,9 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { z } from 'zod';
 import { SereError } from '../errors.js';
+import { formatKeyPath } from '../data/read-structured.js';
+import { LIMITS } from '../limits.js';
 import type { StoredFit, StoredForecast } from './changes.js';
 import type { ScorableForecast } from './score-records.js';
 
@@ -21,22 +24,66 @@ export interface StoredRecord {
   readonly forecasts: readonly (StoredForecast & ScorableForecast)[];
 }
 
-function readJson<T>(file: string): T {
+const numbers = z.array(z.number());
+const band = z.object({ median: numbers, low: numbers, high: numbers, mean: numbers });
+/** Keyed by state label: read into a null-prototype map so a state named `constructor` is just a state. */
+const byState = <T extends z.ZodType>(value: T) => z.record(z.string(), value)
+  .transform((r) => Object.assign(Object.create(null) as Record<string, z.infer<T>>, r));
+
+/** What sere reads back of a record; anything else in its files is ignored. */
+const manifestSchema = z.object({
+  date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/),
+  previous: z.string().nullable(),
+  scenarios: z.array(z.object({ file: z.string().min(1), seed: z.number().int().min(1).max(LIMITS.seed) })),
+  scored: z.array(z.string()).default([]),
+  contents: z.array(z.string()),
+});
+const fitSchema = z.object({
+  states: z.array(z.string()).min(2),
+  counts: z.array(numbers),
+  probabilities: z.array(numbers),
+  input: z.object({ sha256: z.string() }),
+  data: z.object({ sites: z.number(), transitions: z.number() }),
+});
+const forecastFileSchema = z.object({
+  scenarios: z.array(z.object({
+    name: z.string(),
+    years: z.array(z.number().int()),
+    states: z.array(z.string()),
+    start: z.object({ year: z.number().int(), from: z.string() }),
+    treatments: z.array(z.unknown()),
+    shares: byState(band),
+    plots: z.object({ total: z.number() }).catchall(z.unknown())
+      .transform((p) => Object.assign(Object.create(null) as typeof p, p)).nullable(),
+  })),
+});
+
+const HINT = 'a record must hold the files sere wrote; do not edit records (move a damaged one out of the records folder)';
+
+function readJson<T>(file: string, schema: z.ZodType<T>): T {
+  let value: unknown;
   try {
-    return JSON.parse(readFileSync(file, 'utf8')) as T;
+    value = JSON.parse(readFileSync(file, 'utf8'));
   } catch {
-    throw new SereError('BAD_RECORD', 'is missing or not valid JSON', { file }, 'a record must hold the files sere wrote; do not edit records');
+    throw new SereError('BAD_RECORD', 'is missing or not valid JSON', { file }, HINT);
   }
+  const parsed = schema.safeParse(value);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0]!;
+    const path = formatKeyPath(issue.path.filter((p): p is string | number => typeof p !== 'symbol'));
+    throw new SereError('BAD_RECORD', `is not as sere wrote it: ${issue.message}`, { file, path: path || undefined }, HINT);
+  }
+  return parsed.data;
 }
 
-/** Read back what a later season needs of a record: its manifest, fit and forecasts. */
+/** Read back what a later season needs of a record: its manifest, fit and forecasts, each checked. */
 export function readRecord(dir: string, name: string): StoredRecord {
-  const manifest = readJson<RecordManifest>(join(dir, 'manifest.json'));
-  const fit = readJson<StoredFit>(join(dir, 'fit.json'));
+  const manifest = readJson(join(dir, 'manifest.json'), manifestSchema);
+  const fit = readJson(join(dir, 'fit.json'), fitSchema);
   const folder = join(dir, 'forecasts');
   const forecasts = existsSync(folder)
     ? readdirSync(folder).filter((f) => f.endsWith('.json')).sort()
-      .flatMap((f) => readJson<{ scenarios: (StoredForecast & ScorableForecast)[] }>(join(folder, f)).scenarios)
+      .flatMap((f) => readJson(join(folder, f), forecastFileSchema).scenarios)
     : [];
   return { name, dir, manifest, fit, forecasts };
 }

@@ -15,6 +15,7 @@ import { forecastJson } from '../report/forecast-json.js';
 import { comparisonJson } from '../report/compare-json.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { SereError } from '../errors.js';
+import { stemOf } from './record-names.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
@@ -46,10 +47,6 @@ export interface SeasonRun {
   readonly files: ReadonlyMap<string, string>;
 }
 
-/** A file's name in the record: its workspace path with folders joined by '-', extension dropped. */
-export function stemOf(path: string): string {
-  return path.replace(/\.(ya?ml|csv|json)$/i, '').split('/').join('-');
-}
 
 /**
  * One season: refit from the workspace's current surveys, rerun every scenario (and compare the

@@ -8,18 +8,22 @@ import { fitSettingsSchema } from '../scenario/schema.js';
 import { parseImpossible, type FitSettings } from '../fit/settings.js';
 import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
 import { MAX_SEED } from '../uncertainty/random.js';
+import { clashingStems } from './record-names.js';
 
 /** The file that makes a folder a sere workspace. */
 export const WORKSPACE_FILE = 'sere-workspace.yaml';
 
+/** A path in the workspace file: printable text (a NUL or control character is a typo, and breaks file calls). */
+const pathText = z.string().min(1).regex(/^[^\u0000-\u001f\u007f]+$/, { error: 'a path cannot hold control characters' });
+
 const workspaceSchema = z.strictObject({
   name: z.string().min(1).describe('The landscape or project; shown in every record.'),
-  surveys: z.array(z.string().min(1)).min(1, { error: 'list at least one survey table' })
+  surveys: z.array(pathText).min(1, { error: 'list at least one survey table' })
     .describe('Survey tables (.csv), relative to the workspace; one per season is fine — they are read as one.'),
   fit: fitSettingsSchema.optional(),
-  scenarios: z.array(z.string().min(1)).min(1, { error: 'list at least one scenario file' })
+  scenarios: z.array(pathText).min(1, { error: 'list at least one scenario file' })
     .describe('Scenario files run every season; a file listing alternatives is also compared.'),
-  records: z.string().min(1).default('records').describe('Folder of the dated records; default records.'),
+  records: pathText.default('records').describe('Folder of the dated records; default records.'),
   seed: z.number().int().positive().max(MAX_SEED).optional()
     .describe('Seed for scenarios that name none; default: a fresh seed, kept in the record.'),
 });
@@ -43,11 +47,11 @@ export function loadWorkspace(root: string): Workspace {
     throw new SereError('FILE_NOT_FOUND', `no ${WORKSPACE_FILE} in this folder`, { file: root },
       'name the workspace folder, or create one with sere init FOLDER');
   }
-  const { value: w, locate } = readStructured(file, workspaceSchema, 'workspace file', 'BAD_SCENARIO');
+  const { value: w, locate } = readStructured(file, workspaceSchema, 'workspace file', 'BAD_WORKSPACE');
   const inside = (path: string, key: (string | number)[]): string => {
     const rel = relative(root, resolve(root, path));
     if (rel.startsWith('..')) {
-      throw new SereError('BAD_SCENARIO', `'${path}' is outside the workspace`, locate(key),
+      throw new SereError('BAD_WORKSPACE', `'${path}' is outside the workspace`, locate(key),
         'keep surveys, scenarios and records inside the workspace folder, so a record can copy them');
     }
     return rel.split('\\').join('/');
@@ -63,12 +67,19 @@ export function loadWorkspace(root: string): Workspace {
       group: f.group,
     }
     : DEFAULT_FIT_SETTINGS;
+  const scenarios = w.scenarios.map((s, n) => inside(s, ['scenarios', n]));
+  const clash = clashingStems(scenarios);
+  if (clash) {
+    const [a, b] = clash;
+    throw new SereError('BAD_WORKSPACE', `'${scenarios[b]}' would share its name in every record with '${scenarios[a]}'`,
+      locate(['scenarios', b]), 'rename one of the two files (or list a file only once)');
+  }
   return {
     root,
     file,
     name: w.name,
     surveys: w.surveys.map((s, n) => inside(s, ['surveys', n])),
-    scenarios: w.scenarios.map((s, n) => inside(s, ['scenarios', n])),
+    scenarios,
     records: inside(w.records, ['records']),
     seed: w.seed,
     fitSettings,

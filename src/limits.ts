@@ -1,0 +1,35 @@
+/**
+ * The documented limits of sere (README, "Limits"): one owner for every bound a flag, a scenario
+ * file or a workspace is checked against, so a flag and a file never disagree. Each bound keeps a
+ * run from hanging or exhausting memory on a mistyped number; none is near what a survey needs.
+ */
+export const LIMITS = {
+  /** Seeds are 1 … 2³² − 1 (the range MT19937 takes as one number). */
+  seed: 4_294_967_295,
+  /** Matrix draws per run. */
+  draws: 1_000_000,
+  /** Steps ahead a forecast, check or hindcast may look (1,000 yearly steps is ten centuries). */
+  horizonSteps: 1_000,
+  /** Plots simulated in a plot-count forecast. */
+  plots: 1_000_000,
+  /** Sites per future season in `sere effort`. */
+  effortSites: 1_000_000,
+  /** Future seasons in `sere effort`. */
+  effortSeasons: 100,
+  /** Simulated futures per cell in `sere effort`, and bootstrap replicates in `sere check`. */
+  replicates: 100_000,
+  /** Survey times a hindcast forecasts from (the most recent ones; each refits the chain). */
+  hindcastOrigins: 200,
+  /**
+   * Memory a run may plan to hold, estimated before anything is allocated (matrix draws and the
+   * shares kept by year): past this the run is refused with the estimate, not started.
+   */
+  memoryBytes: 4 * 1024 ** 3,
+} as const;
+
+/** "1.2 GB": an estimate for a message. */
+export function formatBytes(bytes: number): string {
+  if (bytes >= 1024 ** 3) return `${(bytes / 1024 ** 3).toFixed(1)} GB`;
+  if (bytes >= 1024 ** 2) return `${(bytes / 1024 ** 2).toFixed(0)} MB`;
+  return `${Math.ceil(bytes / 1024)} kB`;
+}
