@@ -9,6 +9,7 @@ import { seededRandom } from '../uncertainty/random.js';
 import { estimateFit } from '../fit/estimate.js';
 import { fitToJson } from '../fit/fit-json.js';
 import { fitTable } from '../report/fit-table.js';
+import { longRunUnderPriors } from '../engine/prior-sensitivity.js';
 import { makeStyle, makeTable } from '../report/style.js';
 import type { Io } from './io.js';
 import { level } from './parse-options.js';
@@ -45,7 +46,7 @@ export function registerFit(program: Command, io: Io): void {
         writeFileAtomic(opts.out, json, Boolean(opts.force));
         io.stderr(`wrote ${opts.out}\n`);
       }
-      io.stdout(opts.json ? json : fitTable(fit, estimates, makeStyle(io.color)));
+      io.stdout(opts.json ? json : fitTable(fit, estimates, makeStyle(io.color), longRunUnderPriors(fit)));
     });
 }
 

@@ -5,7 +5,7 @@ import { appendBand, summarise, type ForecastResult, type ShareBands } from './f
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
-import { stationaryOfDraws } from './stationary-draws.js';
+import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
 import { drawIndex } from './layout.js';
 
 /** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
@@ -80,7 +80,8 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomSour
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   const stationary = stationaryOfDraws(matrices);
-  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random.seed, { split: false, stationary }));
+  const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
+  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random.seed, { split: false, stationary, observedRows }));
   return {
     baseline: results[0]!,
     alternatives: results.slice(1).map((result, n) => compareTo(first, sims[0]!, sims[n + 1]!, result)),

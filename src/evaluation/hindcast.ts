@@ -76,7 +76,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       };
       const seed = deriveSeed(options.seed, `hindcast:${origin}:${steps}`);
       const matrices = drawMatrices(fit, 'posterior', options.draws, seededRandom(seed));
-      const result = summarise(scenario, matrices, simulate(scenario, matrices, seed, {}, undefined, [0, steps]), seed, { split: false });
+      const result = summarise(scenario, matrices, simulate(scenario, matrices, seed, {}, undefined, [0, steps]), seed, { split: false, priorChecks: false });
       const last = result.steps.length - 1;
       const predicted = result.shares.map((b) => b.mean[last]!);
       const seen = at.counts.map((c) => c / at.sites);
