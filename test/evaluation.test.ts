@@ -58,4 +58,15 @@ describe('survey effort (preposterior)', () => {
     const width = r.shares[t]!.high[last]! - r.shares[t]!.low[last]!;
     expect(Math.abs(effort.current[t]! - width) / width).toBeLessThan(0.15);
   });
+
+  it('"now" is measured like every cell: with no new sites a cell equals it exactly', async () => {
+    const { surveyEffort } = await import('../src/evaluation/survey-effort.js');
+    const { loadScenario } = await import('../src/scenario/load-scenario.js');
+    const scenario = { ...loadScenario('scenarios/brenhollow/no-action.yaml'), horizonSteps: 20 };
+    const effort = surveyEffort(scenario, { sites: [0, 1], seasons: [1] }, { replicates: 4, draws: 200, random: randomStreams(11) });
+    // Same number of bands from the same number of draws, on common random numbers: adding nothing changes nothing.
+    expect(effort.cells[0]!.widths).toEqual(effort.current);
+    // One more transition moves every width by little (the old "now" was one band against a mean of many).
+    effort.cells[1]!.widths.forEach((w, s) => expect(Math.abs(w - effort.current[s]!)).toBeLessThan(0.02));
+  });
 });

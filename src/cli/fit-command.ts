@@ -9,6 +9,7 @@ import { randomStreams } from '../uncertainty/random.js';
 import { estimateFit } from '../fit/estimate.js';
 import { fitToJson } from '../fit/fit-json.js';
 import { fitTable } from '../report/fit-table.js';
+import { longRunUnderPriors } from '../engine/prior-sensitivity.js';
 import { makeStyle, makeTable } from '../report/style.js';
 import type { Io } from './io.js';
 import { level } from './parse-options.js';
@@ -42,7 +43,7 @@ export function registerFit(program: Command, io: Io): void {
       const estimates = estimateFit(fit, opts.level);
       const json = JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n';
       // Everything printed is made before anything is written: a failure leaves no file behind.
-      const printed = opts.json ? json : fitTable(fit, estimates, makeStyle(io.color));
+      const printed = opts.json ? json : fitTable(fit, estimates, makeStyle(io.color), longRunUnderPriors(fit));
       if (opts.out) {
         writeFileAtomic(opts.out, json, Boolean(opts.force));
         io.stderr(`wrote ${opts.out}\n`);

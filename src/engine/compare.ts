@@ -5,7 +5,7 @@ import { appendBand, summarise, type ForecastResult, type ShareBands } from './f
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
-import { stationaryOfDraws } from './stationary-draws.js';
+import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
 import { drawIndex } from './layout.js';
 
 /** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
@@ -25,14 +25,32 @@ export interface AlternativeComparison {
   /** Per state, at each shown step: how often the alternative gives more of that state than the baseline. */
   readonly odds: Odds[][];
   /** The landscape target, when the scenarios set one. */
-  readonly dominance: {
-    /** Chance of reaching it within the horizon: alternative minus baseline. */
-    readonly probabilityDifference: number;
-    /** Over all draws: reached sooner (or reached where the baseline never is), in the same year (or neither), later (or never). */
-    readonly timing: { readonly sooner: number; readonly same: number; readonly later: number };
-    /** Alternative's first year minus the baseline's, among draws where both reach it. */
-    readonly years: Band | null;
-  } | null;
+  readonly dominance: TargetComparison | null;
+}
+
+/**
+ * How the two alternatives fare against the landscape target, draw by draw. Every draw falls in
+ * exactly one of the six outcomes (their fractions add up to 1); a draw in which neither reaches
+ * the target is not a tie in timing, so it is counted apart rather than as "the same year".
+ */
+export interface TargetComparison {
+  /** Chance of reaching it within the horizon: alternative minus baseline. */
+  readonly probabilityDifference: number;
+  /** Fractions of all draws. */
+  readonly outcomes: {
+    /** Both reach it: the alternative sooner, in the same year, or later. */
+    readonly sooner: number;
+    readonly same: number;
+    readonly later: number;
+    /** Only one of them reaches it within the horizon. */
+    readonly onlyAlternative: number;
+    readonly onlyBaseline: number;
+    readonly neither: number;
+  };
+  /** Number of draws in which both reach it: what `years` rests on. */
+  readonly bothDraws: number;
+  /** Alternative's first year minus the baseline's, among draws where both reach it. */
+  readonly years: Band | null;
 }
 
 export interface Comparison {
@@ -62,7 +80,8 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   const stationary = stationaryOfDraws(matrices);
-  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary }));
+  const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
+  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows }));
   return {
     baseline: results[0]!,
     alternatives: results.slice(1).map((result, n) => compareTo(first, sims[0]!, sims[n + 1]!, result)),
@@ -101,26 +120,30 @@ function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result
   return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null };
 }
 
-function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenario): AlternativeComparison['dominance'] {
+function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenario): TargetComparison {
   const a = base.paths.firstAtTarget;
   const b = alt.paths.firstAtTarget;
   const draws = a.length;
-  let reachedA = 0; let reachedB = 0; let sooner = 0; let same = 0;
+  let sooner = 0; let same = 0; let later = 0; let onlyAlternative = 0; let onlyBaseline = 0; let neither = 0;
   const both: number[] = [];
   for (let d = 0; d < draws; d++) {
-    const ta = a[d]!; const tb = b[d]!;
-    if (ta >= 0) reachedA += 1;
-    if (tb >= 0) reachedB += 1;
-    // "Never" counts as later than any year within the horizon.
-    const ra = ta < 0 ? Infinity : ta;
-    const rb = tb < 0 ? Infinity : tb;
-    if (rb < ra) sooner += 1;
-    else if (rb === ra) same += 1;
-    if (ta >= 0 && tb >= 0) both.push((tb - ta) * baseline.fit.step);
+    const ta = a[d]!; const tb = b[d]!; // first step at the target, −1 when never within the horizon
+    if (ta >= 0 && tb >= 0) {
+      if (tb < ta) sooner += 1;
+      else if (tb === ta) same += 1;
+      else later += 1;
+      both.push((tb - ta) * baseline.fit.step);
+    } else if (tb >= 0) onlyAlternative += 1;
+    else if (ta >= 0) onlyBaseline += 1;
+    else neither += 1;
   }
   return {
-    probabilityDifference: (reachedB - reachedA) / draws,
-    timing: { sooner: sooner / draws, same: same / draws, later: (draws - sooner - same) / draws },
+    probabilityDifference: (onlyAlternative - onlyBaseline) / draws,
+    outcomes: {
+      sooner: sooner / draws, same: same / draws, later: later / draws,
+      onlyAlternative: onlyAlternative / draws, onlyBaseline: onlyBaseline / draws, neither: neither / draws,
+    },
+    bothDraws: both.length,
     years: both.length > 0 ? discreteBandOf(Int32Array.from(both), baseline.level) : null,
   };
 }

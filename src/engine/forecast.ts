@@ -5,7 +5,8 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
 import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
-import { stationaryOfDraws, type StationaryDraws } from './stationary-draws.js';
+import { stationaryOfDraws, stationaryOfObservedRows, type ObservedRowsStationary, type StationaryDraws } from './stationary-draws.js';
+import { priorSensitivity, type PriorSensitivity } from './prior-sensitivity.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
 
@@ -38,6 +39,19 @@ export interface ForecastResult {
   readonly plots: ShareBands[] | null;
   /** Of the drawn matrices (management and events aside). */
   readonly stationary: { readonly bands: Band[] | null; readonly unique: number; readonly notUnique: number };
+  /**
+   * The same without the states never surveyed as a from-state (stationary-draws.ts): null when
+   * every state was; `bands` null when no draw gives a unique mix (the counts say why).
+   */
+  readonly observedRows: {
+    readonly dropped: readonly number[];
+    readonly bands: Band[] | null;
+    readonly unique: number;
+    readonly notUnique: number;
+    readonly undefinedDraws: number;
+  } | null;
+  /** States whose rows rest mostly on the prior: their shares under three priors (prior-sensitivity.ts). */
+  readonly priorSensitivity: readonly PriorSensitivity[];
   /** Landscape-level: the first year the target's share of the whole area reaches the threshold. */
   readonly dominance: FirstTime | null;
   /** Per state: the first year it is the most common state in the landscape. */
@@ -59,13 +73,21 @@ export function runForecast(scenario: Scenario, random: RandomStream, onProgress
  * landscape-level first times, and the uncertainty split.
  */
 export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, random: RandomStream,
-  options: { readonly split?: boolean; readonly stationary?: StationaryDraws } = {}): ForecastResult {
+  options: { readonly split?: boolean; readonly stationary?: StationaryDraws; readonly observedRows?: ObservedRowsStationary | null;
+    /** False to skip the prior checks (observedRows, priorSensitivity), as a hindcast does. */
+    readonly priorChecks?: boolean } = {}): ForecastResult {
   const { fit, level } = scenario;
   const k = fit.states.length;
   const { paths } = sim;
   const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
   const stationary = options.stationary ?? stationaryOfDraws(matrices);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
+  const priorChecks = options.priorChecks !== false;
+  const observed = !priorChecks ? null
+    : options.observedRows !== undefined ? options.observedRows : stationaryOfObservedRows(matrices, fit.counts);
+  const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
+    ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
+    : null);
   return {
     scenario,
     seed: random.seed,
@@ -74,13 +96,15 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     years,
     shares: Array.from({ length: k }, (_, s) => bandsByStep(paths.shares, paths, s, level)),
     plots: sim.plots ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, paths, s, level)) : null,
-    stationary: {
-      bands: stationary.unique > 0
-        ? Array.from({ length: k }, (_, s) => bandOf(strided(stationary.mixes, s, k, stationary.unique), level))
-        : null,
-      unique: stationary.unique,
-      notUnique: stationary.notUnique,
+    stationary: { bands: bandsOf(stationary), unique: stationary.unique, notUnique: stationary.notUnique },
+    observedRows: observed && {
+      dropped: observed.dropped,
+      bands: bandsOf(observed.stationary),
+      unique: observed.stationary.unique,
+      notUnique: observed.stationary.notUnique,
+      undefinedDraws: observed.undefinedDraws,
     },
+    priorSensitivity: priorChecks ? priorSensitivity(scenario, random.stream('prior-sensitivity')) : [],
     dominance: scenario.target ? firstTime(paths.firstAtTarget, 0, 1, level, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random),

@@ -1,4 +1,5 @@
 import { communicatingClasses, type ChainClasses } from '../chain/classes.js';
+import { restrictChain } from '../chain/restrict.js';
 import { stationaryGivenClasses } from '../chain/stationary.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 
@@ -16,22 +17,76 @@ export interface StationaryDraws {
  */
 export function stationaryOfDraws(draws: MatrixDraws): StationaryDraws {
   const { k, count } = draws;
+  const mixOf = stationaryByPattern(k);
   const mixes = new Float64Array(count * k);
-  const classesByPattern = new Map<string, ChainClasses>();
   let unique = 0;
   for (let d = 0; d < count; d++) {
-    const offset = d * k * k;
-    let pattern = '';
-    for (let c = 0; c < k * k; c++) pattern += draws.data[offset + c]! > 0 ? '1' : '0';
-    let classes = classesByPattern.get(pattern);
-    if (!classes) {
-      classes = communicatingClasses(draws.data, k, offset);
-      classesByPattern.set(pattern, classes);
-    }
-    const result = stationaryGivenClasses(draws.data, k, offset, classes);
-    if (!result.unique) continue;
-    mixes.set(result.mix, unique * k);
+    const mix = mixOf(draws.data, d * k * k);
+    if (!mix) continue;
+    mixes.set(mix, unique * k);
     unique += 1;
   }
   return { mixes: mixes.subarray(0, unique * k), unique, notUnique: count - unique };
+}
+
+/** The long-run mix of the chain without the states never surveyed as a from-state. */
+export interface ObservedRowsStationary {
+  /** States never surveyed as a from-state: their rows are the prior alone, and they are left out. */
+  readonly dropped: readonly number[];
+  /** Over the draws where the restricted chain is defined; mixes are k wide, zero on dropped states. */
+  readonly stationary: StationaryDraws;
+  /** Draws in which some kept state could only move to dropped states, so the restriction is undefined. */
+  readonly undefinedDraws: number;
+}
+
+/**
+ * A state never surveyed as a from-state still enters the long-run mix, through its row drawn from
+ * the prior alone. Beside the full mix we give the mix of the chain restricted to the states seen
+ * as from-states (restrictChain: their rows and columns, rows renormalised — the chain conditioned
+ * on not entering the unseen states), draw by draw, so a reader sees how much of the long-run mix
+ * is the prior's. Null when every state was seen as a from-state (the two would be the same).
+ */
+export function stationaryOfObservedRows(draws: MatrixDraws, counts: ArrayLike<number>): ObservedRowsStationary | null {
+  const { k, count } = draws;
+  const kept: number[] = [];
+  const dropped: number[] = [];
+  for (let i = 0; i < k; i++) {
+    let n = 0;
+    for (let j = 0; j < k; j++) n += counts[i * k + j]!;
+    (n > 0 ? kept : dropped).push(i);
+  }
+  if (dropped.length === 0) return null;
+  const m = kept.length;
+  const mixOf = stationaryByPattern(m);
+  const mixes = new Float64Array(count * k);
+  let unique = 0; let undefinedDraws = 0;
+  for (let d = 0; d < count; d++) {
+    const restricted = restrictChain(draws.data, k, kept, d * k * k);
+    if (!restricted) { undefinedDraws += 1; continue; }
+    const mix = mixOf(restricted, 0);
+    if (!mix) continue;
+    kept.forEach((s, a) => { mixes[unique * k + s] = mix[a]!; });
+    unique += 1;
+  }
+  return {
+    dropped,
+    stationary: { mixes: mixes.subarray(0, unique * k), unique, notUnique: count - undefinedDraws - unique },
+    undefinedDraws,
+  };
+}
+
+/** Stationary mix of a k×k matrix at `offset`, or null when not unique; classes cached by sparsity pattern. */
+function stationaryByPattern(k: number): (p: Float64Array, offset: number) => Float64Array | null {
+  const classesByPattern = new Map<string, ChainClasses>();
+  return (p, offset) => {
+    let pattern = '';
+    for (let c = 0; c < k * k; c++) pattern += p[offset + c]! > 0 ? '1' : '0';
+    let classes = classesByPattern.get(pattern);
+    if (!classes) {
+      classes = communicatingClasses(p, k, offset);
+      classesByPattern.set(pattern, classes);
+    }
+    const result = stationaryGivenClasses(p, k, offset, classes);
+    return result.unique ? result.mix : null;
+  };
 }

@@ -81,7 +81,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       };
       const random = options.random.stream(`hindcast:${origin}:${steps}`);
       const matrices = drawMatrices(fit, 'posterior', options.draws, random.stream('matrices'));
-      const result = summarise(scenario, matrices, simulate(scenario, matrices, random, {}, undefined, [0, steps]), random, { split: false });
+      const result = summarise(scenario, matrices, simulate(scenario, matrices, random, {}, undefined, [0, steps]), random, { split: false, priorChecks: false });
       const last = result.steps.length - 1;
       const predicted = result.shares.map((b) => b.mean[last]!);
       const seen = at.counts.map((c) => c / at.sites);

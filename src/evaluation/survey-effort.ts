@@ -1,10 +1,10 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
-import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { columnStart } from '../engine/layout.js';
 import { bandOf } from '../engine/quantiles.js';
+import { resurveyedStates } from './resurvey-choice.js';
 
 export interface EffortCell {
   /** Sites surveyed each future season. */
@@ -26,10 +26,17 @@ export interface SurveyEffort {
  * Where survey effort narrows the bands: a preposterior analysis (Raiffa & Schlaifer 1961; for
  * monitoring design, e.g. Field et al. 2004). For each (sites per season, seasons) on the grid and
  * each replicate: draw a matrix from the current posterior as the "truth", simulate those future
- * surveys from it — the latest surveyed plots first, further plots starting from the latest mix —
- * add their transitions to the counts, and measure the horizon band of the scenario under the
- * updated posterior. The mean width over replicates is what that effort is expected to buy.
- * Uses posterior draws whatever the scenario's source (more data acts through the counts).
+ * surveys from it — a stratified random sample of the latest plots (resurvey-choice.ts), or all of
+ * them and further plots from the latest mix — add their transitions to the counts, and measure the
+ * horizon band of the scenario under the updated posterior. The mean width over replicates is what
+ * that effort is expected to buy. Uses posterior draws whatever the scenario's source (more data
+ * acts through the counts).
+ *
+ * "Now" is measured the same way — the mean over the same number of replicates of bands from the
+ * same number of draws — and replicate r's band draws, and its "truth", are common to "now" and
+ * every cell (common random numbers; Law & Kelton, ch. 11). So a cell differs from "now" only by
+ * the surveys added: with no sites it equals "now" exactly, and Monte Carlo noise in the band
+ * cannot make a future look wider than today.
  */
 export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[]; seasons: readonly number[] },
   options: { replicates: number; draws: number; random: RandomStream }): SurveyEffort {
@@ -45,35 +52,26 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
       return band.high - band.low;
     });
   };
-  const current = widthsOf(fit.counts, options.random.stream('current'));
+  const meanOverReplicates = (widths: (r: number) => number[]): number[] => {
+    const sum = new Array<number>(k).fill(0);
+    for (let r = 0; r < options.replicates; r++) widths(r).forEach((w, s) => { sum[s]! += w; });
+    return sum.map((x) => x / options.replicates);
+  };
+  const current = meanOverReplicates((r) => widthsOf(fit.counts, options.random.stream(`bands:${r}`)));
   const cells: EffortCell[] = [];
   for (const sites of grid.sites) {
     for (const seasons of grid.seasons) {
-      const sum = new Array<number>(k).fill(0);
-      for (let r = 0; r < options.replicates; r++) {
-        const random = options.random.stream(`effort:${sites}:${seasons}:${r}`);
-        const truth = posteriorDraws(fit, 1, random).data;
+      const widths = meanOverReplicates((r) => {
+        const truth = posteriorDraws(fit, 1, options.random.stream(`truth:${r}`)).data;
+        const random = options.random.stream(`surveys:${sites}:${seasons}:${r}`);
         const counts = Float64Array.from(fit.counts);
-        simulateSurveys(truth, k, startingStates(fit.latest.counts, sites, random), seasons, counts, random);
-        widthsOf(counts, random.stream('bands')).forEach((w, s) => { sum[s]! += w; });
-      }
-      cells.push({ sites, seasons, widths: sum.map((x) => x / options.replicates) });
+        simulateSurveys(truth, k, resurveyedStates(fit.latest.counts, sites, random), seasons, counts, random);
+        return widthsOf(counts, options.random.stream(`bands:${r}`));
+      });
+      cells.push({ sites, seasons, widths });
     }
   }
   return { current, cells, replicates: options.replicates };
-}
-
-/** States of the sites surveyed next: the latest surveyed plots first, then new plots from the latest mix. */
-function startingStates(latest: readonly number[], sites: number, random: RandomStream): number[] {
-  const states: number[] = [];
-  latest.forEach((n, s) => { for (let i = 0; i < n; i++) states.push(s); });
-  const kept = states.slice(0, sites);
-  const total = states.length;
-  const share = Float64Array.from(latest, (n) => n / total);
-  const extra = new Int32Array(latest.length);
-  if (sites > kept.length) multinomialSampler(random)(sites - kept.length, share, 0, latest.length, extra, 0);
-  extra.forEach((n, s) => { for (let i = 0; i < n; i++) kept.push(s); });
-  return kept;
 }
 
 /** Each site makes `seasons` transitions under `truth`; the transitions are added to `counts`. */

@@ -12,7 +12,8 @@ export function comparisonJson(c: Comparison): object {
   const byState = <T>(f: (s: number) => T): Record<string, T> => Object.fromEntries(states.map((name, s) => [name, f(s)]));
   return {
     format: 'sere-comparison',
-    format_version: 1,
+    // 2: dominance_difference reports four outcomes (both, only one, neither) instead of sooner/same/later.
+    format_version: 2,
     tool_version: TOOL_VERSION,
     common_random_numbers: true,
     baseline: scenarioJson(c.baseline),
@@ -28,9 +29,11 @@ export function comparisonJson(c: Comparison): object {
       dominance_difference: a.dominance
         ? {
           probability: a.dominance.probabilityDifference,
-          sooner: a.dominance.timing.sooner,
-          same: a.dominance.timing.same,
-          later: a.dominance.timing.later,
+          both: { sooner: a.dominance.outcomes.sooner, same: a.dominance.outcomes.same, later: a.dominance.outcomes.later },
+          only_alternative: a.dominance.outcomes.onlyAlternative,
+          only_baseline: a.dominance.outcomes.onlyBaseline,
+          neither: a.dominance.outcomes.neither,
+          both_draws: a.dominance.bothDraws,
           years: a.dominance.years,
         }
         : null,

@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { Comparison } from '../engine/compare.js';
-import { levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
+import { count, levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import type { Scenario } from '../scenario/scenario.js';
 
@@ -52,18 +52,23 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
   if (sc.target) {
     const last = base.years[base.years.length - 1];
     lines.push('', style.bold(`Landscape target: ${states[sc.target.state]} covering at least ${percent(sc.target.share)}% of the whole area, by ${last}`));
-    const t = makeTable(['alternative', 'chance', 'first year', 'chance vs baseline', 'sooner · same · later', 'years earlier (−) or later'], style,
-      ['left', 'right', 'right', 'right', 'right', 'right']);
-    t.push([label(base.scenario), `${percent(base.dominance!.probability)}%`, base.dominance!.year ? wholeBand(base.dominance!.year) : '—', '', '', '']);
+    const t = makeTable(['alternative', 'chance', 'first year', 'vs baseline', 'both: sooner · same · later',
+      'only it · only baseline · neither', 'years (− earlier) if both'], style,
+    ['left', 'right', 'right', 'right', 'right', 'right', 'right']);
+    t.push([label(base.scenario), `${percent(base.dominance!.probability)}%`, base.dominance!.year ? wholeBand(base.dominance!.year) : '—', '', '', '', '']);
     for (const a of c.alternatives) {
       const dom = a.result.dominance!;
       const diff = a.dominance!;
+      const o = diff.outcomes;
       t.push([label(a.result.scenario), `${percent(dom.probability)}%`, dom.year ? wholeBand(dom.year) : '—',
         `${signedPoints(diff.probabilityDifference)} pts`,
-        `${percent(diff.timing.sooner)}% · ${percent(diff.timing.same)}% · ${percent(diff.timing.later)}%`,
-        diff.years ? signedBand(diff.years) : '—']);
+        `${percent(o.sooner)}% · ${percent(o.same)}% · ${percent(o.later)}%`,
+        `${percent(o.onlyAlternative)}% · ${percent(o.onlyBaseline)}% · ${percent(o.neither)}%`,
+        `${diff.years ? signedBand(diff.years) : '—'} (${count(diff.bothDraws, 'draw')})`]);
     }
     lines.push(t.toString());
+    lines.push(style.dim(`Outcomes are shares of all ${base.draws} draws and add up to 100%. A draw in which neither reaches the ` +
+      'target is not "the same year"; the years band rests only on the draws in which both reach it.'));
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';

@@ -4,9 +4,12 @@ import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
 import { count, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
 import { makeTable } from './style.js';
+import type { PriorReliance } from '../chain/prior-reliance.js';
+import { priorSensitivityLines } from './prior-sensitivity.js';
 
 /** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
-export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance): string {
+export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
+  priorSensitivity: readonly { readonly reliance: PriorReliance; readonly longRun: readonly (number | null)[] }[] = []): string {
   const { states } = fit;
   const k = states.length;
   const lines: string[] = [];
@@ -49,6 +52,10 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance): str
   } else {
     const classes = est.stationary.closedClasses.map((c) => `{${c.map((s) => states[s]).join(', ')}}`).join(', ');
     lines.push(style.yellow(`no single long-run mix: the chain has ${est.stationary.closedClasses.length} closed classes ${classes}`));
+  }
+  if (priorSensitivity.length > 0) {
+    lines.push('', ...priorSensitivityLines(states, priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.longRun] })),
+      ['long-run share'], style));
   }
   lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, fit.sites.length)})`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));

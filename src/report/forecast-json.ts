@@ -1,5 +1,6 @@
 import type { ForecastResult } from '../engine/forecast.js';
 import { TOOL_VERSION } from '../version.js';
+import { SENSITIVITY_PRIORS } from '../engine/prior-sensitivity.js';
 
 /**
  * The documented JSON of `sere forecast --json`: one entry per scenario, everything keyed by state
@@ -33,6 +34,30 @@ export function scenarioJson(r: ForecastResult): object {
       ? byState((s) => { const b = r.stationary.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
       : null,
     stationary_draws: { unique: r.stationary.unique, not_unique: r.stationary.notUnique },
+    stationary_observed_rows: r.observedRows && {
+      dropped: r.observedRows.dropped.map((s) => fit.states[s]),
+      stationary: r.observedRows.bands
+        ? Object.fromEntries(fit.states.flatMap((name, s) => (r.observedRows!.dropped.includes(s) ? []
+          : [[name, { median: r.observedRows!.bands![s]!.median, low: r.observedRows!.bands![s]!.low, high: r.observedRows!.bands![s]!.high }]])))
+        : null,
+      unique: r.observedRows.unique,
+      not_unique: r.observedRows.notUnique,
+      undefined_draws: r.observedRows.undefinedDraws,
+    },
+    prior_sensitivity: {
+      priors: SENSITIVITY_PRIORS,
+      method: 'posterior-mean',
+      horizon_year: r.years[r.years.length - 1],
+      states: r.priorSensitivity.map((p) => ({
+        state: fit.states[p.reliance.state],
+        reason: p.reliance.reason,
+        transitions: p.reliance.observed,
+        leaving: p.reliance.leaving,
+        prior_leaving: p.reliance.priorLeaving,
+        horizon: p.horizon,
+        long_run: p.longRun,
+      })),
+    },
     dominance: r.dominance && sc.target
       ? {
         state: fit.states[sc.target.state],

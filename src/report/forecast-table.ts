@@ -2,6 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
 import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
+import { priorSensitivityLines } from './prior-sensitivity.js';
 
 /** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
 export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
@@ -41,14 +42,23 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   }
 
   lines.push('', style.bold(`Long-run (stationary) mix of the fitted chain, % — median [${band}] over draws`));
+  const observed = r.observedRows;
+  const without = observed?.bands ?? null;
   if (r.stationary.bands) {
-    const table = makeTable(['state', 'share'], style, ['left', 'right']);
-    states.forEach((name, s) => table.push([name, percentBand(r.stationary.bands![s]!)]));
+    const dropped = new Set(observed?.dropped ?? []);
+    const table = makeTable(['state', 'share', ...(without ? ['without never-surveyed rows'] : [])], style, ['left', 'right', 'right']);
+    states.forEach((name, s) => table.push([name, percentBand(r.stationary.bands![s]!),
+      ...(without ? [dropped.has(s) ? 'left out' : percentBand(without[s]!)] : [])]));
     lines.push(table.toString());
   }
   if (r.stationary.notUnique > 0) {
     lines.push(style.yellow(`${r.stationary.notUnique} of ${r.draws} draws have more than one closed class: ` +
       'their long-run mix depends on the start and is left out of these bands.'));
+  }
+  if (observed) lines.push(...observedRowsNotes(observed, states, r.draws, style));
+  if (r.priorSensitivity.length > 0) {
+    lines.push('', ...priorSensitivityLines(states, r.priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.horizon, p.longRun] })),
+      [`${r.years[r.years.length - 1]} share`, 'long-run share'], style));
   }
 
   const last = r.years[r.years.length - 1];
@@ -72,6 +82,21 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   if (r.split) lines.push('', ...splitTable(r, style));
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
+}
+
+/** What the "without never-surveyed rows" column means, and why it is missing when it is. */
+function observedRowsNotes(o: NonNullable<ForecastResult['observedRows']>, states: readonly string[], draws: number, style: ChalkInstance): string[] {
+  const names = o.dropped.map((s) => `'${states[s]}'`).join(', ');
+  const lines = [style.yellow(`${names} ${o.dropped.length === 1 ? 'was' : 'were'} never surveyed as a from-state, so ${o.dropped.length === 1 ? 'its row comes' : 'their rows come'} ` +
+    'from the prior alone; "without" is the chain restricted to the states seen as from-states (rows renormalised).')];
+  if (!o.bands) {
+    lines.push(style.yellow(o.undefinedDraws === draws
+      ? `The mix without ${names} is withheld: from some surveyed state every possible transition leads to ${names}.`
+      : `The mix without ${names} is withheld: the restricted chain has more than one closed class in every draw.`));
+  } else if (o.undefinedDraws + o.notUnique > 0) {
+    lines.push(style.yellow(`Without ${names}: ${o.undefinedDraws + o.notUnique} of ${draws} draws have no single long-run mix and are left out.`));
+  }
+  return lines;
 }
 
 const SOURCE_LABEL = { matrix: 'the fitted matrix', events: 'event years', plots: 'plot-level chance' } as const;

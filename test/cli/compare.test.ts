@@ -17,7 +17,9 @@ describe('sere compare (built binary)', () => {
       expect(alt.odds[state].tie.every((x: number) => x === 1)).toBe(true);
       expect(alt.odds[state].more.every((x: number) => x === 0)).toBe(true);
     }
-    expect(alt.dominance_difference).toMatchObject({ probability: 0, sooner: 0, same: 1, later: 0 });
+    // The target is reached in every draw by both (identical) alternatives: all 'both reach it, same year'.
+    expect(json.format_version).toBe(2);
+    expect(alt.dominance_difference).toMatchObject({ probability: 0, both: { sooner: 0, same: 1, later: 0 }, only_alternative: 0, only_baseline: 0, neither: 0, both_draws: 300 });
     expect(json.baseline.plots.c).toEqual(alt.plots.c);
     const table = sere(['compare', sc('same-twice.yaml')]);
     expect(table.stdout).toContain('0 (tie)');

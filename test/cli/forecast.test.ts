@@ -39,6 +39,24 @@ describe('sere forecast (built binary)', () => {
     expect(s.uncertainty).toEqual({ source: 'posterior', draws: 200, seed: 11 });
   });
 
+  it('--json gives the long-run mix without never-surveyed rows and the prior sensitivity', () => {
+    const s = JSON.parse(sere(['forecast', sc('never-from.yaml'), '--json']).stdout).scenarios[0];
+    expect(s.stationary_observed_rows.dropped).toEqual(['c']);
+    expect(Object.keys(s.stationary_observed_rows.stationary)).toEqual(['a', 'b']);
+    expect(s.stationary_observed_rows).toMatchObject({ unique: 400, not_unique: 0, undefined_draws: 0 });
+    expect(s.prior_sensitivity).toMatchObject({ priors: [0.1, 0.5, 1], method: 'posterior-mean', horizon_year: 15 });
+    const c = s.prior_sensitivity.states[0];
+    expect(c).toMatchObject({ state: 'c', reason: 'never-from', transitions: 0, leaving: 0, prior_leaving: 1 });
+    // Its prior row alone gives c a long-run share under every prior.
+    expect(c.long_run).toHaveLength(3);
+    expect(c.horizon).toHaveLength(3);
+    for (const x of c.long_run) expect(x).toBeGreaterThan(0.1);
+    // Every state of the demo was surveyed as a from-state: nothing to restrict.
+    const demo = JSON.parse(sere(['forecast', 'scenarios/brenhollow/no-action.yaml', '--draws', '200', '--json']).stdout).scenarios[0];
+    expect(demo.stationary_observed_rows).toBeNull();
+    expect(demo.prior_sensitivity.states.map((x: { state: string }) => x.state)).toEqual(['high-marsh', 'rank-grass']);
+  });
+
   it('prints a fresh seed on stderr when none is given, and --draws overrides the scenario', () => {
     const r = sere(['forecast', sc('typo.yaml').replace('typo', 'no-seed'), '--draws', '50', '--json']);
     expect(r.code).toBe(0);

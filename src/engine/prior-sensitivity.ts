@@ -1,0 +1,62 @@
+import { posteriorMean } from '../chain/estimates.js';
+import { rowsRestingOnPrior, type PriorReliance } from '../chain/prior-reliance.js';
+import { stationaryMix } from '../chain/stationary.js';
+import { fitPrior, type Fit } from '../fit/fit.js';
+import type { RandomStream } from '../uncertainty/random.js';
+import type { Scenario } from '../scenario/scenario.js';
+import { simulate } from './simulate.js';
+import { columnStart } from './layout.js';
+
+/** The priors compared: a weak one, Jeffreys (1946) and uniform (Bayes–Laplace). */
+export const SENSITIVITY_PRIORS = [0.1, 0.5, 1] as const;
+
+export interface PriorSensitivity {
+  /** The row that rests on the prior (under the fit's own prior), and why. */
+  readonly reliance: PriorReliance;
+  /** Share of that state at the horizon under each of SENSITIVITY_PRIORS. */
+  readonly horizon: readonly number[];
+  /** Its long-run share under each prior; null where the chain has no unique long-run mix. */
+  readonly longRun: readonly (number | null)[];
+}
+
+/**
+ * For each row that rests mostly on the prior (chain/prior-reliance.ts), that state's share at the
+ * horizon and in the long run under each of SENSITIVITY_PRIORS, so a reader sees which part of a
+ * forecast is data and which is assumption. Computed from the posterior mean matrix under each
+ * prior, (n + α) / Σ (n + α) (Gelman et al. 2013, §3.4) — no sampling, so the three numbers differ
+ * only by the prior. The horizon share runs the scenario's own start, treatments and events, with
+ * landscape events at their expected effect each year; the long-run share is of the fitted chain
+ * alone, as the long-run mix of a forecast is.
+ */
+export function priorSensitivity(scenario: Scenario, random: RandomStream): PriorSensitivity[] {
+  const { fit } = scenario;
+  const k = fit.states.length;
+  const flagged = rowsRestingOnPrior(fit.counts, fitPrior(fit), k);
+  if (flagged.length === 0) return [];
+  const runs = SENSITIVITY_PRIORS.map((prior) => {
+    const withPrior: Fit = { ...fit, prior };
+    const mean = posteriorMean(fit.counts, fitPrior(withPrior), k);
+    const sim = simulate({ ...scenario, fit: withPrior, plots: undefined },
+      { k, count: 1, data: mean, source: 'point', notes: [] }, random, { expectedEvents: true, noPlots: true },
+      undefined, [scenario.horizonSteps]);
+    const stationary = stationaryMix(mean, k);
+    const horizon = Array.from({ length: k }, (_, st) => sim.paths.shares[columnStart(sim.paths, 0, st)]!);
+    return { horizon, longRun: stationary.unique ? stationary.mix : null };
+  });
+  return flagged.map((reliance) => ({
+    reliance,
+    horizon: runs.map((r) => r.horizon[reliance.state]!),
+    longRun: runs.map((r) => (r.longRun ? r.longRun[reliance.state]! : null)),
+  }));
+}
+
+/** A state's long-run share under each of SENSITIVITY_PRIORS, for `sere fit` (no scenario, so no horizon). */
+export function longRunUnderPriors(fit: Fit): { readonly reliance: PriorReliance; readonly longRun: readonly (number | null)[] }[] {
+  const k = fit.states.length;
+  const flagged = rowsRestingOnPrior(fit.counts, fitPrior(fit), k);
+  const mixes = SENSITIVITY_PRIORS.map((prior) => {
+    const s = stationaryMix(posteriorMean(fit.counts, fitPrior({ ...fit, prior }), k), k);
+    return s.unique ? s.mix : null;
+  });
+  return flagged.map((reliance) => ({ reliance, longRun: mixes.map((m) => (m ? m[reliance.state]! : null)) }));
+}
