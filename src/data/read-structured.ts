@@ -1,6 +1,6 @@
 import { isMap, isNode, isScalar, LineCounter, parseDocument, type Document } from 'yaml';
 import type { z } from 'zod';
-import { SereError, type ErrorCode, type Place } from '../errors.js';
+import { SereError, quote, type ErrorCode, type Place } from '../errors.js';
 import { readTextFile } from './read-text-file.js';
 
 export type KeyPath = readonly (string | number)[];
@@ -41,7 +41,7 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
     const keys = issue.code === 'unrecognized_keys' ? issue.keys : [];
     const path = keys.length > 0 ? [...base, keys[0]!] : base;
     const place = keys.length > 0 ? locateKey(doc, lineCounter, file, base, keys[0]!) : locate(path);
-    const message = keys.length > 0 ? `unknown key '${keys[0]}'` : issue.message;
+    const message = keys.length > 0 ? `unknown key ${quote(keys[0]!)}` : issue.message;
     throw new SereError(code, message, { ...place, path: formatKeyPath(path) || undefined },
       keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
