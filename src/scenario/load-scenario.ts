@@ -59,6 +59,11 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     return years / fit.step;
   };
   const horizonSteps = 'steps' in s.horizon ? s.horizon.steps : stepsOf(s.horizon.years, ['horizon', 'years']);
+  // Survey times may reach ±(2^53 − 1); years past that would be rounded and printed wrong.
+  if (!Number.isSafeInteger(start.year + horizonSteps * fit.step)) {
+    fail('BAD_SCENARIO', `the horizon ends beyond year ${Number.MAX_SAFE_INTEGER}, the largest sere counts exactly`, ['horizon'],
+      'count survey times from a nearer origin, or shorten the horizon');
+  }
   const showSteps = s.show
     ? withStart(s.show.map((years, n) => {
       const steps = stepsOf(years, ['show', n]);

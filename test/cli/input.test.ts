@@ -54,6 +54,18 @@ describe('survey tables', () => {
     badInput(await sere(['fit', file]), `${file}:3:2: time '${'9'.repeat(57)}…'`);
   });
 
+  it('times near 2^53 fit, but a horizon past it is refused instead of printing rounded years', async () => {
+    const d = dir();
+    const t = Number.MAX_SAFE_INTEGER - 2;
+    writeFileSync(join(d, 's.csv'), `site,time,state\nA,${t - 1},a\nA,${t},b\nB,${t - 1},b\nB,${t},a\n`);
+    writeFileSync(join(d, 's.yaml'), 'data: s.csv\nuncertainty: { draws: 20, seed: 1 }\nhorizon: { steps: 5 }\n');
+    badInput(await sere(['forecast', join(d, 's.yaml')]), '(horizon)');
+    writeFileSync(join(d, 's.yaml'), 'data: s.csv\nuncertainty: { draws: 20, seed: 1 }\nhorizon: { steps: 2 }\n');
+    const r = await sere(['forecast', join(d, 's.yaml'), '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(JSON.parse(r.stdout).scenarios[0].years.at(-1)).toBe(Number.MAX_SAFE_INTEGER);
+  });
+
   it('Latin-1 bytes: exit 1 at file:line:column', async () => {
     const file = join(dir(), 's.csv');
     writeFileSync(file, Buffer.concat([Buffer.from('site,time,state\nA,1,a\nA,2,caf'), Buffer.from([0xe9, 0x0a])]));
