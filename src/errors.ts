@@ -8,6 +8,8 @@
 export type ErrorCode =
   | 'FILE_NOT_FOUND'
   | 'FILE_NOT_TEXT'
+  | 'NOT_A_FILE'
+  | 'NOT_UTF8'
   | 'FILE_EXISTS'
   | 'CANNOT_WRITE'
   | 'EMPTY_FILE'
@@ -18,6 +20,11 @@ export type ErrorCode =
   | 'DUPLICATE_SURVEY'
   | 'UNKNOWN_STATE'
   | 'STATE_CASE_CLASH'
+  | 'STATE_LOOK_ALIKE'
+  | 'INVISIBLE_CHARACTER'
+  | 'LABEL_TOO_LONG'
+  | 'TOO_MANY_STATES'
+  | 'DUPLICATE_COLUMN'
   | 'NO_TRANSITIONS'
   | 'TOO_FEW_STATES'
   | 'IMPOSSIBLE_OBSERVED'
@@ -59,6 +66,52 @@ export class SereError extends Error {
   }
 }
 
+/** Longest echoed value, in characters: longer ones show their start and '…'. */
+export const MAX_QUOTED_LENGTH = 60;
+/** Backstop for one part of a message (what, place, hint) however it was built. */
+const MAX_PART_LENGTH = 1000;
+
+/**
+ * Control, format and line-separator characters (Unicode Cc, Cf, Zl, Zp) shown as escapes:
+ * a newline or ESC in a label must not break the one-line message or drive the terminal, and a
+ * zero-width or bidi character must be seen, not silently reorder or hide text.
+ */
+const UNPRINTABLE = /[\p{Cc}\p{Cf}\p{Zl}\p{Zp}]/gu;
+const NAMED_ESCAPES = new Map([['\n', '\\n'], ['\r', '\\r'], ['\t', '\\t']]);
+
+export function escapeUnprintable(text: string): string {
+  return text.replace(UNPRINTABLE, (c) =>
+    NAMED_ESCAPES.get(c) ?? codePointEscape(c.codePointAt(0)!));
+}
+
+/** `\u001b`, or `\u{e0001}` beyond the Basic Multilingual Plane, as in JavaScript source. */
+function codePointEscape(code: number): string {
+  return code > 0xffff ? `\\u{${code.toString(16)}}` : `\\u${code.toString(16).padStart(4, '0')}`;
+}
+
+/** `text` if at most `max` code points, else its first `max − 3` and '…' (never half a surrogate pair). */
+function cut(text: string, max: number): string {
+  if (text.length <= max) return text;
+  const points: string[] = [];
+  // Walk code points only as far as needed: a 10 MB value costs no more than a short one.
+  for (const c of text) {
+    points.push(c);
+    if (points.length > max) return `${points.slice(0, max - 3).join('')}…`;
+  }
+  return text;
+}
+
+/**
+ * A piece of user input (a label, a site id, a value) as a message shows it: quoted, escaped and
+ * cut to MAX_QUOTED_LENGTH, so a 10 MB label or one holding a newline stays one readable line.
+ */
+export function quote(value: string): string {
+  return `'${escapeUnprintable(cut(value, MAX_QUOTED_LENGTH))}'`;
+}
+
+/** One part of the printed line: escaped, and cut if something long slipped through unquoted. */
+const printable = (text: string): string => escapeUnprintable(cut(text, MAX_PART_LENGTH));
+
 /** `file:line:column` (or as much of it as is known), then the key path. */
 export function formatPlace(place: Place): string {
   let where = place.file ?? '';
@@ -68,9 +121,9 @@ export function formatPlace(place: Place): string {
   return where;
 }
 
-/** The one-line message the CLI prints for a SereError. */
+/** The one-line message the CLI prints for a SereError: always one line, never unbounded. */
 export function formatError(error: SereError): string {
-  const where = formatPlace(error.place);
-  const fix = error.hint ? ` — ${error.hint}` : '';
-  return `${where ? `${where}: ` : ''}${error.message}${fix}`;
+  const where = printable(formatPlace(error.place));
+  const fix = error.hint ? ` — ${printable(error.hint)}` : '';
+  return `${where ? `${where}: ` : ''}${printable(error.message)}${fix}`;
 }

@@ -6,6 +6,10 @@
 export const LIMITS = {
   /** Seeds are 1 … 2³² − 1 (the range MT19937 takes as one number). */
   seed: 4_294_967_295,
+  /** States of a chain (a survey table, `--states`, a fit file): past this, a column is likely misnamed. */
+  states: 100,
+  /** Characters in a state name, site id or group. */
+  labelLength: 200,
   /** Matrix draws per run. */
   draws: 1_000_000,
   /** Steps ahead a forecast, check or hindcast may look (1,000 yearly steps is ten centuries). */

@@ -63,7 +63,8 @@ export function countTransitions(records: readonly SurveyRecord[], k: number, st
       }
       const cell = before.state * k + after.state;
       counts[cell] += 1;
-      if (firstLine[cell] === 0) firstLine[cell] = after.line;
+      // The earliest line in the file, whatever order the sites are visited in.
+      if (firstLine[cell] === 0 || after.line < firstLine[cell]!) firstLine[cell] = after.line;
       cells.set(cell, (cells.get(cell) ?? 0) + 1);
       transitions += 1;
       const period = periods.get(before.time) ?? new Map<number, number>();
@@ -92,7 +93,11 @@ function sparseCells(cells: Map<number, number>, k: number): [number, number, nu
   return [...cells.entries()].sort((a, b) => a[0] - b[0]).map(([cell, n]) => [Math.floor(cell / k), cell % k, n]);
 }
 
-/** Sites in order of first appearance, so the per-site list is stable for a given file. */
+/**
+ * Sites in code-point order of their ids, not in order of appearance: the site bootstrap draws
+ * sites by position in this list, so with the same seed a table with its rows shuffled must give
+ * the same list, and the same draws.
+ */
 function groupBySite(records: readonly SurveyRecord[]): Map<string, SurveyRecord[]> {
   const bySite = new Map<string, SurveyRecord[]>();
   for (const r of records) {
@@ -100,7 +105,23 @@ function groupBySite(records: readonly SurveyRecord[]): Map<string, SurveyRecord
     if (list) list.push(r);
     else bySite.set(r.site, [r]);
   }
-  return bySite;
+  return new Map([...bySite.entries()].sort((a, b) => compareCodePoints(a[0], b[0])));
+}
+
+/**
+ * Code-point order. JavaScript's default sort compares UTF-16 code units, which puts characters
+ * beyond U+FFFF before U+E000–U+FFFF; code points give the order other tools (and UTF-8 bytes) give.
+ */
+export function compareCodePoints(a: string, b: string): number {
+  const x = a[Symbol.iterator]();
+  const y = b[Symbol.iterator]();
+  for (;;) {
+    const p = x.next();
+    const q = y.next();
+    if (p.done || q.done) return p.done ? (q.done ? 0 : -1) : 1;
+    const d = p.value.codePointAt(0)! - q.value.codePointAt(0)!;
+    if (d !== 0) return d;
+  }
 }
 
 /** Sum sparse per-site cells back into a dense k×k table (the counts of any set of sites add up). */

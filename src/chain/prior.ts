@@ -1,4 +1,4 @@
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
 
 /** `jeffreys` = 0.5 per cell (Jeffreys 1946), `uniform` = 1 per cell, or any positive number. */
 export type PriorSpec = 'jeffreys' | 'uniform' | number;
@@ -7,7 +7,7 @@ export function parsePrior(text: string, place: { path?: string; file?: string; 
   if (text === 'jeffreys' || text === 'uniform') return text;
   const x = Number(text);
   if (text.trim() !== '' && x > 0 && Number.isFinite(x)) return x;
-  throw new SereError('BAD_PRIOR', `prior '${text}' is not jeffreys, uniform or a positive number`, place,
+  throw new SereError('BAD_PRIOR', `prior ${quote(text)} is not jeffreys, uniform or a positive number`, place,
     'use --prior jeffreys (0.5 per cell), uniform (1 per cell) or a positive pseudo-count such as 0.1');
 }
 

@@ -1,7 +1,8 @@
 import { isAlias, isMap, isNode, isScalar, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
-import { SereError, type ErrorCode, type Place } from '../errors.js';
+import { SereError, quote, type ErrorCode, type Place } from '../errors.js';
 import { readTextFile } from './read-text-file.js';
+import { restoreProtoKeys, shieldProtoKeys, userKey } from './proto-keys.js';
 
 export type KeyPath = readonly (string | number)[];
 
@@ -34,18 +35,18 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
       { file, line: pos?.line, column: pos?.col }, `fix the ${what}'s syntax at that spot`);
   }
   const locate = (path: KeyPath): Place => locateIn(doc, lineCounter, file, path);
-  const parsed = schema.safeParse(plainValue(doc, lineCounter, file, what));
+  const parsed = schema.safeParse(shieldProtoKeys(plainValue(doc, lineCounter, file, what)));
   if (!parsed.success) {
     const issue = parsed.error.issues[0]!;
-    const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol');
-    const keys = issue.code === 'unrecognized_keys' ? issue.keys : [];
+    const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol').map(userKey);
+    const keys = issue.code === 'unrecognized_keys' ? issue.keys.map(userKey) : [];
     const path = keys.length > 0 ? [...base, keys[0]!] : base;
     const place = keys.length > 0 ? locateKey(doc, lineCounter, file, base, keys[0]!) : locate(path);
-    const message = keys.length > 0 ? `unknown key '${keys[0]}'` : issue.message;
+    const message = keys.length > 0 ? `unknown key ${quote(keys[0]!)}` : issue.message;
     throw new SereError(code, message, { ...place, path: formatKeyPath(path) || undefined },
       keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
-  return { value: parsed.data, sha256, locate };
+  return { value: restoreProtoKeys(parsed.data), sha256, locate };
 }
 
 /**

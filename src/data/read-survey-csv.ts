@@ -1,5 +1,6 @@
 import { parse } from 'csv-parse/sync';
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
+import { labelProblem, normaliseLabel } from './labels.js';
 import { readTextFile } from './read-text-file.js';
 import { resolveStates, type StateResolver } from './states.js';
 import type { SurveyColumns, SurveyRecord, SurveyTable } from './survey.js';
@@ -33,7 +34,7 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
   const rows = parseRows(file, text);
   const header = rows[0]!;
   const index = columnIndex(file, header, options.columns);
-  const body = rows.slice(1);
+  const body = normaliseLabels(file, rows.slice(1), index);
   if (body.length === 0) {
     throw new SereError('EMPTY_FILE', 'the survey table has a header but no survey rows', { file, line: header.line },
       'add one row per site and survey below the header');
@@ -44,14 +45,19 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
     for (const [key, at] of Object.entries(index) as [keyof SurveyColumns, number][]) {
       if (key === 'group') continue;
       if (row.fields[at] === '') {
-        throw new SereError('EMPTY_VALUE', `empty ${key} in column ${at + 1} ('${header.fields[at]}')`,
+        throw new SereError('EMPTY_VALUE', `empty ${key} in column ${at + 1} (${quote(header.fields[at]!)})`,
           { file, line: row.line, column: at + 1 }, `fill in the ${key} or remove the row`);
       }
     }
     const time = row.fields[index.time]!;
     if (!INTEGER.test(time)) {
-      throw new SereError('BAD_TIME', `time '${time}' in column ${index.time + 1} is not a whole number`,
+      throw new SereError('BAD_TIME', `time ${quote(time)} in column ${index.time + 1} is not a whole number`,
         { file, line: row.line, column: index.time + 1 }, 'write survey times as integers such as 2024');
+    }
+    if (!Number.isSafeInteger(Number(time))) {
+      // Beyond 2^53 a double cannot hold every integer: 9007199254740993 would be read as …992.
+      throw new SereError('BAD_TIME', `time ${quote(time)} in column ${index.time + 1} is beyond ±${Number.MAX_SAFE_INTEGER}, the largest whole number sere counts exactly`,
+        { file, line: row.line, column: index.time + 1 }, 'write survey times as years, or count from a nearer origin (e.g. days since 2000-01-01)');
     }
     labels.push({ label: row.fields[index.state]!, line: row.line, column: index.state + 1 });
   }
@@ -105,18 +111,30 @@ export function splitPlainCsv(file: string, text: string): RawRow[] {
 
 type ColumnIndex = { site: number; time: number; state: number; group?: number };
 
-function columnIndex(file: string, header: RawRow, columns: SurveyColumns): ColumnIndex {
-  const find = (role: string, name: string): number => {
+function columnIndex(file: string, raw: RawRow, columns: SurveyColumns): ColumnIndex {
+  const header = { ...raw, fields: raw.fields.map(normaliseLabel) };
+  const seen = new Set<string>();
+  header.fields.forEach((name, at) => {
+    // Which of two 'state' columns holds the states? Refuse rather than guess. Empty names (trailing
+    // commas from a spreadsheet) cannot be asked for, so they may repeat.
+    if (name !== '' && seen.has(name)) {
+      throw new SereError('DUPLICATE_COLUMN', `column ${quote(name)} appears twice in the header (columns ${header.fields.indexOf(name) + 1} and ${at + 1})`,
+        { file, line: header.line, column: at + 1 }, 'rename or remove one of the two columns');
+    }
+    seen.add(name);
+  });
+  const find = (role: string, wanted: string): number => {
+    const name = normaliseLabel(wanted);
     const at = header.fields.indexOf(name);
     if (at < 0) {
-      const found = header.fields.map((f) => `'${f}'`).join(', ');
+      const found = header.fields.map(quote).join(', ');
       // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
       const semicolons = header.fields.length === 1 && header.fields[0]!.includes(';');
-      throw new SereError('MISSING_COLUMN', `no '${name}' column for the ${role} (header has ${found})`,
+      throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (header has ${found})`,
         { file, line: header.line },
         semicolons
           ? 'the file uses semicolons; save it with commas between values'
-          : `add a '${name}' column, or name the column that holds the ${role} with --${role}-column`);
+          : `add a ${quote(name)} column, or name the column that holds the ${role} with --${role}-column`);
     }
     return at;
   };
@@ -127,6 +145,33 @@ function columnIndex(file: string, header: RawRow, columns: SurveyColumns): Colu
   };
   if (columns.group !== undefined) index.group = find('group', columns.group);
   return index;
+}
+
+/**
+ * Site ids, states and groups in NFC, so one label typed with a precomposed or a combining accent
+ * is one label; site ids and groups with invisible characters are refused here (states are checked
+ * in states.ts with their look-alikes). Each distinct raw value is normalised and checked once.
+ */
+function normaliseLabels(file: string, body: readonly RawRow[], index: ColumnIndex): RawRow[] {
+  const columns: [string, number | undefined][] = [['site', index.site], ['state', index.state], ['group', index.group]];
+  const done = new Map<string, string>();
+  const normal = (value: string, role: string, line: number, at: number): string => {
+    const key = `${role}\u0000${value}`;
+    const known = done.get(key);
+    if (known !== undefined) return known;
+    const label = normaliseLabel(value);
+    const problem = role === 'state' ? undefined : labelProblem(label, `${role} ${quote(label)}`);
+    if (problem) throw new SereError(problem.code, problem.what, { file, line, column: at + 1 }, problem.hint);
+    done.set(key, label);
+    return label;
+  };
+  return body.map((row) => {
+    const fields = [...row.fields];
+    for (const [role, at] of columns) {
+      if (at !== undefined && fields[at] !== undefined) fields[at] = normal(fields[at]!, role, row.line, at);
+    }
+    return { fields, line: row.line };
+  });
 }
 
 function toRecord(row: RawRow, index: ColumnIndex, resolver: StateResolver): SurveyRecord {
@@ -155,7 +200,7 @@ function withoutDuplicates(file: string, records: readonly SurveyRecord[], state
       unique.push(r);
     } else if (first.state !== r.state) {
       throw new SereError('DUPLICATE_SURVEY',
-        `site '${r.site}' at time ${r.time} is '${states[r.state]}' here but '${states[first.state]}' on line ${first.line}`,
+        `site ${quote(r.site)} at time ${r.time} is ${quote(states[r.state]!)} here but ${quote(states[first.state]!)} on line ${first.line}`,
         { file, line: r.line }, 'keep one of the two rows');
     }
   }

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
+import { firstDifference, lookAlikeKey, MAX_STATES } from './labels.js';
 import { readSurveyCsv, type ReadSurveyOptions } from './read-survey-csv.js';
 import type { SurveyRecord, SurveyTable } from './survey.js';
 
@@ -13,29 +14,37 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
   if (files.length === 1) return readSurveyCsv(files[0]!, options);
   // Each file alone may hold a single state (a season when every plot stayed put); the union must not.
   const tables = files.map((file) => readSurveyCsv(file, { ...options, partOfSeveral: true }));
-  const states = options.states ? [...options.states] : [...new Set(tables.flatMap((t) => t.states))].sort();
+  // Declared states come back from each table checked and normalised (NFC): use those, not the raw option.
+  const states = options.states ? [...tables[0]!.states] : [...new Set(tables.flatMap((t) => t.states))].sort();
   if (states.length < 2) {
-    throw new SereError('TOO_FEW_STATES', `every site in every survey table is in the same state ('${states[0]}')`,
+    throw new SereError('TOO_FEW_STATES', `every site in every survey table is in the same state (${quote(states[0]!)})`,
       { file: files.join(', ') }, 'a chain needs surveys that record at least two different states');
   }
+  if (states.length > MAX_STATES) {
+    throw new SereError('TOO_MANY_STATES', `the survey tables hold ${states.length} different states together (at most ${MAX_STATES})`,
+      { file: files.join(', ') }, `merge states into at most ${MAX_STATES} classes`);
+  }
   if (!options.states) {
-    const byFold = new Map<string, string>();
+    const byKey = new Map<string, string>();
     for (const s of states) {
-      const clash = byFold.get(s.toLowerCase());
+      const clash = byKey.get(lookAlikeKey(s));
       if (clash !== undefined) {
-        throw new SereError('STATE_CASE_CLASH', `state '${s}' in one survey file differs from '${clash}' in another only by case`,
+        const how = s.toLowerCase() === clash.toLowerCase() ? 'only by case' : `only by look-alike characters (${firstDifference(s, clash)})`;
+        throw new SereError(s.toLowerCase() === clash.toLowerCase() ? 'STATE_CASE_CLASH' : 'STATE_LOOK_ALIKE',
+          `state ${quote(s)} in one survey file differs from ${quote(clash)} in another ${how}`,
           { file: files.join(', ') }, 'use one spelling in every file, or declare the states');
       }
-      byFold.set(s.toLowerCase(), s);
+      byKey.set(lookAlikeKey(s), s);
     }
   }
+  const stateIndex = new Map(states.map((s, i) => [s, i] as const));
   const seen = new Map<string, { file: string; record: SurveyRecord; label: string }>();
   const records: SurveyRecord[] = [];
   let repeatedRows = 0;
   tables.forEach((table) => {
     for (const r of table.records) {
       const label = table.states[r.state]!;
-      const record = { ...r, state: states.indexOf(label) };
+      const record = { ...r, state: stateIndex.get(label)! };
       const key = `${r.site}\u0000${r.time}`;
       const first = seen.get(key);
       if (!first) {
@@ -43,7 +52,7 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
         records.push(record);
       } else if (first.label !== label) {
         throw new SereError('DUPLICATE_SURVEY',
-          `site '${r.site}' at time ${r.time} is '${label}' here but '${first.label}' in ${first.file} line ${first.record.line}`,
+          `site ${quote(r.site)} at time ${r.time} is ${quote(label)} here but ${quote(first.label)} in ${first.file} line ${first.record.line}`,
           { file: table.file, line: r.line }, 'keep one of the two rows');
       } else {
         repeatedRows += 1;

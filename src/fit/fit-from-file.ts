@@ -1,7 +1,7 @@
 import { extname } from 'node:path';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
 import { fitSurvey, type Fit } from './fit.js';
 import { loadFit } from './load-fit.js';
@@ -19,13 +19,13 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
 /** The rows of one group, keeping the whole table's states so every group's fit lines up. */
 export function groupOf(table: SurveyTable, group: string, column: string | undefined): SurveyTable {
   if (column === undefined) {
-    throw new SereError('BAD_OPTION', `fitting group '${group}' needs a group column`, { file: table.file },
+    throw new SereError('BAD_OPTION', `fitting group ${quote(group)} needs a group column`, { file: table.file },
       'name the column that holds the groups (columns.group in a scenario, --group-column or --by on the command line)');
   }
   const records = table.records.filter((r) => r.group === group);
   if (records.length === 0) {
     const groups = [...new Set(table.records.map((r) => r.group))].sort().join(', ');
-    throw new SereError('BAD_OPTION', `no rows with ${column} = '${group}'`, { file: table.file }, `use one of: ${groups}`);
+    throw new SereError('BAD_OPTION', `no rows with ${column} = ${quote(group)}`, { file: table.file }, `use one of: ${groups}`);
   }
   return { ...table, records };
 }

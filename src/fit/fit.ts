@@ -1,4 +1,4 @@
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
 import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
 import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
@@ -52,16 +52,16 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
       const from = table.states[Math.floor(c / k)];
       const to = table.states[c % k];
       throw new SereError('IMPOSSIBLE_OBSERVED',
-        `transition ${from}>${to} is declared impossible but observed ${counted.counts[c]} times (first ending here)`,
-        { file: table.file, line: counted.firstLine[c] }, `check these surveys, or drop ${from}>${to} from the impossible list`);
+        `transition ${quote(`${from}>${to}`)} is declared impossible but observed ${counted.counts[c]} times (first ending here)`,
+        { file: table.file, line: counted.firstLine[c] }, `check these surveys, or drop ${quote(`${from}>${to}`)} from the impossible list`);
     }
   }
   for (let i = 0; i < k; i++) {
     let allowed = 0;
     for (let j = 0; j < k; j++) allowed += mask[i * k + j] ? 0 : 1;
     if (allowed === 0) {
-      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of '${table.states[i]}' is declared impossible`,
-        { path: 'impossible' }, `allow at least ${table.states[i]}>${table.states[i]} (staying put)`);
+      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of ${quote(table.states[i]!)} is declared impossible`,
+        { path: 'impossible' }, `allow at least ${quote(`${table.states[i]}>${table.states[i]}`)} (staying put)`);
     }
   }
   let firstTime = Infinity;

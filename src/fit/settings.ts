@@ -1,4 +1,5 @@
-import { SereError, type Place } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
+import { normaliseLabel } from '../data/labels.js';
 import type { SurveyColumns } from '../data/survey.js';
 import type { PriorSpec } from '../chain/prior.js';
 
@@ -19,10 +20,11 @@ export function parseImpossible(items: readonly string[], place: Place): [string
   return items.map((item) => {
     const parts = item.split('>').map((s) => s.trim());
     if (parts.length !== 2 || parts[0] === '' || parts[1] === '') {
-      throw new SereError('BAD_OPTION', `'${item}' is not a transition written FROM>TO`, place,
+      throw new SereError('BAD_OPTION', `${quote(item)} is not a transition written FROM>TO`, place,
         'write each impossible transition as from>to, e.g. woodland>open-water');
     }
-    return [parts[0]!, parts[1]!];
+    // NFC, as survey labels are, so an accent typed either way names the same state.
+    return [normaliseLabel(parts[0]!), normaliseLabel(parts[1]!)];
   });
 }
 
@@ -35,8 +37,8 @@ export function impossibleMask(pairs: FitSettings['impossible'], states: readonl
     const j = states.indexOf(to);
     const unknown = i < 0 ? from : j < 0 ? to : undefined;
     if (unknown !== undefined) {
-      throw new SereError('UNKNOWN_STATE', `impossible transition ${from}>${to} names unknown state '${unknown}'`, place,
-        `use one of: ${states.join(', ')}`);
+      throw new SereError('UNKNOWN_STATE', `impossible transition ${quote(`${from}>${to}`)} names unknown state ${quote(unknown)}`, place,
+        `use one of: ${states.map(quote).join(', ')}`);
     }
     mask[i * k + j] = 1;
   }

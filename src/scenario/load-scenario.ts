@@ -67,6 +67,11 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     fail('BAD_SCENARIO', `a horizon of ${horizonSteps} steps is beyond the limit of ${LIMITS.horizonSteps}`,
       ['horizon', 'steps' in s.horizon ? 'steps' : 'years'], 'forecast a shorter horizon (see Limits in the README)');
   }
+  // Survey times may reach ±(2^53 − 1); years past that would be rounded and printed wrong.
+  if (!Number.isSafeInteger(start.year + horizonSteps * fit.step)) {
+    fail('BAD_SCENARIO', `the horizon ends beyond year ${Number.MAX_SAFE_INTEGER}, the largest sere counts exactly`, ['horizon'],
+      'count survey times from a nearer origin, or shorten the horizon');
+  }
   const showSteps = s.show
     ? withStart(s.show.map((years, n) => {
       const steps = stepsOf(years, ['show', n]);

@@ -1,0 +1,173 @@
+import { quote } from '../errors.js';
+import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
+import type { KeyPath } from '../data/read-structured.js';
+import { addSiteCells, compareCodePoints, type SiteCounts } from '../chain/counts.js';
+import type { FitFile } from './fit-file-schema.js';
+
+/** Report one broken invariant at a key path; never returns. */
+export type Fail = (what: string, path: KeyPath, hint?: string) => never;
+
+/** What the loader keeps after the checks: labels in NFC, sites in canonical order. */
+export interface CheckedFitFile {
+  readonly states: readonly string[];
+  readonly impossible: readonly (readonly [string, string])[];
+  readonly counts: Float64Array;
+  readonly sites: readonly SiteCounts[];
+  readonly transitions: number;
+}
+
+const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
+
+/**
+ * Every invariant the engine relies on, checked at the door: a fit file edited by hand (or by a
+ * script) is refused with the key path of the first broken one, never turned into a wrong forecast.
+ * A file written by `sere fit --out` always passes.
+ */
+export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
+  const states = checkStates(f.states, fail);
+  const k = states.length;
+  const counts = checkCounts(f, k, fail);
+  const transitions = counts.reduce((a, b) => a + b, 0);
+  if (!Number.isSafeInteger(transitions)) fail('counts add up to more transitions than can be counted exactly', ['counts']);
+  if (transitions === 0) fail('counts hold no transitions', ['counts']);
+  checkPrior(f.prior, fail);
+  const impossible = checkImpossible(f.impossible, states, counts, fail);
+  checkTimes(f, fail);
+  checkLatest(f.latest, k, fail);
+  const sites = checkSites(f, k, counts, fail);
+  checkPeriods(f, k, counts, fail);
+  checkTriples(f, k, counts, fail);
+  return { states, impossible, counts, sites, transitions };
+}
+
+function checkStates(raw: readonly string[], fail: Fail): string[] {
+  if (raw.length > MAX_STATES) fail(`${raw.length} states (at most ${MAX_STATES})`, ['states']);
+  const states = raw.map(normaliseLabel);
+  const seen = new Map<string, number>();
+  states.forEach((s, i) => {
+    const problem = labelProblem(s, `state ${quote(s)}`);
+    if (problem) fail(problem.what, ['states', i], problem.hint);
+    const first = seen.get(s);
+    // Two columns with one name: shares and counts would be attributed to either at random.
+    if (first !== undefined) fail(`state ${quote(s)} is listed twice (also states[${first}])`, ['states', i]);
+    seen.set(s, i);
+  });
+  return states;
+}
+
+function checkCounts(f: FitFile, k: number, fail: Fail): Float64Array {
+  if (f.counts.length !== k) fail(`counts has ${f.counts.length} rows for ${k} states`, ['counts']);
+  f.counts.forEach((row, i) => { if (row.length !== k) fail(`counts row ${i} has ${row.length} entries, expected ${k}`, ['counts', i]); });
+  return new Float64Array(f.counts.flat());
+}
+
+function checkPrior(prior: FitFile['prior'], fail: Fail): void {
+  const fixed = PRIORS.get(prior.name);
+  if (fixed === undefined && prior.name !== 'pseudo-count') {
+    fail(`prior ${quote(prior.name)} is not jeffreys, uniform or pseudo-count`, ['prior', 'name']);
+  }
+  if (fixed !== undefined && prior.pseudo_count !== fixed) {
+    fail(`the ${prior.name} prior has pseudo-count ${fixed}, not ${prior.pseudo_count}`, ['prior', 'pseudo_count'],
+      `set pseudo_count to ${fixed}, or name the prior 'pseudo-count'`);
+  }
+}
+
+function checkImpossible(pairs: FitFile['impossible'], states: readonly string[], counts: Float64Array,
+  fail: Fail): [string, string][] {
+  const k = states.length;
+  const index = new Map(states.map((s, i) => [s, i] as const));
+  const mask = new Uint8Array(k * k);
+  const out = pairs.map(([rawFrom, rawTo], n): [string, string] => {
+    const [from, to] = [normaliseLabel(rawFrom), normaliseLabel(rawTo)];
+    const i = index.get(from);
+    const j = index.get(to);
+    if (i === undefined) fail(`impossible transition names unknown state ${quote(from)}`, ['impossible', n, 0]);
+    if (j === undefined) fail(`impossible transition names unknown state ${quote(to)}`, ['impossible', n, 1]);
+    if (mask[i! * k + j!]) fail(`impossible transition ${quote(`${from}>${to}`)} is listed twice`, ['impossible', n]);
+    mask[i! * k + j!] = 1;
+    if (counts[i! * k + j!]! > 0) {
+      fail(`transition ${quote(`${from}>${to}`)} is declared impossible but counted ${counts[i! * k + j!]} times`, ['counts', i!, j!]);
+    }
+    return [from, to];
+  });
+  for (let i = 0; i < k; i++) {
+    if (mask.subarray(i * k, (i + 1) * k).every((m) => m === 1)) {
+      fail(`every transition out of ${quote(states[i]!)} is declared impossible`, ['impossible']);
+    }
+  }
+  return out;
+}
+
+function checkTimes(f: FitFile, fail: Fail): void {
+  if (f.data.first_time > f.latest.time) {
+    fail(`the first survey time ${f.data.first_time} is after the latest, ${f.latest.time}`, ['data', 'first_time']);
+  }
+  // Transitions join surveys one step apart, so a step longer than the whole record counted none.
+  if (f.step > f.latest.time - f.data.first_time) {
+    fail(`step ${f.step} is longer than the surveys span (${f.data.first_time}–${f.latest.time})`, ['step']);
+  }
+  const gaps = new Set<number>();
+  f.data.skipped_pairs.forEach(({ gap }, n) => {
+    if (gap === f.step || gaps.has(gap)) fail(`skipped gap ${gap} is the step or listed twice`, ['data', 'skipped_pairs', n, 'gap']);
+    gaps.add(gap);
+  });
+}
+
+function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
+  if (latest.counts.length !== k) fail(`latest.counts has ${latest.counts.length} entries for ${k} states`, ['latest', 'counts']);
+  const total = latest.counts.reduce((a, b) => a + b, 0);
+  // The start shares are counts / sites: any other total would make shares that do not sum to 1.
+  if (total !== latest.sites) fail(`latest.counts add up to ${total} sites, but latest.sites is ${latest.sites}`, ['latest', 'sites']);
+}
+
+function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCounts[] {
+  const seen = new Map<string, number>();
+  const fromSites = new Float64Array(k * k);
+  const grouped = f.group_column !== undefined && f.group_column !== null;
+  const sites = f.site_counts.map((s, n): SiteCounts => {
+    const site = normaliseLabel(s.site);
+    const problem = labelProblem(site, `site ${quote(site)}`);
+    if (problem) fail(problem.what, ['site_counts', n, 'site'], problem.hint);
+    const first = seen.get(site);
+    if (first !== undefined) fail(`site ${quote(site)} is listed twice (also site_counts[${first}])`, ['site_counts', n, 'site']);
+    seen.set(site, n);
+    if (grouped && s.group === undefined) fail(`site ${quote(site)} has no group, but the fit has a group column`, ['site_counts', n]);
+    if (!grouped && s.group !== undefined) fail(`site ${quote(site)} has a group, but the fit has no group_column`, ['site_counts', n, 'group']);
+    s.cells.forEach(([i, j], c) => { if (i >= k || j >= k) fail(`state index out of range (${k} states)`, ['site_counts', n, 'cells', c]); });
+    addSiteCells(fromSites, k, s.cells);
+    const cells = s.cells.map(([i, j, x]) => [i, j, x] as const);
+    return s.group === undefined ? { site, cells } : { site, group: normaliseLabel(s.group), cells };
+  });
+  if (fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
+  // The bootstrap draws sites by position: the canonical order makes a reordered file give the same draws.
+  return sites.sort((a, b) => compareCodePoints(a.site, b.site));
+}
+
+function checkPeriods(f: FitFile, k: number, counts: Float64Array, fail: Fail): void {
+  if (!f.period_counts) return;
+  const sum = new Float64Array(k * k);
+  const times = new Set<number>();
+  f.period_counts.forEach((p, n) => {
+    if (times.has(p.time)) fail(`period ${p.time} is listed twice`, ['period_counts', n, 'time']);
+    times.add(p.time);
+    if (p.time < f.data.first_time || p.time + f.step > f.latest.time) {
+      fail(`period ${p.time} starts outside the surveys (${f.data.first_time}–${f.latest.time - f.step})`, ['period_counts', n, 'time']);
+    }
+    p.cells.forEach(([i, j], c) => { if (i >= k || j >= k) fail(`state index out of range (${k} states)`, ['period_counts', n, 'cells', c]); });
+    addSiteCells(sum, k, p.cells);
+  });
+  if (sum.some((x, c) => x !== counts[c])) fail('period_counts do not add up to counts', ['period_counts']);
+}
+
+function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): void {
+  if (!f.order2_counts) return;
+  const ends = new Float64Array(k * k);
+  f.order2_counts.forEach(([i, j, l, n], c) => {
+    if (i >= k || j >= k || l >= k) fail(`state index out of range (${k} states)`, ['order2_counts', c]);
+    ends[j * k + l] += n;
+  });
+  // Each run of three ends in a one-step transition j→l, so no more runs end in j→l than there are j→l transitions.
+  ends.forEach((x, c) => {
+    if (x > counts[c]!) fail(`order2_counts hold ${x} runs ending in a transition counted ${counts[c]} times`, ['order2_counts']);
+  });
+}

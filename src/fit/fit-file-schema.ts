@@ -1,0 +1,39 @@
+import { z } from 'zod';
+
+// zod's int() admits only safe integers (|n| ≤ 2^53 − 1), so no count or time is silently rounded.
+const count = z.number().int().nonnegative();
+const time = z.number().int();
+const label = z.string().min(1);
+const cell = z.tuple([count, count, count]);
+
+/**
+ * The keys of a fit file that sere reads back, and their types. Estimates in the file are
+ * recomputed, not trusted; the invariants between keys are checked in check-fit-file.ts.
+ */
+export const fitFileSchema = z.object({
+  format: z.literal('sere-fit', { error: "not a sere fit file (expected format: 'sere-fit')" }),
+  format_version: z.literal(1, { error: 'this fit file format version is not supported; refit with this version of sere' }),
+  input: z.object({ file: z.string(), sha256: z.string() }),
+  states: z.array(label).min(2),
+  step: z.number().int().positive(),
+  prior: z.object({ name: z.string(), pseudo_count: z.number().positive() }),
+  impossible: z.array(z.tuple([label, label])),
+  counts: z.array(z.array(count)),
+  data: z.object({
+    surveys: count,
+    skipped_pairs: z.array(z.object({ gap: z.number().int().positive(), pairs: count })),
+    repeated_rows: count,
+    first_time: time,
+  }),
+  latest: z.object({ time, counts: z.array(count), sites: count.min(1) }),
+  group_column: z.string().min(1).nullable().optional(),
+  period_counts: z.array(z.object({ time, cells: z.array(cell) })).nullable().optional(),
+  order2_counts: z.array(z.tuple([count, count, count, count])).nullable().optional(),
+  site_counts: z.array(z.object({
+    site: label,
+    group: z.string().optional(),
+    cells: z.array(cell),
+  })),
+}).loose();
+
+export type FitFile = z.infer<typeof fitFileSchema>;
