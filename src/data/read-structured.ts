@@ -1,4 +1,4 @@
-import { isAlias, isMap, isNode, isScalar, LineCounter, parseDocument, visit, type Document } from 'yaml';
+import { isMap, isNode, isScalar, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
 import { SereError, quote, type ErrorCode, type Place } from '../errors.js';
 import { readTextFile } from './read-text-file.js';

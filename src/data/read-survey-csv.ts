@@ -1,5 +1,5 @@
 import { parse } from 'csv-parse/sync';
-import { SereError, quote } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
 import { labelProblem, normaliseLabel } from './labels.js';
 import { readTextFile } from './read-text-file.js';
 import { resolveStates, type StateResolver } from './states.js';
@@ -9,6 +9,8 @@ export interface ReadSurveyOptions {
   readonly columns: SurveyColumns;
   /** Declared states, in the user's order; when absent, states are inferred and sorted. */
   readonly states?: readonly string[];
+  /** Where `states` was declared (a flag, or a scenario key), for messages; default --states. */
+  readonly statesPlace?: Place;
   /** One of several tables read as one (see read-survey-tables.ts): it may hold a single state. */
   readonly partOfSeveral?: boolean;
 }
@@ -62,7 +64,7 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
     labels.push({ label: row.fields[index.state]!, line: row.line, column: index.state + 1 });
   }
 
-  const resolver = resolveStates(file, labels, options.states, options.partOfSeveral ? 1 : 2);
+  const resolver = resolveStates(file, labels, options.states, options.partOfSeveral ? 1 : 2, options.statesPlace);
   const { unique, repeated } = withoutDuplicates(file, body.map((row) => toRecord(row, index, resolver)), resolver.states);
   return { file, states: resolver.states, records: unique, repeatedRows: repeated, sha256 };
 }

@@ -1,4 +1,4 @@
-import { SereError, quote } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
 import { firstDifference, labelProblem, lookAlikeKey, MAX_STATES, normaliseLabel } from './labels.js';
 
 export interface StateResolver {
@@ -18,9 +18,11 @@ interface Label {
  * otherwise states are the distinct labels, sorted, and two that differ only by case or by
  * look-alike characters are an error. Labels with invisible characters are refused either way.
  */
-export function resolveStates(file: string, labels: readonly Label[], declared?: readonly string[], minStates = 2): StateResolver {
+export function resolveStates(file: string, labels: readonly Label[], declared?: readonly string[], minStates = 2,
+  declaredAt: Place = FLAG_PLACE): StateResolver {
   const distinct = distinctLabels(file, labels, declared === undefined);
-  const states = declared ? checkDeclared(declared) : inferStates(file, distinct, minStates);
+  const states = declared ? checkDeclared(declared, declaredAt) : inferStates(file, distinct, minStates);
+  const where = declaredAt.path ?? '--states';
   const index = new Map(states.map((s, i) => [s, i] as const));
   if (declared) {
     for (const { label, line, column } of distinct.values()) {
@@ -30,7 +32,7 @@ export function resolveStates(file: string, labels: readonly Label[], declared?:
         ? `state ${quote(label)} differs from the declared state ${quote(near)} only by case, spacing or look-alike characters`
         : `unknown state ${quote(label)} (declared: ${states.map(quote).join(', ')})`;
       throw new SereError('UNKNOWN_STATE', what, { file, line, column },
-        near ? `spell it ${quote(near)}` : `add ${quote(label)} to --states or correct the row`);
+        near ? `spell it ${quote(near)}` : `add ${quote(label)} to ${where} or correct the row`);
     }
   }
   return {
@@ -61,27 +63,30 @@ function distinctLabels(file: string, labels: readonly Label[], inferring: boole
   return firstSeen;
 }
 
-function checkDeclared(declared: readonly string[]): readonly string[] {
+/** Where declared states come from when the caller does not say: the command-line flag. */
+const FLAG_PLACE: Place = { path: '--states' };
+
+function checkDeclared(declared: readonly string[], place: Place): readonly string[] {
   const states = declared.map((s) => normaliseLabel(s.trim()));
   const seen = new Set<string>();
   for (const s of states) {
     if (s === '') {
-      throw new SereError('BAD_OPTION', 'an empty state name in --states', { path: '--states' },
+      throw new SereError('BAD_OPTION', `an empty state name in ${place.path ?? '--states'}`, place,
         'list state names separated by commas, e.g. --states bare,grass,shrub');
     }
     const problem = labelProblem(s, `declared state ${quote(s)}`);
-    if (problem) throw new SereError(problem.code, problem.what, { path: '--states' }, problem.hint);
+    if (problem) throw new SereError(problem.code, problem.what, place, problem.hint);
     if (seen.has(s)) {
-      throw new SereError('BAD_OPTION', `state ${quote(s)} is listed twice`, { path: '--states' }, 'list each state once');
+      throw new SereError('BAD_OPTION', `state ${quote(s)} is listed twice`, place, 'list each state once');
     }
     seen.add(s);
   }
   if (states.length < 2) {
-    throw new SereError('TOO_FEW_STATES', 'a chain needs at least two states', { path: '--states' },
+    throw new SereError('TOO_FEW_STATES', 'a chain needs at least two states', place,
       'list every state the sites can be in');
   }
   if (states.length > MAX_STATES) {
-    throw new SereError('TOO_MANY_STATES', `${states.length} states declared (at most ${MAX_STATES})`, { path: '--states' },
+    throw new SereError('TOO_MANY_STATES', `${states.length} states declared (at most ${MAX_STATES})`, place,
       `merge states into at most ${MAX_STATES} classes`);
   }
   return states;

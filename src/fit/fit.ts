@@ -36,7 +36,7 @@ export interface Fit {
 
 export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
   const k = table.states.length;
-  const mask = impossibleMask(settings.impossible, table.states, { path: 'impossible' });
+  const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
   const counted = countTransitions(table.records, k, settings.step);
   if (counted.transitions === 0) {
     const guess = likelyStep(counted.skipped);

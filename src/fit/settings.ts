@@ -13,6 +13,8 @@ export interface FitSettings {
   readonly columns: SurveyColumns;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
+  /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
+  readonly places?: { readonly states?: Place; readonly impossible?: Place };
 }
 
 /** Parse `from>to` pairs, e.g. `woodland>open-water`. */

@@ -1,11 +1,11 @@
 import { basename, dirname, relative, resolve } from 'node:path';
 import { LIMITS } from '../limits.js';
+import { fitSettingsOf } from './fit-block.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
-import { DEFAULT_COLUMNS } from '../data/survey.js';
-import { fitFromFile, DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
+import { fitFromFile } from '../fit/fit-from-file.js';
 import type { Fit } from '../fit/fit.js';
-import { impossibleMask, parseImpossible, type FitSettings } from '../fit/settings.js';
+import { impossibleMask } from '../fit/settings.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -146,20 +146,18 @@ function fitOfData(s: ScenarioFile, file: string,
     fail('BAD_SCENARIO', 'fit settings apply only to a survey table, not to a fit file', ['fit'],
       'remove the fit block, or name the survey table (.csv) in data');
   }
-  return fitFromFile(dataFile, fitSettings(s, locate(['fit', 'impossible'])));
-}
-
-function fitSettings(s: ScenarioFile, impossiblePlace: Place): FitSettings {
-  const f = s.fit;
-  if (!f) return DEFAULT_FIT_SETTINGS;
-  return {
-    step: f.step ?? DEFAULT_FIT_SETTINGS.step,
-    prior: f.prior ?? DEFAULT_FIT_SETTINGS.prior,
-    states: f.states,
-    impossible: parseImpossible(f.impossible ?? [], impossiblePlace),
-    columns: { ...DEFAULT_COLUMNS, ...f.columns },
-    group: f.group,
-  };
+  if (dataFile === '' || s.data.trim() === '' || /[\\/]$/.test(s.data)) {
+    fail('BAD_SCENARIO', `data names a folder ('${s.data}'), not a file`, ['data'], 'name the survey table (.csv) or fit file (.json) itself');
+  }
+  try {
+    return fitFromFile(dataFile, fitSettingsOf(s.fit, locate));
+  } catch (err) {
+    // The data file itself cannot be read: the place to fix is the scenario's data key.
+    if (err instanceof SereError && ['FILE_NOT_FOUND', 'NOT_A_FILE'].includes(err.code)) {
+      fail('BAD_SCENARIO', `data: ${err.message} (${dataFile})`, ['data'], err.hint);
+    }
+    throw err;
+  }
 }
 
 function givenShares(

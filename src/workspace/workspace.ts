@@ -3,10 +3,9 @@ import { join, relative, resolve } from 'node:path';
 import { z } from 'zod';
 import { SereError } from '../errors.js';
 import { readStructured } from '../data/read-structured.js';
-import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { fitSettingsSchema } from '../scenario/schema.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
-import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
+import { fitSettingsOf } from '../scenario/fit-block.js';
+import type { FitSettings } from '../fit/settings.js';
 import { MAX_SEED } from '../uncertainty/random.js';
 import { clashingStems } from './record-names.js';
 
@@ -56,17 +55,7 @@ export function loadWorkspace(root: string): Workspace {
     }
     return rel.split('\\').join('/');
   };
-  const f = w.fit;
-  const fitSettings: FitSettings = f
-    ? {
-      step: f.step ?? DEFAULT_FIT_SETTINGS.step,
-      prior: f.prior ?? DEFAULT_FIT_SETTINGS.prior,
-      states: f.states,
-      impossible: parseImpossible(f.impossible ?? [], locate(['fit', 'impossible'])),
-      columns: { ...DEFAULT_COLUMNS, ...f.columns },
-      group: f.group,
-    }
-    : DEFAULT_FIT_SETTINGS;
+  const fitSettings = fitSettingsOf(w.fit, locate);
   const scenarios = w.scenarios.map((s, n) => inside(s, ['scenarios', n]));
   const clash = clashingStems(scenarios);
   if (clash) {

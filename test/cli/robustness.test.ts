@@ -186,3 +186,21 @@ describe('workspaces and records', () => {
     expect(existsSync(join(dir, 'records', '.sere-season.lock'))).toBe(false);
   });
 });
+
+describe('errors in a scenario fit block name the scenario key, not a flag', () => {
+  it('an impossible transition naming an unknown state', () => {
+    const f = scenario(scratch(), `${BASE}fit:\n  impossible: [a>nope]\nhorizon: { steps: 5 }\n`);
+    expectBadInput(['forecast', f], 'UNKNOWN_STATE', /s\.yaml:4:\d+ \(fit\.impossible\)/);
+  });
+  it('a state listed twice in fit.states', () => {
+    const f = scenario(scratch(), `${BASE}fit:\n  states: [a, a, b, c]\nhorizon: { steps: 5 }\n`);
+    expectBadInput(['forecast', f], 'BAD_OPTION', /s\.yaml:4:\d+ \(fit\.states\)/);
+  });
+  it('data naming a folder, or a missing file', () => {
+    const dir = scratch();
+    expectBadInput(['forecast', scenario(dir, 'data: "."\nhorizon: { steps: 5 }\n')], 'BAD_SCENARIO', /s\.yaml:1:7 \(data\)/);
+    mkdirSync(join(dir, 'sub'));
+    expectBadInput(['forecast', scenario(dir, 'data: sub\nhorizon: { steps: 5 }\n')], 'BAD_SCENARIO', /s\.yaml:1:7 \(data\)/);
+    expectBadInput(['forecast', scenario(dir, 'data: gone.csv\nhorizon: { steps: 5 }\n')], 'BAD_SCENARIO', /s\.yaml:1:7 \(data\)/);
+  });
+});

@@ -1,0 +1,25 @@
+import type { z } from 'zod';
+import type { Place } from '../errors.js';
+import type { KeyPath } from '../data/read-structured.js';
+import { DEFAULT_COLUMNS } from '../data/survey.js';
+import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
+import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import type { fitSettingsSchema } from './schema.js';
+
+/**
+ * A `fit:` block (of a scenario or a workspace file) as fit settings, every default stated once;
+ * the places of `states` and `impossible` go along so a later error names the key, not a flag.
+ */
+export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefined, locate: (path: KeyPath) => Place): FitSettings {
+  if (!block) return DEFAULT_FIT_SETTINGS;
+  const impossiblePlace = locate(['fit', 'impossible']);
+  return {
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace },
+    step: block.step ?? DEFAULT_FIT_SETTINGS.step,
+    prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
+    states: block.states,
+    impossible: parseImpossible(block.impossible ?? [], impossiblePlace),
+    columns: { ...DEFAULT_COLUMNS, ...block.columns },
+    group: block.group,
+  };
+}
