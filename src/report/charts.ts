@@ -1,12 +1,13 @@
 import type { TopLevelSpec } from 'vega-lite';
 import type { ForecastResult } from '../engine/forecast.js';
+import { chartLabel } from './chart-label.js';
 
 type Row = { scenario: string; state: string; year: number; median: number; low: number; high: number };
 
 function rows(results: readonly ForecastResult[]): Row[] {
   return results.flatMap((r) => r.scenario.fit.states.flatMap((state, s) => r.years.map((year, t) => ({
     scenario: r.scenario.alternative ?? r.scenario.name,
-    state,
+    state: chartLabel(state),
     year,
     median: r.shares[s]!.median[t]! * 100,
     low: r.shares[s]!.low[t]! * 100,
@@ -30,7 +31,7 @@ export function fanChartSpec(results: readonly ForecastResult[], title: string):
     $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
     title: { text: title, subtitle: `share of the area, %: median and ${Math.round(level * 100)}% band` },
     data: { values: rows(results) },
-    facet: { field: 'state', type: 'nominal', title: null, sort: results[0]!.scenario.fit.states as string[] },
+    facet: { field: 'state', type: 'nominal', title: null, sort: results[0]!.scenario.fit.states.map(chartLabel) },
     columns: 3,
     spec: {
       width: 220,

@@ -28,4 +28,20 @@ describe('fan charts', () => {
     // Axes, grid, text, three coloured lines and bands: far more than a blank or one-colour image.
     expect(colours.size).toBeGreaterThan(30);
   });
+
+  it('draw states named like Object.prototype members, and fail loudly (not half-drawn) on a broken spec', async () => {
+    const names = ['__proto__', 'constructor', 'toString'];
+    const odd = runForecast(scenarioFor(fitWithCounts(names, [[40, 10, 0], [5, 30, 15], [2, 4, 36]]), { draws: 100 }), randomStreams(3));
+    const svg = await renderSvg(fanChartSpec([odd], 'odd names'));
+    for (const label of names) expect(svg).toContain(label);
+    // Panels by index, labelled by an expression naming the raw prototype names: vega logs
+    // "Operator not defined" from inside the facet and would carry on; renderSvg must throw instead.
+    const broken = fanChartSpec([odd], 'broken') as unknown as { facet: unknown; data: { values: { state: string; panel?: number }[] } };
+    for (const v of broken.data.values) {
+      v.state = v.state.replace('\u2060', '');
+      v.panel = names.indexOf(v.state);
+    }
+    broken.facet = { field: 'panel', type: 'ordinal', header: { labelExpr: `${JSON.stringify(names)}[datum.value]` } };
+    await expect(renderSvg(broken as never)).rejects.toThrow(/chart rendering failed/);
+  });
 });
