@@ -41,7 +41,7 @@ export function registerHindcast(program: Command, io: Io): void {
         horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, random: randomStreams(seed),
       });
       if (originsLeftOut > 0) {
-        io.stderr(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
+        (io.notice ?? io.stderr)(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
       }
       if (opts.json) {
         io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 1, tool_version: TOOL_VERSION, file, seed, level: opts.level,

@@ -1,5 +1,5 @@
 import { Command, CommanderError } from 'commander';
-import { SereError, formatError } from '../errors.js';
+import { SereError, escapeUnprintable, formatError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { registerFit } from './fit-command.js';
 import { registerForecast } from './forecast-command.js';
@@ -17,7 +17,9 @@ export const EXIT = { ok: 0, badInput: 1, usage: 2, internal: 70 } as const;
  * The whole CLI as a function: parse `argv`, run one command, return the exit code. The
  * executable only calls this; tests call it directly with their own `io`.
  */
-export async function run(argv: readonly string[], io: Io): Promise<number> {
+export async function run(argv: readonly string[], outer: Io): Promise<number> {
+  const notices: string[] = [];
+  const io: Io = { ...outer, notice: (text) => { notices.push(text); } };
   const program = new Command('sere')
     .description('Forecast how the mix of land states changes, from repeated site surveys (fitted Markov chains).')
     .version(TOOL_VERSION)
@@ -36,6 +38,7 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
 
   try {
     await program.parseAsync([...argv], { from: 'user' });
+    for (const text of notices) io.stderr(text);
     return EXIT.ok;
   } catch (err) {
     if (err instanceof CommanderError) {
@@ -48,7 +51,8 @@ export async function run(argv: readonly string[], io: Io): Promise<number> {
       io.stderr(`sere: error${debug ? ` [${err.code}]` : ''}: ${formatError(err)}\n`);
       return EXIT.badInput;
     }
-    const detail = err instanceof Error ? (debug ? err.stack ?? err.message : err.message) : String(err);
+    // Without --debug, one escaped line: an internal error may echo input (a label in a library's message).
+    const detail = err instanceof Error ? (debug ? err.stack ?? err.message : escapeUnprintable(err.message.split('\n')[0]!.slice(0, 500))) : String(err);
     io.stderr(`sere: internal error: ${detail}\n${debug ? '' : '(run again with --debug for details, and please report it)\n'}`);
     return EXIT.internal;
   }

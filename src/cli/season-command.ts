@@ -41,7 +41,7 @@ export function registerSeason(program: Command, io: Io): void {
       const ws = loadWorkspace(root);
       const recordsDir = join(root, ws.records);
       prepareRecordsFolder(recordsDir);
-      await withRecordsLock(recordsDir, (line) => io.stderr(`sere: ${line}\n`), async () => {
+      await withRecordsLock(recordsDir, (line) => (io.notice ?? io.stderr)(`sere: ${line}\n`), async () => {
         const stored = readableRecords(recordsDir, io);
         const previous = stored[stored.length - 1];
         const date = opts.date ?? new Date().toISOString().slice(0, 10);
@@ -64,7 +64,7 @@ function readableRecords(recordsDir: string, io: Io): StoredRecord[] {
       return [readRecord(join(recordsDir, name), name)];
     } catch (err) {
       if (!(err instanceof SereError)) throw err;
-      io.stderr(`sere: warning: skipped record ${name}: ${formatError(err)}\n`);
+      (io.notice ?? io.stderr)(`sere: warning: skipped record ${name}: ${formatError(err)}\n`);
       return [];
     }
   });

@@ -8,7 +8,7 @@ import type { Io } from './io.js';
  */
 function pickSeed(flag: number | undefined, fromFile: number | undefined, io: Io, announce: (seed: number) => string): number {
   const seed = flag ?? fromFile ?? freshSeed();
-  if (flag === undefined && fromFile === undefined) io.stderr(`${announce(seed)}\n`);
+  if (flag === undefined && fromFile === undefined) (io.notice ?? io.stderr)(`${announce(seed)}\n`);
   return seed;
 }
 

@@ -57,7 +57,9 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
 const MAX_ALIAS_COUNT = 1000;
 function plainValue(doc: Document, lineCounter: LineCounter, file: string, what: string): unknown {
   try {
-    return doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
+    const value: unknown = doc.toJS({ maxAliasCount: MAX_ALIAS_COUNT });
+    if (isCyclic(value)) throw new ReferenceError('an alias refers to a value it is part of');
+    return value;
   } catch (err) {
     if (!(err instanceof ReferenceError)) throw err;
     let at: Place = { file };
@@ -68,10 +70,22 @@ function plainValue(doc: Document, lineCounter: LineCounter, file: string, what:
       },
     });
     const unresolved = /unresolved alias/i.test(err.message);
+    const cyclic = /part of/.test(err.message);
     throw new SereError('BAD_YAML',
-      unresolved ? 'an alias (*name) refers to no anchor (&name) defined before it' : 'aliases (*name) expand too many times',
+      unresolved ? 'an alias (*name) refers to no anchor (&name) defined before it'
+        : cyclic ? 'an alias (*name) refers to the value it is part of' : 'aliases (*name) expand too many times',
       at, unresolved ? `define the anchor before the alias, or write the value out in the ${what}` : `write the values out instead of nesting aliases in the ${what}`);
   }
+}
+
+/** Whether a value holds itself (YAML `&a [*a]` becomes a self-containing array; schemas would recurse forever). */
+function isCyclic(value: unknown, ancestors = new Set<object>()): boolean {
+  if (value === null || typeof value !== 'object') return false;
+  if (ancestors.has(value)) return true;
+  ancestors.add(value);
+  const found = Object.values(value).some((v) => isCyclic(v, ancestors));
+  ancestors.delete(value);
+  return found;
 }
 
 function position(lineCounter: LineCounter, file: string, offset: number): Place {

@@ -30,6 +30,15 @@ describe('nasty YAML is bad input, with its place', () => {
     const f = scenario(scratch(), `${BASE}horizon: { steps: 5 }\nshow: &a [*b]\n`);
     expectBadInput(['forecast', f], 'BAD_YAML', /s\.yaml:4:\d+/);
   });
+  it('an alias inside the value it names (a self-containing list)', () => {
+    const f = scenario(scratch(), `${BASE}horizon: { years: &a [*a] }\n`);
+    expectBadInput(['forecast', f], 'BAD_YAML', /s\.yaml:3:\d+/);
+  });
+  it('a failing command prints only its error line, not the seed notice before it', () => {
+    const dir = scratch();
+    writeFileSync(join(dir, 'p.csv'), 'site,time,state\nA,1,a\nA,2,b\n');
+    expectBadInput(['hindcast', join(dir, 'p.csv'), '--state-column', 'nope'], 'MISSING_COLUMN', 'p.csv');
+  });
   it('an alias bomb (nested aliases expanding exponentially)', () => {
     const bomb = ['a: &a [x, x, x, x, x, x, x, x, x]'];
     for (const [n, prev] of [['b', 'a'], ['c', 'b'], ['d', 'c'], ['e', 'd'], ['f', 'e']]) bomb.push(`${n}: &${n} [${Array(9).fill(`*${prev}`).join(', ')}]`);
