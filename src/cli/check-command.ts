@@ -54,7 +54,7 @@ export function registerCheck(program: Command, io: Io): void {
     const isFitFile = extname(file).toLowerCase() === '.json';
     const given = FIT_FLAGS.filter((name) => command.getOptionValueSource(name) === 'cli');
     if (isFitFile && given.length > 0) {
-      throw new SereError('BAD_OPTION', `fit flags (${given.join(', ')}) apply to a survey table, not to a fit file`, { file },
+      throw new SereError('BAD_OPTION', `fit flags (${given.join(', ')}) apply to a survey table, not to a fit file`, { file, path: `--${given[0]!.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}` },
         'drop them, or check the survey table itself');
     }
     const fit = fitFromFile(file, fitSettingsFrom(opts));

@@ -17,7 +17,7 @@ export function registerCompare(program: Command, io: Io): void {
     .action(async (files: string[], opts: RunOptions) => {
       const scenarios = loadAndCheck(files, opts);
       if (scenarios.length < 2) {
-        throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0] },
+        throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },
           'name two or more scenario files, or list alternatives in the file');
       }
       checkComparable(scenarios);

@@ -68,7 +68,7 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     const scenarios = loadScenarios(join(ws.root, rel), { fit }).map((s): Scenario => ({ ...s, file: rel }));
     const seed = options.seeds?.[rel] ?? scenarios[0]!.seed ?? ws.seed ?? options.fallbackSeed;
     if (seed === undefined) {
-      throw new SereError('BAD_RECORD', `no seed is recorded for scenario ${rel}`, { file: rel }, 'rerun the season instead of replaying it');
+      throw new SereError('BAD_RECORD', `no seed is recorded for scenario ${rel}`, { file: 'manifest.json', path: 'scenarios' }, 'rerun the season instead of replaying it');
     }
     seeds[rel] = seed;
     return { file: rel, scenarios };
