@@ -54,10 +54,14 @@ describe('exact Beta marginals of the row-wise Dirichlet posterior', () => {
     expectClose([s.low[0], s.high[0]], c.expected['central_95'], toleranceOf(c, 'central_95'), 'central_95');
   });
 
-  it('posteriorMean equals the means of the Beta marginals', () => {
+  it('posteriorMean is (n + α) / Σ(n + α) per row, structural zeros staying 0 (worked by hand)', () => {
     const counts = Float64Array.from([5, 1, 0, 2, 0, 7, 1, 1, 1]);
     const alpha = Float64Array.from([0.5, 0.5, 0, 0.5, 0.5, 0.5, 1, 1, 1]);
-    expect(Array.from(posteriorMean(counts, alpha, 3))).toEqual(Array.from(posteriorSummary(counts, alpha, 3, 0.9).mean));
+    // Row 0: (5.5, 1.5, 0) / 7; row 1: (2.5, 0.5, 7.5) / 10.5; row 2: (2, 2, 2) / 6.
+    const want = [5.5 / 7, 1.5 / 7, 0, 2.5 / 10.5, 0.5 / 10.5, 7.5 / 10.5, 1 / 3, 1 / 3, 1 / 3];
+    const got = Array.from(posteriorMean(counts, alpha, 3));
+    got.forEach((x, c) => expect(Math.abs(x - want[c]!)).toBeLessThan(1e-15));
+    expect(got[2]).toBe(0);
   });
 
   it('gives structural zeros exactly 0 and a single possible destination exactly 1', () => {
