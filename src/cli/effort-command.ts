@@ -1,6 +1,5 @@
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
-import { checkScenarios } from '../engine/check-treatments.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
 import { effortTable } from '../report/effort-table.js';
 import { makeStyle } from '../report/style.js';
@@ -24,7 +23,6 @@ export function registerEffort(program: Command, io: Io): void {
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
       const scenario = loadScenario(file);
-      checkScenarios([scenario]);
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);

@@ -2,8 +2,7 @@ import { chiSquareUpperTail } from '../chain/chi-square.js';
 import { stratifiedIndependence, type Table } from '../chain/contingency.js';
 import { homogeneity, orderOneVsTwo, orderSelection, orderZeroVsOne, type OrderFit } from '../chain/markov-tests.js';
 import type { PeriodCounts, SiteCounts } from '../chain/counts.js';
-import type { Fit } from '../fit/fit.js';
-import { impossibleMask } from '../fit/settings.js';
+import { fitMask, type Fit } from '../fit/fit.js';
 import { bootstrapPValue } from '../uncertainty/bootstrap-p-value.js';
 import type { RandomStream } from '../uncertainty/random.js';
 
@@ -79,7 +78,7 @@ export function assumptionTests(fit: Fit, options: TestOptions): AssumptionTests
   if (fit.triples && fit.triples.length > 0) {
     order.push(report('order 1 vs 2', 'the state before the current one matters too: the chain is not first order',
       orderOneVsTwo(fit.triples, k), options));
-    selection = orderSelection(fit.triples, k, impossibleMask(fit.impossible, fit.states, { path: 'impossible' }));
+    selection = orderSelection(fit.triples, k, fitMask(fit));
   } else {
     unavailable.push(fit.triples ? 'order 1 vs 2: no site has three surveys in a row one step apart'
       : 'order 1 vs 2: this fit file has no second-order counts; refit from the survey table');

@@ -1,12 +1,11 @@
-import { maximumLikelihood, posteriorMean } from '../chain/estimates.js';
+import { posteriorMean } from '../chain/estimates.js';
 import { absorption, fundamentalMatrix, meanFirstPassage, type Absorption } from '../chain/fundamental.js';
 import { transitionSensitivities, type TransitionSensitivity } from '../chain/sensitivity.js';
 import { stepsToSettle } from '../chain/settling.js';
 import { dampingRatio, eigenvalues, secondEigenvalueModulus, type Eigenvalue } from '../chain/spectral.js';
 import { stationaryGivenClasses } from '../chain/stationary.js';
 import { chainStructure, type ChainStructure } from '../chain/structure.js';
-import { fitPrior, type Fit } from '../fit/fit.js';
-import { impossibleMask } from '../fit/settings.js';
+import { fitMask, fitMle, fitPrior, type Fit } from '../fit/fit.js';
 import { bandOf, type Band } from '../engine/quantiles.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 
@@ -46,7 +45,7 @@ export interface ChainProperties {
 export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
   target?: { readonly state: number; readonly steps: number }): ChainProperties {
   const k = fit.states.length;
-  const mle = maximumLikelihood(fit.counts, fitPrior(fit), k).p;
+  const mle = fitMle(fit).p;
   const structure = chainStructure(mle, k);
   const stationaryOf = (p: Float64Array, offset: number): Float64Array | null => {
     const s = p === mle ? structure : chainStructure(p, k, offset);
@@ -117,7 +116,7 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
   const piMean = stationaryOf(mean, 0);
   const sensitivity = piMean
     ? transitionSensitivities(mean, k, piMean, fundamentalMatrix(mean, k, piMean),
-      impossibleMask(fit.impossible, fit.states, { path: 'impossible' }),
+      fitMask(fit),
       target ? { start, steps: target.steps, target: target.state } : undefined)
     : [];
   return { structure, eigenvalues: eigenvalues(mle, k), residence, passage, absorption: absorbed, settling, sensitivity };

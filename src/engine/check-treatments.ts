@@ -1,6 +1,5 @@
 import { SereError } from '../errors.js';
-import { maximumLikelihood } from '../chain/estimates.js';
-import { fitPrior } from '../fit/fit.js';
+import { fitMle } from '../fit/fit.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkRunSize } from './run-size.js';
 import { buildPlan, type RunPlan } from './plan.js';
@@ -13,8 +12,7 @@ import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
  */
 function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
   if (plan.trivial || plan.treatments.length === 0) return;
-  const k = plan.k;
-  const { p } = maximumLikelihood(scenario.fit.counts, fitPrior(scenario.fit), k);
+  const { p } = fitMle(scenario.fit);
   fillPlanMatrices(plan, p, 0, planWorkspace(plan), (treatment, outcome) => {
     const t = plan.treatments[treatment]!;
     const state = scenario.fit.states[t.row];
@@ -32,5 +30,17 @@ function checkTreatmentsOnEstimate(scenario: Scenario, plan: RunPlan): void {
  */
 export function checkScenarios(scenarios: readonly Scenario[]): void {
   if (scenarios.length > 0) checkRunSize(scenarios);
-  for (const scenario of scenarios) checkTreatmentsOnEstimate(scenario, buildPlan(scenario));
+  for (const scenario of scenarios) {
+    if (checked.has(scenario)) continue;
+    checkTreatmentsOnEstimate(scenario, buildPlan(scenario));
+    checked.add(scenario);
+  }
 }
+
+/**
+ * Scenarios already checked: the door (CLI, season) checks every file before anything runs, so a
+ * typo in the last file costs nothing, and the engine's entry points check again for callers that
+ * skipped the door — the same scenario object is worked out once. (Scenarios are never changed
+ * after loading; a changed copy is a new object and is checked afresh.)
+ */
+const checked = new WeakSet<Scenario>();

@@ -2,6 +2,7 @@ import type { Scenario } from '../scenario/scenario.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
+import { checkScenarios } from '../engine/check-treatments.js';
 import { columnStart } from '../engine/layout.js';
 import { bandOf } from '../engine/quantiles.js';
 import { resurveyedStates } from './resurvey-choice.js';
@@ -40,6 +41,7 @@ export interface SurveyEffort {
  */
 export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[]; seasons: readonly number[] },
   options: { replicates: number; draws: number; random: RandomStream }): SurveyEffort {
+  checkScenarios([scenario]);
   const { fit } = scenario;
   const k = fit.states.length;
   const widthsOf = (counts: Float64Array, random: RandomStream): number[] => {

@@ -1,6 +1,6 @@
-import { maximumLikelihood, posteriorSummary, type PointEstimate, type PosteriorSummary } from '../chain/estimates.js';
+import { posteriorSummary, type PointEstimate, type PosteriorSummary } from '../chain/estimates.js';
 import { stationaryMix, type StationaryResult } from '../chain/stationary.js';
-import { fitPrior, type Fit } from './fit.js';
+import { fitMle, fitPrior, type Fit } from './fit.js';
 
 export interface FitEstimates {
   readonly mle: PointEstimate;
@@ -12,7 +12,7 @@ export interface FitEstimates {
 export function estimateFit(fit: Fit, level: number): FitEstimates {
   const k = fit.states.length;
   const alpha = fitPrior(fit);
-  const mle = maximumLikelihood(fit.counts, alpha, k);
+  const mle = fitMle(fit);
   return {
     mle,
     posterior: posteriorSummary(fit.counts, alpha, k, level),

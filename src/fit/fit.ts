@@ -3,6 +3,7 @@ import type { SurveyTable } from '../data/survey.js';
 import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
 import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
+import { maximumLikelihood, type PointEstimate } from '../chain/estimates.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 
 /**
@@ -86,8 +87,35 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
   };
 }
 
-/** The Dirichlet prior parameters of a fit, structural zeros included. */
+/**
+ * What every stage asks of a fit — its structural zeros, prior and maximum-likelihood matrix —
+ * worked out once per fit and kept (a fit is never changed after it is made; a changed copy is a
+ * new object and gets its own). One owner, so the mask and the MLE cannot be built two ways.
+ */
+const derived = new WeakMap<Fit, { mask?: Uint8Array; prior?: Float64Array; mle?: PointEstimate }>();
+function cacheOf(fit: Fit): { mask?: Uint8Array; prior?: Float64Array; mle?: PointEstimate } {
+  let entry = derived.get(fit);
+  if (!entry) derived.set(fit, entry = {});
+  return entry;
+}
+
+/** Read-only (shared by every caller): the fit's structural zeros as a k×k mask (its impossible pairs name its own states, checked when it was made). */
+export function fitMask(fit: Fit): Uint8Array {
+  const cache = cacheOf(fit);
+  return cache.mask ??= impossibleMask(fit.impossible, fit.states, { path: 'impossible' });
+}
+
+/**
+ * The Dirichlet prior parameters of a fit, structural zeros included: a fresh copy each call,
+ * since callers add counts to it in place (the posterior parameters).
+ */
 export function fitPrior(fit: Fit): Float64Array {
-  const k = fit.states.length;
-  return priorMatrix(k, fit.prior, impossibleMask(fit.impossible, fit.states, { path: 'impossible' }));
+  const cache = cacheOf(fit);
+  return Float64Array.from(cache.prior ??= priorMatrix(fit.states.length, fit.prior, fitMask(fit)));
+}
+
+/** Read-only (shared by every caller): the maximum-likelihood matrix of a fit (a row never observed takes the prior mean; see estimates.ts). */
+export function fitMle(fit: Fit): PointEstimate {
+  const cache = cacheOf(fit);
+  return cache.mle ??= maximumLikelihood(fit.counts, fitPrior(fit), fit.states.length);
 }

@@ -4,8 +4,7 @@ import { fitSettingsOf } from './fit-block.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
-import type { Fit } from '../fit/fit.js';
-import { impossibleMask } from '../fit/settings.js';
+import { fitMask, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -82,7 +81,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
 
   const ctx: ResolveContext = {
     states, step: fit.step, startYear: start.year, horizonSteps,
-    impossible: impossibleMask(fit.impossible, states, { path: 'impossible' }),
+    impossible: fitMask(fit),
     stateIndex, locate,
   };
   const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));

@@ -1,6 +1,5 @@
 import { addSiteCells } from '../chain/counts.js';
-import { maximumLikelihood } from '../chain/estimates.js';
-import { fitPrior, type Fit } from '../fit/fit.js';
+import { fitMle, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
 
@@ -26,8 +25,7 @@ export const BOOTSTRAP_FEW_SITES = 40;
 
 export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): MatrixDraws {
   const k = fit.states.length;
-  const alpha = fitPrior(fit);
-  const full = maximumLikelihood(fit.counts, alpha, k).p;
+  const full = fitMle(fit).p;
   const data = new Float64Array(count * k * k);
   const resampled = new Float64Array(k * k);
   const n = fit.sites.length;

@@ -1,5 +1,4 @@
-import { maximumLikelihood } from '../chain/estimates.js';
-import { fitPrior, type Fit } from '../fit/fit.js';
+import { fitMle, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 
 /**
@@ -9,7 +8,7 @@ import type { MatrixDraws } from './draws.js';
  */
 export function pointDraws(fit: Fit, count = 1): MatrixDraws {
   const k = fit.states.length;
-  const { p } = maximumLikelihood(fit.counts, fitPrior(fit), k);
+  const { p } = fitMle(fit);
   const data = new Float64Array(count * k * k);
   for (let d = 0; d < count; d++) data.set(p, d * k * k);
   return { k, count, data, source: 'point', notes: [] };
