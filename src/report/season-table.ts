@@ -2,6 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { SeasonRun } from '../workspace/season.js';
 import { count, levelLabel, percentBand, signed } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
+import { coverageWords, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
 
 /** What `sere season` prints: where the record went, the horizon shares, and what changed. */
 export function seasonTable(run: SeasonRun, recordPath: string, workspace: string, style: ChalkInstance): string {
@@ -51,24 +52,22 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
     }
   }
   if (run.scores.length > 0) {
-    lines.push('', style.bold('Were earlier forecasts any good? (years now surveyed)'));
-    const groups = new Map<string, typeof run.scores[number][]>();
-    for (const sc of run.scores) {
-      const key = `${sc.record}\u0000${sc.scenario}`;
-      groups.set(key, [...(groups.get(key) ?? []), sc]);
-    }
-    const t = makeTable(['record', 'scenario', 'years', 'inside the band', 'log score', 'Brier score'], style,
-      ['left', 'left', 'left', 'right', 'right', 'right']);
-    for (const list of groups.values()) {
-      const inside = list.reduce((a, x) => a + x.covered, 0);
-      const total = list.reduce((a, x) => a + x.states, 0);
-      const mean = (f: (x: typeof list[number]) => number): string => (list.reduce((a, x) => a + f(x), 0) / list.length).toFixed(3);
-      t.push([list[0]!.record, list[0]!.scenario, list.map((x) => x.year).join(', '),
-        `${inside} of ${total}${list[0]!.plotBands ? '' : ' (share bands)'}`, mean((x) => x.logScore), mean((x) => x.brierScore)]);
+    lines.push('', style.bold('Were earlier forecasts any good? Sites surveyed since, each from its own last state'));
+    const t = makeTable(['record', 'years', 'sites', ...SCORE_HEADINGS], style,
+      ['left', 'left', 'right', 'left', ...SCORE_HEADINGS.slice(1).map(() => 'right' as const)]);
+    for (const r of run.scores) {
+      const [log, brier] = scoreRows(r.summary);
+      t.push([r.record, r.years.map((y) => y.year).join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
     }
     lines.push(t.toString());
-    lines.push(style.dim('Only forecasts from the surveyed mix without treatments are scored; share bands leave out plot-level chance ' +
-      '(add plots to a scenario for prediction bands). Scores: per site, lower is better (Gneiting & Raftery 2007).'));
+    for (const r of run.scores) {
+      const words = `${r.record}: plot-count prediction bands for the sites surveyed: ${coverageWords(r.summary.coverage)}`;
+      lines.push(r.summary.coverage.flag ? style.yellow(words) : words);
+      const unscored = r.years.reduce((a, y) => a + y.unscored, 0);
+      if (unscored > 0) lines.push(style.dim(`  ${count(unscored, 'site')} surveyed since could not be scored (not surveyed by ${r.years[0]!.origin}, or in a state the record did not know)`));
+      lines.push(style.dim(`  ${r.scenarios.length > 0 ? `forecast by: ${r.scenarios.join('; ')}` : 'no scenario of this record forecasts the chain alone (all have a given start, treatments or events)'}`));
+    }
+    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.'));
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';

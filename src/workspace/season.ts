@@ -20,8 +20,7 @@ import { randomStreams } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
-import { scoreRecord, type RecordScore, type ScorableForecast } from './score-records.js';
-import { observedMixes } from '../evaluation/observed.js';
+import { SCORE_DRAWS, SCORE_LEVEL, scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
 export interface SeasonOptions {
   /** The record's date, YYYY-MM-DD. */
@@ -33,7 +32,9 @@ export interface SeasonOptions {
   /** The previous record, read back, to say what changed. */
   readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly forecasts: readonly StoredForecast[] };
   /** Earlier records whose forecasts are scored against the surveys made since. */
-  readonly earlier?: readonly { readonly name: string; readonly forecasts: readonly ScorableForecast[] }[];
+  readonly earlier?: readonly ScorableRecord[];
+  /** The seed of the scoring stream (a replay passes the record's); otherwise the workspace's or `fallbackSeed`. */
+  readonly scoresSeed?: number;
 }
 
 export interface SeasonRun {
@@ -41,7 +42,7 @@ export interface SeasonRun {
   readonly forecasts: readonly { readonly file: string; readonly results: readonly ForecastResult[] }[];
   readonly comparisons: readonly { readonly file: string; readonly comparison: Comparison }[];
   readonly changes: Changes | null;
-  readonly scores: readonly RecordScore[];
+  readonly scores: readonly RecordScores[];
   readonly seeds: Readonly<Record<string, number>>;
   /** Every file of the record, by path inside it. */
   readonly files: ReadonlyMap<string, string>;
@@ -86,8 +87,14 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
     : null;
 
-  const observed = observedMixes(table.records, fit.states.length);
-  const scores = (options.earlier ?? []).flatMap((r) => scoreRecord(r.name, r.forecasts, observed, fit.states));
+  const earlier = options.earlier ?? [];
+  const scoresSeed = earlier.length === 0 ? undefined : options.scoresSeed ?? ws.seed ?? options.fallbackSeed;
+  if (earlier.length > 0 && scoresSeed === undefined) {
+    throw new SereError('BAD_RECORD', 'no seed is recorded for scoring earlier records', { file: 'manifest.json', path: 'scores_seed' },
+      'rerun the season instead of replaying it');
+  }
+  const scoring = scoresSeed === undefined ? undefined : randomStreams(scoresSeed);
+  const scores = earlier.flatMap((r) => scoreRecord(r, table, scoring!) ?? []);
 
   const files = new Map<string, string>();
   const json = (x: unknown): string => JSON.stringify(x, null, 2) + '\n';
@@ -106,15 +113,19 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title)));
   }
   files.set('changes.json', json(changes));
-  files.set('scores.json', json(scores));
+  files.set('scores.json', json({
+    format: 'sere-scores', format_version: 2, tool_version: TOOL_VERSION, seed: scoresSeed ?? null, draws: SCORE_DRAWS, level: SCORE_LEVEL,
+    records: scores,
+  }));
   files.set('manifest.json', json({
     format: 'sere-record',
-    format_version: 1,
+    format_version: 2,
     tool_version: TOOL_VERSION,
     workspace: ws.name,
     date: options.date,
     previous: options.previous?.name ?? null,
-    scored: (options.earlier ?? []).map((r) => r.name),
+    scored: earlier.map((r) => r.name),
+    scores_seed: scoresSeed ?? null,
     data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
     scenarios: ws.scenarios.map((rel) => ({ file: rel, seed: seeds[rel] })),
     contents: [...files.keys()].sort(),
