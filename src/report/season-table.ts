@@ -36,13 +36,14 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       : 'data unchanged (same SHA-256): any difference below comes from settings, scenarios or the tool version');
     const moved = c.forecasts.filter((f) => f.before.median !== f.now.median || f.before.low !== f.now.low || f.before.high !== f.now.high);
     if (moved.length === 0) {
-      lines.push('forecasts: no horizon median or band moved');
+      lines.push('forecasts: no median or band moved in the years both records forecast');
     } else {
-      const f = makeTable(['scenario', 'state', 'before', 'now', 'median moved'], style, ['left', 'left', 'right', 'right', 'right']);
-      for (const m of moved) {
-        f.push([m.scenario, m.state, `${percentBand(m.before)} (${m.before.year})`, `${percentBand(m.now)} (${m.now.year})`,
-          `${signed(Math.round((m.now.median - m.before.median) * 1000) / 10)} pts`]);
-      }
+      const pts = (x: number | null): string => (x === null ? '—' : `${signed(Math.round(x * 1000) / 10)} pts`);
+      const f = makeTable(['scenario', 'state', 'year', 'before', 'now', 'new data', 'moving the start'], style,
+        ['left', 'left', 'right', 'right', 'right', 'right', 'right']);
+      for (const m of moved) f.push([m.scenario, m.state, String(m.year), percentBand(m.before), percentBand(m.now), pts(m.effects.data), pts(m.effects.start)]);
+      lines.push(style.dim('Share of the area in the same year in both records, % — median [band]; the median\'s move split into the effect ' +
+        'of the new data (new fit from the previous start) and of moving the start to the latest survey (same draws):'));
       lines.push(f.toString());
     }
     if (c.moved.length > 0) {

@@ -19,6 +19,7 @@ import { stemOf } from './record-names.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
+import { carriedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
 import { SCORE_DRAWS, SCORE_LEVEL, scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
@@ -30,7 +31,7 @@ export interface SeasonOptions {
   /** The seed for files that name none, chosen (and so printable) where the run starts. */
   readonly fallbackSeed?: number;
   /** The previous record, read back, to say what changed. */
-  readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly forecasts: readonly StoredForecast[] };
+  readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly chain: Fit; readonly forecasts: readonly StoredForecast[] };
   /** Earlier records whose forecasts are scored against the surveys made since. */
   readonly earlier?: readonly ScorableRecord[];
   /** The seed of the scoring stream (a replay passes the record's); otherwise the workspace's or `fallbackSeed`. */
@@ -83,9 +84,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   }));
   const comparisons = byFile.filter((b) => b.scenarios.length > 1)
     .map(({ file, scenarios }) => ({ file, comparison: runComparison(scenarios, randomStreams(seeds[file]!)) }));
-  const changes = options.previous
-    ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
-    : null;
+  const changes = options.previous ? changesSince(options.previous.name, options.previous, fit, estimates.mle,
+    forecasts.flatMap((f) => f.results), fromPreviousStart(ws, fit, options.previous.chain, seeds, forecasts.flatMap((f) => f.results))) : null;
 
   const earlier = options.earlier ?? [];
   const scoresSeed = earlier.length === 0 ? undefined : options.scoresSeed ?? ws.seed ?? options.fallbackSeed;
@@ -133,3 +133,23 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   return { fit, forecasts, comparisons, changes, scores, seeds, files };
 }
 
+/**
+ * Every scenario file rerun with the new fit from the previous record's start (rerun-from-start.ts),
+ * on this season's seeds; none when the previous start holds a state this fit does not know. When
+ * the start did not move, this season's own results are that rerun. A file that no longer loads from the old
+ * start (a treatment year now before it, say) is left out, and its change is not split.
+ */
+function fromPreviousStart(ws: Workspace, fit: Fit, previous: Fit, seeds: Readonly<Record<string, number>>,
+  current: readonly ForecastResult[]): readonly ForecastResult[] {
+  const start = carriedStart(previous, fit);
+  if (!start) return [];
+  if (start.time === fit.latest.time && start.counts.every((c, s) => c === fit.latest.counts[s])) return current;
+  return ws.scenarios.flatMap((rel) => {
+    try {
+      return rerunFromStart(join(ws.root, rel), rel, fit, start, randomStreams(seeds[rel]!));
+    } catch (err) {
+      if (err instanceof SereError) return [];
+      throw err;
+    }
+  });
+}

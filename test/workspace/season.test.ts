@@ -44,7 +44,7 @@ describe('sere season (built binary)', () => {
     // The same data again: nothing moves; a second record the same day gets its own name.
     const again = sere(['season', dir, '--date', '2025-09-30']);
     expect(again.stdout).toContain('data unchanged');
-    expect(again.stdout).toContain('no horizon median or band moved');
+    expect(again.stdout).toContain('no median or band moved in the years both records forecast');
     expect(records(dir)).toEqual(['2025-09-30', '2025-09-30-2']);
     expect(JSON.parse(readFileSync(join(dir, 'records', '2025-09-30-2', 'changes.json'), 'utf8')).previous).toBe('2025-09-30');
 
@@ -59,6 +59,17 @@ describe('sere season (built binary)', () => {
     expect(changes.transitions.now).toBe(507);
     expect(changes.transitions.now - changes.transitions.before).toBe(58);
     expect(changes.moved.length).toBeGreaterThan(0);
+    // The same calendar year in both records: no-action ran 50 years from 2023 before, from 2024 now.
+    expect(changes.format_version).toBe(2);
+    const noAction = changes.forecasts.filter((f: { scenario: string }) => f.scenario === 'Brenhollow Saltings — no further management');
+    expect(noAction.map((f: { year: number }) => f.year)).toEqual([2073, 2073, 2073, 2073, 2073]);
+    // The split adds up: new data (new fit, 2023 start) plus moving the start (same draws) is the whole move.
+    for (const f of changes.forecasts) {
+      expect(f.effects.data + f.effects.start).toBeCloseTo(f.now.median - f.before.median, 12);
+    }
+    // 58 transitions more moved the rank-grass median far more than one year's later start did.
+    const grass = noAction.find((f: { state: string }) => f.state === 'rank-grass');
+    expect(Math.abs(grass.effects.data)).toBeGreaterThan(5 * Math.abs(grass.effects.start));
     expect(next.stdout).toContain('data changed: +58 transitions');
     // Both earlier records (data to 2023) are scored on 2024, now surveyed: every site from its own
     // 2023 state (or its last before, for the two plots missed in 2023), by each record's own chain.
