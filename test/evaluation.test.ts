@@ -25,17 +25,26 @@ describe('proper scores (Gneiting & Raftery 2007; worked by hand)', () => {
 });
 
 describe('hindcast', () => {
-  it('forecasts every surveyed time from each earlier one, with persistence alongside', () => {
+  it('scores every surveyed site from each earlier survey, beside persistence and climatology', () => {
     const table = readSurveyCsv('scenarios/brenhollow/surveys.csv', { columns: DEFAULT_COLUMNS });
     const { cases, summary } = hindcast(table, DEFAULT_FIT_SETTINGS, { horizons: [1, 3], draws: 200, level: 0.9, random: randomStreams(4) });
     // Surveys 2015–2024: one-step forecasts from 2016 … 2023 (2015 has no transitions yet), three-step from 2016 … 2021.
     expect(cases.filter((c) => c.steps === 1).map((c) => c.origin)).toEqual([2016, 2017, 2018, 2019, 2020, 2021, 2022, 2023]);
     expect(cases.filter((c) => c.steps === 3).map((c) => c.target)).toEqual([2019, 2020, 2021, 2022, 2023, 2024]);
     expect(summary.map((s) => s.cases)).toEqual([8, 6]);
+    // Every site surveyed at the target had been surveyed by the origin (all 60 were in 2015).
+    for (const c of cases) expect(c.sites).toBe(c.observed.reduce((a, b) => a + b, 0));
+    // Sites surveyed 2017 … 2024: 59 + 57 + 58 + 57 + 58 + 58 + 58 + 60.
+    expect(summary[0]!.sites).toBe(465);
+    // Climatology is the origin's mix, smoothed as "nothing changes" used to be: 1.518 nats one year ahead.
+    expect(summary[0]!.climatology.log).toBeCloseTo(1.518, 3);
     for (const s of summary) {
-      expect(s.coverage).toBeGreaterThan(0.5);
-      expect(s.logScore).toBeLessThan(s.persistenceLogScore + 0.05);
+      expect(s.coverage.flag).toBeNull();
+      expect(s.skill.log.persistence!).toBeGreaterThan(0.2);
+      expect(s.skill.log.climatology!).toBeGreaterThan(0.1);
     }
+    // One year ahead the chain's own-state forecast is far better than the landscape mix (about 0.8 vs 1.52 nats).
+    expect(summary[0]!.skill.log.climatology!).toBeGreaterThan(0.4);
   });
 });
 

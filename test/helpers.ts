@@ -65,3 +65,25 @@ export function eventOf(rows: number[][], chance: number, horizon: number, scope
   chances[0] = 0;
   return { name, scope, chances, matrix: Float64Array.from(rows.flat()) };
 }
+
+/**
+ * Survey histories simulated from a known chain: `sites` sites surveyed every year for `years`
+ * years from 2000, each starting in a uniformly random state. States are named a, b, c, ….
+ */
+export function simulatedSurveys(random: import('../src/uncertainty/random.js').RandomStream, truth: readonly (readonly number[])[],
+  sites: number, years: number): import('../src/data/survey.js').SurveyTable {
+  const k = truth.length;
+  const records: import('../src/data/survey.js').SurveyRecord[] = [];
+  let line = 2;
+  for (let s = 0; s < sites; s++) {
+    let state = random.integer(k);
+    for (let t = 0; t < years; t++) {
+      records.push({ site: `s${String(s).padStart(4, '0')}`, time: 2000 + t, state, line: line++ });
+      let u = random.uniform();
+      let next = 0;
+      while (next < k - 1 && (u -= truth[state]![next]!) >= 0) next += 1;
+      state = next;
+    }
+  }
+  return { file: 'simulated', states: Array.from({ length: k }, (_, i) => String.fromCharCode(97 + i)), records, repeatedRows: 0, sha256: '' };
+}

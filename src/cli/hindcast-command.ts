@@ -44,7 +44,7 @@ export function registerHindcast(program: Command, io: Io): void {
         (io.notice ?? io.stderr)(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
       }
       if (opts.json) {
-        io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 1, tool_version: TOOL_VERSION, file, seed, level: opts.level,
+        io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 2, tool_version: TOOL_VERSION, file, seed, level: opts.level,
           step: settings.step, origins_left_out: originsLeftOut, summary: summary.map((s) => ({ ...s, years: s.steps * settings.step })), cases }, null, 2) + '\n');
         return;
       }

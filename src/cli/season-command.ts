@@ -92,7 +92,7 @@ async function replay(record: string, io: Io): Promise<void> {
     return readRecord(dir, name);
   });
   const run = await runSeason(ws, {
-    date: stored.manifest.date, seeds,
+    date: stored.manifest.date, seeds, scoresSeed: stored.manifest.scores_seed ?? undefined,
     previous: previousDir ? readRecord(previousDir, previousName!) : undefined, earlier,
   });
   const differing = [...run.files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)

@@ -35,3 +35,12 @@ export function brierScore(probabilities: readonly number[], counts: readonly nu
 export function covered(observed: readonly number[], low: readonly number[], high: readonly number[]): number {
   return observed.reduce((a, x, s) => a + (x >= low[s]! && x <= high[s]! ? 1 : 0), 0);
 }
+
+/**
+ * Skill score against a reference forecast: 1 − S / S_ref for a negatively oriented score S
+ * (Brier 1950; Gneiting & Raftery 2007, sec. 2.3). 1 is perfect, 0 no better than the
+ * reference, negative worse. Null when the reference scored a perfect 0 (nothing to improve on).
+ */
+export function skill(score: number, reference: number): number | null {
+  return reference === 0 ? null : 1 - score / reference;
+}

@@ -2,6 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { SeasonRun } from '../workspace/season.js';
 import { count, levelLabel, percentBand, signed } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
+import { coverageWords, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
 
 /** What `sere season` prints: where the record went, the horizon shares, and what changed. */
 export function seasonTable(run: SeasonRun, recordPath: string, workspace: string, style: ChalkInstance): string {
@@ -35,13 +36,14 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       : 'data unchanged (same SHA-256): any difference below comes from settings, scenarios or the tool version');
     const moved = c.forecasts.filter((f) => f.before.median !== f.now.median || f.before.low !== f.now.low || f.before.high !== f.now.high);
     if (moved.length === 0) {
-      lines.push('forecasts: no horizon median or band moved');
+      lines.push('forecasts: no median or band moved in the years both records forecast');
     } else {
-      const f = makeTable(['scenario', 'state', 'before', 'now', 'median moved'], style, ['left', 'left', 'right', 'right', 'right']);
-      for (const m of moved) {
-        f.push([m.scenario, m.state, `${percentBand(m.before)} (${m.before.year})`, `${percentBand(m.now)} (${m.now.year})`,
-          `${signed(Math.round((m.now.median - m.before.median) * 1000) / 10)} pts`]);
-      }
+      const pts = (x: number | null): string => (x === null ? '—' : `${signed(Math.round(x * 1000) / 10)} pts`);
+      const f = makeTable(['scenario', 'state', 'year', 'before', 'now', 'new data', 'moving the start'], style,
+        ['left', 'left', 'right', 'right', 'right', 'right', 'right']);
+      for (const m of moved) f.push([m.scenario, m.state, String(m.year), percentBand(m.before), percentBand(m.now), pts(m.effects.data), pts(m.effects.start)]);
+      lines.push(style.dim('Share of the area in the same year in both records, % — median [band]; the median\'s move split into the effect ' +
+        'of the new data (new fit from the previous start) and of moving the start to the latest survey (same draws):'));
       lines.push(f.toString());
     }
     if (c.moved.length > 0) {
@@ -51,24 +53,22 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
     }
   }
   if (run.scores.length > 0) {
-    lines.push('', style.bold('Were earlier forecasts any good? (years now surveyed)'));
-    const groups = new Map<string, typeof run.scores[number][]>();
-    for (const sc of run.scores) {
-      const key = `${sc.record}\u0000${sc.scenario}`;
-      groups.set(key, [...(groups.get(key) ?? []), sc]);
-    }
-    const t = makeTable(['record', 'scenario', 'years', 'inside the band', 'log score', 'Brier score'], style,
-      ['left', 'left', 'left', 'right', 'right', 'right']);
-    for (const list of groups.values()) {
-      const inside = list.reduce((a, x) => a + x.covered, 0);
-      const total = list.reduce((a, x) => a + x.states, 0);
-      const mean = (f: (x: typeof list[number]) => number): string => (list.reduce((a, x) => a + f(x), 0) / list.length).toFixed(3);
-      t.push([list[0]!.record, list[0]!.scenario, list.map((x) => x.year).join(', '),
-        `${inside} of ${total}${list[0]!.plotBands ? '' : ' (share bands)'}`, mean((x) => x.logScore), mean((x) => x.brierScore)]);
+    lines.push('', style.bold('Were earlier forecasts any good? Sites surveyed since, each from its own last state'));
+    const t = makeTable(['record', 'years', 'sites', ...SCORE_HEADINGS], style,
+      ['left', 'left', 'right', 'left', ...SCORE_HEADINGS.slice(1).map(() => 'right' as const)]);
+    for (const r of run.scores) {
+      const [log, brier] = scoreRows(r.summary);
+      t.push([r.record, r.years.map((y) => y.year).join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
     }
     lines.push(t.toString());
-    lines.push(style.dim('Only forecasts from the surveyed mix without treatments are scored; share bands leave out plot-level chance ' +
-      '(add plots to a scenario for prediction bands). Scores: per site, lower is better (Gneiting & Raftery 2007).'));
+    for (const r of run.scores) {
+      const words = `${r.record}: plot-count prediction bands for the sites surveyed: ${coverageWords(r.summary.coverage)}`;
+      lines.push(r.summary.coverage.flag ? style.yellow(words) : words);
+      const unscored = r.years.reduce((a, y) => a + y.unscored, 0);
+      if (unscored > 0) lines.push(style.dim(`  ${count(unscored, 'site')} surveyed since could not be scored (not surveyed by ${r.years[0]!.origin}, or in a state the record did not know)`));
+      lines.push(style.dim(`  ${r.scenarios.length > 0 ? `forecast by: ${r.scenarios.join('; ')}` : 'no scenario of this record forecasts the chain alone (all have a given start, treatments or events)'}`));
+    }
+    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.'));
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';

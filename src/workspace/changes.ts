@@ -17,20 +17,38 @@ export interface StoredFit {
   readonly data: { readonly sites: number; readonly transitions: number };
 }
 
-export interface HorizonShare {
-  readonly year: number;
+export interface ShareAt {
   readonly median: number;
   readonly low: number;
   readonly high: number;
 }
 
+/**
+ * One scenario and state in the same calendar year in both records, with the change split in two:
+ * `data` = (new fit, previous start) − previous record, the effect of the new surveys; `start` =
+ * now − (new fit, previous start), the effect of moving the start to the new latest survey. The
+ * two add up to now − before (medians, in shares). Null where the previous start could not be
+ * carried over (see rerun-from-start.ts).
+ */
+export interface ForecastChange {
+  readonly scenario: string;
+  readonly state: string;
+  readonly year: number;
+  readonly before: ShareAt;
+  readonly newData: ShareAt | null;
+  readonly now: ShareAt;
+  readonly effects: { readonly data: number | null; readonly start: number | null };
+}
+
 export interface Changes {
+  readonly format: 'sere-changes';
+  readonly format_version: 2;
   readonly previous: string;
   readonly dataChanged: boolean;
   readonly sites: { readonly before: number; readonly now: number };
   readonly transitions: { readonly before: number; readonly now: number };
-  /** Per scenario and state: the horizon share before and now. */
-  readonly forecasts: readonly { readonly scenario: string; readonly state: string; readonly before: HorizonShare; readonly now: HorizonShare }[];
+  /** Per scenario and state: the share in the latest year both records forecast. */
+  readonly forecasts: readonly ForecastChange[];
   /** The fitted (MLE) transition probabilities that moved most, with the new transitions out of their from-state. */
   readonly moved: readonly { readonly from: string; readonly to: string; readonly before: number; readonly now: number; readonly newTransitions: number }[];
 }
@@ -40,26 +58,35 @@ export const MOVED_SHOWN = 5;
 
 /**
  * What changed since the previous record: whether the data changed at all, how many transitions
- * were added, how each scenario's horizon median and band moved (scenarios and states matched by
- * name), and which transition probabilities moved most and on how many new transitions.
+ * were added, how each scenario's share moved in the latest calendar year both records forecast
+ * (horizon against horizon would compare different years once the start moves on) — split into
+ * the effect of the new data and of moving the start, using `fromPreviousStart`, this season's
+ * scenarios rerun with the new fit from the previous record's start — and which transition
+ * probabilities moved most and on how many new transitions. Scenarios and states match by name.
  */
 export function changesSince(previous: string, before: { fit: StoredFit; forecasts: readonly StoredForecast[] },
-  fit: Fit, estimates: { p: Float64Array }, results: readonly ForecastResult[]): Changes {
+  fit: Fit, estimates: { p: Float64Array }, results: readonly ForecastResult[], fromPreviousStart: readonly ForecastResult[]): Changes {
   const k = fit.states.length;
-  const forecasts: Changes['forecasts'][number][] = [];
+  const forecasts: ForecastChange[] = [];
   for (const r of results) {
     const old = before.forecasts.find((f) => f.name === r.scenario.name);
     if (!old) continue;
+    const rerun = fromPreviousStart.find((x) => x.scenario.name === r.scenario.name);
+    const year = Math.max(...old.years.filter((y) => r.years.includes(y)));
+    if (!Number.isFinite(year)) continue; // no year in common
+    const [o, t] = [old.years.indexOf(year), r.years.indexOf(year)];
+    const x = rerun ? rerun.years.indexOf(year) : -1;
     fit.states.forEach((state, s) => {
-      const o = old.shares[state];
-      if (!o) return;
-      const last = old.years.length - 1;
-      const t = r.years.length - 1;
+      const was = old.shares[state];
+      if (!was) return;
+      const at = (b: { median: readonly number[]; low: readonly number[]; high: readonly number[] }, i: number): ShareAt =>
+        ({ median: b.median[i]!, low: b.low[i]!, high: b.high[i]! });
+      const beforeAt = at(was, o);
+      const now = at(r.shares[s]!, t);
+      const newData = x >= 0 ? at(rerun!.shares[s]!, x) : null;
       forecasts.push({
-        scenario: r.scenario.name,
-        state,
-        before: { year: old.years[last]!, median: o.median[last]!, low: o.low[last]!, high: o.high[last]! },
-        now: { year: r.years[t]!, median: r.shares[s]!.median[t]!, low: r.shares[s]!.low[t]!, high: r.shares[s]!.high[t]! },
+        scenario: r.scenario.name, state, year, before: beforeAt, newData, now,
+        effects: { data: newData && newData.median - beforeAt.median, start: newData && now.median - newData.median },
       });
     });
   }
@@ -77,6 +104,8 @@ export function changesSince(previous: string, before: { fit: StoredFit; forecas
   });
   moved.sort((a, b) => Math.abs(b.now - b.before) - Math.abs(a.now - a.before));
   return {
+    format: 'sere-changes',
+    format_version: 2,
     previous,
     dataChanged: before.fit.input.sha256 !== fit.input.sha256,
     sites: { before: before.fit.data.sites, now: fit.sites.length },

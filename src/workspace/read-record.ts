@@ -6,6 +6,8 @@ import { formatKeyPath } from '../data/read-structured.js';
 import { LIMITS } from '../limits.js';
 import type { StoredFit, StoredForecast } from './changes.js';
 import type { ScorableForecast } from './score-records.js';
+import { loadFit } from '../fit/load-fit.js';
+import type { Fit } from '../fit/fit.js';
 
 export interface RecordManifest {
   readonly date: string;
@@ -13,6 +15,8 @@ export interface RecordManifest {
   readonly scenarios: readonly { readonly file: string; readonly seed: number }[];
   /** Earlier records whose forecasts this one scored. */
   readonly scored: readonly string[];
+  /** The seed of the stream this record scored earlier records with (absent before scores format 2). */
+  readonly scores_seed?: number | null;
   readonly contents: readonly string[];
 }
 
@@ -21,6 +25,8 @@ export interface StoredRecord {
   readonly dir: string;
   readonly manifest: RecordManifest;
   readonly fit: StoredFit;
+  /** fit.json loaded as a fit file, every invariant checked: the chain a later season scores. */
+  readonly chain: Fit;
   readonly forecasts: readonly (StoredForecast & ScorableForecast)[];
 }
 
@@ -36,6 +42,7 @@ const manifestSchema = z.object({
   previous: z.string().nullable(),
   scenarios: z.array(z.object({ file: z.string().min(1), seed: z.number().int().min(1).max(LIMITS.seed) })),
   scored: z.array(z.string()).default([]),
+  scores_seed: z.number().int().min(1).max(LIMITS.seed).nullish(),
   contents: z.array(z.string()),
 });
 const fitSchema = z.object({
@@ -52,6 +59,7 @@ const forecastFileSchema = z.object({
     states: z.array(z.string()),
     start: z.object({ year: z.number().int(), from: z.string() }),
     treatments: z.array(z.unknown()),
+    events: z.array(z.unknown()),
     shares: byState(band),
     plots: z.object({ total: z.number() }).catchall(z.unknown())
       .transform((p) => Object.assign(Object.create(null) as typeof p, p)).nullable(),
@@ -80,10 +88,21 @@ function readJson<T>(file: string, schema: z.ZodType<T>): T {
 export function readRecord(dir: string, name: string): StoredRecord {
   const manifest = readJson(join(dir, 'manifest.json'), manifestSchema);
   const fit = readJson(join(dir, 'fit.json'), fitSchema);
+  const chain = loadChain(join(dir, 'fit.json'));
   const folder = join(dir, 'forecasts');
   const forecasts = existsSync(folder)
     ? readdirSync(folder).filter((f) => f.endsWith('.json')).sort()
       .flatMap((f) => readJson(join(folder, f), forecastFileSchema).scenarios)
     : [];
-  return { name, dir, manifest, fit, forecasts };
+  return { name, dir, manifest, fit, chain, forecasts };
+}
+
+/** One owner for the invariants of a fit file (check-fit-file.ts); in a record, a broken one is a damaged record. */
+function loadChain(file: string): Fit {
+  try {
+    return loadFit(file);
+  } catch (err) {
+    if (!(err instanceof SereError)) throw err;
+    throw new SereError('BAD_RECORD', err.message, err.place, HINT);
+  }
 }

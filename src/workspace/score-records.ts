@@ -1,60 +1,81 @@
-import type { ObservedMix } from '../evaluation/observed.js';
-import { brierScore, covered, logScore } from '../evaluation/scores.js';
+import type { SurveyRecord } from '../data/survey.js';
+import type { Fit } from '../fit/fit.js';
+import { posteriorDraws } from '../uncertainty/posterior.js';
+import type { RandomStream } from '../uncertainty/random.js';
+import { scoreSites, summariseScores, type ScoredCase, type ScoreSummary } from '../evaluation/site-scores.js';
+
+/** Draws of an earlier record's posterior redrawn to score it, and the level of its coverage bands. */
+export const SCORE_DRAWS = 1000;
+export const SCORE_LEVEL = 0.9;
 
 /** A stored forecast as far as scoring needs it (read back from a record's JSON). */
 export interface ScorableForecast {
   readonly name: string;
-  readonly years: readonly number[];
-  readonly states: readonly string[];
   readonly start: { readonly year: number; readonly from: string };
   readonly treatments: readonly unknown[];
-  readonly shares: Record<string, { median: number[]; low: number[]; high: number[]; mean: number[] }>;
-  readonly plots: ({ total: number } & Record<string, unknown>) | null;
+  readonly events: readonly unknown[];
 }
 
-export interface RecordScore {
+/** What a later season needs of an earlier record to score it: its fitted chain and its forecasts. */
+export interface ScorableRecord {
+  readonly name: string;
+  /** The record's fit.json, loaded and checked as a fit file. */
+  readonly chain: Fit;
+  readonly forecasts: readonly ScorableForecast[];
+}
+
+export interface RecordScore extends ScoredCase {
   readonly record: string;
-  readonly scenario: string;
+  /** The record's latest survey time: the origin its sites are forecast from. */
+  readonly origin: number;
   readonly year: number;
-  readonly sites: number;
-  /** States whose observed share fell inside the forecast band. */
-  readonly covered: number;
-  readonly states: number;
-  /** Whether the band was a prediction band for plot counts (true) or for the landscape share. */
-  readonly plotBands: boolean;
-  readonly logScore: number;
-  readonly brierScore: number;
+}
+
+export interface RecordScores {
+  readonly record: string;
+  /** The record's scenarios that forecast exactly this chain: from the surveyed mix, no treatments, no events. */
+  readonly scenarios: readonly string[];
+  readonly years: readonly RecordScore[];
+  readonly summary: ScoreSummary;
 }
 
 /**
- * Score an earlier record's forecasts against the surveys made since: for every year it forecast
- * that has now been surveyed, was each state's observed share inside the band (coverage), and
- * the log and Brier scores of the forecast mean shares for the observed sites (Gneiting & Raftery
- * 2007). Only forecasts that describe what was actually done can be scored: those starting from
- * the surveyed mix with no treatments. Share bands leave out plot-level chance and so cover an
- * observed mix of few plots less often than their level; plot-count bands include it.
+ * Score an earlier record against the surveys made since: every site surveyed in a later year,
+ * from its own last survey at or before the record's latest time, with the record's own chain —
+ * its posterior (fitted counts and prior, kept in fit.json) redrawn from a stream named after the
+ * record — beside persistence and climatology (evaluation/site-scores.ts). A forecast JSON holds
+ * bands of the landscape mix, not draws; redrawing from the counts gives the same posterior
+ * without storing thousands of matrices. Sites in a state the record did not know are not scored
+ * (counted as unscored). Null when no later survey can be scored yet.
  */
-export function scoreRecord(record: string, forecasts: readonly ScorableForecast[], observed: ReadonlyMap<number, ObservedMix>,
-  states: readonly string[]): RecordScore[] {
-  const scores: RecordScore[] = [];
-  for (const f of forecasts) {
-    if (f.start.from !== 'latest' || f.treatments.length > 0) continue;
-    f.years.forEach((year, t) => {
-      const seen = observed.get(year);
-      if (year <= f.start.year || !seen) return;
-      // States matched by name; a state the record did not know gets probability 0.
-      const mean = states.map((s) => f.shares[s]?.mean[t] ?? 0);
-      const shares = states.map((_, s) => seen.counts[s]! / seen.sites);
-      const band = (key: 'low' | 'high'): number[] => states.map((s) => {
-        const plots = f.plots?.[s] as { low: number[]; high: number[] } | undefined;
-        return plots ? plots[key][t]! / f.plots!.total : f.shares[s]?.[key][t] ?? 0;
-      });
-      scores.push({
-        record, scenario: f.name, year, sites: seen.sites,
-        covered: covered(shares, band('low'), band('high')), states: states.length, plotBands: f.plots !== null,
-        logScore: logScore(mean, seen.counts), brierScore: brierScore(mean, seen.counts),
-      });
-    });
+export function scoreRecord(record: ScorableRecord, current: { readonly states: readonly string[]; readonly records: readonly SurveyRecord[] },
+  random: RandomStream): RecordScores | null {
+  const { chain } = record;
+  const index = new Map(chain.states.map((s, i) => [s, i]));
+  const toChain = current.states.map((s) => index.get(s));
+  const known: SurveyRecord[] = [];
+  const unknownAt = new Map<number, number>();
+  for (const r of current.records) {
+    const state = toChain[r.state];
+    if (state === undefined) unknownAt.set(r.time, (unknownAt.get(r.time) ?? 0) + 1);
+    else known.push({ ...r, state });
   }
-  return scores;
+  const origin = chain.latest.time;
+  const years = [...new Set(current.records.map((r) => r.time))].filter((t) => t > origin).sort((a, b) => a - b);
+  if (years.length === 0) return null;
+  const own = random.stream(`score:${record.name}`);
+  const draws = posteriorDraws(chain, SCORE_DRAWS, own.stream('matrices'));
+  const scored: RecordScore[] = [];
+  for (const year of years) {
+    const s = scoreSites(draws, known, { origin, target: year, step: chain.step, originCounts: chain.latest.counts, level: SCORE_LEVEL },
+      own.stream(`sites:${year}`));
+    if (s) scored.push({ record: record.name, origin, year, ...s, unscored: s.unscored + (unknownAt.get(year) ?? 0) });
+  }
+  if (scored.length === 0) return null;
+  return {
+    record: record.name,
+    scenarios: record.forecasts.filter((f) => f.start.from === 'latest' && f.treatments.length === 0 && f.events.length === 0).map((f) => f.name),
+    years: scored,
+    summary: summariseScores(scored, SCORE_LEVEL),
+  };
 }

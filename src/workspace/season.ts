@@ -19,9 +19,9 @@ import { stemOf } from './record-names.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
+import { carriedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
-import { scoreRecord, type RecordScore, type ScorableForecast } from './score-records.js';
-import { observedMixes } from '../evaluation/observed.js';
+import { SCORE_DRAWS, SCORE_LEVEL, scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
 export interface SeasonOptions {
   /** The record's date, YYYY-MM-DD. */
@@ -31,9 +31,11 @@ export interface SeasonOptions {
   /** The seed for files that name none, chosen (and so printable) where the run starts. */
   readonly fallbackSeed?: number;
   /** The previous record, read back, to say what changed. */
-  readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly forecasts: readonly StoredForecast[] };
+  readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly chain: Fit; readonly forecasts: readonly StoredForecast[] };
   /** Earlier records whose forecasts are scored against the surveys made since. */
-  readonly earlier?: readonly { readonly name: string; readonly forecasts: readonly ScorableForecast[] }[];
+  readonly earlier?: readonly ScorableRecord[];
+  /** The seed of the scoring stream (a replay passes the record's); otherwise the workspace's or `fallbackSeed`. */
+  readonly scoresSeed?: number;
 }
 
 export interface SeasonRun {
@@ -41,7 +43,7 @@ export interface SeasonRun {
   readonly forecasts: readonly { readonly file: string; readonly results: readonly ForecastResult[] }[];
   readonly comparisons: readonly { readonly file: string; readonly comparison: Comparison }[];
   readonly changes: Changes | null;
-  readonly scores: readonly RecordScore[];
+  readonly scores: readonly RecordScores[];
   readonly seeds: Readonly<Record<string, number>>;
   /** Every file of the record, by path inside it. */
   readonly files: ReadonlyMap<string, string>;
@@ -82,12 +84,17 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   }));
   const comparisons = byFile.filter((b) => b.scenarios.length > 1)
     .map(({ file, scenarios }) => ({ file, comparison: runComparison(scenarios, randomStreams(seeds[file]!)) }));
-  const changes = options.previous
-    ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
-    : null;
+  const changes = options.previous ? changesSince(options.previous.name, options.previous, fit, estimates.mle,
+    forecasts.flatMap((f) => f.results), fromPreviousStart(ws, fit, options.previous.chain, seeds, forecasts.flatMap((f) => f.results))) : null;
 
-  const observed = observedMixes(table.records, fit.states.length);
-  const scores = (options.earlier ?? []).flatMap((r) => scoreRecord(r.name, r.forecasts, observed, fit.states));
+  const earlier = options.earlier ?? [];
+  const scoresSeed = earlier.length === 0 ? undefined : options.scoresSeed ?? ws.seed ?? options.fallbackSeed;
+  if (earlier.length > 0 && scoresSeed === undefined) {
+    throw new SereError('BAD_RECORD', 'no seed is recorded for scoring earlier records', { file: 'manifest.json', path: 'scores_seed' },
+      'rerun the season instead of replaying it');
+  }
+  const scoring = scoresSeed === undefined ? undefined : randomStreams(scoresSeed);
+  const scores = earlier.flatMap((r) => scoreRecord(r, table, scoring!) ?? []);
 
   const files = new Map<string, string>();
   const json = (x: unknown): string => JSON.stringify(x, null, 2) + '\n';
@@ -106,15 +113,19 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title)));
   }
   files.set('changes.json', json(changes));
-  files.set('scores.json', json(scores));
+  files.set('scores.json', json({
+    format: 'sere-scores', format_version: 2, tool_version: TOOL_VERSION, seed: scoresSeed ?? null, draws: SCORE_DRAWS, level: SCORE_LEVEL,
+    records: scores,
+  }));
   files.set('manifest.json', json({
     format: 'sere-record',
-    format_version: 1,
+    format_version: 2,
     tool_version: TOOL_VERSION,
     workspace: ws.name,
     date: options.date,
     previous: options.previous?.name ?? null,
-    scored: (options.earlier ?? []).map((r) => r.name),
+    scored: earlier.map((r) => r.name),
+    scores_seed: scoresSeed ?? null,
     data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
     scenarios: ws.scenarios.map((rel) => ({ file: rel, seed: seeds[rel] })),
     contents: [...files.keys()].sort(),
@@ -122,3 +133,23 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   return { fit, forecasts, comparisons, changes, scores, seeds, files };
 }
 
+/**
+ * Every scenario file rerun with the new fit from the previous record's start (rerun-from-start.ts),
+ * on this season's seeds; none when the previous start holds a state this fit does not know. When
+ * the start did not move, this season's own results are that rerun. A file that no longer loads from the old
+ * start (a treatment year now before it, say) is left out, and its change is not split.
+ */
+function fromPreviousStart(ws: Workspace, fit: Fit, previous: Fit, seeds: Readonly<Record<string, number>>,
+  current: readonly ForecastResult[]): readonly ForecastResult[] {
+  const start = carriedStart(previous, fit);
+  if (!start) return [];
+  if (start.time === fit.latest.time && start.counts.every((c, s) => c === fit.latest.counts[s])) return current;
+  return ws.scenarios.flatMap((rel) => {
+    try {
+      return rerunFromStart(join(ws.root, rel), rel, fit, start, randomStreams(seeds[rel]!));
+    } catch (err) {
+      if (err instanceof SereError) return [];
+      throw err;
+    }
+  });
+}

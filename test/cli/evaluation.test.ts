@@ -10,8 +10,11 @@ describe('sere hindcast and sere effort (built binary)', () => {
     const j = JSON.parse(r.stdout);
     expect(j.format).toBe('sere-hindcast');
     expect(j.summary.map((s: { years: number; cases: number }) => [s.years, s.cases])).toEqual([[1, 8], [3, 6]]);
-    expect(Object.keys(j.cases[0]).sort()).toEqual(['brierScore', 'covered', 'logScore', 'origin', 'persistenceBrierScore',
-      'persistenceLogScore', 'sites', 'states', 'steps', 'target']);
+    expect(j.format_version).toBe(2);
+    expect(Object.keys(j.cases[0]).sort()).toEqual(['chain', 'climatology', 'covered', 'high', 'low', 'observed', 'origin',
+      'persistence', 'sites', 'steps', 'target', 'unscored']);
+    expect(Object.keys(j.summary[0]).sort()).toEqual(['cases', 'chain', 'climatology', 'coverage', 'persistence', 'sites', 'skill', 'steps', 'years']);
+    expect(Object.keys(j.summary[0].coverage).sort()).toEqual(['bands', 'covered', 'flag', 'level', 'p']);
     expect(sere(['hindcast', demo, '--years', '1,3', '--draws', '150', '--seed', '2', '--json']).stdout).toBe(r.stdout);
   });
 

@@ -1,26 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { hindcast } from '../../src/evaluation/hindcast.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
-import type { SurveyRecord, SurveyTable } from '../../src/data/survey.js';
+import type { SurveyTable } from '../../src/data/survey.js';
+import { simulatedSurveys } from '../helpers.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
 
 const TRUE = [[0.8, 0.15, 0.05], [0.1, 0.75, 0.15], [0.05, 0.1, 0.85]];
-
-function surveys(random: RandomStream, sites: number, years: number): SurveyTable {
-  const records: SurveyRecord[] = [];
-  let line = 2;
-  for (let s = 0; s < sites; s++) {
-    let state = random.integer(3);
-    for (let t = 0; t < years; t++) {
-      records.push({ site: `s${s}`, time: 2000 + t, state, line: line++ });
-      let u = random.uniform();
-      let next = 0;
-      while (next < 2 && (u -= TRUE[state]![next]!) >= 0) next += 1;
-      state = next;
-    }
-  }
-  return { file: 'simulated', states: ['a', 'b', 'c'], records, repeatedRows: 0, sha256: '' };
-}
+const surveys = (random: RandomStream, sites: number, years: number): SurveyTable => simulatedSurveys(random, TRUE, sites, years);
 
 describe('coverage of the 90% prediction bands (simulation from a known chain)', () => {
   it('is close to 90%: independent survey histories, one hindcast each, 1 and 2 steps ahead', () => {
@@ -36,7 +22,7 @@ describe('coverage of the 90% prediction bands (simulation from a known chain)',
       for (let rep = 0; rep < replicates; rep++) {
         const table = surveys(random, 100, years);
         const { cases } = hindcast(table, DEFAULT_FIT_SETTINGS, { horizons: [steps], draws: 300, level: 0.9, random: randomStreams(1000 * years + rep) });
-        for (const c of cases.filter((x) => x.origin === 2001)) { inside += c.covered; total += c.states; }
+        for (const c of cases.filter((x) => x.origin === 2001)) { inside += c.covered; total += c.observed.length; }
       }
     }
     const coverage = inside / total;

@@ -44,7 +44,7 @@ describe('sere season (built binary)', () => {
     // The same data again: nothing moves; a second record the same day gets its own name.
     const again = sere(['season', dir, '--date', '2025-09-30']);
     expect(again.stdout).toContain('data unchanged');
-    expect(again.stdout).toContain('no horizon median or band moved');
+    expect(again.stdout).toContain('no median or band moved in the years both records forecast');
     expect(records(dir)).toEqual(['2025-09-30', '2025-09-30-2']);
     expect(JSON.parse(readFileSync(join(dir, 'records', '2025-09-30-2', 'changes.json'), 'utf8')).previous).toBe('2025-09-30');
 
@@ -59,18 +59,35 @@ describe('sere season (built binary)', () => {
     expect(changes.transitions.now).toBe(507);
     expect(changes.transitions.now - changes.transitions.before).toBe(58);
     expect(changes.moved.length).toBeGreaterThan(0);
+    // The same calendar year in both records: no-action ran 50 years from 2023 before, from 2024 now.
+    expect(changes.format_version).toBe(2);
+    const noAction = changes.forecasts.filter((f: { scenario: string }) => f.scenario === 'Brenhollow Saltings — no further management');
+    expect(noAction.map((f: { year: number }) => f.year)).toEqual([2073, 2073, 2073, 2073, 2073]);
+    // The split adds up: new data (new fit, 2023 start) plus moving the start (same draws) is the whole move.
+    for (const f of changes.forecasts) {
+      expect(f.effects.data + f.effects.start).toBeCloseTo(f.now.median - f.before.median, 12);
+    }
+    // 58 transitions more moved the rank-grass median far more than one year's later start did.
+    const grass = noAction.find((f: { state: string }) => f.state === 'rank-grass');
+    expect(Math.abs(grass.effects.data)).toBeGreaterThan(5 * Math.abs(grass.effects.start));
     expect(next.stdout).toContain('data changed: +58 transitions');
-    // The 2023 records forecast 2024, now surveyed: scored (no-action with share bands, storm
-    // surges with plot bands; the options file's treated alternatives are not scored).
+    // Both earlier records (data to 2023) are scored on 2024, now surveyed: every site from its own
+    // 2023 state (or its last before, for the two plots missed in 2023), by each record's own chain.
     const scores = JSON.parse(readFileSync(join(dir, 'records', '2026-09-30', 'scores.json'), 'utf8'));
-    const scoredFirst = scores.filter((x: { record: string }) => x.record === '2025-09-30');
-    // In the record's file order: forecasts/scenarios-no-action, -options, -storm-surges.
-    expect(scoredFirst.map((x: { scenario: string }) => x.scenario)).toEqual(['Brenhollow Saltings — no further management',
-      'Brenhollow options: do nothing', 'Brenhollow Saltings — no management, with storm surges']);
-    expect(scoredFirst.map((x: { year: number }) => x.year)).toEqual([2024, 2024, 2024]);
-    expect(scoredFirst.map((x: { plotBands: boolean }) => x.plotBands)).toEqual([false, false, true]);
+    expect(scores.format_version).toBe(2);
+    expect(scores.records.map((r: { record: string }) => r.record)).toEqual(['2025-09-30', '2025-09-30-2']);
+    const scored = scores.records[0];
+    expect(scored.years.map((y: { year: number; origin: number }) => [y.origin, y.year])).toEqual([[2023, 2024]]);
     // The generator never misses the last year's survey: all 60 plots were surveyed in 2024.
-    for (const x of scoredFirst) { expect(x.sites).toBe(60); expect(x.logScore).toBeGreaterThan(0); expect(x.covered).toBeLessThanOrEqual(5); }
+    expect(scored.summary.sites).toBe(60);
+    expect(scored.years[0].observed.reduce((a: number, b: number) => a + b, 0)).toBe(60);
+    expect(scored.summary.coverage.bands).toBe(5);
+    // Only no-action forecasts the chain alone (storm surges and the options file add events).
+    expect(scored.scenarios).toEqual(['Brenhollow Saltings — no further management']);
+    expect(scored.summary.skill.log.persistence).toBeGreaterThan(0);
+    expect(scored.summary.skill.log.climatology).toBeGreaterThan(0.3);
+    // Same fit, same scoring stream by record name: the two same-day records score alike within Monte Carlo noise.
+    expect(Math.abs(scores.records[1].summary.chain.log - scored.summary.chain.log)).toBeLessThan(0.02);
     expect(next.stdout).toContain('Were earlier forecasts any good?');
     expect(sere(['season', '--replay', join(dir, 'records', '2026-09-30')]).code).toBe(0);
   });
