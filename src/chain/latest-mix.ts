@@ -25,3 +25,25 @@ export function latestSurveyedMix(records: readonly SurveyRecord[], k: number): 
   }
   return { time, counts, shares: counts.map((c) => c / sites), sites };
 }
+
+/** The surveyed mix at one survey time: sites in each state, in state order. */
+export interface MixAtTime {
+  readonly time: number;
+  readonly counts: readonly number[];
+  readonly sites: number;
+}
+
+/**
+ * The surveyed mix at every survey time, earliest first: the history a chart draws before the
+ * forecast, and the observations earlier forecasts are scored against (evaluation/observed.ts).
+ */
+export function surveyedMixes(records: readonly SurveyRecord[], k: number): MixAtTime[] {
+  const byTime = new Map<number, number[]>();
+  for (const r of records) {
+    const counts = byTime.get(r.time) ?? new Array<number>(k).fill(0);
+    counts[r.state]! += 1;
+    byTime.set(r.time, counts);
+  }
+  return [...byTime].sort((a, b) => a[0] - b[0])
+    .map(([time, counts]) => ({ time, counts, sites: counts.reduce((a, b) => a + b, 0) }));
+}

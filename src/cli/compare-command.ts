@@ -7,13 +7,15 @@ import { comparisonTable } from '../report/compare-table.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
-import { loadAndCheck, withRunOptions, writeChart, type RunOptions } from './scenario-run.js';
+import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
+import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { chooseSeed } from './seed.js';
 
 export function registerCompare(program: Command, io: Io): void {
   withRunOptions(program.command('compare')
     .description('compare management alternatives on common random numbers (the first is the baseline)'))
+    .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
     .action(async (files: string[], opts: RunOptions) => {
       const scenarios = loadAndCheck(files, opts);
       if (scenarios.length < 2) {
@@ -25,13 +27,20 @@ export function registerCompare(program: Command, io: Io): void {
       const progress = progressReporter(io.progress, 'comparing');
       let comparison;
       try {
-        comparison = runComparison(scenarios, randomStreams(seed), progress.update, { everyYear: Boolean(opts.chart) });
+        comparison = runComparison(scenarios, randomStreams(seed), progress.update, { everyYear: Boolean(opts.chart || opts.csv) });
       } finally {
         progress.stop();
       }
+      const results = [comparison.baseline, ...comparison.alternatives.map((a) => a.result)];
       if (opts.chart) {
-        const results = [comparison.baseline, ...comparison.alternatives.map((a) => a.result)];
-        await writeChart(opts.chart, results, `${results.length} alternatives compared`, Boolean(opts.force), io);
+        await writeChart(opts.chart, (c) => c.fanChartSpec(results, `${results.length} alternatives compared`, { baseline: true }), Boolean(opts.force), io);
+      }
+      if (opts.differenceChart) {
+        const title = `${results.length} alternatives compared: differences`;
+        await writeChart(opts.differenceChart, (c) => c.differenceChartSpec(comparison, title), Boolean(opts.force), io);
+      }
+      if (opts.csv) {
+        writeCsv(opts.csv, tidyCsv(results, comparison), Boolean(opts.force), io);
       }
       io.stdout(opts.json ? JSON.stringify(comparisonJson(comparison), null, 2) + '\n' : comparisonTable(comparison, makeStyle(io.color)));
     });

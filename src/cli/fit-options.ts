@@ -15,6 +15,9 @@ export interface FitFlags {
   groupColumn?: string;
 }
 
+/** The option keys withFitOptions adds, to tell whether any was given. */
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn'] as const;
+
 export function withFitOptions(command: Command): Command {
   return command
     .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)

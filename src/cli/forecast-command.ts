@@ -6,7 +6,8 @@ import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { chooseSeed } from './seed.js';
 import type { Io } from './io.js';
-import { loadAndCheck, withRunOptions, writeChart, type RunOptions } from './scenario-run.js';
+import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
+import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 
 export function registerForecast(program: Command, io: Io): void {
@@ -28,8 +29,9 @@ export function registerForecast(program: Command, io: Io): void {
       });
       if (opts.chart) {
         const title = results.length === 1 ? results[0]!.scenario.name : `${results.length} scenarios`;
-        await writeChart(opts.chart, results, title, Boolean(opts.force), io);
+        await writeChart(opts.chart, (c) => c.fanChartSpec(results, title), Boolean(opts.force), io);
       }
+      if (opts.csv) writeCsv(opts.csv, tidyCsv(results), Boolean(opts.force), io);
       if (opts.json) {
         io.stdout(JSON.stringify(forecastJson(results), null, 2) + '\n');
         return;

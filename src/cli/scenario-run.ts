@@ -3,9 +3,9 @@ import { loadScenarios } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { drawsFlag, seedFlag } from './parse-options.js';
-import type { ForecastResult } from '../engine/forecast.js';
+import type { TopLevelSpec } from 'vega-lite';
 import type { Io } from './io.js';
-import { writeFileAtomic } from './write-file.js';
+import { refuseExisting, writeFileAtomic } from './write-file.js';
 
 /** The flags shared by commands that run scenarios. */
 export interface RunOptions {
@@ -13,6 +13,9 @@ export interface RunOptions {
   draws?: number;
   json?: boolean;
   chart?: string;
+  csv?: string;
+  /** compare only: the chart of differences from the baseline at the horizon. */
+  differenceChart?: string;
   force?: boolean;
 }
 
@@ -23,14 +26,23 @@ export function withRunOptions(command: Command): Command {
     .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', drawsFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .option('--chart <file.svg>', 'also draw a fan chart (SVG): shares by year with their bands, one panel per state')
-    .option('--force', 'replace an existing --chart file');
+    .option('--csv <file.csv>', 'also write the tidy CSV (README, "Tidy CSV"): shares in %, target chance and timing; for compare also differences and chances of more')
+    .option('--force', 'replace an existing --chart or --csv file');
 }
 
-/** Draw the fan chart of `results` to `file` (vega loaded only when asked). */
-export async function writeChart(file: string, results: readonly ForecastResult[], title: string, force: boolean, io: Io): Promise<void> {
-  const { fanChartSpec } = await import('../report/charts.js');
+type Charts = typeof import('../report/charts.js');
+
+/** Draw a chart to `file` as SVG; vega and the chart code are loaded only when a chart is asked for. */
+export async function writeChart(file: string, make: (charts: Charts) => TopLevelSpec, force: boolean, io: Io): Promise<void> {
+  const charts = await import('../report/charts.js');
   const { renderSvg } = await import('../report/render-svg.js');
-  writeFileAtomic(file, await renderSvg(fanChartSpec(results, title)), force);
+  writeFileAtomic(file, await renderSvg(make(charts)), force);
+  io.stderr(`wrote ${file}\n`);
+}
+
+/** Write the tidy CSV of a run to `file`, atomically (write-file.ts). */
+export function writeCsv(file: string, csv: string, force: boolean, io: Io): void {
+  writeFileAtomic(file, csv, force);
   io.stderr(`wrote ${file}\n`);
 }
 
@@ -40,6 +52,7 @@ export async function writeChart(file: string, results: readonly ForecastResult[
  * scenarios that draw more than once.
  */
 export function loadAndCheck(files: readonly string[], opts: RunOptions): Scenario[] {
+  refuseExisting([opts.chart, opts.csv, opts.differenceChart], Boolean(opts.force));
   const scenarios = files.flatMap((file) => loadScenarios(file))
     .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
   checkScenarios(scenarios);

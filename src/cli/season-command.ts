@@ -8,6 +8,8 @@ import { freeRecordName, listRecords, writeFolderAtomic } from '../workspace/rec
 import { readRecord, type StoredRecord } from '../workspace/read-record.js';
 import { prepareRecordsFolder, withRecordsLock } from '../workspace/records-lock.js';
 import { initWorkspace } from '../workspace/init.js';
+import { initWorkspaceFrom } from '../workspace/init-from.js';
+import { FIT_FLAG_KEYS, fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { seasonTable } from '../report/season-table.js';
 import { makeStyle } from '../report/style.js';
 import { freshSeed } from '../uncertainty/random.js';
@@ -19,13 +21,24 @@ function isoDate(value: string): string {
 }
 
 export function registerSeason(program: Command, io: Io): void {
-  program.command('init')
-    .description('create a workspace holding the invented demo, ready for sere season')
+  const init = withFitOptions(program.command('init')
+    .description('create a workspace, ready for sere season: from your own survey table (--from), or holding the invented demo')
     .argument('<folder>', 'a new or empty folder')
-    .action((folder: string) => {
-      const files = initWorkspace(folder);
-      io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: cd ${folder} && sere season\n`);
-    });
+    .option('--from <survey.csv>', 'start from this survey table: fit it with the fit flags and add a do-nothing scenario'));
+  init.action((folder: string, opts: FitFlags & { from?: string }) => {
+    // The fit flags describe --from's table; on the demo they would be silently ignored.
+    const given = FIT_FLAG_KEYS.filter((key) => init.getOptionValueSource(key) === 'cli');
+    if (!opts.from && given.length > 0) init.error('error: the fit flags describe a survey table: give it with --from SURVEY.csv', { exitCode: 2 });
+    let files: string[];
+    if (opts.from) {
+      const seed = freshSeed();
+      files = initWorkspaceFrom(folder, opts.from, fitSettingsFrom(opts), seed);
+      io.stderr(`seed ${seed} (kept in the workspace file, so every season draws the same random numbers)\n`);
+    } else {
+      files = initWorkspace(folder);
+    }
+    io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: cd ${folder} && sere season\n`);
+  });
 
   program.command('season')
     .description("every season: refit, rerun every scenario and comparison, write a dated record, say what changed")

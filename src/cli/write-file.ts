@@ -7,10 +7,7 @@ import { SereError } from '../errors.js';
  * half a file and a failure leaves nothing behind. An existing file is kept unless `force`.
  */
 export function writeFileAtomic(file: string, text: string, force: boolean): void {
-  if (existsSync(file) && !force) {
-    throw new SereError('FILE_EXISTS', 'already exists and was left untouched', { file },
-      'choose another name, or pass --force to replace it');
-  }
+  refuseExisting([file], force);
   const temporary = join(dirname(file), `.${basename(file)}.${process.pid}.tmp`);
   try {
     writeFileSync(temporary, text);
@@ -19,5 +16,19 @@ export function writeFileAtomic(file: string, text: string, force: boolean): voi
     rmSync(temporary, { force: true });
     const reason = (err as NodeJS.ErrnoException).code ?? 'write failed';
     throw new SereError('CANNOT_WRITE', `cannot write the file (${reason})`, { file }, 'check that the folder exists and is writable');
+  }
+}
+
+/**
+ * Refuse before any work when an output file exists and `force` is off, so a run that writes
+ * several files (--chart, --csv) never writes some and then stops at another.
+ */
+export function refuseExisting(files: readonly (string | undefined)[], force: boolean): void {
+  if (force) return;
+  for (const file of files) {
+    if (file !== undefined && existsSync(file)) {
+      throw new SereError('FILE_EXISTS', 'already exists and was left untouched', { file },
+        'choose another name, or pass --force to replace it');
+    }
   }
 }

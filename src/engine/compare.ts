@@ -7,6 +7,7 @@ import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
 import { drawIndex } from './layout.js';
+import { differenceAt } from './difference-at.js';
 
 /** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
 export const TIE_TOLERANCE = 1e-12;
@@ -26,6 +27,8 @@ export interface AlternativeComparison {
   readonly odds: Odds[][];
   /** The landscape target, when the scenarios set one. */
   readonly dominance: TargetComparison | null;
+  /** Per state: the band of (alternative − baseline) share at the horizon (difference-at.ts). */
+  readonly atHorizon: Band[];
 }
 
 /**
@@ -117,7 +120,8 @@ function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result
     difference.push(bands);
     odds.push(byYear);
   }
-  return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null };
+  const atHorizon = differenceAt(base.paths, base.paths.shares, alt.paths.shares, recorded.indexOf(baseline.horizonSteps), k, baseline.level);
+  return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null, atHorizon };
 }
 
 function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenario): TargetComparison {

@@ -1,20 +1,9 @@
 import type { SurveyRecord } from '../data/survey.js';
+import { surveyedMixes, type MixAtTime } from '../chain/latest-mix.js';
 
-export interface ObservedMix {
-  readonly time: number;
-  /** Sites in each state, in state order. */
-  readonly counts: readonly number[];
-  readonly sites: number;
-}
+export type ObservedMix = MixAtTime;
 
-/** The surveyed mix at every survey time: the observations forecasts are scored against. */
+/** The surveyed mix at every survey time, by time: the observations forecasts are scored against. */
 export function observedMixes(records: readonly SurveyRecord[], k: number): Map<number, ObservedMix> {
-  const byTime = new Map<number, number[]>();
-  for (const r of records) {
-    const counts = byTime.get(r.time) ?? new Array<number>(k).fill(0);
-    counts[r.state]! += 1;
-    byTime.set(r.time, counts);
-  }
-  return new Map([...byTime].sort((a, b) => a[0] - b[0])
-    .map(([time, counts]) => [time, { time, counts, sites: counts.reduce((a, b) => a + b, 0) }]));
+  return new Map(surveyedMixes(records, k).map((m) => [m.time, m]));
 }

@@ -1,7 +1,7 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
 import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
-import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
+import { latestSurveyedMix, surveyedMixes, type MixAtTime, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { maximumLikelihood, type PointEstimate } from '../chain/estimates.js';
 import { impossibleMask, type FitSettings } from './settings.js';
@@ -33,6 +33,8 @@ export interface Fit {
   readonly periods?: readonly PeriodCounts[];
   /** The group column's name, when the survey table had one. */
   readonly groupColumn?: string;
+  /** The surveyed mix at every survey time, for charts (absent when fitted from a fit file). */
+  readonly history?: readonly MixAtTime[];
 }
 
 export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
@@ -84,6 +86,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,
+    history: surveyedMixes(table.records, k),
   };
 }
 

@@ -10,7 +10,7 @@ import { WORKSPACE_FILE } from './workspace.js';
  * A file installed with sere (the demo, the schema), found from wherever this code runs: the
  * sources and the compiled files sit two folders below the root, the bundle's chunks three.
  */
-function installed(path: string): string {
+export function installed(path: string): string {
   for (const up of ['../../', '../../../']) {
     const full = fileURLToPath(new URL(up + path, import.meta.url));
     if (existsSync(full)) return full;
@@ -26,14 +26,9 @@ const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-gras
  * scenario JSON Schema for editors, and the workspace file. The folder must not exist or be empty.
  */
 export function initWorkspace(dir: string): string[] {
-  if (existsSync(dir) && !statSync(dir).isDirectory()) {
-    throw new SereError('FILE_EXISTS', 'is a file, not a folder; nothing was written', { file: dir }, 'choose a new or empty folder');
-  }
-  if (existsSync(dir) && readdirSync(dir).length > 0) {
-    throw new SereError('FILE_EXISTS', 'is not empty; nothing was written', { file: dir }, 'choose a new or empty folder');
-  }
+  refuseUsedFolder(dir);
   const demo = dirname(installed('scenarios/brenhollow/surveys.csv'));
-  const files = new Map<string, string>();
+  const files = new Map<string, string | Buffer>();
   files.set(WORKSPACE_FILE, [
     '# A sere workspace (invented demo: Brenhollow Saltings). Run `sere season` here after each season\'s surveys.',
     'name: Brenhollow Saltings',
@@ -59,7 +54,22 @@ export function initWorkspace(dir: string): string[] {
     files.set(`scenarios/${name}`, text);
   }
   files.set('scenario.schema.json', readFileSync(installed('schema/scenario.schema.json'), 'utf8'));
-  if (existsSync(dir)) rmdirSync(dir); // empty, checked above: the atomic write creates it afresh
-  writeFolderAtomic(dir, files);
+  writeWorkspace(dir, files);
   return [...files.keys()];
+}
+
+/** A workspace goes into a new or empty folder only. */
+export function refuseUsedFolder(dir: string): void {
+  if (existsSync(dir) && !statSync(dir).isDirectory()) {
+    throw new SereError('FILE_EXISTS', 'is a file, not a folder; nothing was written', { file: dir }, 'choose a new or empty folder');
+  }
+  if (existsSync(dir) && readdirSync(dir).length > 0) {
+    throw new SereError('FILE_EXISTS', 'is not empty; nothing was written', { file: dir }, 'choose a new or empty folder');
+  }
+}
+
+/** Write a new workspace's files all at once (record-folder.ts), into a folder checked empty. */
+export function writeWorkspace(dir: string, files: ReadonlyMap<string, string | Buffer>): void {
+  if (existsSync(dir)) rmdirSync(dir); // empty, checked by refuseUsedFolder: the atomic write creates it afresh
+  writeFolderAtomic(dir, files);
 }

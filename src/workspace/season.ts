@@ -102,16 +102,35 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   files.set('fit.json', json(fitToJson(fit, estimates)));
   for (const { file, results } of forecasts) {
     files.set(`forecasts/${stemOf(file)}.json`, json(forecastJson(results)));
-    files.set(`tables/${stemOf(file)}.csv`, tidyCsv(results));
+    // The same writer as `--csv`: a compared file's table also holds the differences and chances.
+    files.set(`tables/${stemOf(file)}.csv`, tidyCsv(results, comparisons.find((c) => c.file === file)?.comparison));
   }
   for (const { file, comparison } of comparisons) files.set(`comparisons/${stemOf(file)}.json`, json(comparisonJson(comparison)));
   // Charts load vega on demand: it is large, and only records and --chart need it.
-  const { fanChartSpec } = await import('../report/charts.js');
+  const { fanChartSpec, differenceChartSpec } = await import('../report/charts.js');
   const { renderSvg } = await import('../report/render-svg.js');
   for (const { file, results } of forecasts) {
     const title = results.length > 1 ? `${ws.name}: ${stemOf(file)} — alternatives compared` : results[0]!.scenario.name;
-    files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title)));
+    files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title, { baseline: results.length > 1 })));
   }
+  for (const { file, comparison } of comparisons) {
+    files.set(`charts/differences/${stemOf(file)}.svg`,
+      await renderSvg(differenceChartSpec(comparison, `${ws.name}: ${stemOf(file)} — differences from the baseline`)));
+  }
+  const { seasonReportHtml } = await import('../report/season-report.js');
+  files.set('report.html', seasonReportHtml({
+    workspace: ws.name, date: options.date, toolVersion: TOOL_VERSION, previous: options.previous?.name ?? null,
+    data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
+    states: fit.states,
+    sections: forecasts.map(({ file, results }) => ({
+      file, seed: seeds[file]!, results,
+      comparison: comparisons.find((c) => c.file === file)?.comparison,
+      charts: [`charts/${stemOf(file)}.svg`, `charts/differences/${stemOf(file)}.svg`].flatMap((path) => {
+        const svg = files.get(path);
+        return svg === undefined ? [] : [svg];
+      }),
+    })),
+  }));
   files.set('changes.json', json(changes));
   files.set('scores.json', json({
     format: 'sere-scores', format_version: 2, tool_version: TOOL_VERSION, seed: scoresSeed ?? null, draws: SCORE_DRAWS, level: SCORE_LEVEL,

@@ -35,8 +35,13 @@ describe('sere season (built binary)', () => {
     for (const path of manifest.contents) expect(existsSync(join(record, path)), path).toBe(true);
     expect(manifest.contents).toContain('comparisons/scenarios-options.json');
     expect(manifest.contents).toContain('tables/scenarios-no-action.csv');
+    expect(manifest.contents).toContain('charts/differences/scenarios-options.svg');
     expect(manifest.scenarios.map((s: { seed: number }) => s.seed)).toEqual([20261201, 20261201, 20261201]);
-    expect(readFileSync(join(record, 'tables', 'scenarios-no-action.csv'), 'utf8').split('\n')[0]).toBe('scenario,year,state,statistic,value');
+    expect(readFileSync(join(record, 'tables', 'scenarios-no-action.csv'), 'utf8').split('\n')[0]).toBe('scenario,alternative,state,year,measure,statistic,value,unit');
+    // A compared file's table comes from the same writer as `compare --csv`: differences included.
+    const options = readFileSync(join(record, 'tables', 'scenarios-options.csv'), 'utf8').split('\n').map((l) => l.split(','));
+    // Three alternatives × five years (the start and the four shown) × four statistics.
+    expect(options.filter((r) => r[4] === 'difference' && r[2] === 'high-marsh').length).toBe(3 * 5 * 4);
     const replay = sere(['season', '--replay', record]);
     expect(replay.stdout).toContain('files identical');
     expect(replay.code).toBe(0);
