@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
-import type { Disturbance, Scenario, Treatment } from '../src/scenario/scenario.js';
+import type { Disturbance, LandscapeTarget, Scenario, Treatment } from '../src/scenario/scenario.js';
 import type { RowChange } from '../src/chain/row-change.js';
 
 /** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
@@ -64,4 +64,9 @@ export function eventOf(rows: number[][], chance: number, horizon: number, scope
   const chances = new Float64Array(horizon + 1).fill(chance);
   chances[0] = 0;
   return { name, scope, chances, matrix: Float64Array.from(rows.flat()) };
+}
+
+/** The single-state target `{ state, share }` of a scenario file, resolved. */
+export function atLeast(state: number, share: number, staysMet = 1): LandscapeTarget {
+  return { states: [state], bound: 'at-least', threshold: share, staysMet };
 }

@@ -18,7 +18,7 @@ describe('sere compare (built binary)', () => {
       expect(alt.odds[state].more.every((x: number) => x === 0)).toBe(true);
     }
     // The target is reached in every draw by both (identical) alternatives: all 'both reach it, same year'.
-    expect(json.format_version).toBe(2);
+    expect(json.format_version).toBe(3);
     expect(alt.dominance_difference).toMatchObject({ probability: 0, both: { sooner: 0, same: 1, later: 0 }, only_alternative: 0, only_baseline: 0, neither: 0, both_draws: 300 });
     expect(json.baseline.plots.c).toEqual(alt.plots.c);
     const table = sere(['compare', sc('same-twice.yaml')]);
