@@ -9,6 +9,7 @@ import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows, type ObservedRowsStationary, type StationaryDraws } from './stationary-draws.js';
 import { priorSensitivity, type PriorSensitivity } from './prior-sensitivity.js';
+import { treatedStationary } from './treated-stationary.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
 
@@ -72,6 +73,19 @@ export interface ForecastResult {
     readonly notUnique: number;
     readonly undefinedDraws: number;
   } | null;
+  /**
+   * The long-run mix if the treatments acting in the horizon year went on for ever: the
+   * area-weighted mixture of the sub-populations' stationary mixes (treated-stationary.ts). Not the
+   * fitted chain's long-run mix (`stationary`). Null when no treatment acts in the horizon year.
+   */
+  readonly treatedStationary: {
+    readonly year: number;
+    /** Indices into scenario.treatments. */
+    readonly treatments: readonly number[];
+    readonly bands: Band[] | null;
+    readonly unique: number;
+    readonly notUnique: number;
+  } | null;
   /** States whose rows rest mostly on the prior: their shares under three priors (prior-sensitivity.ts). */
   readonly priorSensitivity: readonly PriorSensitivity[];
   /** Landscape-level: when the target (a summed share of the whole area) is reached, and whether it holds. */
@@ -110,6 +124,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);
+  const treated = treatedStationary(scenario, matrices);
   return {
     scenario,
     seed: random.seed,
@@ -125,6 +140,9 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
       unique: observed.stationary.unique,
       notUnique: observed.stationary.notUnique,
       undefinedDraws: observed.undefinedDraws,
+    },
+    treatedStationary: treated && {
+      year: toYear(treated.step), treatments: treated.treatments, bands: bandsOf(treated), unique: treated.unique, notUnique: treated.notUnique,
     },
     priorSensitivity: priorChecks ? priorSensitivity(scenario, random.stream('prior-sensitivity')) : [],
     dominance: scenario.target ? targetOutcome(scenario, paths, toYear) : null,

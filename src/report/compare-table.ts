@@ -3,6 +3,7 @@ import type { Comparison } from '../engine/compare.js';
 import { levelLabel, percent, percentBand, signed } from './numbers.js';
 import { firstTimeCell, targetLabel, timingCell } from './target-lines.js';
 import type { ForecastResult } from '../engine/forecast.js';
+import { TREATED_STATIONARY_NOTE, treatedStationaryTitle } from './treated-stationary-lines.js';
 import { CAUTION, makeTable } from './style.js';
 import type { Scenario } from '../scenario/scenario.js';
 
@@ -50,6 +51,21 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
     }
   });
   lines.push(diffs.toString());
+
+  if (all.some((r) => r.treatedStationary)) {
+    const year = base.years[base.years.length - 1]!;
+    lines.push('', style.bold(treatedStationaryTitle(year, sc.level)));
+    const t = makeTable(['state / alternative', 'long-run share'], style, ['left', 'right']);
+    const cell = (r: ForecastResult, s: number): string => {
+      const bands = r.treatedStationary ? r.treatedStationary.bands : r.stationary.bands;
+      return bands ? `${percentBand(bands[s]!)}${r.treatedStationary ? '' : ' (no treatment then: fitted chain)'}` : '—';
+    };
+    states.forEach((name, s) => {
+      t.push([style.bold(name), '']);
+      for (const r of all) t.push([`  ${label(r.scenario)}`, cell(r, s)]);
+    });
+    lines.push(t.toString(), style.dim(TREATED_STATIONARY_NOTE));
+  }
 
   if (sc.target) {
     const last = base.years[base.years.length - 1];

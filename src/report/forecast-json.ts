@@ -46,6 +46,16 @@ export function scenarioJson(r: ForecastResult): object {
       not_unique: r.observedRows.notUnique,
       undefined_draws: r.observedRows.undefinedDraws,
     },
+    stationary_treated: r.treatedStationary && {
+      year: r.treatedStationary.year,
+      treatments: r.treatedStationary.treatments.map((n) => sc.treatments[n]!.name),
+      definition: 'area-weighted mixture of the sub-populations\' stationary mixes under their horizon-year treated matrices',
+      stationary: r.treatedStationary.bands
+        ? byState((s) => { const b = r.treatedStationary!.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
+        : null,
+      unique: r.treatedStationary.unique,
+      not_unique: r.treatedStationary.notUnique,
+    },
     prior_sensitivity: {
       priors: SENSITIVITY_PRIORS,
       method: 'posterior-mean',

@@ -4,6 +4,7 @@ import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } fr
 import { CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { firstTimeCell, targetLines } from './target-lines.js';
+import { treatedStationaryLines } from './treated-stationary-lines.js';
 
 /** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
 export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
@@ -57,6 +58,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
       'their long-run mix depends on the start and is left out of these bands.'));
   }
   if (observed) lines.push(...observedRowsNotes(observed, states, r.draws, style));
+  if (r.treatedStationary) lines.push('', ...treatedStationaryLines(r, style));
   if (r.priorSensitivity.length > 0) {
     lines.push('', ...priorSensitivityLines(states, r.priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.horizon, p.longRun] })),
       [`${r.years[r.years.length - 1]} share`, 'long-run share'], style));

@@ -43,6 +43,7 @@ describe('sere forecast (built binary)', () => {
     expect(s.dominance.holds_throughout).toBeLessThanOrEqual(s.dominance.holds_at_horizon);
     expect(Object.keys(s.most_common.a)).toEqual(['probability', 'draws', 'median', 'low', 'high']);
     expect(s.most_common.c).toEqual({ probability: 1, draws: 200, median: 7, low: 7, high: 7 });
+    expect(s.stationary_treated).toBeNull(); // no treatments
     expect(s.uncertainty).toEqual({ source: 'posterior', draws: 200, seed: 11 });
   });
 
