@@ -34,7 +34,8 @@ export function targetLines(r: ForecastResult, style: ChalkInstance): string[] {
   if (!t.alreadyMet || target.staysMet > 1) {
     const reach = target.staysMet > 1 ? `chance it holds ${target.staysMet * sc.fit.step} consecutive years, starting by ${last - (target.staysMet - 1) * sc.fit.step}` : `chance it is reached by ${last}`;
     lines.push(`  ${reach}: ${percent(t.probability)}%`);
-    lines.push(`  first year, among draws that reach it: ${t.draws === 0 ? 'reached in no draw within the horizon' : timingCell(t.year, t.draws)}`);
+    lines.push(t.draws === 0 ? '  reached in no draw within the horizon'
+      : `  first year${t.year ? ', among draws that reach it' : ''}: ${timingCell(t.year, t.draws)}`);
   }
   if (!t.alreadyMet) lines.push(`  ${holds}`);
   if (t.shortAtHorizon > 0) {
