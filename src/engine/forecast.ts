@@ -206,7 +206,7 @@ function firstTime(first: Int32Array, offset: number, stride: number, level: num
 function targetOutcome(scenario: Scenario, paths: Simulation['paths'], toYear: (step: number) => number): TargetOutcome {
   const target = scenario.target!;
   const { draws, horizon } = paths;
-  const alreadyMet = targetMet(target, target.states, scenario.start.shares);
+  const alreadyMet = targetMet(target, scenario.start.shares);
   const reach = firstTime(paths.firstAtTarget, 0, 1, scenario.level, toYear);
   let atHorizon = 0; let throughout = 0; let short = 0;
   for (let d = 0; d < draws; d++) {

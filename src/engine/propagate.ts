@@ -4,7 +4,7 @@ import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 import type { DrawLayout } from './layout.js';
-import { targetMet } from './target.js';
+import { targetBounds } from './target.js';
 
 /** Draws per block of recorded output (see the loop); 256 draws × 51 steps × 6 states fits in cache. */
 const BLOCK = 256;
@@ -74,6 +74,8 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
   const targetRunAtHorizon = new Int32Array(D);
   const members = target ? Int32Array.from(target.states) : new Int32Array(0);
   const staysMet = target ? target.staysMet : 1;
+  const nMembers = members.length;
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const firstMostCommon = new Int32Array(D * k).fill(-1);
 
   const trivial = !plan || plan.trivial;
@@ -143,7 +145,9 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
         }
       }
       if (target) {
-        if (!targetMet(target, members, total)) runStart = -1;
+        let sum = 0;
+        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
+        if (!(sum >= metLow && sum <= metHigh)) runStart = -1;
         else {
           if (runStart < 0) runStart = t;
           if (firstAtTarget[d] === -1 && t - runStart + 1 >= staysMet) firstAtTarget[d] = runStart;
