@@ -17,9 +17,11 @@ function addExactlyOneOf(node: unknown): void {
   const obj = node as Json;
   const props = obj['properties'] as Json | undefined;
   if (props) {
-    for (const group of [['multiply', 'set', 'move'], ['chance', 'every']]) {
-      if (group.every((key) => key in props)) obj['oneOf'] = group.map((key) => ({ required: [key] }));
-    }
+    const groups = [['multiply', 'set', 'move'], ['chance', 'every'], ['state', 'states'], ['share', 'at_least', 'at_most']]
+      .filter((group) => group.every((key) => key in props)).map((group) => ({ oneOf: group.map((key) => ({ required: [key] })) }));
+    // A target has two such rules; JSON Schema takes several through allOf.
+    if (groups.length === 1) obj['oneOf'] = groups[0]!.oneOf;
+    else if (groups.length > 1) obj['allOf'] = groups;
   }
   Object.values(obj).forEach(addExactlyOneOf);
 }

@@ -56,7 +56,7 @@ describe('survey effort (preposterior)', () => {
     const { randomStreams } = await import('../src/uncertainty/random.js');
     const scenario = { ...loadScenario('scenarios/brenhollow/no-action.yaml'), horizonSteps: 20 };
     const effort = surveyEffort(scenario, { sites: [60, 240], seasons: [1, 5] }, { replicates: 8, draws: 300, random: randomStreams(9) });
-    const t = scenario.target!.state;
+    const t = scenario.target!.states[0]!;
     const cell = (sites: number, seasons: number): number => effort.cells.find((c) => c.sites === sites && c.seasons === seasons)!.widths[t]!;
     expect(cell(60, 1)).toBeLessThan(effort.current[t]!);
     expect(cell(240, 5)).toBeLessThan(cell(60, 1));

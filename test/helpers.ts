@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
-import type { Disturbance, Scenario, Treatment } from '../src/scenario/scenario.js';
+import type { Disturbance, LandscapeTarget, Scenario, Treatment } from '../src/scenario/scenario.js';
 import type { RowChange } from '../src/chain/row-change.js';
 
 /** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
@@ -86,4 +86,9 @@ export function simulatedSurveys(random: import('../src/uncertainty/random.js').
     }
   }
   return { file: 'simulated', states: Array.from({ length: k }, (_, i) => String.fromCharCode(97 + i)), records, repeatedRows: 0, sha256: '' };
+}
+
+/** The single-state target `{ state, share }` of a scenario file, resolved. */
+export function atLeast(state: number, share: number, staysMet = 1): LandscapeTarget {
+  return { states: [state], bound: 'at-least', threshold: share, staysMet };
 }

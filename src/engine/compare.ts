@@ -2,7 +2,8 @@ import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { appendBand, summarise, type ForecastResult, type ShareBands } from './forecast.js';
-import { bandOf, discreteBandOf, type Band } from './quantiles.js';
+import { bandOf, type Band } from './quantiles.js';
+import { timingBand } from './timing-band.js';
 import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
@@ -52,7 +53,7 @@ export interface TargetComparison {
   };
   /** Number of draws in which both reach it: what `years` rests on. */
   readonly bothDraws: number;
-  /** Alternative's first year minus the baseline's, among draws where both reach it. */
+  /** Alternative's first year minus the baseline's, among draws where both reach it; null in fewer than MIN_BAND_DRAWS. */
   readonly years: Band | null;
 }
 
@@ -148,6 +149,6 @@ function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenar
       onlyAlternative: onlyAlternative / draws, onlyBaseline: onlyBaseline / draws, neither: neither / draws,
     },
     bothDraws: both.length,
-    years: both.length > 0 ? discreteBandOf(Int32Array.from(both), baseline.level) : null,
+    years: timingBand(Int32Array.from(both), baseline.level),
   };
 }

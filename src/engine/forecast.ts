@@ -3,10 +3,13 @@ import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
+import { timingBand } from './timing-band.js';
+import { targetMet } from './target.js';
 import { simulate, type Simulation } from './simulate.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows, type ObservedRowsStationary, type StationaryDraws } from './stationary-draws.js';
 import { priorSensitivity, type PriorSensitivity } from './prior-sensitivity.js';
+import { treatedStationary } from './treated-stationary.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
 
@@ -21,8 +24,28 @@ export interface ShareBands {
 export interface FirstTime {
   /** Fraction of draws in which it happens within the horizon (including the start year). */
   readonly probability: number;
-  /** Calendar years, among the draws in which it happens; null when it never does. */
+  /** How many draws it happens in: what `year` rests on. */
+  readonly draws: number;
+  /** Calendar years, among the draws in which it happens; null in fewer than MIN_BAND_DRAWS draws (timing-band.ts). */
   readonly year: Band | null;
+}
+
+/**
+ * The landscape target over the draws. `probability` and `year` are for reaching it: the first
+ * year from which it holds `staysMet` consecutive steps within the horizon. A draw in which it
+ * holds at the horizon but for fewer steps than that (and never for long enough before) is not
+ * counted as reaching it — the forecast cannot see whether the run would last — and is counted in
+ * `shortAtHorizon`.
+ */
+export interface TargetOutcome extends FirstTime {
+  /** Met by the starting mix, which every draw shares; `year` is then null unless staysMet > 1. */
+  readonly alreadyMet: boolean;
+  /** Fraction of draws in which it is met in the horizon year. */
+  readonly holdsAtHorizon: number;
+  /** Fraction of draws in which it is met in every year from the start to the horizon. */
+  readonly holdsThroughout: number;
+  /** Draws met at the horizon by a run shorter than staysMet that were not counted as reaching it. */
+  readonly shortAtHorizon: number;
 }
 
 export interface ForecastResult {
@@ -50,10 +73,23 @@ export interface ForecastResult {
     readonly notUnique: number;
     readonly undefinedDraws: number;
   } | null;
+  /**
+   * The long-run mix if the treatments acting in the horizon year went on for ever: the
+   * area-weighted mixture of the sub-populations' stationary mixes (treated-stationary.ts). Not the
+   * fitted chain's long-run mix (`stationary`). Null when no treatment acts in the horizon year.
+   */
+  readonly treatedStationary: {
+    readonly year: number;
+    /** Indices into scenario.treatments. */
+    readonly treatments: readonly number[];
+    readonly bands: Band[] | null;
+    readonly unique: number;
+    readonly notUnique: number;
+  } | null;
   /** States whose rows rest mostly on the prior: their shares under three priors (prior-sensitivity.ts). */
   readonly priorSensitivity: readonly PriorSensitivity[];
-  /** Landscape-level: the first year the target's share of the whole area reaches the threshold. */
-  readonly dominance: FirstTime | null;
+  /** Landscape-level: when the target (a summed share of the whole area) is reached, and whether it holds. */
+  readonly dominance: TargetOutcome | null;
   /** Per state: the first year it is the most common state in the landscape. */
   readonly mostCommon: FirstTime[];
   /** Where the band at the horizon comes from, when more than one source adds to it. */
@@ -88,6 +124,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);
+  const treated = treatedStationary(scenario, matrices);
   return {
     scenario,
     seed: random.seed,
@@ -104,8 +141,11 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
       notUnique: observed.stationary.notUnique,
       undefinedDraws: observed.undefinedDraws,
     },
+    treatedStationary: treated && {
+      year: toYear(treated.step), treatments: treated.treatments, bands: bandsOf(treated), unique: treated.unique, notUnique: treated.notUnique,
+    },
     priorSensitivity: priorChecks ? priorSensitivity(scenario, random.stream('prior-sensitivity')) : [],
-    dominance: scenario.target ? firstTime(paths.firstAtTarget, 0, 1, level, toYear) : null,
+    dominance: scenario.target ? targetOutcome(scenario, paths, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random),
     notes: sim.notes,
@@ -155,10 +195,33 @@ function firstTime(first: Int32Array, offset: number, stride: number, level: num
     const step = first[d * stride + offset]!;
     if (step >= 0) reached.push(step);
   }
-  if (reached.length === 0) return { probability: 0, year: null };
-  const band = discreteBandOf(Int32Array.from(reached), level);
+  const band = timingBand(Int32Array.from(reached), level);
   return {
     probability: reached.length / draws,
-    year: { median: toYear(band.median), low: toYear(band.low), high: toYear(band.high) },
+    draws: reached.length,
+    year: band && { median: toYear(band.median), low: toYear(band.low), high: toYear(band.high) },
+  };
+}
+
+function targetOutcome(scenario: Scenario, paths: Simulation['paths'], toYear: (step: number) => number): TargetOutcome {
+  const target = scenario.target!;
+  const { draws, horizon } = paths;
+  const alreadyMet = targetMet(target, scenario.start.shares);
+  const reach = firstTime(paths.firstAtTarget, 0, 1, scenario.level, toYear);
+  let atHorizon = 0; let throughout = 0; let short = 0;
+  for (let d = 0; d < draws; d++) {
+    const run = paths.targetRunAtHorizon[d]!;
+    if (run > 0) atHorizon += 1;
+    if (run === horizon + 1) throughout += 1;
+    if (run > 0 && paths.firstAtTarget[d] === -1) short += 1;
+  }
+  return {
+    ...reach,
+    // Met at the start and counted from its first year: the first year is the start, not a finding.
+    year: alreadyMet && target.staysMet === 1 ? null : reach.year,
+    alreadyMet,
+    holdsAtHorizon: atHorizon / draws,
+    holdsThroughout: throughout / draws,
+    shortAtHorizon: short,
   };
 }

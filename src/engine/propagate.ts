@@ -1,9 +1,10 @@
 import type { MatrixDraws } from '../uncertainty/draws.js';
-import type { DominanceTarget } from '../scenario/scenario.js';
+import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 import type { DrawLayout } from './layout.js';
+import { targetBounds } from './target.js';
 
 /** Draws per block of recorded output (see the loop); 256 draws × 51 steps × 6 states fits in cache. */
 const BLOCK = 256;
@@ -19,14 +20,22 @@ export interface Trajectories extends DrawLayout {
   readonly recorded: readonly number[];
   /** Layout [recorded step][state][draw] (see layout.ts). */
   readonly shares: Float64Array;
-  /** Per draw, first step the target's share reaches its threshold, or −1 within the horizon. */
+  /**
+   * Per draw, the first step from which the target holds `staysMet` consecutive steps within the
+   * horizon (with staysMet 1: the first step it is met), or −1.
+   */
   readonly firstAtTarget: Int32Array;
+  /**
+   * Per draw, how many consecutive steps the target has held up to and including the horizon (0:
+   * not met at the horizon; horizon + 1: met in every step from the start).
+   */
+  readonly targetRunAtHorizon: Int32Array;
   /** Per draw and state `[d*k + s]`: first step the state is the most common one, or −1. */
   readonly firstMostCommon: Int32Array;
 }
 
 export interface PropagateOptions {
-  readonly target?: DominanceTarget;
+  readonly target?: LandscapeTarget;
   /** Steps whose shares to keep (default: every step 0 … horizon). */
   readonly record?: readonly number[];
   /** Treatments, sub-populations and events; default: the drawn matrix every step. */
@@ -41,7 +50,8 @@ export interface PropagateOptions {
  * Propagate the starting mix through each draw's matrices: x_{t+1} = x_t P (row vector times a
  * row-stochastic matrix) in every sub-population, then landscape events x ← x·E in the years they
  * strike; the landscape's mix is the sum over sub-populations. Keeps the shares at the recorded
- * steps and tracks, at every step, when the target first dominates and when each state first
+ * steps and tracks, at every step, whether the target is met (the length of the run of years it
+ * has held, so a target that must stay met is found in the same pass) and when each state first
  * becomes the most common.
  *
  * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
@@ -61,6 +71,11 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
   const R = recorded.length;
   const shares = new Float64Array(D * R * k);
   const firstAtTarget = new Int32Array(D).fill(-1);
+  const targetRunAtHorizon = new Int32Array(D);
+  const members = target ? Int32Array.from(target.states) : new Int32Array(0);
+  const staysMet = target ? target.staysMet : 1;
+  const nMembers = members.length;
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const firstMostCommon = new Int32Array(D * k).fill(-1);
 
   const trivial = !plan || plan.trivial;
@@ -86,6 +101,7 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
     const M = ws ? ws.matrices : P;
     const hitRow = d * steps;
     let pending = k; // states not yet seen as the most common
+    let runStart = -1; // first step of the current run of steps meeting the target, −1 when not met
     for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[g * k + s] = weights[g]! * start[s]!;
     for (let s = 0; s < k; s++) total[s] = start[s]!;
     for (let t = 0; t < steps; t++) {
@@ -128,8 +144,17 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
           }
         }
       }
-      if (target && firstAtTarget[d] === -1 && total[target.state]! >= target.share) firstAtTarget[d] = t;
+      if (target) {
+        let sum = 0;
+        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
+        if (!(sum >= metLow && sum <= metHigh)) runStart = -1;
+        else {
+          if (runStart < 0) runStart = t;
+          if (firstAtTarget[d] === -1 && t - runStart + 1 >= staysMet) firstAtTarget[d] = runStart;
+        }
+      }
     }
+    if (runStart >= 0) targetRunAtHorizon[d] = horizon - runStart + 1;
     if (b === BLOCK - 1 || d === D - 1) {
       const first = d - b;
       for (let rs = 0; rs < R * k; rs++) shares.set(block.subarray(rs * BLOCK, rs * BLOCK + b + 1), rs * D + first);
@@ -137,5 +162,5 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
     if (onProgress && (d + 1) % progressEvery === 0) onProgress(d + 1, D);
   }
   onProgress?.(D, D);
-  return { draws: D, steps: R, horizon, k, recorded, shares, firstAtTarget, firstMostCommon };
+  return { draws: D, steps: R, horizon, k, recorded, shares, firstAtTarget, targetRunAtHorizon, firstMostCommon };
 }

@@ -76,7 +76,7 @@ export function stationaryOfObservedRows(draws: MatrixDraws, counts: ArrayLike<n
 }
 
 /** Stationary mix of a k×k matrix at `offset`, or null when not unique; classes cached by sparsity pattern. */
-function stationaryByPattern(k: number): (p: Float64Array, offset: number) => Float64Array | null {
+export function stationaryByPattern(k: number): (p: Float64Array, offset: number) => Float64Array | null {
   const classesByPattern = new Map<string, ChainClasses>();
   return (p, offset) => {
     let pattern = '';

@@ -67,11 +67,20 @@ interface PanelOptions {
 }
 
 /** The values a share panel draws, to scale its y-axis to them. */
+/**
+ * The threshold to draw as a rule in state s's panel: only for a target on that one state — a
+ * target on a set of states is about their sum, which no single panel shows.
+ */
+function singleStateTarget(r: ForecastResult, s: number): number | null {
+  const t = r.scenario.target;
+  return t && t.states.length === 1 && t.states[0] === s ? t.threshold : null;
+}
+
 function panelValues(r: ForecastResult, s: number, withTarget: boolean): number[] {
   const rows = bandRows(r, s);
   const state = r.scenario.fit.states[s]!;
   const past = history(r).filter((h) => h.state === chartLabel(state));
-  const target = withTarget && r.scenario.target?.state === s ? [pct(r.scenario.target.share)] : [];
+  const target = withTarget && singleStateTarget(r, s) !== null ? [pct(singleStateTarget(r, s)!)] : [];
   return [...rows.flatMap((b) => [b.low, b.high]), ...past.flatMap((h) => [h.low, h.high]), ...target];
 }
 
@@ -101,9 +110,10 @@ function sharePanel(o: PanelOptions): Spec {
     layer.push({ data: { values: bandRows(o.reference, o.state) }, mark: { type: 'line', strokeWidth: 1, strokeDash: [4, 3], color: NEUTRAL.reference },
       encoding: { x, y: y('median') } });
   }
-  if (sc.target && sc.target.state === o.state) {
-    const share = pct(sc.target.share);
-    const values = [{ share, label: `target ${Number(share.toFixed(1))}%` }];
+  const threshold = singleStateTarget(r, o.state);
+  if (threshold !== null) {
+    const share = pct(threshold);
+    const values = [{ share, label: `target: ${sc.target!.bound === 'at-least' ? 'at least' : 'at most'} ${Number(share.toFixed(1))}%` }];
     layer.push(
       { data: { values }, mark: { type: 'rule', color: NEUTRAL.target, strokeDash: [6, 3], strokeWidth: 1.2 }, encoding: { y: y('share') } },
       { data: { values }, mark: { type: 'text', align: 'left', baseline: 'bottom', dx: 3, dy: -2, fontSize: 10, color: NEUTRAL.target },

@@ -13,7 +13,8 @@ export function comparisonJson(c: Comparison): object {
   return {
     format: 'sere-comparison',
     // 2: dominance_difference reports four outcomes (both, only one, neither) instead of sooner/same/later.
-    format_version: 2,
+    // 3: the target keys of sere-forecast format 2; years is null when both_draws is under 50.
+    format_version: 3,
     tool_version: TOOL_VERSION,
     common_random_numbers: true,
     baseline: scenarioJson(c.baseline),

@@ -1,6 +1,9 @@
 import type { ChalkInstance } from 'chalk';
 import type { Comparison } from '../engine/compare.js';
-import { count, levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
+import { levelLabel, percent, percentBand, signed } from './numbers.js';
+import { firstTimeCell, targetLabel, timingCell } from './target-lines.js';
+import type { ForecastResult } from '../engine/forecast.js';
+import { TREATED_STATIONARY_NOTE, treatedStationaryTitle } from './treated-stationary-lines.js';
 import { CAUTION, makeTable } from './style.js';
 import type { Scenario } from '../scenario/scenario.js';
 
@@ -49,22 +52,40 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
   });
   lines.push(diffs.toString());
 
+  if (all.some((r) => r.treatedStationary)) {
+    const year = base.years[base.years.length - 1]!;
+    lines.push('', style.bold(treatedStationaryTitle(year, sc.level)));
+    const t = makeTable(['state / alternative', 'long-run share'], style, ['left', 'right']);
+    const cell = (r: ForecastResult, s: number): string => {
+      const bands = r.treatedStationary ? r.treatedStationary.bands : r.stationary.bands;
+      return bands ? `${percentBand(bands[s]!)}${r.treatedStationary ? '' : ' (no treatment then: fitted chain)'}` : '—';
+    };
+    states.forEach((name, s) => {
+      t.push([style.bold(name), '']);
+      for (const r of all) t.push([`  ${label(r.scenario)}`, cell(r, s)]);
+    });
+    lines.push(t.toString(), style.dim(TREATED_STATIONARY_NOTE));
+  }
+
   if (sc.target) {
     const last = base.years[base.years.length - 1];
-    lines.push('', style.bold(`Landscape target: ${states[sc.target.state]} covering at least ${percent(sc.target.share)}% of the whole area, by ${last}`));
-    const t = makeTable(['alternative', 'chance', 'first year', 'vs baseline', 'both: sooner · same · later',
-      'only it · only baseline · neither', 'years (− earlier) if both'], style,
-    ['left', 'right', 'right', 'right', 'right', 'right', 'right']);
-    t.push([label(base.scenario), `${percent(base.dominance!.probability)}%`, base.dominance!.year ? wholeBand(base.dominance!.year) : '—', '', '', '', '']);
+    lines.push('', style.bold(`Landscape target: ${targetLabel(sc.target, states, sc.fit.step)}, by ${last}`));
+    if (base.dominance!.alreadyMet) lines.push(`Already met in ${sc.start.year}, the start every alternative shares.`);
+    const t = makeTable(['alternative', 'chance', 'first year (draws)', 'vs baseline', 'both: sooner · same · later',
+      'only it · only baseline · neither', 'years (− earlier) if both', `holds in ${last} · every year`], style,
+    ['left', 'right', 'right', 'right', 'right', 'right', 'right', 'right']);
+    const holds = (r: ForecastResult): string => `${percent(r.dominance!.holdsAtHorizon)}% · ${percent(r.dominance!.holdsThroughout)}%`;
+    const first = (r: ForecastResult): string => (r.dominance!.alreadyMet && sc.target!.staysMet === 1 ? 'already met' : firstTimeCell(r.dominance!));
+    t.push([label(base.scenario), `${percent(base.dominance!.probability)}%`, first(base), '', '', '', '', holds(base)]);
     for (const a of c.alternatives) {
       const dom = a.result.dominance!;
       const diff = a.dominance!;
       const o = diff.outcomes;
-      t.push([label(a.result.scenario), `${percent(dom.probability)}%`, dom.year ? wholeBand(dom.year) : '—',
+      t.push([label(a.result.scenario), `${percent(dom.probability)}%`, first(a.result),
         `${signedPoints(diff.probabilityDifference)} pts`,
         `${percent(o.sooner)}% · ${percent(o.same)}% · ${percent(o.later)}%`,
         `${percent(o.onlyAlternative)}% · ${percent(o.onlyBaseline)}% · ${percent(o.neither)}%`,
-        `${diff.years ? signedBand(diff.years) : '—'} (${count(diff.bothDraws, 'draw')})`]);
+        timingCell(diff.years, diff.bothDraws, signedBand), holds(a.result)]);
     }
     lines.push(t.toString());
     lines.push(style.dim(`Outcomes are shares of all ${base.draws} draws and add up to 100%. A draw in which neither reaches the ` +

@@ -6,7 +6,7 @@ import { makeTable } from './style.js';
 /** Band widths at the horizon on a grid of future survey effort. */
 export function effortTable(scenario: Scenario, effort: SurveyEffort, style: ChalkInstance): string {
   const states = scenario.fit.states;
-  const shown = scenario.target ? [scenario.target.state] : states.map((_, s) => s);
+  const shown = scenario.target ? scenario.target.states : states.map((_, s) => s);
   const year = scenario.start.year + scenario.horizonSteps * scenario.fit.step;
   const seasons = [...new Set(effort.cells.map((c) => c.seasons))];
   const sites = [...new Set(effort.cells.map((c) => c.sites))];

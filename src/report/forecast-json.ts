@@ -7,7 +7,9 @@ import { SENSITIVITY_PRIORS } from '../engine/prior-sensitivity.js';
  * name, arrays by year. No timestamps, so that the same inputs and seed give byte-identical output.
  */
 export function forecastJson(results: readonly ForecastResult[]): object {
-  return { format: 'sere-forecast', format_version: 1, tool_version: TOOL_VERSION, scenarios: results.map(scenarioJson) };
+  // 2: dominance is a target on a set of states (states, bound, threshold, stays_met replace state
+  // and threshold) with already_met, draws and holding chances; timing bands under 50 draws are null.
+  return { format: 'sere-forecast', format_version: 2, tool_version: TOOL_VERSION, scenarios: results.map(scenarioJson) };
 }
 
 export function scenarioJson(r: ForecastResult): object {
@@ -44,6 +46,16 @@ export function scenarioJson(r: ForecastResult): object {
       not_unique: r.observedRows.notUnique,
       undefined_draws: r.observedRows.undefinedDraws,
     },
+    stationary_treated: r.treatedStationary && {
+      year: r.treatedStationary.year,
+      treatments: r.treatedStationary.treatments.map((n) => sc.treatments[n]!.name),
+      definition: 'area-weighted mixture of the sub-populations\' stationary mixes under their horizon-year treated matrices',
+      stationary: r.treatedStationary.bands
+        ? byState((s) => { const b = r.treatedStationary!.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
+        : null,
+      unique: r.treatedStationary.unique,
+      not_unique: r.treatedStationary.notUnique,
+    },
     prior_sensitivity: {
       priors: SENSITIVITY_PRIORS,
       method: 'posterior-mean',
@@ -60,17 +72,24 @@ export function scenarioJson(r: ForecastResult): object {
     },
     dominance: r.dominance && sc.target
       ? {
-        state: fit.states[sc.target.state],
-        threshold: sc.target.share,
+        states: sc.target.states.map((s) => fit.states[s]),
+        bound: sc.target.bound === 'at-least' ? 'at_least' : 'at_most',
+        threshold: sc.target.threshold,
+        stays_met: sc.target.staysMet * fit.step,
+        already_met: r.dominance.alreadyMet,
         probability: r.dominance.probability,
+        draws: r.dominance.draws,
         median: r.dominance.year?.median ?? null,
         low: r.dominance.year?.low ?? null,
         high: r.dominance.year?.high ?? null,
+        holds_at_horizon: r.dominance.holdsAtHorizon,
+        holds_throughout: r.dominance.holdsThroughout,
+        short_at_horizon: r.dominance.shortAtHorizon,
       }
       : null,
     most_common: byState((s) => {
       const m = r.mostCommon[s]!;
-      return { probability: m.probability, median: m.year?.median ?? null, low: m.year?.low ?? null, high: m.year?.high ?? null };
+      return { probability: m.probability, draws: m.draws, median: m.year?.median ?? null, low: m.year?.low ?? null, high: m.year?.high ?? null };
     }),
     uncertainty_split: r.split
       ? {

@@ -3,6 +3,8 @@ import type { ForecastResult } from '../engine/forecast.js';
 import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
+import { firstTimeCell, targetLines } from './target-lines.js';
+import { treatedStationaryLines } from './treated-stationary-lines.js';
 
 /** The terminal report of one forecast: header, shares by year, stationary mix, first times, caution. */
 export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
@@ -56,27 +58,20 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
       'their long-run mix depends on the start and is left out of these bands.'));
   }
   if (observed) lines.push(...observedRowsNotes(observed, states, r.draws, style));
+  if (r.treatedStationary) lines.push('', ...treatedStationaryLines(r, style));
   if (r.priorSensitivity.length > 0) {
     lines.push('', ...priorSensitivityLines(states, r.priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.horizon, p.longRun] })),
       [`${r.years[r.years.length - 1]} share`, 'long-run share'], style));
   }
 
   const last = r.years[r.years.length - 1];
-  if (r.dominance && sc.target) {
-    const target = `${states[sc.target.state]} covering at least ${percent(sc.target.share)}% of the whole area`;
-    lines.push('', style.bold(`Landscape target: ${target}`));
-    lines.push(`  chance it is reached by ${last}: ${percent(r.dominance.probability)}%`);
-    lines.push(r.dominance.year
-      ? `  first year, among draws that reach it: ${wholeBand(r.dominance.year)}`
-      : '  reached in no draw within the horizon');
-    lines.push(style.dim('  (a share of the whole landscape, not the time for any one site to change)'));
-  }
+  if (r.dominance && sc.target) lines.push('', ...targetLines(r, style));
 
   lines.push('', style.bold(`When each state first becomes the most common in the landscape (to ${last})`));
-  const common = makeTable(['state', 'chance', `first year [${band}]`], style, ['left', 'right', 'right']);
+  const common = makeTable(['state', 'chance', `first year [${band}] (draws)`], style, ['left', 'right', 'right']);
   states.forEach((name, s) => {
     const m = r.mostCommon[s]!;
-    common.push([name, `${percent(m.probability)}%`, m.year ? wholeBand(m.year) : '—']);
+    common.push([name, `${percent(m.probability)}%`, firstTimeCell(m)]);
   });
   lines.push(common.toString());
   if (r.split) lines.push('', ...splitTable(r, style));

@@ -1,3 +1,4 @@
+import { targetLabel } from './target-lines.js';
 import type { ForecastResult } from '../engine/forecast.js';
 import type { Comparison } from '../engine/compare.js';
 import { levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
@@ -60,7 +61,7 @@ function targetLines(s: ReportSection): string {
   if (!sc.target) return '';
   const horizon = s.results[0]!.years[s.results[0]!.years.length - 1]!;
   const body = s.results.map((r) => [nameOf(r), `${percent(r.dominance!.probability)}%`, r.dominance!.year ? wholeBand(r.dominance!.year) : '—']);
-  return `<p class="target">Landscape target: ${escapeHtml(sc.fit.states[sc.target.state]!)} covering at least ${percent(sc.target.share)}% of the area, by ${horizon}.</p>`
+  return `<p class="target">Landscape target: ${escapeHtml(targetLabel(sc.target, sc.fit.states, sc.fit.step))}, by ${horizon}.</p>`
     + table(['scenario', 'chance', 'first year'], body);
 }
 

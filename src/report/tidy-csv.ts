@@ -1,3 +1,4 @@
+import type { LandscapeTarget } from '../scenario/scenario.js';
 import { stringify } from 'csv-stringify/sync';
 import type { ForecastResult, ShareBands } from '../engine/forecast.js';
 import type { Comparison } from '../engine/compare.js';
@@ -30,9 +31,9 @@ function forecastRows(r: ForecastResult, push: (row: Row) => void): void {
     if (r.plots) bandRows(push, who, state, r.years, r.plots[s]!, 'plots', 'plots', hundredths);
   });
   if (sc.target && r.dominance) {
-    const state = sc.fit.states[sc.target.state]!;
+    const state = targetStates(sc.target, sc.fit.states);
     const horizon = r.years[r.years.length - 1]!;
-    push([...who, state, horizon, 'target_share', 'threshold', tenths(sc.target.share), 'percent']);
+    push([...who, state, horizon, 'target_share', sc.target.bound === 'at-least' ? 'at_least' : 'at_most', tenths(sc.target.threshold), 'percent']);
     push([...who, state, horizon, 'target_chance', 'probability', tenths(r.dominance.probability), 'percent']);
     const y = r.dominance.year;
     for (const stat of ['median', 'low', 'high'] as const) push([...who, state, horizon, 'target_year', stat, y ? y[stat] : '', 'year']);
@@ -57,7 +58,7 @@ function comparisonRows(c: Comparison, push: (row: Row) => void): void {
     });
     const d = alt.dominance;
     if (d && sc.target) {
-      const state = sc.fit.states[sc.target.state]!;
+      const state = targetStates(sc.target, sc.fit.states);
       const horizon = base.years[base.years.length - 1]!;
       push([...who, state, horizon, 'target_chance_difference', 'difference', tenths(d.probabilityDifference), 'points']);
       const o = d.outcomes;
@@ -84,4 +85,9 @@ export function tidyCsv(results: readonly ForecastResult[], comparison?: Compari
   for (const r of results) forecastRows(r, push);
   if (comparison) comparisonRows(comparison, push);
   return stringify(rows, { header: true, columns: [...CSV_COLUMNS] });
+}
+
+/** A target's states as one CSV cell: the state, or a set joined with '+' (its shares are summed). */
+function targetStates(target: LandscapeTarget, states: readonly string[]): string {
+  return target.states.map((s) => states[s]!).join('+');
 }

@@ -1,5 +1,5 @@
 import { SereError } from '../errors.js';
-import type { Scenario } from './scenario.js';
+import type { LandscapeTarget, Scenario } from './scenario.js';
 
 /**
  * Alternatives can only be compared on common random numbers when they describe the same
@@ -24,9 +24,16 @@ export function checkComparable(scenarios: readonly Scenario[]): void {
     if (s.horizonSteps !== base.horizonSteps) differs('the horizon', 'give every alternative the same horizon');
     if (s.source !== base.source) differs('the uncertainty source', 'use the same uncertainty source in every alternative');
     if (s.level !== base.level) differs('the credible level', 'use the same level in every alternative');
-    if ((s.target?.state ?? -1) !== (base.target?.state ?? -1) || (s.target?.share ?? -1) !== (base.target?.share ?? -1)) {
+    if (!sameTarget(s.target, base.target)) {
       differs('the target', 'give every alternative the same target');
     }
     if ((s.plots?.total ?? 0) !== (base.plots?.total ?? 0)) differs('plots', 'count the same number of plots in every alternative');
   }
+}
+
+/** The same question: the same set of states (in any order), bound, threshold and run length. */
+function sameTarget(a: LandscapeTarget | undefined, b: LandscapeTarget | undefined): boolean {
+  if (!a || !b) return a === b;
+  const set = (t: LandscapeTarget): string => [...t.states].sort((x, y) => x - y).join(',');
+  return set(a) === set(b) && a.bound === b.bound && a.threshold === b.threshold && a.staysMet === b.staysMet;
 }

@@ -9,6 +9,7 @@ import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
 import { largestRemainder } from './largest-remainder.js';
+import { resolveTarget } from './resolve-target.js';
 
 /** Explicit starting shares must sum to 1 within this (absolute); they are typed by hand. */
 export const SHARES_SUM_TOLERANCE = 1e-9;
@@ -84,6 +85,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     impossible: fitMask(fit),
     stateIndex, locate,
   };
+  const target = s.target && resolveTarget(s.target, { step: fit.step, horizonSteps, stateIndex, locate });
   const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));
   const baseName = s.name ?? basename(file).replace(/\.ya?ml$/i, '');
   const alternatives = s.alternatives ?? [{ name: baseName, treatments: [], events: [] }];
@@ -109,7 +111,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
       horizonSteps,
       showSteps,
       level: s.level,
-      target: s.target ? { state: stateIndex(s.target.state, ['target', 'state']), share: s.target.share } : undefined,
+      target,
       treatments,
       events,
       plots,

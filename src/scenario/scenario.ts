@@ -19,7 +19,7 @@ export interface Scenario {
   /** Steps after the start shown in the terminal table. */
   readonly showSteps: readonly number[];
   readonly level: number;
-  readonly target?: DominanceTarget;
+  readonly target?: LandscapeTarget;
   /** Management, in the order it composes within a year (file order). */
   readonly treatments: readonly Treatment[];
   /** Disturbances, in the order they strike within a year (file order). */
@@ -28,11 +28,19 @@ export interface Scenario {
   readonly plots?: { readonly total: number; readonly start: readonly number[] };
 }
 
-/** A landscape-level goal: the target state's share of the whole area reaching a threshold. */
-export interface DominanceTarget {
-  readonly state: number;
-  /** Share of the area at or above which the target state "dominates". */
-  readonly share: number;
+/**
+ * A landscape-level goal on the summed share of a set of states: at least a threshold (a share to
+ * reach) or at most one (a cap). It is met in a year when the summed share of the whole area is on
+ * the right side of the threshold (engine/target.ts), and counts as reached in the first year from
+ * which it then holds `staysMet` consecutive steps within the horizon.
+ */
+export interface LandscapeTarget {
+  /** State indices, distinct, in the order the file lists them. */
+  readonly states: readonly number[];
+  readonly bound: 'at-least' | 'at-most';
+  readonly threshold: number;
+  /** Consecutive steps it must hold (1: the year it is first met). */
+  readonly staysMet: number;
 }
 
 export interface Treatment {

@@ -99,6 +99,31 @@ const alternativeSchema = z.strictObject({
   events: z.array(eventSchema).default([]),
 });
 
+/**
+ * A landscape target on the summed share of a set of states: `at_least` (reach a share) or
+ * `at_most` (a cap, met while the share is at or below it). `{ state, share }` is the shorthand
+ * for one state and `at_least`. Names, duplicates and stays_met against the step are checked
+ * against the fit in load-scenario.ts (resolveTarget).
+ */
+const targetSchema = z.strictObject({
+  state: stateName.optional().describe('Shorthand for states: [state].'),
+  states: z.array(stateName).min(1, { error: 'list at least one state in target.states' }).optional()
+    .describe('The states whose shares are summed.'),
+  share: probability('target.share').optional().describe('Shorthand for at_least.'),
+  at_least: probability('target.at_least').optional().describe('Met while the summed share is at or above this.'),
+  at_most: probability('target.at_most').optional().describe('Met while the summed share is at or below this (a cap).'),
+  stays_met: positiveInt('target.stays_met').optional()
+    .describe('Years: the target counts as reached in the first year from which it holds this many consecutive years within the horizon; default 1.'),
+}).superRefine((t, ctx) => {
+  // Point at the second key of a clashing pair, in file order (YAML keeps it), or at the target.
+  const exactlyOne = (keys: readonly (keyof typeof t)[], message: string): void => {
+    const given = Object.keys(t).filter((key) => (keys as readonly string[]).includes(key));
+    if (given.length !== 1) ctx.addIssue({ code: 'custom', message, path: given.length > 1 ? [given[1]!] : [] });
+  };
+  exactlyOne(['state', 'states'], 'a target needs exactly one of state or states');
+  exactlyOne(['share', 'at_least', 'at_most'], 'a target needs exactly one of at_least, at_most or share (the same as at_least)');
+}).describe('A landscape target: the summed share of states reaching at_least, or kept at_most; { state, share } is shorthand for one state and at_least.');
+
 const MAX_PLOTS = LIMITS.plots;
 
 /**
@@ -130,10 +155,7 @@ export const scenarioSchema = z.strictObject({
   /** Credible level of every band; default 0.9. */
   level: z.number().gt(0, { error: 'level must be between 0 and 1' }).lt(1, { error: 'level must be between 0 and 1' }).default(0.9)
     .describe('Credible level of every band; default 0.9.'),
-  target: z.strictObject({
-    state: stateName,
-    share: z.number().gt(0, { error: 'target.share must be above 0' }).max(1, { error: 'target.share must be at most 1' }),
-  }).optional(),
+  target: targetSchema.optional(),
   /** Also forecast how many of N plots are in each state: a number, or 'latest' (the sites of the latest survey). */
   plots: z.union([z.literal('latest'), positiveInt('plots').max(MAX_PLOTS, { error: `plots must be at most ${MAX_PLOTS}` })],
     { error: "plots must be a whole number or 'latest'" }).optional(),

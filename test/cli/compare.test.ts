@@ -18,9 +18,14 @@ describe('sere compare (built binary)', () => {
       expect(alt.odds[state].more.every((x: number) => x === 0)).toBe(true);
     }
     // The target is reached in every draw by both (identical) alternatives: all 'both reach it, same year'.
-    expect(json.format_version).toBe(2);
+    expect(json.format_version).toBe(3);
     expect(alt.dominance_difference).toMatchObject({ probability: 0, both: { sooner: 0, same: 1, later: 0 }, only_alternative: 0, only_baseline: 0, neither: 0, both_draws: 300 });
     expect(json.baseline.plots.c).toEqual(alt.plots.c);
+    // The half-area treatment lasts to the horizon: the same treated long-run mix in both, labelled by year and treatment.
+    expect(Object.keys(alt.stationary_treated)).toEqual(['year', 'treatments', 'definition', 'stationary', 'unique', 'not_unique']);
+    expect(alt.stationary_treated).toMatchObject({ year: json.baseline.years[json.baseline.years.length - 1], treatments: ['t'], unique: 300, not_unique: 0 });
+    expect(alt.stationary_treated.stationary).toEqual(json.baseline.stationary_treated.stationary);
+    expect(Object.keys(alt.stationary_treated.stationary)).toEqual(['a', 'b', 'c']);
     const table = sere(['compare', sc('same-twice.yaml')]);
     expect(table.stdout).toContain('0 (tie)');
   });

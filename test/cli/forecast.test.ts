@@ -34,8 +34,16 @@ describe('sere forecast (built binary)', () => {
     expect(s.shares.c.median).toHaveLength(6);
     expect(s.shares.c.median[0]).toBe(1);
     expect(Object.keys(s.stationary.b)).toEqual(['median', 'low', 'high']);
-    expect(Object.keys(s.dominance)).toEqual(['state', 'threshold', 'probability', 'median', 'low', 'high']);
-    expect(s.dominance).toMatchObject({ state: 'c', threshold: 0.5, probability: 1, median: 7 });
+    expect(json.format_version).toBe(2);
+    expect(Object.keys(s.dominance)).toEqual(['states', 'bound', 'threshold', 'stays_met', 'already_met', 'probability', 'draws',
+      'median', 'low', 'high', 'holds_at_horizon', 'holds_throughout', 'short_at_horizon']);
+    // The start is all c: the target is met at the start, so there is no first year to band.
+    expect(s.dominance).toMatchObject({ states: ['c'], bound: 'at_least', threshold: 0.5, stays_met: 1, already_met: true,
+      probability: 1, draws: 200, median: null, low: null, high: null });
+    expect(s.dominance.holds_throughout).toBeLessThanOrEqual(s.dominance.holds_at_horizon);
+    expect(Object.keys(s.most_common.a)).toEqual(['probability', 'draws', 'median', 'low', 'high']);
+    expect(s.most_common.c).toEqual({ probability: 1, draws: 200, median: 7, low: 7, high: 7 });
+    expect(s.stationary_treated).toBeNull(); // no treatments
     expect(s.uncertainty).toEqual({ source: 'posterior', draws: 200, seed: 11 });
   });
 

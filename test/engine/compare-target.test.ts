@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { loadScenarios } from '../../src/scenario/load-scenario.js';
 import { runComparison } from '../../src/engine/compare.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
+import { MIN_BAND_DRAWS } from '../../src/engine/timing-band.js';
 
 describe('the landscape target compared draw by draw', () => {
   const scenarios = loadScenarios('scenarios/brenhollow/options.yaml').map((s) => ({ ...s, draws: 600 }));
@@ -29,13 +30,18 @@ describe('the landscape target compared draw by draw', () => {
     expect(cut.outcomes.onlyAlternative).toBeGreaterThan(0.1);
   });
 
-  it('the years band rests on the draws in which both reach the target', () => {
+  it('the years band rests on the draws in which both reach the target, and only on 50 or more', () => {
     const reached = Math.round(c.baseline.dominance!.probability * c.baseline.draws);
+    expect(c.baseline.dominance!.draws).toBe(reached);
     for (const a of c.alternatives) {
       const t = a.dominance!;
       expect(t.bothDraws).toBeLessThanOrEqual(reached);
-      if (t.bothDraws === 0) expect(t.years).toBeNull();
+      if (t.bothDraws < MIN_BAND_DRAWS) expect(t.years).toBeNull();
       else expect(t.years).not.toBeNull();
     }
+    // With 600 draws the baseline reaches the target in fewer than 50 (about 6%): its first-year band is withheld too.
+    expect(reached).toBeLessThan(MIN_BAND_DRAWS);
+    expect(c.baseline.dominance!.year).toBeNull();
+    expect(c.alternatives.every((a) => a.dominance!.years === null)).toBe(true);
   });
 });

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { runForecast } from '../../src/engine/forecast.js';
+import { MIN_BAND_DRAWS } from '../../src/engine/timing-band.js';
 import { forecastJson } from '../../src/report/forecast-json.js';
 import { bootstrapDraws } from '../../src/uncertainty/bootstrap.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
-import { fitWithCounts, mathjsProjection, scenarioFor } from '../helpers.js';
+import { atLeast, fitWithCounts, mathjsProjection, scenarioFor } from '../helpers.js';
 
 const counts = [[40, 10, 0], [5, 30, 15], [0, 4, 36]];
 const fit = fitWithCounts(['bare', 'grass', 'shrub'], counts);
@@ -26,7 +27,7 @@ describe('runForecast', () => {
   });
 
   it('gives byte-identical JSON for the same inputs and seed, and different JSON for another seed', () => {
-    const sc = scenarioFor(fit, { target: { state: 2, share: 0.5 } });
+    const sc = scenarioFor(fit, { target: atLeast(2, 0.5) });
     const a = JSON.stringify(forecastJson([runForecast(sc, randomStreams(77))]));
     const b = JSON.stringify(forecastJson([runForecast(sc, randomStreams(77))]));
     const c = JSON.stringify(forecastJson([runForecast(sc, randomStreams(78))]));
@@ -45,16 +46,22 @@ describe('runForecast', () => {
     }));
   });
 
-  it('reports landscape dominance as a probability and a band of calendar years', () => {
-    const sc = scenarioFor(fit, { source: 'point', draws: 1, horizonSteps: 30, target: { state: 2, share: 0.5 },
-      start: { year: 2020, shares: Float64Array.from([1, 0, 0]), from: 'given' } });
-    const r = runForecast(sc, randomStreams(1));
+  it('reports landscape dominance as a probability and a band of calendar years, from at least 50 draws', () => {
+    // 50 copies of the MLE: every draw reaches the target in the same year, so the band is a point.
+    const at = (draws: number) => runForecast(scenarioFor(fit, { source: 'point', draws, horizonSteps: 30, target: atLeast(2, 0.5),
+      start: { year: 2020, shares: Float64Array.from([1, 0, 0]), from: 'given' } }), randomStreams(1));
+    const r = at(MIN_BAND_DRAWS);
     const mle = counts.map((row) => row.map((n) => n / row.reduce((a, b) => a + b, 0)));
     let first = -1;
     for (let t = 0; t <= 30 && first < 0; t++) if (mathjsProjection([1, 0, 0], mle, t)[2]! >= 0.5) first = t;
     expect(first).toBeGreaterThan(0);
-    expect(r.dominance).toEqual({ probability: 1, year: { median: 2020 + first, low: 2020 + first, high: 2020 + first } });
-    expect(r.mostCommon[0]).toEqual({ probability: 1, year: { median: 2020, low: 2020, high: 2020 } });
+    expect(r.dominance).toMatchObject({ probability: 1, draws: 50, alreadyMet: false, holdsAtHorizon: 1, holdsThroughout: 0, shortAtHorizon: 0,
+      year: { median: 2020 + first, low: 2020 + first, high: 2020 + first } });
+    expect(r.mostCommon[0]).toEqual({ probability: 1, draws: 50, year: { median: 2020, low: 2020, high: 2020 } });
+    // One draw short of the floor: the count, no band.
+    const few = at(MIN_BAND_DRAWS - 1);
+    expect(few.dominance).toMatchObject({ probability: 1, draws: 49, year: null });
+    expect(few.mostCommon[0]).toEqual({ probability: 1, draws: 49, year: null });
   });
 
   it('counts draws without a unique stationary mix instead of averaging them in', () => {

@@ -4,7 +4,7 @@ import { CSV_COLUMNS, tidyCsv } from '../../src/report/tidy-csv.js';
 import { runForecast } from '../../src/engine/forecast.js';
 import { runComparison } from '../../src/engine/compare.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
-import { fitWithCounts, scenarioFor, treatmentOf } from '../helpers.js';
+import { atLeast, fitWithCounts, scenarioFor, treatmentOf } from '../helpers.js';
 
 type Row = Record<(typeof CSV_COLUMNS)[number], string>;
 const read = (csv: string): Row[] => parse(csv, { columns: true }) as Row[];
@@ -13,7 +13,7 @@ const pick = (rows: Row[], where: Partial<Row>): Row[] =>
 
 describe('tidy CSV', () => {
   const fit = fitWithCounts(['bare', 'grass', 'shrub'], [[40, 10, 0], [5, 30, 15], [2, 4, 36]]);
-  const base = scenarioFor(fit, { draws: 400, target: { state: 2, share: 0.4 }, alternative: 'nothing' });
+  const base = scenarioFor(fit, { draws: 400, target: atLeast(2, 0.4), alternative: 'nothing' });
   const managed = { ...base, alternative: 'push', treatments: [treatmentOf(1, { kind: 'multiply', cells: [{ to: 2, value: 3 }] }, 10)] };
 
   it('holds every share of a forecast as a percentage to 0.1, with the target chance and timing', () => {

@@ -15,7 +15,7 @@ describe('loadScenario', () => {
     expect(s.fit.states).toEqual(['a', 'b', 'c']);
     expect(s.fit.input.file).toBe('test/fixtures/hand.csv');
     expect(s).toMatchObject({ name: 'hand-made', source: 'posterior', draws: 200, seed: 11, horizonSteps: 5,
-      showSteps: [0, 5], level: 0.9, target: { state: 2, share: 0.5 } });
+      showSteps: [0, 5], level: 0.9, target: { states: [2], bound: 'at-least', threshold: 0.5, staysMet: 1 } });
     expect(s.start.year).toBe(7);
     expect(Array.from(s.start.shares)).toEqual([0, 0, 1]);
   });

@@ -1,0 +1,54 @@
+import type { Scenario } from '../scenario/scenario.js';
+import type { MatrixDraws } from '../uncertainty/draws.js';
+import { buildPlan } from './plan.js';
+import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import { stationaryByPattern, type StationaryDraws } from './stationary-draws.js';
+
+/** The long-run mix if the treatments acting in the horizon year went on for ever. */
+export interface TreatedStationary extends StationaryDraws {
+  /** The step whose treated matrices are taken to last: the horizon. */
+  readonly step: number;
+  /** Indices (into scenario.treatments) of the treatments acting in that step. */
+  readonly treatments: readonly number[];
+}
+
+/**
+ * Long-run mix of the treated chain, draw by draw: each sub-population of the run (the land inside
+ * one combination of partial-area parcels, plan.ts) keeps the matrix it has in the horizon year —
+ * the drawn matrix with the treatments acting that year, at that year's strength — for ever. Land
+ * does not move between sub-populations, so each settles to the stationary mix of its own matrix,
+ * and the landscape's long-run mix is the area-weighted mixture Σ_g w_g·π_g of those mixes. With one
+ * whole-area treatment this is simply the stationary mix of the treated matrix. A draw counts only
+ * when every sub-population's mix is unique (one closed class; Kemeny & Snell 1960); the others are
+ * counted, never averaged in.
+ *
+ * Events are left out, as they are from the fitted chain's long-run mix it sits beside (only the
+ * treatments differ between the two). Null when no treatment acts in the horizon year: the treated
+ * land then carries on under the fitted chain, whose long-run mix is already reported.
+ */
+export function treatedStationary(scenario: Scenario, draws: MatrixDraws): TreatedStationary | null {
+  if (scenario.treatments.length === 0) return null;
+  const plan = buildPlan({ ...scenario, events: [] });
+  const H = scenario.horizonSteps;
+  const { k, count } = draws;
+  const G = plan.groups.length;
+  const recipes = plan.groups.map((_, g) => plan.planOf[H * G + g]!);
+  const acting = [...new Set(recipes.flatMap((p) => plan.plans[p]!.changes.map((c) => c.treatment)))].sort((a, b) => a - b);
+  if (acting.length === 0) return null;
+  const ws = planWorkspace(plan);
+  const mixOf = stationaryByPattern(k);
+  const mixes = new Float64Array(count * k);
+  let unique = 0;
+  for (let d = 0; d < count; d++) {
+    fillPlanMatrices(plan, draws.data, d * k * k, ws);
+    let ok = true;
+    for (let g = 0; g < G && ok; g++) {
+      const mix = mixOf(ws.matrices, recipes[g]! * k * k);
+      if (!mix) { ok = false; break; }
+      const w = plan.groups[g]!.weight;
+      for (let s = 0; s < k; s++) mixes[unique * k + s] = (g === 0 ? 0 : mixes[unique * k + s]!) + w * mix[s]!;
+    }
+    if (ok) unique += 1;
+  }
+  return { step: H, treatments: acting, mixes: mixes.subarray(0, unique * k), unique, notUnique: count - unique };
+}
