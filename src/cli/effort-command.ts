@@ -2,8 +2,8 @@ import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
 import { effortTable } from '../report/effort-table.js';
+import { effortJson } from '../report/effort-json.js';
 import { makeStyle } from '../report/style.js';
-import { TOOL_VERSION } from '../version.js';
 import { chooseSeed } from './seed.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
@@ -27,14 +27,6 @@ export function registerEffort(program: Command, io: Io): void {
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);
       const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, random: randomStreams(seed) });
-      if (opts.json) {
-        const states = scenario.fit.states;
-        const byState = (w: readonly number[]): Record<string, number> => Object.fromEntries(states.map((s, i) => [s, w[i]!]));
-        io.stdout(JSON.stringify({ format: 'sere-effort', format_version: 1, tool_version: TOOL_VERSION, scenario: scenario.name, seed,
-          level: scenario.level, horizon_year: scenario.start.year + scenario.horizonSteps * scenario.fit.step, replicates: effort.replicates,
-          current: byState(effort.current), cells: effort.cells.map((c) => ({ sites: c.sites, seasons: c.seasons, widths: byState(c.widths) })) }, null, 2) + '\n');
-        return;
-      }
-      io.stdout(effortTable(scenario, effort, makeStyle(io.color)));
+      io.stdout(opts.json ? effortJson(scenario, effort, seed) : effortTable(scenario, effort, makeStyle(io.color)));
     });
 }

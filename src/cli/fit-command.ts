@@ -4,13 +4,13 @@ import { existsSync } from 'node:fs';
 import { SereError } from '../errors.js';
 import { fitSurvey } from '../fit/fit.js';
 import { groupOf, groupsOf } from '../fit/fit-from-file.js';
-import { assumptionTests } from '../diagnostics/assumption-tests.js';
-import { randomStreams } from '../uncertainty/random.js';
+import { groupDifference } from '../diagnostics/group-difference.js';
+import { fitGroupsTable } from '../report/fit-groups-table.js';
 import { estimateFit } from '../fit/estimate.js';
 import { fitToJson } from '../fit/fit-json.js';
 import { fitTable } from '../report/fit-table.js';
 import { longRunUnderPriors } from '../engine/prior-sensitivity.js';
-import { makeStyle, makeTable } from '../report/style.js';
+import { makeStyle } from '../report/style.js';
 import type { Io } from './io.js';
 import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
@@ -85,14 +85,7 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
     }
   }
   const texts = groups.map((g) => JSON.stringify(fitToJson(g.fit, estimateFit(g.fit, opts.level)), null, 2) + '\n');
-  const style = makeStyle(io.color);
-  const t = makeTable([opts.by!, 'sites', 'transitions', 'file'], style, ['left', 'right', 'right', 'left']);
-  for (const g of groups) t.push([g.group, String(g.fit.sites.length), String(g.fit.transitions), g.out]);
-  const test = assumptionTests(whole, { random: randomStreams(1).stream('group-test'), replicates: 999, simulateAll: false }).groups;
+  const printed = fitGroupsTable(file, opts.by!, groups, groupDifference(whole), makeStyle(io.color));
   groups.forEach((g, n) => writeFileAtomic(g.out, texts[n]!, true));
-  io.stdout(`${style.bold(`Fits by ${opts.by} of ${file}`)}\n${t.toString()}\n` + (test
-    ? `Do the groups differ? G² ${test.g2.toFixed(2)}, df ${test.df}, p ${test.pG2.toFixed(3)}` +
-      `${test.pBootstrap !== null ? ` (simulated p ${test.pBootstrap.toFixed(3)}, sparse table)` : ''} — ` +
-      'a small p-value means separate fits are warranted; see sere check.\n'
-    : ''));
+  io.stdout(printed);
 }

@@ -2,8 +2,8 @@ import type { Command } from 'commander';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { hindcast } from '../evaluation/hindcast.js';
 import { hindcastTable } from '../report/hindcast-table.js';
+import { hindcastJson } from '../report/hindcast-json.js';
 import { makeStyle } from '../report/style.js';
-import { TOOL_VERSION } from '../version.js';
 import { flagSeed } from './seed.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
@@ -43,11 +43,8 @@ export function registerHindcast(program: Command, io: Io): void {
       if (originsLeftOut > 0) {
         (io.notice ?? io.stderr)(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
       }
-      if (opts.json) {
-        io.stdout(JSON.stringify({ format: 'sere-hindcast', format_version: 2, tool_version: TOOL_VERSION, file, seed, level: opts.level,
-          step: settings.step, origins_left_out: originsLeftOut, summary: summary.map((s) => ({ ...s, years: s.steps * settings.step })), cases }, null, 2) + '\n');
-        return;
-      }
-      io.stdout(hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color)));
+      io.stdout(opts.json
+        ? hindcastJson({ file, seed, level: opts.level, step: settings.step, originsLeftOut, summary, cases })
+        : hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color)));
     });
 }

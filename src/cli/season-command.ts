@@ -11,6 +11,7 @@ import { initWorkspace } from '../workspace/init.js';
 import { initWorkspaceFrom } from '../workspace/init-from.js';
 import { FIT_FLAG_KEYS, fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { seasonTable } from '../report/season-table.js';
+import { recordFiles } from '../report/record-files.js';
 import { makeStyle } from '../report/style.js';
 import { freshSeed } from '../uncertainty/random.js';
 import type { Io } from './io.js';
@@ -61,7 +62,7 @@ export function registerSeason(program: Command, io: Io): void {
         const run = await runSeason(ws, { date, fallbackSeed: freshSeed(), previous, earlier: stored });
         const name = freeRecordName(recordsDir, date);
         const target = join(recordsDir, name);
-        writeFolderAtomic(target, run.files);
+        writeFolderAtomic(target, await recordFiles(run));
         io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
       });
     });
@@ -108,11 +109,12 @@ async function replay(record: string, io: Io): Promise<void> {
     date: stored.manifest.date, seeds, scoresSeed: stored.manifest.scores_seed ?? undefined,
     previous: previousDir ? readRecord(previousDir, previousName!) : undefined, earlier,
   });
-  const differing = [...run.files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
+  const files = await recordFiles(run);
+  const differing = [...files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
     .map(([path]) => path);
   if (differing.length > 0) {
-    throw new SereError('REPLAY_DIFFERS', `replay differs in ${differing.length} of ${run.files.size} files: ${differing.join(', ')}`,
+    throw new SereError('REPLAY_DIFFERS', `replay differs in ${differing.length} of ${files.size} files: ${differing.join(', ')}`,
       { file: record }, 'same inputs and seeds should give identical files; was the record edited, or the tool version changed?');
   }
-  io.stdout(`${record}: replayed from its own inputs; all ${run.files.size} files identical\n`);
+  io.stdout(`${record}: replayed from its own inputs; all ${files.size} files identical\n`);
 }

@@ -1,7 +1,7 @@
-import { targetLabel } from './target-lines.js';
+import { targetLabel, timingCell } from './target-lines.js';
 import type { ForecastResult } from '../engine/forecast.js';
 import type { Comparison } from '../engine/compare.js';
-import { levelLabel, percent, percentBand, signed, wholeBand } from './numbers.js';
+import { levelLabel, percent, percentBand, signed } from './numbers.js';
 import { CAUTION } from './style.js';
 
 /** One scenario file of a record: its forecasts, its comparison when it lists alternatives, its charts as SVG. */
@@ -60,9 +60,13 @@ function targetLines(s: ReportSection): string {
   const sc = s.results[0]!.scenario;
   if (!sc.target) return '';
   const horizon = s.results[0]!.years[s.results[0]!.years.length - 1]!;
-  const body = s.results.map((r) => [nameOf(r), `${percent(r.dominance!.probability)}%`, r.dominance!.year ? wholeBand(r.dominance!.year) : '—']);
+  const body = s.results.map((r) => {
+    const t = r.dominance!;
+    return [nameOf(r), t.alreadyMet ? `already met in ${sc.start.year}` : `${percent(t.probability)}%`,
+      t.alreadyMet && !t.year ? '—' : timingCell(t.year, t.draws), `${percent(t.holdsAtHorizon)}% · ${percent(t.holdsThroughout)}%`];
+  });
   return `<p class="target">Landscape target: ${escapeHtml(targetLabel(sc.target, sc.fit.states, sc.fit.step))}, by ${horizon}.</p>`
-    + table(['scenario', 'chance', 'first year'], body);
+    + table(['scenario', 'chance it is reached', 'first year (draws)', `holds in ${horizon} · every year`], body);
 }
 
 function section(s: ReportSection): string {

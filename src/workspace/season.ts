@@ -3,25 +3,19 @@ import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
 import { fitSurvey, type Fit } from '../fit/fit.js';
 import { groupOf } from '../fit/fit-from-file.js';
-import { estimateFit } from '../fit/estimate.js';
-import { fitToJson } from '../fit/fit-json.js';
+import { estimateFit, type FitEstimates } from '../fit/estimate.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import { checkComparable } from '../scenario/comparable.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { runForecast, type ForecastResult } from '../engine/forecast.js';
 import { runComparison, type Comparison } from '../engine/compare.js';
-import { forecastJson } from '../report/forecast-json.js';
-import { comparisonJson } from '../report/compare-json.js';
-import { tidyCsv } from '../report/tidy-csv.js';
 import { SereError } from '../errors.js';
-import { stemOf } from './record-names.js';
 import { randomStreams } from '../uncertainty/random.js';
-import { TOOL_VERSION } from '../version.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { carriedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
-import { SCORE_DRAWS, SCORE_LEVEL, scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
+import { scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
 export interface SeasonOptions {
   /** The record's date, YYYY-MM-DD. */
@@ -38,15 +32,24 @@ export interface SeasonOptions {
   readonly scoresSeed?: number;
 }
 
+/** A season's results, ready to be written as a record (report/record-files.ts) and printed. */
 export interface SeasonRun {
+  readonly workspace: { readonly name: string; readonly surveys: readonly string[]; readonly scenarios: readonly string[] };
+  /** The record's date, YYYY-MM-DD. */
+  readonly date: string;
+  readonly previous: string | null;
+  /** Earlier records scored. */
+  readonly scored: readonly string[];
+  readonly scoresSeed: number | null;
+  /** The exact inputs, by workspace path: the workspace file, survey tables and scenario files. */
+  readonly inputs: ReadonlyMap<string, string>;
   readonly fit: Fit;
+  readonly estimates: FitEstimates;
   readonly forecasts: readonly { readonly file: string; readonly results: readonly ForecastResult[] }[];
   readonly comparisons: readonly { readonly file: string; readonly comparison: Comparison }[];
   readonly changes: Changes | null;
   readonly scores: readonly RecordScores[];
   readonly seeds: Readonly<Record<string, number>>;
-  /** Every file of the record, by path inside it. */
-  readonly files: ReadonlyMap<string, string>;
 }
 
 
@@ -96,60 +99,13 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const scoring = scoresSeed === undefined ? undefined : randomStreams(scoresSeed);
   const scores = earlier.flatMap((r) => scoreRecord(r, table, scoring!) ?? []);
 
-  const files = new Map<string, string>();
-  const json = (x: unknown): string => JSON.stringify(x, null, 2) + '\n';
-  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) files.set(`inputs/${rel}`, readFileSync(join(ws.root, rel), 'utf8'));
-  files.set('fit.json', json(fitToJson(fit, estimates)));
-  for (const { file, results } of forecasts) {
-    files.set(`forecasts/${stemOf(file)}.json`, json(forecastJson(results)));
-    // The same writer as `--csv`: a compared file's table also holds the differences and chances.
-    files.set(`tables/${stemOf(file)}.csv`, tidyCsv(results, comparisons.find((c) => c.file === file)?.comparison));
-  }
-  for (const { file, comparison } of comparisons) files.set(`comparisons/${stemOf(file)}.json`, json(comparisonJson(comparison)));
-  // Charts load vega on demand: it is large, and only records and --chart need it.
-  const { fanChartSpec, differenceChartSpec } = await import('../report/charts.js');
-  const { renderSvg } = await import('../report/render-svg.js');
-  for (const { file, results } of forecasts) {
-    const title = results.length > 1 ? `${ws.name}: ${stemOf(file)} — alternatives compared` : results[0]!.scenario.name;
-    files.set(`charts/${stemOf(file)}.svg`, await renderSvg(fanChartSpec(results, title, { baseline: results.length > 1 })));
-  }
-  for (const { file, comparison } of comparisons) {
-    files.set(`charts/differences/${stemOf(file)}.svg`,
-      await renderSvg(differenceChartSpec(comparison, `${ws.name}: ${stemOf(file)} — differences from the baseline`)));
-  }
-  const { seasonReportHtml } = await import('../report/season-report.js');
-  files.set('report.html', seasonReportHtml({
-    workspace: ws.name, date: options.date, toolVersion: TOOL_VERSION, previous: options.previous?.name ?? null,
-    data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
-    states: fit.states,
-    sections: forecasts.map(({ file, results }) => ({
-      file, seed: seeds[file]!, results,
-      comparison: comparisons.find((c) => c.file === file)?.comparison,
-      charts: [`charts/${stemOf(file)}.svg`, `charts/differences/${stemOf(file)}.svg`].flatMap((path) => {
-        const svg = files.get(path);
-        return svg === undefined ? [] : [svg];
-      }),
-    })),
-  }));
-  files.set('changes.json', json(changes));
-  files.set('scores.json', json({
-    format: 'sere-scores', format_version: 2, tool_version: TOOL_VERSION, seed: scoresSeed ?? null, draws: SCORE_DRAWS, level: SCORE_LEVEL,
-    records: scores,
-  }));
-  files.set('manifest.json', json({
-    format: 'sere-record',
-    format_version: 2,
-    tool_version: TOOL_VERSION,
-    workspace: ws.name,
-    date: options.date,
-    previous: options.previous?.name ?? null,
-    scored: earlier.map((r) => r.name),
-    scores_seed: scoresSeed ?? null,
-    data: { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
-    scenarios: ws.scenarios.map((rel) => ({ file: rel, seed: seeds[rel] })),
-    contents: [...files.keys()].sort(),
-  }));
-  return { fit, forecasts, comparisons, changes, scores, seeds, files };
+  const inputs = new Map<string, string>();
+  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) inputs.set(rel, readFileSync(join(ws.root, rel), 'utf8'));
+  return {
+    workspace: { name: ws.name, surveys: ws.surveys, scenarios: ws.scenarios }, date: options.date,
+    previous: options.previous?.name ?? null, scored: earlier.map((r) => r.name), scoresSeed: scoresSeed ?? null,
+    inputs, fit, estimates, forecasts, comparisons, changes, scores, seeds,
+  };
 }
 
 /**
