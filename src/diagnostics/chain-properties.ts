@@ -42,7 +42,7 @@ export interface ChainProperties {
  * a band is taken over the draws that share what the quantity needs (a unique stationary mix,
  * irreducibility, the same transient states), and their number is reported.
  */
-export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
+export function chainProperties(fit: Fit, matrices: MatrixDraws, level: number,
   target?: { readonly state: number; readonly steps: number }): ChainProperties {
   const k = fit.states.length;
   const mle = fitMle(fit).p;
@@ -52,26 +52,26 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
     const r = stationaryGivenClasses(p, k, offset, s);
     return r.unique ? r.mix : null;
   };
-  const D = draws.count;
+  const D = matrices.count;
   const K2 = k * k;
   const start = fit.latest.shares;
 
   const residence = Array.from({ length: k }, (_, s) => estimate(
-    1 / (1 - mle[s * k + s]!), D, (d) => 1 / (1 - draws.data[d * K2 + s * k + s]!), level));
+    1 / (1 - mle[s * k + s]!), D, (d) => 1 / (1 - matrices.data[d * K2 + s * k + s]!), level));
 
   const piMle = stationaryOf(mle, 0);
   // Each draw's structure once, for the stationary mix, passage times and absorption alike.
-  const structures = Array.from({ length: D }, (_, d) => chainStructure(draws.data, k, d * K2));
+  const structures = Array.from({ length: D }, (_, d) => chainStructure(matrices.data, k, d * K2));
   // Per draw once: stationary mix, and for irreducible draws Z and M. Posterior draws give every
   // possible transition some probability, so they are often irreducible where the MLE is not.
   const perDraw = Array.from({ length: D }, (_, d) => {
     const offset = d * K2;
     const s = structures[d]!;
-    const r = stationaryGivenClasses(draws.data, k, offset, s);
+    const r = stationaryGivenClasses(matrices.data, k, offset, s);
     if (!r.unique) return null;
-    const m = s.irreducible ? meanFirstPassage(fundamentalMatrix(draws.data, k, r.mix, offset), k, r.mix) : null;
-    const slem = secondEigenvalueModulus(draws.data, k, r.mix, offset);
-    const steps = stepsToSettle(draws.data, k, start, r.mix, offset);
+    const m = s.irreducible ? meanFirstPassage(fundamentalMatrix(matrices.data, k, r.mix, offset), k, r.mix) : null;
+    const slem = secondEigenvalueModulus(matrices.data, k, r.mix, offset);
+    const steps = stepsToSettle(matrices.data, k, start, r.mix, offset);
     return { m, slem, steps };
   });
   let passage: Estimate[] | null = null;
@@ -97,7 +97,7 @@ export function chainProperties(fit: Fit, draws: MatrixDraws, level: number,
     const key = JSON.stringify([aMle.transient, aMle.closedClasses]);
     const perDraw: (Absorption | null)[] = structures.map((s, d) => {
       const closed = s.classes.filter((_, c) => s.closed[c]);
-      return JSON.stringify([s.transient, closed]) === key ? absorption(draws.data, k, s, d * K2) : null;
+      return JSON.stringify([s.transient, closed]) === key ? absorption(matrices.data, k, s, d * K2) : null;
     });
     const C = aMle.closedClasses.length;
     absorbed = {

@@ -158,11 +158,11 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
  */
 function bandsByStep(values: Float64Array | Int32Array, layout: DrawLayout, state: number, level: number): ShareBands {
   const out: ShareBands = { median: [], low: [], high: [], mean: [] };
-  const { draws, steps } = layout;
+  const { draws, slots } = layout;
   // Selection reorders its input, and the draws must stay aligned for comparisons: work on a
   // copy, one scratch array reused for every step (a fresh slice each time fed the collector).
   const column = values instanceof Int32Array ? new Int32Array(draws) : new Float64Array(draws);
-  for (let r = 0; r < steps; r++) {
+  for (let r = 0; r < slots; r++) {
     const from = columnStart(layout, r, state);
     column.set(values.subarray(from, from + draws));
     let sum = 0;

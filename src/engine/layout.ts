@@ -5,8 +5,8 @@
  */
 export interface DrawLayout {
   readonly draws: number;
-  /** Number of recorded steps. */
-  readonly steps: number;
+  /** How many steps were recorded (the length of the trajectory's `recorded` list). */
+  readonly slots: number;
   readonly k: number;
 }
 

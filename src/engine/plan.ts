@@ -5,7 +5,7 @@ import type { Disturbance, Scenario, Treatment } from '../scenario/scenario.js';
  * Parcels are placed independently of each other, so a combination's share of the area is the
  * product of each parcel's area (inside) or 1 − area (outside).
  */
-export interface Group {
+export interface SubPopulation {
   readonly weight: number;
   /** Bit p set: this land lies inside parcel p. */
   readonly mask: number;
@@ -24,9 +24,9 @@ export interface Plan {
 export interface RunPlan {
   readonly k: number;
   readonly horizon: number;
-  readonly groups: readonly Group[];
+  readonly subPopulations: readonly SubPopulation[];
   readonly plans: readonly Plan[];
-  /** `planOf[t*G + g]`: recipe index for step t ≥ 1 and group g. */
+  /** `planOf[t*G + g]`: recipe index for step t ≥ 1 and sub-population g. */
   readonly planOf: Int32Array;
   readonly treatments: readonly Treatment[];
   readonly events: readonly Disturbance[];
@@ -52,20 +52,20 @@ export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'tre
   for (const t of treatments) {
     if (t.area < 1 && !parcels.includes(t.parcel)) { parcels.push(t.parcel); areas.push(t.area); }
   }
-  const groups: Group[] = [];
+  const subPopulations: SubPopulation[] = [];
   for (let mask = 0; mask < 1 << parcels.length; mask++) {
     let weight = 1;
     areas.forEach((a, p) => { weight *= mask & (1 << p) ? a : 1 - a; });
-    groups.push({ weight, mask });
+    subPopulations.push({ weight, mask });
   }
-  const G = groups.length;
+  const G = subPopulations.length;
   const plans: Plan[] = [];
   const byKey = new Map<string, number>();
   const planOf = new Int32Array((horizon + 1) * G);
   for (let t = 1; t <= horizon; t++) {
-    groups.forEach((group, g) => {
+    subPopulations.forEach((part, g) => {
       const changes = treatments.flatMap((tr, n) => {
-        const inside = tr.area === 1 || (group.mask & (1 << parcels.indexOf(tr.parcel))) !== 0;
+        const inside = tr.area === 1 || (part.mask & (1 << parcels.indexOf(tr.parcel))) !== 0;
         return inside && tr.weights[t]! > 0 ? [{ treatment: n, weight: tr.weights[t]! }] : [];
       });
       const siteEvents = events.flatMap((e, n) => (e.scope === 'site' && e.chances[t]! > 0 ? [{ event: n, chance: e.chances[t]! }] : []));
@@ -81,5 +81,5 @@ export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'tre
   }
   const landscapeEvents = events.flatMap((e, n) => (e.scope === 'landscape' ? [n] : []));
   const trivial = G === 1 && plans.every((p) => p.changes.length === 0 && p.siteEvents.length === 0);
-  return { k, horizon, groups, plans, planOf, treatments, events, landscapeEvents, trivial };
+  return { k, horizon, subPopulations, plans, planOf, treatments, events, landscapeEvents, trivial };
 }

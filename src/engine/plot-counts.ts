@@ -17,12 +17,12 @@ export interface PlotCounts extends DrawLayout {
  * to the uncertainty about the matrix, so the bands are prediction bands for "how many of our N
  * plots". Plots are placed in the partial-area parcels at random at the start of each draw.
  */
-export function simulatePlots(draws: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
+export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
   readonly record: readonly number[];
   readonly hits: readonly Uint8Array[];
   readonly multinomial: Multinomial;
 }): PlotCounts {
-  const { k, count: D, data: P } = draws;
+  const { k, count: D, data: P } = matrices;
   const k2 = k * k;
   const horizon = plan.horizon;
   const steps = horizon + 1;
@@ -31,8 +31,8 @@ export function simulatePlots(draws: MatrixDraws, plan: RunPlan, start: readonly
   record.forEach((t, r) => { slotOf[t] = r; });
   const R = record.length;
   const counts = new Int32Array(D * R * k);
-  const G = plan.groups.length;
-  const groupWeights = Float64Array.from(plan.groups, (g) => g.weight);
+  const G = plan.subPopulations.length;
+  const groupWeights = Float64Array.from(plan.subPopulations, (g) => g.weight);
   const ws = planWorkspace(plan);
   const landscape = plan.landscapeEvents.map((e) => plan.events[e]!.matrix);
   let now = new Int32Array(G * k);
@@ -76,5 +76,5 @@ export function simulatePlots(draws: MatrixDraws, plan: RunPlan, start: readonly
       for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s * D] += now[g * k + s]!;
     }
   }
-  return { draws: D, steps: R, k, recorded: record, counts };
+  return { draws: D, slots: R, k, recorded: record, counts };
 }

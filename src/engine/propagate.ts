@@ -60,9 +60,9 @@ export interface PropagateOptions {
  * renormalised: every matrix row sums to 1 within a few ulps, so the total share drifts by about
  * horizon × 1e-16.
  */
-export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon: number, options: PropagateOptions = {}): Trajectories {
+export function propagate(matrices: MatrixDraws, start: ArrayLike<number>, horizon: number, options: PropagateOptions = {}): Trajectories {
   const { target, onProgress, onOutcome, plan, hits = [] } = options;
-  const { k, count: D, data: P } = draws;
+  const { k, count: D, data: P } = matrices;
   const k2 = k * k;
   const steps = horizon + 1;
   const recorded = options.record ? [...options.record] : Array.from({ length: steps }, (_, t) => t);
@@ -79,8 +79,8 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
   const firstMostCommon = new Int32Array(D * k).fill(-1);
 
   const trivial = !plan || plan.trivial;
-  const G = plan ? plan.groups.length : 1;
-  const weights = plan ? plan.groups.map((g) => g.weight) : [1];
+  const G = plan ? plan.subPopulations.length : 1;
+  const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
   const planOf = plan?.planOf;
   const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
   const events = landscape.length;
@@ -162,5 +162,5 @@ export function propagate(draws: MatrixDraws, start: ArrayLike<number>, horizon:
     if (onProgress && (d + 1) % progressEvery === 0) onProgress(d + 1, D);
   }
   onProgress?.(D, D);
-  return { draws: D, steps: R, horizon, k, recorded, shares, firstAtTarget, targetRunAtHorizon, firstMostCommon };
+  return { draws: D, slots: R, horizon, k, recorded, shares, firstAtTarget, targetRunAtHorizon, firstMostCommon };
 }

@@ -15,13 +15,13 @@ export interface StationaryDraws {
  * The stationary mix of every draw. A chain's classes depend only on which entries are positive,
  * and posterior draws nearly all share one pattern, so classes are worked out once per pattern.
  */
-export function stationaryOfDraws(draws: MatrixDraws): StationaryDraws {
-  const { k, count } = draws;
+export function stationaryOfDraws(matrices: MatrixDraws): StationaryDraws {
+  const { k, count } = matrices;
   const mixOf = stationaryByPattern(k);
   const mixes = new Float64Array(count * k);
   let unique = 0;
   for (let d = 0; d < count; d++) {
-    const mix = mixOf(draws.data, d * k * k);
+    const mix = mixOf(matrices.data, d * k * k);
     if (!mix) continue;
     mixes.set(mix, unique * k);
     unique += 1;
@@ -46,8 +46,8 @@ export interface ObservedRowsStationary {
  * on not entering the unseen states), draw by draw, so a reader sees how much of the long-run mix
  * is the prior's. Null when every state was seen as a from-state (the two would be the same).
  */
-export function stationaryOfObservedRows(draws: MatrixDraws, counts: ArrayLike<number>): ObservedRowsStationary | null {
-  const { k, count } = draws;
+export function stationaryOfObservedRows(matrices: MatrixDraws, counts: ArrayLike<number>): ObservedRowsStationary | null {
+  const { k, count } = matrices;
   const kept: number[] = [];
   const dropped: number[] = [];
   for (let i = 0; i < k; i++) {
@@ -61,7 +61,7 @@ export function stationaryOfObservedRows(draws: MatrixDraws, counts: ArrayLike<n
   const mixes = new Float64Array(count * k);
   let unique = 0; let undefinedDraws = 0;
   for (let d = 0; d < count; d++) {
-    const restricted = restrictChain(draws.data, k, kept, d * k * k);
+    const restricted = restrictChain(matrices.data, k, kept, d * k * k);
     if (!restricted) { undefinedDraws += 1; continue; }
     const mix = mixOf(restricted, 0);
     if (!mix) continue;

@@ -26,13 +26,13 @@ export interface TreatedStationary extends StationaryDraws {
  * treatments differ between the two). Null when no treatment acts in the horizon year: the treated
  * land then carries on under the fitted chain, whose long-run mix is already reported.
  */
-export function treatedStationary(scenario: Scenario, draws: MatrixDraws): TreatedStationary | null {
+export function treatedStationary(scenario: Scenario, matrices: MatrixDraws): TreatedStationary | null {
   if (scenario.treatments.length === 0) return null;
   const plan = buildPlan({ ...scenario, events: [] });
   const H = scenario.horizonSteps;
-  const { k, count } = draws;
-  const G = plan.groups.length;
-  const recipes = plan.groups.map((_, g) => plan.planOf[H * G + g]!);
+  const { k, count } = matrices;
+  const G = plan.subPopulations.length;
+  const recipes = plan.subPopulations.map((_, g) => plan.planOf[H * G + g]!);
   const acting = [...new Set(recipes.flatMap((p) => plan.plans[p]!.changes.map((c) => c.treatment)))].sort((a, b) => a - b);
   if (acting.length === 0) return null;
   const ws = planWorkspace(plan);
@@ -40,12 +40,12 @@ export function treatedStationary(scenario: Scenario, draws: MatrixDraws): Treat
   const mixes = new Float64Array(count * k);
   let unique = 0;
   for (let d = 0; d < count; d++) {
-    fillPlanMatrices(plan, draws.data, d * k * k, ws);
+    fillPlanMatrices(plan, matrices.data, d * k * k, ws);
     let ok = true;
     for (let g = 0; g < G && ok; g++) {
       const mix = mixOf(ws.matrices, recipes[g]! * k * k);
       if (!mix) { ok = false; break; }
-      const w = plan.groups[g]!.weight;
+      const w = plan.subPopulations[g]!.weight;
       for (let s = 0; s < k; s++) mixes[unique * k + s] = (g === 0 ? 0 : mixes[unique * k + s]!) + w * mix[s]!;
     }
     if (ok) unique += 1;

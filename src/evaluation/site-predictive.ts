@@ -24,8 +24,8 @@ export interface SitePredictive {
  * state from that row is the same in distribution as simulating the path step by step.
  * Rows of P^g are found by propagating each needed unit vector: (distinct from-states) × k² per step.
  */
-export function sitePredictive(draws: MatrixDraws, cases: readonly SiteCase[], random: RandomStream): SitePredictive {
-  const { k, count: D, data } = draws;
+export function sitePredictive(matrices: MatrixDraws, cases: readonly SiteCase[], random: RandomStream): SitePredictive {
+  const { k, count: D, data } = matrices;
   const k2 = k * k;
   const n = cases.length;
   const probabilities = new Float64Array(n * k);

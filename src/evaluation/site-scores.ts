@@ -54,11 +54,11 @@ function scoreOne(p: ArrayLike<number>, offset: number, k: number, observed: num
  * proper (Gneiting & Raftery 2007) — and plot-count prediction bands for the same sites. Null when
  * no site can be scored.
  */
-export function scoreSites(draws: MatrixDraws, records: readonly SurveyRecord[], at: ScoreOrigin, random: RandomStream): ScoredCase | null {
-  const k = draws.k;
+export function scoreSites(matrices: MatrixDraws, records: readonly SurveyRecord[], at: ScoreOrigin, random: RandomStream): ScoredCase | null {
+  const k = matrices.k;
   const { cases, unscored } = siteCases(records, at.origin, at.target, at.step);
   if (cases.length === 0) return null;
-  const predictive = sitePredictive(draws, cases, random);
+  const predictive = sitePredictive(matrices, cases, random);
   const originSites = at.originCounts.reduce((a, b) => a + b, 0);
   const climatology = climatologyForecast(at.originCounts);
   const sum = { chain: { log: 0, brier: 0 }, persistence: { log: 0, brier: 0 }, climatology: { log: 0, brier: 0 } };
