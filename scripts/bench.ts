@@ -5,7 +5,8 @@
  *    as draws·years·states² per second, best of 3 runs on one core.
  * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by
  *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
- * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows).
+ * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random
+ *    stream before (MT19937 + stdlib's gamma) and now (xoshiro256** + Marsaglia–Tsang), alternating.
  * 4. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
  * 5. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
  *    a partial area and a landscape event), wall time with start-up (best of 5).
@@ -20,10 +21,8 @@ import { performance } from 'node:perf_hooks';
 import { propagate } from '../src/engine/propagate.js';
 import { bandOf } from '../src/engine/quantiles.js';
 import { quantilesBySelection } from './bench-old-quantiles.js';
-import { posteriorDraws } from '../src/uncertainty/posterior.js';
 import { randomStreams } from '../src/uncertainty/random.js';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
-import type { Fit } from '../src/fit/fit.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -112,16 +111,22 @@ function bandsBench(): void {
 }
 if (want('bands')) bandsBench();
 
-const states = Array.from({ length: K }, (_, s) => `s${s}`);
-const fit: Fit = {
-  input: { file: 'bench', sha256: '' }, states, step: 1, prior: 'jeffreys', impossible: [],
-  counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: [], transitions: 0,
-  skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
-  latest: { time: 0, counts: [], shares: [], sites: 0 },
-};
 if (want('sampling')) {
-  const samplingMs = best(3, () => posteriorDraws(fit, D, randomStreams(2)));
-  console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: ${(samplingMs / 1000).toFixed(2)} s`);
+  // Before (MT19937 + stdlib's gamma, sere ≤ 0.4) and now, each in a process of its own
+  // (scripts/bench-sampling.ts), alternating, best of 3 processes × 3 runs each.
+  const timed = (which: string): number => {
+    const r = spawnSync(process.execPath, ['dist/scripts/bench-sampling.js', which], { encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(r.stderr);
+    return Number(r.stdout);
+  };
+  let oldMs = Infinity;
+  let newMs = Infinity;
+  for (let run = 0; run < 3; run++) {
+    oldMs = Math.min(oldMs, timed('old'));
+    newMs = Math.min(newMs, timed('new'));
+  }
+  console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: MT19937 + stdlib gamma ${(oldMs / 1000).toFixed(2)} s, ` +
+    `xoshiro256** + Marsaglia–Tsang ${(newMs / 1000).toFixed(2)} s (${(oldMs / newMs).toFixed(2)}× faster)`);
 }
 
 const wall = (args: string[]): number => best(5, () => {
