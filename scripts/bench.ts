@@ -3,11 +3,14 @@
  *
  * 1. Engine: propagate 100,000 draws × 100 years × 10 states (random stochastic matrices), reported
  *    as draws·years·states² per second, best of 3 runs on one core.
- * 2. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows).
- * 3. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
- * 4. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
+ * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by
+ *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
+ * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random
+ *    stream before (MT19937 + stdlib's gamma) and now (xoshiro256** + Marsaglia–Tsang), alternating.
+ * 4. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
+ * 5. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
  *    a partial area and a landscape event), wall time with start-up (best of 5).
- * 5. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
+ * 6. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
  *    the bands, wall time with start-up (best of 3).
  */
 import { spawnSync } from 'node:child_process';
@@ -16,10 +19,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { propagate } from '../src/engine/propagate.js';
-import { posteriorDraws } from '../src/uncertainty/posterior.js';
+import { bandOf } from '../src/engine/quantiles.js';
+import { quantilesBySelection } from './bench-old-quantiles.js';
 import { randomStreams } from '../src/uncertainty/random.js';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
-import type { Fit } from '../src/fit/fit.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -42,37 +45,98 @@ function best<T>(runs: number, fn: () => T): number {
   return fastest;
 }
 
+/** `npm run bench -- bands` (or engine, sampling, demo, compare, check) runs one part only. */
+const only = process.argv[2];
+const want = (part: string): boolean => only === undefined || only === part;
+
 const D = 100_000;
 const H = 100;
 const K = 10;
-const draws = randomDraws(D, K, 1);
-const start = new Float64Array(K).fill(1 / K);
-const work = D * H * K * K;
 const engine = (label: string, record?: number[]): void => {
+  const draws = randomDraws(D, K, 1);
+  const start = new Float64Array(K).fill(1 / K);
+  const work = D * H * K * K;
   const ms = best(3, () => propagate(draws, start, H, { target: { states: [0], bound: 'at-least', threshold: 0.5, staysMet: 1 }, record }));
   console.log(`engine, ${label}: ${D} draws × ${H} years × ${K} states: ${(ms / 1000).toFixed(2)} s, ` +
     `${(work / (ms / 1000) / 1e6).toFixed(0)} M draws·years·states²/s (target: under 5 s)`);
 };
 // Five reporting years, as a terminal table shows; then every year (808 MB of shares).
-engine('5 years kept', [0, 5, 10, 20, 50, 100]);
-engine('every year kept', undefined);
+if (want('engine')) {
+  engine('5 years kept', [0, 5, 10, 20, 50, 100]);
+  engine('every year kept', undefined);
+}
 
-const states = Array.from({ length: K }, (_, s) => `s${s}`);
-const fit: Fit = {
-  input: { file: 'bench', sha256: '' }, states, step: 1, prior: 'jeffreys', impossible: [],
-  counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: [], transitions: 0,
-  skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
-  latest: { time: 0, counts: [], shares: [], sites: 0 },
-};
-const samplingMs = best(3, () => posteriorDraws(fit, D, randomStreams(2)));
-console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: ${(samplingMs / 1000).toFixed(2)} s`);
+/**
+ * Bands of 1,010 columns of D draws, as `bandsByStep` in engine/forecast.ts makes them: each column
+ * copied into one scratch array, then summarised. 16 distinct columns (Beta(a, b) shares from
+ * 0.5/60 to 30/40, skewed against 0 to bell-shaped) are cycled so the input stays in memory.
+ */
+function bandsBench(): void {
+  const random = randomStreams(3).stream('bench-bands');
+  const columns = Array.from({ length: 16 }, (_, c) => {
+    const a = 0.5 + 2 * c;
+    const b = 60 - 1.3 * c;
+    return Float64Array.from({ length: D }, () => { const x = random.gamma(a); return x / (x + random.gamma(b)); });
+  });
+  const scratch = new Float64Array(D);
+  const oldWay = (): number => {
+    let sink = 0;
+    for (let c = 0; c < 1010; c++) {
+      scratch.set(columns[c % 16]!);
+      let sum = 0;
+      for (let d = 0; d < D; d++) sum += scratch[d]!;
+      const [low, median, high] = quantilesBySelection(scratch, [0.05, 0.5, 0.95]) as [number, number, number];
+      sink += low + median + high + sum / D;
+    }
+    return sink;
+  };
+  const newWay = (): number => {
+    let sink = 0;
+    for (let c = 0; c < 1010; c++) {
+      scratch.set(columns[c % 16]!);
+      const band = bandOf(scratch, 0.9);
+      sink += band.low + band.median + band.high + band.mean;
+    }
+    return sink;
+  };
+  if (oldWay() !== newWay()) throw new Error('bands: the two methods disagree');
+  let oldMs = Infinity;
+  let newMs = Infinity;
+  for (let run = 0; run < 5; run++) {
+    oldMs = Math.min(oldMs, best(1, oldWay));
+    newMs = Math.min(newMs, best(1, newWay));
+  }
+  console.log(`bands: 101 years × 10 states of ${D} draws: Hoare selection ${(oldMs / 1000).toFixed(2)} s, ` +
+    `bucket counting ${(newMs / 1000).toFixed(2)} s (${(oldMs / newMs).toFixed(2)}× faster)`);
+}
+if (want('bands')) bandsBench();
+
+if (want('sampling')) {
+  // Before (MT19937 + stdlib's gamma, sere ≤ 0.4) and now, each in a process of its own
+  // (scripts/bench-sampling.ts), alternating, best of 3 processes × 3 runs each.
+  const timed = (which: string): number => {
+    const r = spawnSync(process.execPath, ['dist/scripts/bench-sampling.js', which], { encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(r.stderr);
+    return Number(r.stdout);
+  };
+  let oldMs = Infinity;
+  let newMs = Infinity;
+  for (let run = 0; run < 3; run++) {
+    oldMs = Math.min(oldMs, timed('old'));
+    newMs = Math.min(newMs, timed('new'));
+  }
+  console.log(`posterior sampling: ${D} draws of a ${K}-state matrix: MT19937 + stdlib gamma ${(oldMs / 1000).toFixed(2)} s, ` +
+    `xoshiro256** + Marsaglia–Tsang ${(newMs / 1000).toFixed(2)} s (${(oldMs / newMs).toFixed(2)}× faster)`);
+}
 
 const wall = (args: string[]): number => best(5, () => {
   const r = spawnSync(process.execPath, ['dist/cli/sere.mjs', ...args], { encoding: 'utf8' });
   if (r.status !== 0) throw new Error(r.stderr);
 });
-const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
-console.log(`demo forecast (scenarios/brenhollow/no-action.yaml, 4000 draws × 50 years), wall incl. start-up: ${(demoMs / 1000).toFixed(3)} s (target: under 0.5 s)`);
+if (want('demo')) {
+  const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
+  console.log(`demo forecast (scenarios/brenhollow/no-action.yaml, 4000 draws × 50 years), wall incl. start-up: ${(demoMs / 1000).toFixed(3)} s (target: under 0.5 s)`);
+}
 
 /**
  * A temp folder with surveys.csv: `sites` sites surveyed 2015–2024 in states s0 … s(k−1), each
@@ -117,8 +181,10 @@ function compareFixture(): string {
   ].join('\n'));
   return join(dir, 'options.yaml');
 }
-const compareMs = wall(['compare', compareFixture()]);
-console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall incl. start-up: ${(compareMs / 1000).toFixed(3)} s (target: under 1 s)`);
+if (want('compare')) {
+  const compareMs = wall(['compare', compareFixture()]);
+  console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall incl. start-up: ${(compareMs / 1000).toFixed(3)} s (target: under 1 s)`);
+}
 
 /** 10,000 sites × 10 annual surveys × 8 states from a first-order chain (MT19937, seed 8). */
 function checkFixture(): string {
@@ -128,9 +194,11 @@ function checkFixture(): string {
   });
   return join(dir, 'surveys.csv');
 }
-const checkFile = checkFixture();
-const checkMs = best(3, () => {
-  const r = spawnSync(process.execPath, ['dist/cli/sere.mjs', 'check', checkFile, '--draws', '1000', '--seed', '1'], { encoding: 'utf8' });
-  if (r.status !== 0) throw new Error(r.stderr);
-});
-console.log(`check: 10000 sites × 10 surveys × 8 states, 1000 posterior draws, wall incl. start-up: ${(checkMs / 1000).toFixed(3)} s (target: under 2 s)`);
+if (want('check')) {
+  const checkFile = checkFixture();
+  const checkMs = best(3, () => {
+    const r = spawnSync(process.execPath, ['dist/cli/sere.mjs', 'check', checkFile, '--draws', '1000', '--seed', '1'], { encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(r.stderr);
+  });
+  console.log(`check: 10000 sites × 10 surveys × 8 states, 1000 posterior draws, wall incl. start-up: ${(checkMs / 1000).toFixed(3)} s (target: under 2 s)`);
+}

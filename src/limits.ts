@@ -4,7 +4,7 @@
  * run from hanging or exhausting memory on a mistyped number; none is near what a survey needs.
  */
 export const LIMITS = {
-  /** Seeds are 1 … 2³² − 1 (the range MT19937 takes as one number). */
+  /** Seeds are 1 … 2³² − 1. */
   seed: 4_294_967_295,
   /** States of a chain (a survey table, `--states`, a fit file): past this, a column is likely misnamed. */
   states: 100,

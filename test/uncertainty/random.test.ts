@@ -47,6 +47,16 @@ describe('named random streams', () => {
     expect(a.stream('plots').uniform()).not.toBe(a.stream('events').uniform());
   });
 
+  it('seeds xoshiro256** with the SHA-256 of seed and name, read as four little-endian 64-bit words', () => {
+    // Python, exact integers: d = hashlib.sha256(b'sere-random:42:matrices').digest(); state =
+    // [int.from_bytes(d[8*j:8*j+8], 'little') for j in range(4)]; the reference xoshiro256** step;
+    // uniforms (x >> 11) * 2**-53 — draws 1, 2, 3 and 1000.
+    const r = randomStreams(42).stream('matrices');
+    const first = [r.uniform(), r.uniform(), r.uniform()];
+    for (let n = 4; n < 1000; n++) r.uniform();
+    expect([...first, r.uniform()]).toEqual([0.9622289855830991, 0.3345975939786652, 0.16375854348094065, 0.12519820664712578]);
+  });
+
   it('keeps the seed for reports and refuses seeds outside 1 … 2³² − 1', () => {
     expect(randomStreams(5).stream('a').stream('b').seed).toBe(5);
     for (const bad of [0, -1, 1.5, MAX_SEED + 1, Number.NaN]) expect(() => randomStreams(bad)).toThrow(RangeError);
