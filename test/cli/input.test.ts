@@ -3,17 +3,9 @@ import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { run } from '../../src/cli/run.js';
-import type { Io } from '../../src/cli/io.js';
+import { sereInProcess } from './in-process.js';
 
-/** The CLI as a function, its output captured: bad input must give exit 1 and one line, never 0 or 70. */
-async function sere(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const io: Io = { stdout: (t) => { stdout += t; }, stderr: (t) => { stderr += t; }, color: false, progress: false };
-  const code = await run(args, io);
-  return { code, stdout, stderr };
-}
+const sere = sereInProcess;
 
 const dir = (): string => mkdtempSync(join(tmpdir(), 'sere-input-'));
 

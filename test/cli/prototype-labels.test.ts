@@ -2,16 +2,9 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { run } from '../../src/cli/run.js';
-import type { Io } from '../../src/cli/io.js';
+import { sereInProcess } from './in-process.js';
 
-async function sere(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = '';
-  let stderr = '';
-  const io: Io = { stdout: (t) => { stdout += t; }, stderr: (t) => { stderr += t; }, color: false, progress: false };
-  const code = await run(args, io);
-  return { code, stdout, stderr };
-}
+const sere = sereInProcess;
 
 // Labels that are members of Object.prototype: wherever a label became a key of a plain object,
 // these read inherited functions instead of data. Every command must treat them as plain states.

@@ -57,7 +57,7 @@ describe('prior sensitivity from posterior means', () => {
   const step = (x: number[], p: number[]): number[] => x.map((_, j) => x.reduce((acc, xi, i) => acc + xi * p[i * k + j]!, 0));
 
   it('rank-grass and high-marsh under priors 0.1, 0.5, 1: horizon by plain matrix powers, long run by power iteration', () => {
-    const sens = priorSensitivity(s);
+    const sens = priorSensitivity(s, randomStreams(1));
     expect(sens.map((p) => s.fit.states[p.reliance.state])).toEqual(['high-marsh', 'rank-grass']);
     SENSITIVITY_PRIORS.forEach((a, n) => {
       const p = meanMatrix(a);

@@ -9,7 +9,6 @@ describe('propagate (typed-array kernel)', () => {
     const arb = fc.integer({ min: 2, max: 7 }).chain((k) =>
       fc.tuple(fc.array(stochasticMatrix(k), { minLength: 1, maxLength: 4 }), mixOf(k), fc.integer({ min: 1, max: 12 })));
     fc.assert(fc.property(arb, ([matrices, x0, horizon]) => {
-      const k = x0.length;
       const paths = propagate(drawsOf(matrices), x0, horizon);
       matrices.forEach((P, d) => {
         for (const t of [0, 1, horizon]) {
@@ -34,7 +33,6 @@ describe('propagate (typed-array kernel)', () => {
   it('keeps shares on the simplex (property)', () => {
     fc.assert(fc.property(fc.integer({ min: 2, max: 8 }).chain((k) => fc.tuple(stochasticMatrix(k), mixOf(k))), ([P, x0]) => {
       const paths = propagate(drawsOf([P]), x0, 30);
-      const k = x0.length;
       for (let t = 0; t <= 30; t++) {
         let total = 0;
         for (const v of mixAt(paths.shares, paths, 0, t)) { expect(v).toBeGreaterThanOrEqual(0); total += v; }

@@ -22,7 +22,8 @@ describe('the demo scenario files', () => {
     const { default: Ajv2020 } = await import('ajv/dist/2020.js');
     const { parse } = await import('yaml');
     const { readdirSync } = await import('node:fs');
-    const ajv = new Ajv2020({ strict: false });
+    // ajv's CommonJS default export is typed as a namespace under NodeNext; it is the class at run time.
+    const ajv = new (Ajv2020 as unknown as typeof import('ajv').default)({ strict: false });
     const validate = ajv.compile(JSON.parse(scenarioJsonSchema()));
     const files = readdirSync('scenarios/brenhollow').filter((f) => f.endsWith('.yaml'));
     expect(files.length).toBeGreaterThanOrEqual(5);

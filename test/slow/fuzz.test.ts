@@ -3,8 +3,7 @@ import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { run } from '../../src/cli/run.js';
-import type { Io } from '../../src/cli/io.js';
+import { sereInProcess, type Outcome } from '../cli/in-process.js';
 
 /**
  * Fuzzing the whole CLI, in process and seeded (fast-check, fixed seeds: a failure names its seed
@@ -17,15 +16,8 @@ import type { Io } from '../../src/cli/io.js';
  *   - on success with --json, print shares in [0, 1] whose means sum to 1.
  */
 
-interface Outcome { code: number; stdout: string; stderr: string }
-
-async function sere(args: string[]): Promise<Outcome> {
-  let stdout = '';
-  let stderr = '';
-  const io: Io = { stdout: (t) => { stdout += t; }, stderr: (t) => { stderr += t; }, color: false, progress: false };
-  const code = await run([...args, '--debug'], io);
-  return { code, stdout, stderr };
-}
+/** Every run with --debug, so an exit-1 line carries its error code. */
+const sere = (args: string[]): Promise<Outcome> => sereInProcess([...args, '--debug']);
 
 /** Every file under `dir` with its size and modification time: what "nothing written" compares. */
 function snapshot(dir: string): string {
@@ -98,7 +90,7 @@ type CsvEdit = typeof csvEdit extends fc.Arbitrary<infer T> ? T : never;
 
 function applyCsv(edits: readonly CsvEdit[]): Buffer {
   const rows = cleanTable();
-  let bytes: { at: number; bytes: number[] }[] = [];
+  let bytes: { at: number; bytes: readonly number[] }[] = [];
   for (const e of edits) {
     const r = 1 + (('row' in e ? e.row : 0) % (rows.length - 1));
     if (e.kind === 'label') rows[r] = rows[r]!.replace(/[^,]*$/, e.label);
