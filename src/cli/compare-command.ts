@@ -12,6 +12,14 @@ import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { chooseSeed } from './seed.js';
 
+/** The comparison's name in chart titles: the file's name when every alternative shares it, else the files'. */
+function chartTitle(results: readonly { scenario: { name: string; alternative?: string } }[]): string {
+  // An alternative's name is "<file's name>: <alternative>"; the file's name is what they share.
+  const names = [...new Set(results.map(({ scenario: s }) =>
+    s.alternative && s.name.endsWith(`: ${s.alternative}`) ? s.name.slice(0, -(s.alternative.length + 2)) : s.name))];
+  return names.join(' · ');
+}
+
 export function registerCompare(program: Command, io: Io): void {
   withRunOptions(program.command('compare')
     .description('compare management alternatives on common random numbers (the first is the baseline)'))
@@ -33,10 +41,10 @@ export function registerCompare(program: Command, io: Io): void {
       }
       const results = [comparison.baseline, ...comparison.alternatives.map((a) => a.result)];
       if (opts.chart) {
-        await writeChart(opts.chart, (c) => c.fanChartSpec(results, `${results.length} alternatives compared`, { baseline: true }), Boolean(opts.force), io);
+        await writeChart(opts.chart, (c) => c.fanChartSpec(results, `${chartTitle(results)}: ${results.length} alternatives compared`, { baseline: true }), Boolean(opts.force), io);
       }
       if (opts.differenceChart) {
-        const title = `${results.length} alternatives compared: differences`;
+        const title = `${chartTitle(results)}: ${results.length} alternatives compared, differences`;
         await writeChart(opts.differenceChart, (c) => c.differenceChartSpec(comparison, title), Boolean(opts.force), io);
       }
       if (opts.csv) {

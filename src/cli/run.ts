@@ -20,12 +20,14 @@ export const EXIT = { ok: 0, badInput: 1, usage: 2, internal: 70 } as const;
 export async function run(argv: readonly string[], outer: Io): Promise<number> {
   const notices: string[] = [];
   const io: Io = { ...outer, notice: (text) => { notices.push(text); } };
+  // Usage errors read like bad-input errors: "sere: error: option '--seed <n>' …" (exit 2).
+  const output = { writeOut: (s: string) => io.stdout(s), writeErr: (s: string) => io.stderr(s.startsWith('error:') ? `sere: ${s}` : s) };
   const program = new Command('sere')
     .description('Forecast how the mix of land states changes, from repeated site surveys (fitted Markov chains).')
     .version(TOOL_VERSION)
     .option('--debug', 'print a stack trace for internal errors')
     .exitOverride()
-    .configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) })
+    .configureOutput(output)
     .showHelpAfterError('(run sere --help for usage)');
   registerFit(program, io);
   registerForecast(program, io);
@@ -34,7 +36,7 @@ export async function run(argv: readonly string[], outer: Io): Promise<number> {
   registerSeason(program, io);
   registerHindcast(program, io);
   registerEffort(program, io);
-  for (const command of program.commands) command.exitOverride().configureOutput({ writeOut: (s) => io.stdout(s), writeErr: (s) => io.stderr(s) });
+  for (const command of program.commands) command.exitOverride().configureOutput(output);
 
   try {
     await program.parseAsync([...argv], { from: 'user' });

@@ -2,7 +2,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, join, relative } from 'node:path';
 import { InvalidArgumentError, type Command } from 'commander';
 import { SereError, formatError } from '../errors.js';
-import { loadWorkspace, workspaceRoot } from '../workspace/workspace.js';
+import { loadWorkspace, workspaceRoot, WORKSPACE_FILE } from '../workspace/workspace.js';
 import { runSeason } from '../workspace/season.js';
 import { freeRecordName, listRecords, writeFolderAtomic } from '../workspace/record-folder.js';
 import { readRecord, type StoredRecord } from '../workspace/read-record.js';
@@ -48,7 +48,7 @@ export function registerSeason(program: Command, io: Io): void {
     .option('--replay <record>', 'rerun a record from its own inputs and check every output is identical')
     .action(async (folder: string | undefined, opts: { date?: string; replay?: string }) => {
       if (opts.replay) {
-        await replay(opts.replay, io);
+        await replay(recordPath(opts.replay, folder), io);
         return;
       }
       const root = workspaceRoot(folder);
@@ -84,10 +84,21 @@ function readableRecords(recordsDir: string, io: Io): StoredRecord[] {
   });
 }
 
+/**
+ * Where the record to replay is: the path as given, else the same path inside the workspace
+ * folder, else a record of that name in the workspace's records folder (`--replay 2026-11-01`).
+ */
+function recordPath(given: string, folder: string | undefined): string {
+  const root = workspaceRoot(folder);
+  const candidates = [given, join(root, given)];
+  if (existsSync(join(root, WORKSPACE_FILE))) candidates.push(join(root, loadWorkspace(root).records, given));
+  return candidates.find((c) => existsSync(join(c, 'manifest.json'))) ?? given;
+}
+
 /** Rerun a record from the copies in its inputs/ folder, with its seeds and date, and compare. */
 async function replay(record: string, io: Io): Promise<void> {
   if (!existsSync(join(record, 'manifest.json'))) {
-    throw new SereError('FILE_NOT_FOUND', 'is not a sere record (no manifest.json)', { file: record }, 'name a folder inside the records folder');
+    throw new SereError('FILE_NOT_FOUND', 'is not a sere record (no manifest.json)', { file: record }, 'name a record folder, or a record by its name (e.g. 2026-11-01) with the workspace folder');
   }
   const stored = readRecord(record, basename(record));
   const ws = loadWorkspace(join(record, 'inputs'));

@@ -47,6 +47,11 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, random: Rand
     },
   });
   const notes = [...matrices.notes];
+  // A treatment whose years all fall outside the forecast is kept (a workspace's scenario may
+  // outlive its treatment as seasons move the start on) but said, so it is not read as acting.
+  for (const t of plan.treatments) {
+    if (t.weights.every((w) => w === 0)) notes.push(`treatment '${t.name}' acts in no year of this forecast (its years lie outside it)`);
+  }
   for (const [treatment, draws] of trouble) {
     notes.push(`treatment '${plan.treatments[treatment]!.name}' could not act as written in ${draws.size} of ${D} draws ` +
       '(probabilities capped at 1, or nothing left to rescale)');

@@ -4,6 +4,7 @@ import type { Comparison } from '../engine/compare.js';
 import { wilsonInterval } from '../evaluation/wilson.js';
 import { NEUTRAL, stateColours } from './palette.js';
 import { chartLabel } from './chart-label.js';
+import { targetLabel } from './target-lines.js';
 
 /**
  * Panels are built as plain objects and cast once at the top: vega-lite's types for nested
@@ -133,7 +134,10 @@ function subtitle(results: readonly ForecastResult[], baseline: boolean): string
   const lines = [`share of the area, %: forecast median (line) and ${level}% band (shaded)`];
   if (results.some((r) => history(r).length > 0)) lines.push(`surveyed share by survey year (dots) with its ${level}% Wilson score interval`);
   if (baseline) lines.push(`grey dashed line: the baseline's median (${results[0]!.scenario.alternative ?? results[0]!.scenario.name})`);
-  if (results.some((r) => r.scenario.target)) lines.push('black dashed rule: the landscape target');
+  const target = results.find((r) => r.scenario.target)?.scenario;
+  if (target?.target && target.target.states.length === 1) lines.push('black dashed rule: the landscape target');
+  // A target on several states is about their summed share, which no one state's panel shows.
+  else if (target?.target) lines.push(`landscape target: ${targetLabel(target.target, target.fit.states, target.fit.step)} (their summed share; see the target table)`);
   return lines;
 }
 

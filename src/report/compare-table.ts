@@ -36,7 +36,7 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
   });
   lines.push(shares.toString());
 
-  lines.push('', style.bold(`Difference from the baseline, percentage points — median [${band}] (chance of more · of a tie)`));
+  lines.push('', style.bold(`Difference from the baseline, percentage points — median [${band}] (chance it gives more; of a tie, when any draw ties)`));
   const diffs = makeTable(['state / alternative', ...years.slice(1)], style, ['left', ...shown.slice(1).map(() => 'right' as const)]);
   states.forEach((name, s) => {
     diffs.push([style.bold(name), ...shown.slice(1).map(() => '')]);
@@ -45,7 +45,7 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
       diffs.push([`  ${label(a.result.scenario)}`, ...shown.slice(1).map((_, n) => {
         const t = n + 1; // differences are kept at the shown years; the start year, a certain tie, is left out
         const o = a.odds[s]![t]!;
-        const odds = o.tie === 1 ? 'tie' : `${percent(o.more)}%${o.tie > 0 ? ` · ${percent(o.tie)}%` : ''}`;
+        const odds = o.tie === 1 ? 'tie in every draw' : `${percent(o.more)}% more${o.tie > 0 ? ` · ${percent(o.tie)}% tie` : ''}`;
         return `${signedBand({ median: signedPoints(d.median[t]!), low: signedPoints(d.low[t]!), high: signedPoints(d.high[t]!) })} (${odds})`;
       })]);
     }
@@ -85,7 +85,7 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
         `${signedPoints(diff.probabilityDifference)} pts`,
         `${percent(o.sooner)}% · ${percent(o.same)}% · ${percent(o.later)}%`,
         `${percent(o.onlyAlternative)}% · ${percent(o.onlyBaseline)}% · ${percent(o.neither)}%`,
-        timingCell(diff.years, diff.bothDraws, signedBand), holds(a.result)]);
+        timingCell(diff.years, diff.bothDraws, signedBand, 'draws where both reach it'), holds(a.result)]);
     }
     lines.push(t.toString());
     lines.push(style.dim(`Outcomes are shares of all ${base.draws} draws and add up to 100%. A draw in which neither reaches the ` +

@@ -8,6 +8,14 @@ import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 
 /** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
+/** What the fit left out or merged: skipped pairs by gap, repeated rows (also printed by sere season). */
+export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
+  const lines = fit.skipped.map(({ gap, pairs }) =>
+    style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
+  if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
+  return lines;
+}
+
 export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   priorSensitivity: readonly { readonly reliance: PriorReliance; readonly longRun: readonly (number | null)[] }[] = []): string {
   const { states } = fit;
@@ -23,10 +31,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   lines.push(style.bold(`Fit of ${fit.input.file}`));
   lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
     `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
-  for (const { gap, pairs } of fit.skipped) {
-    lines.push(style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
-  }
-  if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
+  lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
 

@@ -2,6 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { SeasonRun } from '../workspace/season.js';
 import { count, levelLabel, percentBand, signed } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
+import { dataWarnings } from './fit-table.js';
 import { coverageWords, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
 
 /** What `sere season` prints: where the record went, the horizon shares, and what changed. */
@@ -11,6 +12,7 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
   lines.push(style.bold(`${workspace}: season record written to ${recordPath}`));
   lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} · ` +
     `latest survey ${fit.latest.time} · sha256 ${fit.input.sha256.slice(0, 12)}…`);
+  lines.push(...dataWarnings(fit, style));
   for (const { file, results } of run.forecasts) {
     lines.push(`scenario ${file}: seed ${run.seeds[file]}${results.length > 1 ? ` · ${results.length} alternatives, compared` : ''}`);
   }

@@ -17,9 +17,9 @@ export function targetLabel(target: LandscapeTarget, states: readonly string[], 
  * A timing band with the number of draws it rests on: "2050 [2035–2072] (n = 240)"; "too few
  * draws reach it: n = 2" below MIN_BAND_DRAWS; "—" when no draw does. `format` prints a band.
  */
-export function timingCell(band: Band | null, draws: number, format: (b: Band) => string = wholeBand): string {
+export function timingCell(band: Band | null, draws: number, format: (b: Band) => string = wholeBand, which = 'draws reach it'): string {
   if (draws === 0) return '—';
-  return band ? `${format(band)} (n = ${draws})` : `too few draws reach it: n = ${draws}`;
+  return band ? `${format(band)} (n = ${draws})` : `too few ${which}: n = ${draws}`;
 }
 
 /** The landscape target block of `sere forecast`'s table. */

@@ -37,6 +37,11 @@ function forecastRows(r: ForecastResult, push: (row: Row) => void): void {
     push([...who, state, horizon, 'target_chance', 'probability', tenths(r.dominance.probability), 'percent']);
     const y = r.dominance.year;
     for (const stat of ['median', 'low', 'high'] as const) push([...who, state, horizon, 'target_year', stat, y ? y[stat] : '', 'year']);
+    push([...who, state, horizon, 'target_year', 'draws', r.dominance.draws, 'draws']);
+    push([...who, state, horizon, 'target_already_met', 'flag', r.dominance.alreadyMet ? 1 : 0, 'flag']);
+    // For a cap these are the questions that matter: does it still hold at the horizon, and throughout?
+    push([...who, state, horizon, 'target_holds', 'at_horizon', tenths(r.dominance.holdsAtHorizon), 'percent']);
+    push([...who, state, horizon, 'target_holds', 'every_year', tenths(r.dominance.holdsThroughout), 'percent']);
   }
 }
 

@@ -60,6 +60,10 @@ function rowChange(ctx: ResolveContext, t: TreatmentFile, row: number, path: Key
   if (t.move) {
     const from = ctx.stateIndex(t.move.from, [...path, 'move', 'from']);
     const to = ctx.stateIndex(t.move.to, [...path, 'move', 'to']);
+    if (from === to) {
+      fail(ctx, 'BAD_SCENARIO', `moves probability from ${t.state}>${t.move.to} to itself, which changes nothing`,
+        [...path, 'move', 'to'], 'name another destination state');
+    }
     if (impossible(to) && t.move.share > 0) {
       fail(ctx, 'BAD_SCENARIO', `moves probability into ${t.state}>${t.move.to}, which the fit declares impossible`,
         [...path, 'move', 'to'], 'move it to a possible destination, or drop the transition from the impossible list');

@@ -39,8 +39,9 @@ const horizonSchema = z.union([
   z.strictObject({ steps: positiveInt('horizon.steps').max(LIMITS.horizonSteps, { error: `horizon.steps must be at most ${LIMITS.horizonSteps}` }) }),
 ], { error: 'horizon must be { years: N } or { steps: N }' });
 
-const probability = (what: string) => z.number({ error: `${what} must be a number` })
-  .min(0, { error: `${what} must be between 0 and 1` }).max(1, { error: `${what} must be between 0 and 1` });
+/** A share or chance: a number from 0 to 1 (the messages say so, since "25%" is the usual slip). */
+const probability = (what: string) => z.number({ error: `${what} must be a number from 0 to 1 (a share: 25% is 0.25)` })
+  .min(0, { error: `${what} must be between 0 and 1` }).max(1, { error: `${what} must be between 0 and 1 (a share: 25% is 0.25)` });
 
 /** A window of calendar years, first and last inclusive. */
 const yearWindow = z.tuple([z.number().int(), z.number().int()], { error: 'years must be [first, last], two whole years' })
@@ -107,7 +108,8 @@ const alternativeSchema = z.strictObject({
  */
 const targetSchema = z.strictObject({
   state: stateName.optional().describe('Shorthand for states: [state].'),
-  states: z.array(stateName).min(1, { error: 'list at least one state in target.states' }).optional()
+  states: z.array(stateName, { error: 'target.states is a list, e.g. states: [heath, scrub]' })
+    .min(1, { error: 'list at least one state in target.states' }).optional()
     .describe('The states whose shares are summed.'),
   share: probability('target.share').optional().describe('Shorthand for at_least.'),
   at_least: probability('target.at_least').optional().describe('Met while the summed share is at or above this.'),
@@ -165,6 +167,9 @@ export const scenarioSchema = z.strictObject({
   events: z.array(eventSchema).default([]),
   /** Alternatives to compare, the first being the baseline; each adds its own treatments and events. */
   alternatives: z.array(alternativeSchema).min(1, { error: 'list at least one alternative' }).optional(),
+}, {
+  // A list or a bare value at the top: say what a scenario file is, not "expected object".
+  error: (issue) => (issue.code === 'invalid_type' ? 'a scenario file is a map of keys (name, data, horizon, …), not a list or a single value' : undefined),
 });
 
 export type ScenarioFile = z.infer<typeof scenarioSchema>;

@@ -48,7 +48,7 @@ export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): M
     : [];
   if (n < BOOTSTRAP_FEW_SITES) {
     notes.push(`the site bootstrap rests on only ${n} sites: in simulations its 90% bands covered the truth 58–80% of the time ` +
-      `below ${BOOTSTRAP_FEW_SITES} sites (README, "Uncertainty"); prefer source: posterior`);
+      `below ${BOOTSTRAP_FEW_SITES} sites (README, the scenario file's uncertainty sources); prefer source: posterior`);
   }
   return { k, count, data, source: 'bootstrap', notes };
 }

@@ -27,7 +27,7 @@ describe('sere compare (built binary)', () => {
     expect(alt.stationary_treated.stationary).toEqual(json.baseline.stationary_treated.stationary);
     expect(Object.keys(alt.stationary_treated.stationary)).toEqual(['a', 'b', 'c']);
     const table = sere(['compare', sc('same-twice.yaml')]);
-    expect(table.stdout).toContain('0 (tie)');
+    expect(table.stdout).toContain('0 (tie in every draw)');
   });
 
   it('two files are compared the same way as one file listing them', () => {

@@ -14,8 +14,9 @@ describe('--csv (built binary)', () => {
     expect(r.code).toBe(0);
     const lines = readFileSync(file, 'utf8').trim().split('\n');
     expect(lines[0]).toBe('scenario,alternative,state,year,measure,statistic,value,unit');
-    // 3 states × 6 years × 4 statistics + the target's threshold, chance and three timing rows.
-    expect(lines.length - 1).toBe(3 * 6 * 4 + 5);
+    // 3 states × 6 years × 4 statistics + the target's threshold, chance, three timing rows and their
+    // draws, already met, and the two chances it holds.
+    expect(lines.length - 1).toBe(3 * 6 * 4 + 9);
 
     writeFileSync(file, 'mine\n');
     const chart = join(dir, 'c.svg');

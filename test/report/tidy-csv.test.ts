@@ -21,8 +21,12 @@ describe('tidy CSV', () => {
     const csv = tidyCsv([result]);
     expect(csv.split('\n')[0]).toBe('scenario,alternative,state,year,measure,statistic,value,unit');
     const rows = read(csv);
-    // 3 states × 11 years × 4 statistics, plus threshold, chance and 3 timing rows.
-    expect(rows.length).toBe(3 * 11 * 4 + 5);
+    // 3 states × 11 years × 4 statistics, plus threshold, chance, 3 timing rows and their draws,
+    // already met, and the two chances it holds.
+    expect(rows.length).toBe(3 * 11 * 4 + 9);
+    expect(Number(pick(rows, { measure: 'target_year', statistic: 'draws' })[0]!.value)).toBe(result.dominance!.draws);
+    expect(Number(pick(rows, { measure: 'target_holds', statistic: 'at_horizon' })[0]!.value))
+      .toBe(Math.round(result.dominance!.holdsAtHorizon * 1000) / 10);
     for (const [s, state] of fit.states.entries()) {
       result.years.forEach((year, t) => {
         const [median] = pick(rows, { state, year: String(year), measure: 'share', statistic: 'median' });
