@@ -1,4 +1,4 @@
-import type { SurveyRecord } from '../data/survey.js';
+import type { SurveyRows } from '../data/survey.js';
 
 export interface SurveyedMix {
   /** The latest survey time in the table. */
@@ -13,14 +13,14 @@ export interface SurveyedMix {
  * The mix of states among the sites surveyed at the latest survey time: the natural starting point
  * of a forecast. Sites last seen earlier are not carried forward (their state now is unknown).
  */
-export function latestSurveyedMix(records: readonly SurveyRecord[], k: number): SurveyedMix {
+export function latestSurveyedMix(rows: SurveyRows, k: number): SurveyedMix {
   let time = -Infinity;
-  for (const r of records) if (r.time > time) time = r.time;
+  for (let n = 0; n < rows.count; n++) if (rows.time[n]! > time) time = rows.time[n]!;
   const counts = new Array<number>(k).fill(0);
   let sites = 0;
-  for (const r of records) {
-    if (r.time !== time) continue;
-    counts[r.state]! += 1;
+  for (let n = 0; n < rows.count; n++) {
+    if (rows.time[n] !== time) continue;
+    counts[rows.state[n]!]! += 1;
     sites += 1;
   }
   return { time, counts, shares: counts.map((c) => c / sites), sites };

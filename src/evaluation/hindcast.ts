@@ -1,4 +1,5 @@
 import type { SurveyTable } from '../data/survey.js';
+import { selectRows } from '../data/survey-rows.js';
 import { fitSurvey } from '../fit/fit.js';
 import type { FitSettings } from '../fit/settings.js';
 import type { Scenario } from '../scenario/scenario.js';
@@ -55,14 +56,14 @@ export interface HindcastSettings {
 export function hindcast(table: SurveyTable, settings: FitSettings, options: HindcastSettings):
   { cases: HindcastCase[]; summary: HindcastSummary[]; originsLeftOut: number } {
   const k = table.states.length;
-  const observed = observedMixes(table.records, k);
+  const observed = observedMixes(table.rows, k);
   const every = [...observed.keys()];
   // Each origin refits the chain on the surveys before it: a long series (thousands of survey
   // times) is hindcast from its most recent origins only, which is where the trust matters.
   const times = every.slice(-LIMITS.hindcastOrigins);
   const cases: HindcastCase[] = [];
   for (const origin of times) {
-    const past = { ...table, records: table.records.filter((r) => r.time <= origin) };
+    const past = selectRows(table, (n) => table.rows.time[n]! <= origin);
     let fit;
     try {
       fit = fitSurvey(past, settings);

@@ -1,4 +1,4 @@
-import type { SurveyRecord } from '../data/survey.js';
+import type { SurveyRows } from '../data/survey.js';
 
 export interface ObservedMix {
   readonly time: number;
@@ -8,12 +8,13 @@ export interface ObservedMix {
 }
 
 /** The surveyed mix at every survey time: the observations forecasts are scored against. */
-export function observedMixes(records: readonly SurveyRecord[], k: number): Map<number, ObservedMix> {
+export function observedMixes(rows: SurveyRows, k: number): Map<number, ObservedMix> {
   const byTime = new Map<number, number[]>();
-  for (const r of records) {
-    const counts = byTime.get(r.time) ?? new Array<number>(k).fill(0);
-    counts[r.state]! += 1;
-    byTime.set(r.time, counts);
+  for (let n = 0; n < rows.count; n++) {
+    const time = rows.time[n]!;
+    const counts = byTime.get(time) ?? new Array<number>(k).fill(0);
+    counts[rows.state[n]!]! += 1;
+    byTime.set(time, counts);
   }
   return new Map([...byTime].sort((a, b) => a[0] - b[0])
     .map(([time, counts]) => [time, { time, counts, sites: counts.reduce((a, b) => a + b, 0) }]));

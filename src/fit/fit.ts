@@ -37,7 +37,7 @@ export interface Fit {
 export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
   const k = table.states.length;
   const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
-  const counted = countTransitions(table.records, k, settings.step);
+  const counted = countTransitions(table, k, settings.step);
   if (counted.transitions === 0) {
     const guess = likelyStep(counted.skipped);
     throw new SereError('NO_TRANSITIONS',
@@ -65,7 +65,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     }
   }
   let firstTime = Infinity;
-  for (const r of table.records) firstTime = Math.min(firstTime, r.time);
+  for (let n = 0; n < table.rows.count; n++) firstTime = Math.min(firstTime, table.rows.time[n]!);
   return {
     input: { file: table.file, sha256: table.sha256 },
     states: table.states,
@@ -77,9 +77,9 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     transitions: counted.transitions,
     skipped: counted.skipped,
     repeatedRows: table.repeatedRows,
-    surveys: table.records.length,
+    surveys: table.rows.count,
     firstTime,
-    latest: latestSurveyedMix(table.records, k),
+    latest: latestSurveyedMix(table.rows, k),
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,

@@ -86,7 +86,7 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     ? changesSince(options.previous.name, options.previous, fit, estimates.mle, forecasts.flatMap((f) => f.results))
     : null;
 
-  const observed = observedMixes(table.records, fit.states.length);
+  const observed = observedMixes(table.rows, fit.states.length);
   const scores = (options.earlier ?? []).flatMap((r) => scoreRecord(r.name, r.forecasts, observed, fit.states));
 
   const files = new Map<string, string>();

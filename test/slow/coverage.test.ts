@@ -3,6 +3,7 @@ import { hindcast } from '../../src/evaluation/hindcast.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import type { SurveyRecord, SurveyTable } from '../../src/data/survey.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
+import { tableFromRecords } from '../../src/data/survey-rows.js';
 
 const TRUE = [[0.8, 0.15, 0.05], [0.1, 0.75, 0.15], [0.05, 0.1, 0.85]];
 
@@ -19,7 +20,7 @@ function surveys(random: RandomStream, sites: number, years: number): SurveyTabl
       state = next;
     }
   }
-  return { file: 'simulated', states: ['a', 'b', 'c'], records, repeatedRows: 0, sha256: '' };
+  return tableFromRecords('simulated', ['a', 'b', 'c'], records);
 }
 
 describe('coverage of the 90% prediction bands (simulation from a known chain)', () => {
