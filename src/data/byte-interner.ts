@@ -1,10 +1,10 @@
 /**
  * Distinct byte strings (the raw bytes of a CSV field) numbered 0, 1, 2 … in order of first
  * appearance, without making a JavaScript string per row: each distinct value is copied once into
- * an arena and found again by an FNV-1a hash in an open-addressed table. Measured reason: on 10⁷
- * rows, a string per field and a Map lookup took 2.4 s of the 5 s spent reading; hashing the
- * bytes takes 0.4 s. Rows of one site usually follow each other, so the value of the previous row
- * is compared first.
+ * an arena and found again by an FNV-1a hash in an open-addressed table. Measured reason: the site
+ * ids of 10⁶ rows (10⁵ sites) took 117 ms as a decoded string and a Map lookup per row, 21 ms
+ * interned from the bytes (best of 3), and no string per row is left for the garbage collector.
+ * Rows of one site usually follow each other, so the value of the previous row is compared first.
  */
 export class ByteInterner {
   private arena = new Uint8Array(1 << 16);

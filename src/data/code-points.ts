@@ -8,8 +8,8 @@ export function compareCodePoints(a: string, b: string): number {
     let x = a.charCodeAt(i);
     let y = b.charCodeAt(i);
     if (x === y) continue;
-    // Code units order code points except where a surrogate (D800–DFFF, a code point beyond
-    // U+FFFF) meets E000–FFFF: lift surrogates above and lower E000–FFFF below (as ICU does).
+    // Code units order code points except where a surrogate (D800–DFFF, part of a code point
+    // beyond U+FFFF) meets E000–FFFF: lift surrogates above and lower E000–FFFF below (as ICU does).
     if (x >= 0xd800 && y >= 0xd800) {
       x = x >= 0xe000 ? x - 0x800 : x + 0x2000;
       y = y >= 0xe000 ? y - 0x800 : y + 0x2000;
@@ -19,14 +19,7 @@ export function compareCodePoints(a: string, b: string): number {
   return a.length - b.length;
 }
 
-const SURROGATE = /[\uD800-\uDFFF]/;
-
-/**
- * Labels sorted in code-point order. Without characters beyond U+FFFF, code-point order is the
- * code-unit order of the default sort, which compares in native code: 10⁶ site ids sort in about
- * 0.4 s that way and 1.5 s through a comparator (measured).
- */
+/** Labels sorted in code-point order. */
 export function sortByCodePoints(labels: readonly string[]): string[] {
-  const sorted = [...labels];
-  return labels.some((s) => SURROGATE.test(s)) ? sorted.sort(compareCodePoints) : sorted.sort();
+  return [...labels].sort(compareCodePoints);
 }

@@ -51,7 +51,7 @@ export class StateLabels {
   see(label: string, line: number, column: number): number {
     const known = this.distinct.get(label);
     if (known !== undefined) return known;
-    const problem = labelProblem(label, `state ${quote(label)}`);
+    const problem = labelProblem(label, () => `state ${quote(label)}`);
     if (problem) throw new SereError(problem.code, problem.what, { file: this.file, line, column }, problem.hint);
     let id: number;
     if (this.declared) {

@@ -1,5 +1,4 @@
 import { SereError, quote } from '../errors.js';
-import { sortByCodePoints } from './code-points.js';
 import { LabelColumn } from './label-column.js';
 import { labelProblem } from './labels.js';
 import { orderRows } from './order-rows.js';
@@ -144,9 +143,7 @@ export class SurveyCollector implements RowSink {
     if (this.error) throw this.error;
     const { states, index: stateIndex } = this.states.finish();
 
-    const sites = sortByCodePoints(this.sites.labels);
-    const rank = new Int32Array(sites.length);
-    sites.forEach((s, r) => { rank[this.sites.idOf(s)!] = r; });
+    const { sorted: sites, rank } = this.sites.ranks();
     const rows = this.store.take();
     for (let n = 0; n < rows.count; n++) {
       rows.site[n] = rank[rows.site[n]!]!;
@@ -167,7 +164,7 @@ export class SurveyCollector implements RowSink {
   }
 
   private checkLabel(role: 'site' | 'group', label: string, line: number, at: number): void {
-    const problem = labelProblem(label, `${role} ${quote(label)}`);
+    const problem = labelProblem(label, () => `${role} ${quote(label)}`);
     if (problem) this.fail(LABEL, new SereError(problem.code, problem.what, { file: this.file, line, column: at + 1 }, problem.hint));
   }
 

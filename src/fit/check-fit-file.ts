@@ -126,7 +126,7 @@ function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): Si
   const grouped = f.group_column !== undefined && f.group_column !== null;
   const sites = f.site_counts.map((s, n): SiteCounts => {
     const site = normaliseLabel(s.site);
-    const problem = labelProblem(site, `site ${quote(site)}`);
+    const problem = labelProblem(site, () => `site ${quote(site)}`);
     if (problem) fail(problem.what, ['site_counts', n, 'site'], problem.hint);
     const first = seen.get(site);
     if (first !== undefined) fail(`site ${quote(site)} is listed twice (also site_counts[${first}])`, ['site_counts', n, 'site']);
