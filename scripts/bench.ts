@@ -9,6 +9,9 @@
  *    a partial area and a landscape event), wall time with start-up (best of 5).
  * 5. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
  *    the bands, wall time with start-up (best of 3).
+ * 6. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
+ *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
+ * 7. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -20,6 +23,8 @@ import { posteriorDraws } from '../src/uncertainty/posterior.js';
 import { randomStreams } from '../src/uncertainty/random.js';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
+import { SiteCountTable } from '../src/chain/site-counts.js';
+import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -60,7 +65,7 @@ engine('every year kept', undefined);
 const states = Array.from({ length: K }, (_, s) => `s${s}`);
 const fit: Fit = {
   input: { file: 'bench', sha256: '' }, states, step: 1, prior: 'jeffreys', impossible: [],
-  counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: [], transitions: 0,
+  counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: SiteCountTable.fromList(K, []), transitions: 0,
   skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
   latest: { time: 0, counts: [], shares: [], sites: 0 },
 };
@@ -134,3 +139,9 @@ const checkMs = best(3, () => {
   if (r.status !== 0) throw new Error(r.stderr);
 });
 console.log(`check: 10000 sites × 10 surveys × 8 states, 1000 posterior draws, wall incl. start-up: ${(checkMs / 1000).toFixed(3)} s (target: under 2 s)`);
+
+// 6–7. `sere fit` against a plain-numpy counting script on 10⁶ and 10⁷ rows, and loading a fit
+// file of 10,000 sites (scripts/bench/fit-vs-numpy.ts).
+benchFit(100_000, 3);
+benchFit(1_000_000, 3);
+benchFitFile(5);

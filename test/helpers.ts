@@ -4,6 +4,7 @@ import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
 import type { Disturbance, Scenario, Treatment } from '../src/scenario/scenario.js';
 import type { RowChange } from '../src/chain/row-change.js';
+import { SiteCountTable } from '../src/chain/site-counts.js';
 
 /** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
 export const stochasticMatrix = (k: number): fc.Arbitrary<number[][]> =>
@@ -36,7 +37,7 @@ export function fitWithCounts(states: string[], counts: number[][], prior: Fit['
   impossible: [string, string][] = []): Fit {
   return {
     input: { file: 'test.csv', sha256: '' }, states, step: 1, prior, impossible,
-    counts: Float64Array.from(counts.flat()), sites: [], transitions: counts.flat().reduce((a, b) => a + b, 0),
+    counts: Float64Array.from(counts.flat()), sites: SiteCountTable.fromList(states.length, []), transitions: counts.flat().reduce((a, b) => a + b, 0),
     skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
     latest: { time: 0, counts: states.map(() => 1), shares: states.map(() => 1 / states.length), sites: states.length },
   };

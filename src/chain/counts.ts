@@ -1,11 +1,5 @@
 import type { SurveyTable } from '../data/survey.js';
-
-/** Transitions of one site, as sparse `[from, to, n]` cells: what the site bootstrap resamples. */
-export interface SiteCounts {
-  readonly site: string;
-  readonly group?: string;
-  readonly cells: readonly (readonly [number, number, number])[];
-}
+import { SiteCountBuilder, type SiteCountTable } from './site-counts.js';
 
 /** Pairs of consecutive surveys that were not exactly one step apart, by their gap in time units. */
 export interface SkippedPairs {
@@ -23,7 +17,7 @@ export interface TransitionCounts {
   readonly k: number;
   /** Row-major k×k: `counts[i*k + j]` transitions from state i to state j, pooled over sites. */
   readonly counts: Float64Array;
-  readonly sites: readonly SiteCounts[];
+  readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
@@ -51,7 +45,7 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
   const { site, time, state, line } = rows;
   const counts = new Float64Array(k * k);
   const firstLine = new Float64Array(k * k);
-  const sites: SiteCounts[] = [];
+  const sites = new SiteCountBuilder(k, rows.group !== undefined && table.groups !== undefined);
   const skipped = new Map<number, number>();
   const triples = new Float64Array(k * k * k);
   const periods = new Map<number, Float64Array>();
@@ -79,18 +73,19 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
       if (n - 2 >= a && time[n - 1]! - time[n - 2]! === step) triples[state[n - 2]! * k * k + cell] += 1;
     }
     touched.sort((x, y) => x - y);
-    const cells = touched.map((cell) => [Math.floor(cell / k), cell % k, siteCells[cell]!] as const);
-    for (const cell of touched) siteCells[cell] = 0;
+    for (const cell of touched) {
+      sites.cell(cell, siteCells[cell]!);
+      siteCells[cell] = 0;
+    }
     touched.length = 0;
-    const id = table.sites[site[a]!]!;
-    sites.push(rows.group && table.groups ? { site: id, group: table.groups[rows.group[a]!]!, cells } : { site: id, cells });
+    sites.endSite(table.sites[site[a]!]!, rows.group && table.groups ? table.groups[rows.group[a]!]! : undefined);
     a = b;
   }
   const skippedList = [...skipped.entries()].sort((x, y) => x[0] - y[0]).map(([gap, pairs]) => ({ gap, pairs }));
   const tripleList: (readonly [number, number, number, number])[] = [];
   triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
   return {
-    k, counts, sites, transitions, skipped: skippedList, firstLine, triples: tripleList,
+    k, counts, sites: sites.table(), transitions, skipped: skippedList, firstLine, triples: tripleList,
     periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
   };
 }
@@ -103,8 +98,8 @@ function sparseCells(dense: Float64Array, k: number): [number, number, number][]
 
 export { compareCodePoints } from '../data/code-points.js';
 
-/** Sum sparse per-site cells back into a dense k×k table (the counts of any set of sites add up). */
-export function addSiteCells(target: Float64Array, k: number, cells: SiteCounts['cells'], weight = 1): void {
+/** Sum sparse cells (a period's, a site's in a fit file) into a dense k×k table. */
+export function addSiteCells(target: Float64Array, k: number, cells: readonly (readonly [number, number, number])[], weight = 1): void {
   for (const [i, j, n] of cells) target[i * k + j] += weight * n;
 }
 

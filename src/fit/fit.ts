@@ -1,6 +1,7 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
-import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
+import { countTransitions, likelyStep, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import type { SiteCountTable } from '../chain/site-counts.js';
 import { latestSurveyedMix, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { impossibleMask, type FitSettings } from './settings.js';
@@ -19,7 +20,7 @@ export interface Fit {
   readonly impossible: readonly (readonly [string, string])[];
   /** Row-major k×k pooled counts, row = from. */
   readonly counts: Float64Array;
-  readonly sites: readonly SiteCounts[];
+  readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   readonly repeatedRows: number;

@@ -33,7 +33,7 @@ describe('counting a hand-countable survey table', () => {
     const { p } = maximumLikelihood(fit.counts, fitPrior(fit), 3);
     expect(Array.from(p)).toEqual([1 / 3, 2 / 3, 0, 1 / 3, 1 / 3, 1 / 3, 0, 1 / 2, 1 / 2]);
     expect(fit.latest).toEqual({ time: 7, counts: [0, 0, 1], shares: [0, 0, 1], sites: 1 });
-    expect(fit.sites.map((s) => s.site)).toEqual(['A', 'B']);
+    expect(fit.sites.ids).toEqual(['A', 'B']);
   });
 
   it('keeps declared state order, and counts rows in any order the same', () => {

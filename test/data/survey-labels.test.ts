@@ -122,7 +122,7 @@ describe('labels that are names of Object.prototype members', () => {
     const fit = fitSurvey(read(table(rows(...lines))), DEFAULT_FIT_SETTINGS);
     expect(fit.states).toEqual([...names].sort());
     expect(fit.transitions).toBe(5);
-    expect(fit.sites.map((s) => s.site).sort()).toEqual([...names].sort());
+    expect([...fit.sites.ids].sort()).toEqual([...names].sort());
     expect(fit.latest.counts.reduce((a, b) => a + b, 0)).toBe(5);
   });
 });
