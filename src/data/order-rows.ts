@@ -1,9 +1,19 @@
+import type { RowStore } from './row-store.js';
 import type { SurveyRows } from './survey.js';
 
-/** Two rows of one site at one time in different states: indices into the rows as given. */
+/** One row as given: its index among the rows given, and its fields. */
+export interface GivenRow {
+  readonly index: number;
+  readonly site: number;
+  readonly time: number;
+  readonly state: number;
+  readonly line: number;
+}
+
+/** Two rows of one site at one time in different states. */
 export interface Conflict {
-  readonly first: number;
-  readonly later: number;
+  readonly first: GivenRow;
+  readonly later: GivenRow;
 }
 
 export interface OrderedRows {
@@ -29,10 +39,35 @@ const SHORT_RUN = 32;
  *
  * `earlier` says which of two contradicting rows the user meets first (by default, the one given
  * first); the conflict reported is the earliest.
+ *
+ * The rows are taken from the store column by column, each released once its ordered copy is
+ * made, so the peak is the rows once plus one column (not twice the rows).
  */
-export function orderRows(rows: SurveyRows, sites: number, earlier: (a: number, b: number) => boolean = (a, b) => a < b): OrderedRows {
-  const n = rows.count;
-  const { site, time, state } = rows;
+export function orderRows(store: RowStore, sites: number, earlier: (a: number, b: number) => boolean = (a, b) => a < b): OrderedRows {
+  const { keep, repeated, conflict } = orderAndFindRepeats(store, sites, earlier);
+  const gather = <T extends Int32Array | Float64Array | Uint8Array>(column: T): T => {
+    const out = new (column.constructor as new (length: number) => T)(keep.length);
+    for (let p = 0; p < keep.length; p++) out[p] = column[keep[p]!]!;
+    return out;
+  };
+  const grouped = store.group !== undefined;
+  const columns = store.release();
+  const ordered: SurveyRows = {
+    count: keep.length,
+    time: gather(columns.take('time')),
+    line: gather(columns.take('line')),
+    site: gather(columns.take('site')),
+    state: gather(columns.take('state')),
+    ...(grouped ? { group: gather(columns.take('group')!) } : {}),
+  };
+  return conflict ? { rows: ordered, repeated, conflict } : { rows: ordered, repeated };
+}
+
+/** The rows to keep, in order (a counting sort on site, then time within each site), and what repeats. */
+function orderAndFindRepeats(store: RowStore, sites: number, earlier: (a: number, b: number) => boolean):
+  { keep: Int32Array; repeated: number; conflict?: Conflict } {
+  const n = store.count;
+  const { site, time, state } = store;
   const start = new Int32Array(sites + 1);
   for (let r = 0; r < n; r++) start[site[r]! + 1] += 1;
   for (let s = 0; s < sites; s++) start[s + 1] += start[s]!;
@@ -42,7 +77,7 @@ export function orderRows(rows: SurveyRows, sites: number, earlier: (a: number, 
 
   let kept = 0;
   let repeated = 0;
-  let conflict: Conflict | undefined;
+  let conflict: [number, number] | undefined;
   for (let s = 0; s < sites; s++) {
     const a = start[s]!;
     const b = start[s + 1]!;
@@ -52,24 +87,16 @@ export function orderRows(rows: SurveyRows, sites: number, earlier: (a: number, 
       const r = order[p]!;
       if (first >= 0 && time[r] === time[first]) {
         if (state[r] === state[first]) repeated += 1;
-        else if (conflict === undefined || earlier(r, conflict.later)) conflict = { first, later: r };
+        else if (conflict === undefined || earlier(r, conflict[1])) conflict = [first, r];
         continue;
       }
       first = r;
       order[kept++] = r;
     }
   }
+  const given = (index: number): GivenRow => ({ index, site: site[index]!, time: time[index]!, state: state[index]!, line: store.line[index]! });
   const keep = order.subarray(0, kept);
-  const gather = <T extends Int32Array | Float64Array | Uint8Array>(column: T): T => {
-    const out = new (column.constructor as new (length: number) => T)(kept);
-    for (let p = 0; p < kept; p++) out[p] = column[keep[p]!]!;
-    return out;
-  };
-  const ordered: SurveyRows = {
-    count: kept, site: gather(site), time: gather(time), state: gather(state), line: gather(rows.line),
-    ...(rows.group ? { group: gather(rows.group) } : {}),
-  };
-  return conflict ? { rows: ordered, repeated, conflict } : { rows: ordered, repeated };
+  return conflict ? { keep, repeated, conflict: { first: given(conflict[0]), later: given(conflict[1]) } } : { keep, repeated };
 }
 
 /** Stable sort of order[a, b) by time: insertion sort for a site's few surveys (usually already in order). */

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { SereError, quote } from '../errors.js';
 import { sortByCodePoints } from './code-points.js';
 import { firstDifference, lookAlikeKey, MAX_STATES } from './labels.js';
-import { orderRows } from './order-rows.js';
+import { orderRows, type GivenRow } from './order-rows.js';
 import { readSurveyCsv, type ReadSurveyOptions } from './read-survey-csv.js';
 import { RowStore } from './row-store.js';
 import type { SurveyTable } from './survey.js';
@@ -43,22 +43,20 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
   const { table, conflict } = concatenate(tables, states);
   if (conflict) {
     const { later, first } = conflict;
-    const label = (at: typeof later) => states[table.rows.state[at.row]!]!;
     throw new SereError('DUPLICATE_SURVEY',
-      `site ${quote(table.sites[table.rows.site[later.row]!]!)} at time ${table.rows.time[later.row]} is ${quote(label(later))} here but ${quote(label(first))} in ${first.file} line ${table.rows.line[first.row]}`,
-      { file: later.file, line: table.rows.line[later.row] }, 'keep one of the two rows');
+      `site ${quote(table.sites[later.row.site]!)} at time ${later.row.time} is ${quote(states[later.row.state]!)} here but ${quote(states[first.row.state]!)} in ${first.file} line ${first.row.line}`,
+      { file: later.file, line: later.row.line }, 'keep one of the two rows');
   }
   const sha256 = createHash('sha256').update(tables.map((t) => t.sha256).join('\n')).digest('hex');
   return { ...table, file: files.join(', '), sha256 };
 }
 
-interface RowAt { readonly file: string; readonly row: number }
+interface RowAt { readonly file: string; readonly row: GivenRow }
 
 /**
  * The tables' rows as one table: sites, states and groups renumbered into their unions, every
  * (site, time) kept once — the first file's row — and the first contradiction found, by file and
- * then line. In the returned conflict, rows index the concatenated rows (`table.rows` is then
- * those rows, unordered).
+ * then line.
  */
 function concatenate(tables: readonly SurveyTable[], states: readonly string[]): { table: SurveyTable; conflict?: { first: RowAt; later: RowAt } } {
   const sites = sortByCodePoints([...new Set(tables.flatMap((t) => t.sites))]);
@@ -78,20 +76,16 @@ function concatenate(tables: readonly SurveyTable[], states: readonly string[]):
     for (let n = 0; n < r.count; n++) store.push(site[r.site[n]!]!, r.time[n]!, state[r.state[n]!]!, r.line[n]!, r.group ? group[r.group[n]!]! : 0);
     fileOf.push(store.count);
   });
-  const rows = store.take();
   const file = (row: number): number => fileOf.findIndex((end) => row < end);
   const earlier = (a: number, b: number): boolean => {
     const fa = file(a);
     const fb = file(b);
-    return fa !== fb ? fa < fb : rows.line[a]! < rows.line[b]!;
+    return fa !== fb ? fa < fb : store.line[a]! < store.line[b]!;
   };
-  const ordered = orderRows(rows, sites.length, earlier);
+  const ordered = orderRows(store, sites.length, earlier);
   const repeatedRows = ordered.repeated + tables.reduce((n, t) => n + t.repeatedRows, 0);
-  const table: SurveyTable = {
-    file: '', states, sites, rows: ordered.conflict ? rows : ordered.rows, repeatedRows, sha256: '',
-    ...(groups ? { groups } : {}),
-  };
+  const table: SurveyTable = { file: '', states, sites, rows: ordered.rows, repeatedRows, sha256: '', ...(groups ? { groups } : {}) };
   if (!ordered.conflict) return { table };
-  const at = (row: number): RowAt => ({ file: tables[file(row)]!.file, row });
+  const at = (row: GivenRow): RowAt => ({ file: tables[file(row.index)]!.file, row });
   return { table, conflict: { first: at(ordered.conflict.first), later: at(ordered.conflict.later) } };
 }

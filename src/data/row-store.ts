@@ -1,8 +1,6 @@
-import type { SurveyRows } from './survey.js';
-
 /**
  * Survey rows as they are read, in file order, growing by doubling (or to an estimate, so a large
- * file is not copied a dozen times). Owned by one reader: `take` hands the columns over.
+ * file is not copied a dozen times). Owned by one reader: `release` hands the columns over.
  */
 export class RowStore {
   count = 0;
@@ -42,18 +40,25 @@ export class RowStore {
     if (this.group) this.group = grow(this.group, (n) => new Int32Array(n));
   }
 
-  /** The rows, trimmed to their count; the store is empty afterwards. */
-  take(): SurveyRows {
+  /**
+   * Hand the columns over, trimmed to the count, one at a time: each `take` drops the store's
+   * reference, so a column can be freed as soon as its user is done with it.
+   */
+  release(): { take<K extends 'site' | 'time' | 'state' | 'line' | 'group'>(column: K): RowStore[K] } {
     const n = this.count;
-    const rows: SurveyRows = {
-      count: n,
-      site: this.site.subarray(0, n), time: this.time.subarray(0, n),
-      state: this.state.subarray(0, n), line: this.line.subarray(0, n),
+    const columns: Partial<Pick<RowStore, 'site' | 'time' | 'state' | 'line' | 'group'>> = {
+      site: this.site.subarray(0, n), time: this.time.subarray(0, n), state: this.state.subarray(0, n), line: this.line.subarray(0, n),
       ...(this.group ? { group: this.group.subarray(0, n) } : {}),
     };
     this.count = 0;
     this.site = new Int32Array(0); this.time = new Float64Array(0); this.state = new Uint8Array(0); this.line = new Float64Array(0);
     if (this.group) this.group = new Int32Array(0);
-    return rows;
+    return {
+      take(column) {
+        const out = columns[column];
+        delete columns[column];
+        return out as never;
+      },
+    };
   }
 }

@@ -144,18 +144,18 @@ export class SurveyCollector implements RowSink {
     const { states, index: stateIndex } = this.states.finish();
 
     const { sorted: sites, rank } = this.sites.ranks();
-    const rows = this.store.take();
-    for (let n = 0; n < rows.count; n++) {
-      rows.site[n] = rank[rows.site[n]!]!;
-      rows.state[n] = stateIndex[rows.state[n]!]!;
+    const store = this.store;
+    for (let n = 0; n < store.count; n++) {
+      store.site[n] = rank[store.site[n]!]!;
+      store.state[n] = stateIndex[store.state[n]!]!;
     }
-    const ordered = orderRows(rows, sites.length);
+    const ordered = orderRows(store, sites.length);
     if (ordered.conflict) {
       // A site surveyed twice at one time must agree with itself; an exact repeat is used once.
       const { first, later } = ordered.conflict;
       throw new SereError('DUPLICATE_SURVEY',
-        `site ${quote(sites[rows.site[later]!]!)} at time ${rows.time[later]} is ${quote(states[rows.state[later]!]!)} here but ${quote(states[rows.state[first]!]!)} on line ${rows.line[first]}`,
-        { file, line: rows.line[later] }, 'keep one of the two rows');
+        `site ${quote(sites[later.site]!)} at time ${later.time} is ${quote(states[later.state]!)} here but ${quote(states[first.state]!)} on line ${first.line}`,
+        { file, line: later.line }, 'keep one of the two rows');
     }
     return {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,

@@ -41,7 +41,7 @@ export function tableFromRecords(file: string, states: readonly string[], record
   const groupIndex = new Map(groups?.map((g, i) => [g, i] as const));
   const store = new RowStore(grouped);
   for (const r of records) store.push(siteIndex.get(r.site)!, r.time, r.state, r.line, grouped ? groupIndex.get(r.group!)! : 0);
-  const ordered = orderRows(store.take(), sites.length);
+  const ordered = orderRows(store, sites.length);
   if (ordered.conflict || ordered.repeated > 0) throw new Error('internal: records repeat a (site, time)');
   return { file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}) };
 }
