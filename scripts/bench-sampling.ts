@@ -9,12 +9,13 @@ import type { Fit } from '../src/fit/fit.js';
 import { posteriorDraws } from '../src/uncertainty/posterior.js';
 import { randomStreams } from '../src/uncertainty/random.js';
 import { oldRandomStreams } from './bench-old-random.js';
+import { SiteCountTable } from '../src/chain/site-counts.js';
 
 const D = 100_000;
 const K = 10;
 const fit: Fit = {
   input: { file: 'bench', sha256: '' }, states: Array.from({ length: K }, (_, s) => `s${s}`), step: 1, prior: 'jeffreys',
-  impossible: [], counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: [],
+  impossible: [], counts: Float64Array.from({ length: K * K }, (_, c) => (c % (K + 1) === 0 ? 40 : 3)), sites: SiteCountTable.fromList(K, []),
   transitions: 0, skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
   latest: { time: 0, counts: [], shares: [], sites: 0 },
 };

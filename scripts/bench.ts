@@ -12,6 +12,9 @@
  *    a partial area and a landscape event), wall time with start-up (best of 5).
  * 6. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
  *    the bands, wall time with start-up (best of 3).
+ * 6. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
+ *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
+ * 7. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -23,6 +26,7 @@ import { bandOf } from '../src/engine/quantiles.js';
 import { quantilesBySelection } from './bench-old-quantiles.js';
 import { randomStreams } from '../src/uncertainty/random.js';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
+import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -201,4 +205,12 @@ if (want('check')) {
     if (r.status !== 0) throw new Error(r.stderr);
   });
   console.log(`check: 10000 sites × 10 surveys × 8 states, 1000 posterior draws, wall incl. start-up: ${(checkMs / 1000).toFixed(3)} s (target: under 2 s)`);
+}
+
+// `sere fit` against a plain-numpy counting script on 10⁶ and 10⁷ rows, and loading a fit file of
+// 10,000 sites (scripts/bench/fit-vs-numpy.ts).
+if (want('fit')) {
+  benchFit(100_000, 3);
+  benchFit(1_000_000, 3);
+  benchFitFile(5);
 }

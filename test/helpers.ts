@@ -1,9 +1,11 @@
+import { tableFromRecords } from '../src/data/survey-rows.js';
 import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import type { Fit } from '../src/fit/fit.js';
 import type { Disturbance, LandscapeTarget, Scenario, Treatment } from '../src/scenario/scenario.js';
 import type { RowChange } from '../src/chain/row-change.js';
+import { SiteCountTable } from '../src/chain/site-counts.js';
 
 /** A random row-stochastic k×k matrix (weights normalised per row), for property tests. */
 export const stochasticMatrix = (k: number): fc.Arbitrary<number[][]> =>
@@ -36,7 +38,7 @@ export function fitWithCounts(states: string[], counts: number[][], prior: Fit['
   impossible: [string, string][] = []): Fit {
   return {
     input: { file: 'test.csv', sha256: '' }, states, step: 1, prior, impossible,
-    counts: Float64Array.from(counts.flat()), sites: [], transitions: counts.flat().reduce((a, b) => a + b, 0),
+    counts: Float64Array.from(counts.flat()), sites: SiteCountTable.fromList(states.length, []), transitions: counts.flat().reduce((a, b) => a + b, 0),
     skipped: [], repeatedRows: 0, surveys: 0, firstTime: 0,
     latest: { time: 0, counts: states.map(() => 1), shares: states.map(() => 1 / states.length), sites: states.length },
   };
@@ -71,7 +73,7 @@ export function eventOf(rows: number[][], chance: number, horizon: number, scope
  * years from 2000, each starting in a uniformly random state. States are named a, b, c, ….
  */
 export function simulatedSurveys(random: import('../src/uncertainty/random.js').RandomStream, truth: readonly (readonly number[])[],
-  sites: number, years: number): import('../src/data/survey.js').SurveyTable {
+  sites: number, years: number): import('../src/data/survey.js').SurveyTable & { records: import('../src/data/survey.js').SurveyRecord[] } {
   const k = truth.length;
   const records: import('../src/data/survey.js').SurveyRecord[] = [];
   let line = 2;
@@ -85,7 +87,9 @@ export function simulatedSurveys(random: import('../src/uncertainty/random.js').
       state = next;
     }
   }
-  return { file: 'simulated', states: Array.from({ length: k }, (_, i) => String.fromCharCode(97 + i)), records, repeatedRows: 0, sha256: '' };
+  // The table as sere reads one, plus its records for tests that pick surveys out by hand.
+  const table = tableFromRecords('simulated', Array.from({ length: k }, (_, i) => String.fromCharCode(97 + i)), records);
+  return { ...table, records };
 }
 
 /** The single-state target `{ state, share }` of a scenario file, resolved. */

@@ -1,11 +1,5 @@
-import type { SurveyRecord } from '../data/survey.js';
-
-/** Transitions of one site, as sparse `[from, to, n]` cells: what the site bootstrap resamples. */
-export interface SiteCounts {
-  readonly site: string;
-  readonly group?: string;
-  readonly cells: readonly (readonly [number, number, number])[];
-}
+import type { SurveyTable } from '../data/survey.js';
+import { SiteCountBuilder, type SiteCountTable } from './site-counts.js';
 
 /** Pairs of consecutive surveys that were not exactly one step apart, by their gap in time units. */
 export interface SkippedPairs {
@@ -23,11 +17,11 @@ export interface TransitionCounts {
   readonly k: number;
   /** Row-major k×k: `counts[i*k + j]` transitions from state i to state j, pooled over sites. */
   readonly counts: Float64Array;
-  readonly sites: readonly SiteCounts[];
+  readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
-  readonly firstLine: Int32Array;
+  readonly firstLine: Float64Array;
   /** Runs of three surveys each one step apart, as sparse `[i, j, l, n]`: the data of the order tests. */
   readonly triples: readonly (readonly [number, number, number, number])[];
   /** One-step transitions grouped by the time they started, in time order. */
@@ -40,92 +34,72 @@ export interface TransitionCounts {
  * statistic of a stationary first-order chain observed on independent sites).
  *
  * Pairs with any other gap are not silently dropped: they are tallied by gap in `skipped`.
+ *
+ * One pass over the table's rows, which come ordered by site (code-point order of the ids, so the
+ * site bootstrap draws the same sites whatever the order of rows in the file) and then time. Per
+ * period and per triple the counts are dense tables (at most 100 states: 100³ doubles), summed
+ * into sparse cells at the end.
  */
-export function countTransitions(records: readonly SurveyRecord[], k: number, step: number): TransitionCounts {
+export function countTransitions(table: SurveyTable, k: number, step: number): TransitionCounts {
+  const { rows } = table;
+  const { site, time, state, line } = rows;
   const counts = new Float64Array(k * k);
-  const firstLine = new Int32Array(k * k);
-  const bySite = groupBySite(records);
-  const sites: SiteCounts[] = [];
+  const firstLine = new Float64Array(k * k);
+  const sites = new SiteCountBuilder(k, rows.group !== undefined && table.groups !== undefined);
   const skipped = new Map<number, number>();
-  const triples = new Map<number, number>();
-  const periods = new Map<number, Map<number, number>>();
+  const triples = new Float64Array(k * k * k);
+  const periods = new Map<number, Float64Array>();
+  const siteCells = new Int32Array(k * k);
+  const touched: number[] = [];
   let transitions = 0;
-  for (const [site, rows] of bySite) {
-    const ordered = [...rows].sort((a, b) => a.time - b.time);
-    const cells = new Map<number, number>();
-    for (let n = 1; n < ordered.length; n++) {
-      const before = ordered[n - 1]!;
-      const after = ordered[n]!;
-      const gap = after.time - before.time;
+  for (let a = 0; a < rows.count;) {
+    let b = a + 1;
+    while (b < rows.count && site[b] === site[a]) b += 1;
+    for (let n = a + 1; n < b; n++) {
+      const gap = time[n]! - time[n - 1]!;
       if (gap !== step) {
         skipped.set(gap, (skipped.get(gap) ?? 0) + 1);
         continue;
       }
-      const cell = before.state * k + after.state;
+      const cell = state[n - 1]! * k + state[n]!;
       counts[cell] += 1;
       // The earliest line in the file, whatever order the sites are visited in.
-      if (firstLine[cell] === 0 || after.line < firstLine[cell]!) firstLine[cell] = after.line;
-      cells.set(cell, (cells.get(cell) ?? 0) + 1);
+      if (firstLine[cell] === 0 || line[n]! < firstLine[cell]!) firstLine[cell] = line[n]!;
+      if (siteCells[cell]++ === 0) touched.push(cell);
       transitions += 1;
-      const period = periods.get(before.time) ?? new Map<number, number>();
-      period.set(cell, (period.get(cell) ?? 0) + 1);
-      periods.set(before.time, period);
-      const earlier = ordered[n - 2];
-      if (earlier && before.time - earlier.time === step) {
-        const triple = (earlier.state * k + before.state) * k + after.state;
-        triples.set(triple, (triples.get(triple) ?? 0) + 1);
-      }
+      let period = periods.get(time[n - 1]!);
+      if (period === undefined) periods.set(time[n - 1]!, period = new Float64Array(k * k));
+      period[cell] += 1;
+      if (n - 2 >= a && time[n - 1]! - time[n - 2]! === step) triples[state[n - 2]! * k * k + cell] += 1;
     }
-    const group = ordered[0]!.group;
-    const sparse = sparseCells(cells, k);
-    sites.push(group === undefined ? { site, cells: sparse } : { site, group, cells: sparse });
+    touched.sort((x, y) => x - y);
+    for (const cell of touched) {
+      sites.cell(cell, siteCells[cell]!);
+      siteCells[cell] = 0;
+    }
+    touched.length = 0;
+    sites.endSite(table.sites[site[a]!]!, rows.group && table.groups ? table.groups[rows.group[a]!]! : undefined);
+    a = b;
   }
-  const skippedList = [...skipped.entries()].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  const skippedList = [...skipped.entries()].sort((x, y) => x[0] - y[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  const tripleList: (readonly [number, number, number, number])[] = [];
+  triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
   return {
-    k, counts, sites, transitions, skipped: skippedList, firstLine,
-    triples: [...triples.entries()].sort((a, b) => a[0] - b[0])
-      .map(([c, n]) => [Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n] as const),
-    periods: [...periods.entries()].sort((a, b) => a[0] - b[0]).map(([time, m]) => ({ time, cells: sparseCells(m, k) })),
+    k, counts, sites: sites.table(), transitions, skipped: skippedList, firstLine, triples: tripleList,
+    periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
   };
 }
 
-function sparseCells(cells: Map<number, number>, k: number): [number, number, number][] {
-  return [...cells.entries()].sort((a, b) => a[0] - b[0]).map(([cell, n]) => [Math.floor(cell / k), cell % k, n]);
+function sparseCells(dense: Float64Array, k: number): [number, number, number][] {
+  const cells: [number, number, number][] = [];
+  dense.forEach((n, cell) => { if (n > 0) cells.push([Math.floor(cell / k), cell % k, n]); });
+  return cells;
 }
 
-/**
- * Sites in code-point order of their ids, not in order of appearance: the site bootstrap draws
- * sites by position in this list, so with the same seed a table with its rows shuffled must give
- * the same list, and the same draws.
- */
-function groupBySite(records: readonly SurveyRecord[]): Map<string, SurveyRecord[]> {
-  const bySite = new Map<string, SurveyRecord[]>();
-  for (const r of records) {
-    const list = bySite.get(r.site);
-    if (list) list.push(r);
-    else bySite.set(r.site, [r]);
-  }
-  return new Map([...bySite.entries()].sort((a, b) => compareCodePoints(a[0], b[0])));
-}
+export { compareCodePoints } from '../data/code-points.js';
 
-/**
- * Code-point order. JavaScript's default sort compares UTF-16 code units, which puts characters
- * beyond U+FFFF before U+E000–U+FFFF; code points give the order other tools (and UTF-8 bytes) give.
- */
-export function compareCodePoints(a: string, b: string): number {
-  const x = a[Symbol.iterator]();
-  const y = b[Symbol.iterator]();
-  for (;;) {
-    const p = x.next();
-    const q = y.next();
-    if (p.done || q.done) return p.done ? (q.done ? 0 : -1) : 1;
-    const d = p.value.codePointAt(0)! - q.value.codePointAt(0)!;
-    if (d !== 0) return d;
-  }
-}
-
-/** Sum sparse per-site cells back into a dense k×k table (the counts of any set of sites add up). */
-export function addSiteCells(target: Float64Array, k: number, cells: SiteCounts['cells'], weight = 1): void {
+/** Sum sparse cells (a period's, a site's in a fit file) into a dense k×k table. */
+export function addSiteCells(target: Float64Array, k: number, cells: readonly (readonly [number, number, number])[], weight = 1): void {
   for (const [i, j, n] of cells) target[i * k + j] += weight * n;
 }
 

@@ -41,7 +41,8 @@ export function registerFit(program: Command, io: Io): void {
       const settings = fitSettingsFrom(opts);
       const fit = fitSurvey(readSurveyCsv(file, { columns: settings.columns, states: opts.states }), settings);
       const estimates = estimateFit(fit, opts.level);
-      const json = JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n';
+      // The JSON only when it is printed or written: with 10⁶ sites it took 0.9 s (measured on 10⁷ rows).
+      const json = opts.json || opts.out ? JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n' : '';
       // Everything printed is made before anything is written: a failure leaves no file behind.
       const printed = opts.json ? json : fitTable(fit, estimates, makeStyle(io.color), longRunUnderPriors(fit));
       if (opts.out) {

@@ -47,9 +47,14 @@ export interface LabelProblem {
   readonly hint: string;
 }
 
-/** Why a (normalised) label cannot be used, or undefined when it can. */
-export function labelProblem(label: string, role: string): LabelProblem | undefined {
+/**
+ * Why a (normalised) label cannot be used, or undefined when it can. `role` names the label in the
+ * message; give a function when making it costs (a million site ids are checked on reading).
+ */
+export function labelProblem(label: string, role: string | (() => string)): LabelProblem | undefined {
   const invisible = INVISIBLE.exec(label);
+  if (invisible === null && label.length <= MAX_LABEL_LENGTH) return undefined;
+  if (typeof role === 'function') role = role();
   if (invisible) {
     const position = [...label.slice(0, invisible.index)].length + 1;
     return {

@@ -26,6 +26,11 @@ export function formatKeyPath(path: KeyPath): string {
  */
 export function readStructured<T>(file: string, schema: z.ZodType<T>, what: string, code: ErrorCode): Structured<T> {
   const { text, sha256 } = readTextFile(file, what);
+  return structuredFromText(file, text, sha256, schema, what, code);
+}
+
+/** readStructured on text already read. */
+export function structuredFromText<T>(file: string, text: string, sha256: string, schema: z.ZodType<T>, what: string, code: ErrorCode): Structured<T> {
   const lineCounter = new LineCounter();
   const doc = parseDocument(text, { lineCounter, prettyErrors: true, uniqueKeys: true });
   const syntax = doc.errors[0];
@@ -47,6 +52,13 @@ export function readStructured<T>(file: string, schema: z.ZodType<T>, what: stri
       keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
   return { value: restoreProtoKeys(parsed.data), sha256, locate };
+}
+
+/** file:line:column of key paths in a text, parsed by the yaml library (only when asked). */
+export function yamlLocator(file: string, text: string): (path: KeyPath) => Place {
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, uniqueKeys: true });
+  return (path) => locateIn(doc, lineCounter, file, path);
 }
 
 /**

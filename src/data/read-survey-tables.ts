@@ -1,8 +1,11 @@
 import { createHash } from 'node:crypto';
 import { SereError, quote } from '../errors.js';
+import { sortByCodePoints } from './code-points.js';
 import { firstDifference, lookAlikeKey, MAX_STATES } from './labels.js';
+import { orderRows, type GivenRow } from './order-rows.js';
 import { readSurveyCsv, type ReadSurveyOptions } from './read-survey-csv.js';
-import type { SurveyRecord, SurveyTable } from './survey.js';
+import { RowStore } from './row-store.js';
+import type { SurveyTable } from './survey.js';
 
 /**
  * Several survey tables read as one — typically one file per season, the same sites surveyed
@@ -37,29 +40,52 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
       byKey.set(lookAlikeKey(s), s);
     }
   }
-  const stateIndex = new Map(states.map((s, i) => [s, i] as const));
-  const seen = new Map<string, { file: string; record: SurveyRecord; label: string }>();
-  const records: SurveyRecord[] = [];
-  let repeatedRows = 0;
-  tables.forEach((table) => {
-    for (const r of table.records) {
-      const label = table.states[r.state]!;
-      const record = { ...r, state: stateIndex.get(label)! };
-      const key = `${r.site}\u0000${r.time}`;
-      const first = seen.get(key);
-      if (!first) {
-        seen.set(key, { file: table.file, record, label });
-        records.push(record);
-      } else if (first.label !== label) {
-        throw new SereError('DUPLICATE_SURVEY',
-          `site ${quote(r.site)} at time ${r.time} is ${quote(label)} here but ${quote(first.label)} in ${first.file} line ${first.record.line}`,
-          { file: table.file, line: r.line }, 'keep one of the two rows');
-      } else {
-        repeatedRows += 1;
-      }
-    }
-    repeatedRows += table.repeatedRows;
-  });
+  const { table, conflict } = concatenate(tables, states);
+  if (conflict) {
+    const { later, first } = conflict;
+    throw new SereError('DUPLICATE_SURVEY',
+      `site ${quote(table.sites[later.row.site]!)} at time ${later.row.time} is ${quote(states[later.row.state]!)} here but ${quote(states[first.row.state]!)} in ${first.file} line ${first.row.line}`,
+      { file: later.file, line: later.row.line }, 'keep one of the two rows');
+  }
   const sha256 = createHash('sha256').update(tables.map((t) => t.sha256).join('\n')).digest('hex');
-  return { file: files.join(', '), states, records, repeatedRows, sha256 };
+  return { ...table, file: files.join(', '), sha256 };
+}
+
+interface RowAt { readonly file: string; readonly row: GivenRow }
+
+/**
+ * The tables' rows as one table: sites, states and groups renumbered into their unions, every
+ * (site, time) kept once — the first file's row — and the first contradiction found, by file and
+ * then line.
+ */
+function concatenate(tables: readonly SurveyTable[], states: readonly string[]): { table: SurveyTable; conflict?: { first: RowAt; later: RowAt } } {
+  const sites = sortByCodePoints([...new Set(tables.flatMap((t) => t.sites))]);
+  const siteIndex = new Map(sites.map((s, i) => [s, i] as const));
+  const stateIndex = new Map(states.map((s, i) => [s, i] as const));
+  const grouped = tables.every((t) => t.groups !== undefined);
+  const groups = grouped ? [...new Set(tables.flatMap((t) => t.groups!))] : undefined;
+  const groupIndex = new Map(groups?.map((g, i) => [g, i] as const));
+  const store = new RowStore(grouped);
+  store.reserve(tables.reduce((n, t) => n + t.rows.count, 0));
+  const fileOf: number[] = [];
+  tables.forEach((t) => {
+    const site = Int32Array.from(t.sites, (s) => siteIndex.get(s)!);
+    const state = Uint8Array.from(t.states, (s) => stateIndex.get(s)!);
+    const group = Int32Array.from(t.groups ?? [], (g) => groupIndex.get(g)!);
+    const r = t.rows;
+    for (let n = 0; n < r.count; n++) store.push(site[r.site[n]!]!, r.time[n]!, state[r.state[n]!]!, r.line[n]!, r.group ? group[r.group[n]!]! : 0);
+    fileOf.push(store.count);
+  });
+  const file = (row: number): number => fileOf.findIndex((end) => row < end);
+  const earlier = (a: number, b: number): boolean => {
+    const fa = file(a);
+    const fb = file(b);
+    return fa !== fb ? fa < fb : store.line[a]! < store.line[b]!;
+  };
+  const ordered = orderRows(store, sites.length, earlier);
+  const repeatedRows = ordered.repeated + tables.reduce((n, t) => n + t.repeatedRows, 0);
+  const table: SurveyTable = { file: '', states, sites, rows: ordered.rows, repeatedRows, sha256: '', ...(groups ? { groups } : {}) };
+  if (!ordered.conflict) return { table };
+  const at = (row: GivenRow): RowAt => ({ file: tables[file(row.index)]!.file, row });
+  return { table, conflict: { first: at(ordered.conflict.first), later: at(ordered.conflict.later) } };
 }

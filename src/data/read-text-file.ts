@@ -15,6 +15,24 @@ export interface TextFile {
  * instead of a parser's confusion — or, for a pipe or /dev/zero, instead of waiting forever.
  */
 export function readTextFile(file: string, what: string): TextFile {
+  checkRegularFile(file, what);
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(file);
+  } catch {
+    throw cannotRead(file, what);
+  }
+  if (bytes.includes(0)) throw notText(file, what);
+  if (!isUtf8(bytes)) {
+    const at = firstInvalidUtf8(bytes);
+    throw notUtf8(file, what, bytes[at]!, lineAndColumn(bytes, at));
+  }
+  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  return { file, text: bytes.toString('utf8'), sha256 };
+}
+
+/** A regular file, or the error that says what it is instead. */
+export function checkRegularFile(file: string, what: string): void {
   // stat before opening: opening a FIFO for reading blocks until a writer appears.
   let stats: Stats;
   try {
@@ -25,24 +43,22 @@ export function readTextFile(file: string, what: string): TextFile {
   if (!stats.isFile()) {
     throw new SereError('NOT_A_FILE', `is ${kindOf(stats)}, not a ${what}`, { file }, `name the ${what} itself (a regular file)`);
   }
-  let bytes: Buffer;
-  try {
-    bytes = readFileSync(file);
-  } catch {
-    throw new SereError('FILE_NOT_FOUND', `cannot read the ${what}`, { file }, 'check the path and its permissions');
-  }
-  if (bytes.includes(0)) {
-    throw new SereError('FILE_NOT_TEXT', `is not a text file (it holds binary data)`, { file },
-      `save the ${what} as plain text (for a spreadsheet: "Save as CSV")`);
-  }
-  if (!isUtf8(bytes)) {
-    // Decoding leniently would turn each bad byte into U+FFFD and make 'café' in Latin-1 a new state.
-    const at = firstInvalidUtf8(bytes);
-    throw new SereError('NOT_UTF8', `holds bytes that are not UTF-8 text (byte 0x${bytes[at]!.toString(16).padStart(2, '0')})`,
-      { file, ...lineAndColumn(bytes, at) }, `save the ${what} with UTF-8 encoding (in a spreadsheet: "CSV UTF-8")`);
-  }
-  const sha256 = createHash('sha256').update(bytes).digest('hex');
-  return { file, text: bytes.toString('utf8'), sha256 };
+}
+
+export function cannotRead(file: string, what: string): SereError {
+  return new SereError('FILE_NOT_FOUND', `cannot read the ${what}`, { file }, 'check the path and its permissions');
+}
+
+/** A file with NUL bytes: a spreadsheet workbook, an image. */
+export function notText(file: string, what: string): SereError {
+  return new SereError('FILE_NOT_TEXT', `is not a text file (it holds binary data)`, { file },
+    `save the ${what} as plain text (for a spreadsheet: "Save as CSV")`);
+}
+
+/** Decoding leniently would turn each bad byte into U+FFFD and make 'café' in Latin-1 a new state. */
+export function notUtf8(file: string, what: string, byte: number, at: { line: number; column: number }): SereError {
+  return new SereError('NOT_UTF8', `holds bytes that are not UTF-8 text (byte 0x${byte.toString(16).padStart(2, '0')})`,
+    { file, ...at }, `save the ${what} with UTF-8 encoding (in a spreadsheet: "CSV UTF-8")`);
 }
 
 function kindOf(stats: Stats): string {
@@ -76,7 +92,7 @@ export function firstInvalidUtf8(bytes: Uint8Array): number {
 }
 
 /** 1-based line and column (in characters of the valid text before it) of a byte offset. */
-function lineAndColumn(bytes: Buffer, offset: number): { line: number; column: number } {
+export function lineAndColumn(bytes: Buffer, offset: number): { line: number; column: number } {
   const before = bytes.subarray(0, offset);
   const lineStart = before.lastIndexOf(0x0a) + 1;
   let line = 1;

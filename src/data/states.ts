@@ -1,10 +1,8 @@
 import { SereError, quote, type Place } from '../errors.js';
 import { firstDifference, labelProblem, lookAlikeKey, MAX_STATES, normaliseLabel } from './labels.js';
 
-export interface StateResolver {
-  readonly states: readonly string[];
-  indexOf(label: string): number;
-}
+/** The provisional id of a label that is not among the declared states (an error at the end). */
+export const UNKNOWN = 255;
 
 interface Label {
   /** Already NFC-normalised by the reader. */
@@ -13,54 +11,85 @@ interface Label {
   readonly column: number;
 }
 
-/**
- * Fix the list of states. Declared states keep the user's order and any other label is an error;
- * otherwise states are the distinct labels, sorted, and two that differ only by case or by
- * look-alike characters are an error. Labels with invisible characters are refused either way.
- */
-export function resolveStates(file: string, labels: readonly Label[], declared?: readonly string[], minStates = 2,
-  declaredAt: Place = FLAG_PLACE): StateResolver {
-  const distinct = distinctLabels(file, labels, declared === undefined);
-  const states = declared ? checkDeclared(declared, declaredAt) : inferStates(file, distinct, minStates);
-  const where = declaredAt.path ?? '--states';
-  const index = new Map(states.map((s, i) => [s, i] as const));
-  if (declared) {
-    for (const { label, line, column } of distinct.values()) {
-      if (index.has(label)) continue;
-      const near = states.find((s) => lookAlikeKey(s) === lookAlikeKey(label));
-      const what = near
-        ? `state ${quote(label)} differs from the declared state ${quote(near)} only by case, spacing or look-alike characters`
-        : `unknown state ${quote(label)} (declared: ${states.map(quote).join(', ')})`;
-      throw new SereError('UNKNOWN_STATE', what, { file, line, column },
-        near ? `spell it ${quote(near)}` : `add ${quote(label)} to ${where} or correct the row`);
-    }
-  }
-  return {
-    states,
-    indexOf(label: string): number {
-      const i = index.get(label);
-      if (i === undefined) throw new Error(`internal: state ${quote(label)} was not resolved`);
-      return i;
-    },
-  };
+export interface ResolvedStates {
+  readonly states: readonly string[];
+  /** Provisional id (in order of first appearance, or the declared index) → index into `states`. */
+  readonly index: Uint8Array;
 }
 
-/** Each distinct label with where it first appears; each checked once, in file order. */
-function distinctLabels(file: string, labels: readonly Label[], inferring: boolean): Map<string, Label> {
-  const firstSeen = new Map<string, Label>();
-  for (const l of labels) {
-    if (firstSeen.has(l.label)) continue;
-    const problem = labelProblem(l.label, `state ${quote(l.label)}`);
-    if (problem) throw new SereError(problem.code, problem.what, { file, line: l.line, column: l.column }, problem.hint);
-    firstSeen.set(l.label, l);
-    // Stop at once rather than build a 10,000-state chain: usually the wrong column is named.
-    if (inferring && firstSeen.size > MAX_STATES) {
-      throw new SereError('TOO_MANY_STATES', `more than ${MAX_STATES} different states (this is state ${MAX_STATES + 1}: ${quote(l.label)})`,
-        { file, line: l.line, column: l.column },
-        `merge states into at most ${MAX_STATES} classes, or name the column that holds the states with --state-column`);
+/**
+ * Fix the list of states as the rows stream past, one distinct label at a time. Declared states
+ * keep the user's order and any other label is an error; otherwise states are the distinct labels,
+ * sorted, and two that differ only by case or by look-alike characters are an error. Labels with
+ * invisible characters are refused either way.
+ *
+ * `see` throws at the first bad label in file order (as it appears for the first time) and at the
+ * 101st distinct label when inferring; `finish` throws the errors that need every label.
+ */
+export class StateLabels {
+  private readonly distinct = new Map<string, number>();
+  private readonly firstSeen: Label[] = [];
+  private readonly declared?: readonly string[];
+  private readonly declaredIndex?: Map<string, number>;
+  private readonly declaredError?: unknown;
+  private firstUnknown?: Label;
+
+  constructor(private readonly file: string, declared: readonly string[] | undefined, private readonly minStates = 2,
+    private readonly declaredAt: Place = FLAG_PLACE) {
+    if (declared === undefined) return;
+    try {
+      this.declared = checkDeclared(declared, declaredAt);
+      this.declaredIndex = new Map(this.declared.map((s, i) => [s, i] as const));
+    } catch (err) {
+      // An option error ranks after the labels' own problems (as when all labels were checked first).
+      this.declaredError = err;
+      this.declared = [];
     }
   }
-  return firstSeen;
+
+  /** The provisional id of a normalised label seen for the first time at line and column. */
+  see(label: string, line: number, column: number): number {
+    const known = this.distinct.get(label);
+    if (known !== undefined) return known;
+    const problem = labelProblem(label, () => `state ${quote(label)}`);
+    if (problem) throw new SereError(problem.code, problem.what, { file: this.file, line, column }, problem.hint);
+    let id: number;
+    if (this.declared) {
+      id = this.declaredIndex?.get(label) ?? UNKNOWN;
+      if (id === UNKNOWN && this.firstUnknown === undefined) this.firstUnknown = { label, line, column };
+    } else {
+      id = this.firstSeen.length;
+      // Stop at once rather than build a 10,000-state chain: usually the wrong column is named.
+      if (id >= MAX_STATES) {
+        throw new SereError('TOO_MANY_STATES', `more than ${MAX_STATES} different states (this is state ${MAX_STATES + 1}: ${quote(label)})`,
+          { file: this.file, line, column },
+          `merge states into at most ${MAX_STATES} classes, or name the column that holds the states with --state-column`);
+      }
+      this.firstSeen.push({ label, line, column });
+    }
+    this.distinct.set(label, id);
+    return id;
+  }
+
+  finish(): ResolvedStates {
+    if (this.declaredError !== undefined) throw this.declaredError;
+    if (this.declared) {
+      const unknown = this.firstUnknown;
+      if (unknown) {
+        const states = this.declared;
+        const near = states.find((s) => lookAlikeKey(s) === lookAlikeKey(unknown.label));
+        const what = near
+          ? `state ${quote(unknown.label)} differs from the declared state ${quote(near)} only by case, spacing or look-alike characters`
+          : `unknown state ${quote(unknown.label)} (declared: ${states.map(quote).join(', ')})`;
+        throw new SereError('UNKNOWN_STATE', what, { file: this.file, line: unknown.line, column: unknown.column },
+          near ? `spell it ${quote(near)}` : `add ${quote(unknown.label)} to ${this.declaredAt.path ?? '--states'} or correct the row`);
+      }
+      return { states: this.declared, index: Uint8Array.from(this.declared, (_, i) => i) };
+    }
+    const states = inferStates(this.file, this.firstSeen, this.minStates);
+    const at = new Map(states.map((s, i) => [s, i] as const));
+    return { states, index: Uint8Array.from(this.firstSeen, (l) => at.get(l.label)!) };
+  }
 }
 
 /** Where declared states come from when the caller does not say: the command-line flag. */
@@ -92,15 +121,15 @@ function checkDeclared(declared: readonly string[], place: Place): readonly stri
   return states;
 }
 
-function inferStates(file: string, distinct: ReadonlyMap<string, Label>, minStates: number): readonly string[] {
+function inferStates(file: string, distinct: readonly Label[], minStates: number): readonly string[] {
   const byKey = new Map<string, Label>();
-  for (const l of distinct.values()) {
+  for (const l of distinct) {
     const key = lookAlikeKey(l.label);
     const clash = byKey.get(key);
     if (clash) throw lookAlikeError(file, l, clash);
     byKey.set(key, l);
   }
-  const states = [...distinct.keys()].sort();
+  const states = distinct.map((l) => l.label).sort();
   if (states.length < minStates) {
     throw new SereError('TOO_FEW_STATES', `every site is in the same state (${quote(states[0] ?? '')})`, { file },
       'a chain needs surveys that record at least two different states');

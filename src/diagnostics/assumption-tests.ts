@@ -1,7 +1,8 @@
 import { chiSquareUpperTail } from '../chain/chi-square.js';
 import { stratifiedIndependence, type Table } from '../chain/contingency.js';
 import { homogeneity, orderOneVsTwo, orderSelection, orderZeroVsOne, type OrderFit } from '../chain/markov-tests.js';
-import type { PeriodCounts, SiteCounts } from '../chain/counts.js';
+import type { PeriodCounts } from '../chain/counts.js';
+import type { SiteCountTable } from '../chain/site-counts.js';
 import { fitMask, type Fit } from '../fit/fit.js';
 import { bootstrapPValue } from '../uncertainty/bootstrap-p-value.js';
 import type { RandomStream } from '../uncertainty/random.js';
@@ -116,9 +117,9 @@ function groupPeriods(periods: readonly PeriodCounts[], step: number, ranges?: r
   })).filter((g) => g.cells.length > 0);
 }
 
-function groupSites(sites: readonly SiteCounts[]): { label: string; cells: Cells }[] {
+function groupSites(sites: SiteCountTable): { label: string; cells: Cells }[] {
   const byGroup = new Map<string, Cells>();
-  for (const s of sites) {
+  for (const s of sites.toJSON()) {
     if (s.group === undefined) continue;
     const list = byGroup.get(s.group) ?? [];
     list.push(...(s.cells as Cells));

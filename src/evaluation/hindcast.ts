@@ -1,4 +1,5 @@
 import type { SurveyTable } from '../data/survey.js';
+import { recordsOf, selectRows } from '../data/survey-rows.js';
 import { fitSurvey } from '../fit/fit.js';
 import type { FitSettings } from '../fit/settings.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
@@ -36,14 +37,14 @@ export interface HindcastSettings {
 export function hindcast(table: SurveyTable, settings: FitSettings, options: HindcastSettings):
   { cases: HindcastCase[]; summary: HindcastSummary[]; originsLeftOut: number } {
   const k = table.states.length;
-  const observed = observedMixes(table.records, k);
+  const observed = observedMixes(table.rows, k);
   const every = [...observed.keys()];
   // Each origin refits the chain on the surveys before it: a long series (thousands of survey
   // times) is hindcast from its most recent origins only, which is where the trust matters.
   const times = every.slice(-LIMITS.hindcastOrigins);
   const cases: HindcastCase[] = [];
   for (const origin of times) {
-    const past = { ...table, records: table.records.filter((r) => r.time <= origin) };
+    const past = selectRows(table, (n) => table.rows.time[n]! <= origin);
     let fit;
     try {
       fit = fitSurvey(past, settings);
@@ -55,7 +56,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       if (!observed.has(target)) continue;
       const random = options.random.stream(`hindcast:${origin}:${steps}`);
       const matrices = drawMatrices(fit, 'posterior', options.draws, random.stream('matrices'));
-      const scored = scoreSites(matrices, table.records,
+      const scored = scoreSites(matrices, recordsOf(table),
         { origin, target, step: settings.step, originCounts: observed.get(origin)!.counts, level: options.level }, random.stream('sites'));
       if (scored) cases.push({ origin, target, steps, ...scored });
     }

@@ -1,7 +1,8 @@
 import { quote } from '../errors.js';
 import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
-import { addSiteCells, compareCodePoints, type SiteCounts } from '../chain/counts.js';
+import { addSiteCells, compareCodePoints } from '../chain/counts.js';
+import { SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
 
 /** Report one broken invariant at a key path; never returns. */
@@ -12,7 +13,7 @@ export interface CheckedFitFile {
   readonly states: readonly string[];
   readonly impossible: readonly (readonly [string, string])[];
   readonly counts: Float64Array;
-  readonly sites: readonly SiteCounts[];
+  readonly sites: SiteCountTable;
   readonly transitions: number;
 }
 
@@ -120,13 +121,13 @@ function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
   if (total !== latest.sites) fail(`latest.counts add up to ${total} sites, but latest.sites is ${latest.sites}`, ['latest', 'sites']);
 }
 
-function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCounts[] {
+function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable {
   const seen = new Map<string, number>();
   const fromSites = new Float64Array(k * k);
   const grouped = f.group_column !== undefined && f.group_column !== null;
-  const sites = f.site_counts.map((s, n): SiteCounts => {
+  const sites = f.site_counts.map((s, n): SiteCountsJson => {
     const site = normaliseLabel(s.site);
-    const problem = labelProblem(site, `site ${quote(site)}`);
+    const problem = labelProblem(site, () => `site ${quote(site)}`);
     if (problem) fail(problem.what, ['site_counts', n, 'site'], problem.hint);
     const first = seen.get(site);
     if (first !== undefined) fail(`site ${quote(site)} is listed twice (also site_counts[${first}])`, ['site_counts', n, 'site']);
@@ -140,7 +141,7 @@ function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): Si
   });
   if (fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
   // The bootstrap draws sites by position: the canonical order makes a reordered file give the same draws.
-  return sites.sort((a, b) => compareCodePoints(a.site, b.site));
+  return SiteCountTable.fromList(k, sites.sort((a, b) => compareCodePoints(a.site, b.site)));
 }
 
 function checkPeriods(f: FitFile, k: number, counts: Float64Array, fail: Fail): void {

@@ -3,6 +3,7 @@ import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
+import { groupsWithRows, selectRows } from '../data/survey-rows.js';
 import { fitSurvey, type Fit } from './fit.js';
 import { loadFit } from './load-fit.js';
 import type { FitSettings } from './settings.js';
@@ -22,15 +23,15 @@ export function groupOf(table: SurveyTable, group: string, column: string | unde
     throw new SereError('BAD_OPTION', `fitting group ${quote(group)} needs a group column`, { file: table.file },
       'name the column that holds the groups (columns.group in a scenario, --group-column or --by on the command line)');
   }
-  const records = table.records.filter((r) => r.group === group);
-  if (records.length === 0) {
-    const groups = [...new Set(table.records.map((r) => r.group))].sort().join(', ');
-    throw new SereError('BAD_OPTION', `no rows with ${column} = ${quote(group)}`, { file: table.file }, `use one of: ${groups}`);
+  const g = table.groups?.indexOf(group) ?? -1;
+  const selected = g < 0 ? undefined : selectRows(table, (n) => table.rows.group![n] === g);
+  if (selected === undefined || selected.rows.count === 0) {
+    throw new SereError('BAD_OPTION', `no rows with ${column} = ${quote(group)}`, { file: table.file }, `use one of: ${groupsOf(table).join(', ')}`);
   }
-  return { ...table, records };
+  return selected;
 }
 
 /** The distinct groups of a table, sorted. */
 export function groupsOf(table: SurveyTable): string[] {
-  return [...new Set(table.records.flatMap((r) => (r.group === undefined ? [] : [r.group])))].sort();
+  return groupsWithRows(table);
 }

@@ -1,6 +1,7 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
-import { countTransitions, likelyStep, type PeriodCounts, type SiteCounts, type SkippedPairs } from '../chain/counts.js';
+import { countTransitions, likelyStep, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import type { SiteCountTable } from '../chain/site-counts.js';
 import { latestSurveyedMix, surveyedMixes, type MixAtTime, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { maximumLikelihood, type PointEstimate } from '../chain/estimates.js';
@@ -20,7 +21,7 @@ export interface Fit {
   readonly impossible: readonly (readonly [string, string])[];
   /** Row-major k×k pooled counts, row = from. */
   readonly counts: Float64Array;
-  readonly sites: readonly SiteCounts[];
+  readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   readonly repeatedRows: number;
@@ -40,7 +41,7 @@ export interface Fit {
 export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
   const k = table.states.length;
   const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
-  const counted = countTransitions(table.records, k, settings.step);
+  const counted = countTransitions(table, k, settings.step);
   if (counted.transitions === 0) {
     const guess = likelyStep(counted.skipped);
     throw new SereError('NO_TRANSITIONS',
@@ -68,7 +69,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     }
   }
   let firstTime = Infinity;
-  for (const r of table.records) firstTime = Math.min(firstTime, r.time);
+  for (let n = 0; n < table.rows.count; n++) firstTime = Math.min(firstTime, table.rows.time[n]!);
   return {
     input: { file: table.file, sha256: table.sha256 },
     states: table.states,
@@ -80,13 +81,13 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     transitions: counted.transitions,
     skipped: counted.skipped,
     repeatedRows: table.repeatedRows,
-    surveys: table.records.length,
+    surveys: table.rows.count,
     firstTime,
-    latest: latestSurveyedMix(table.records, k),
+    latest: latestSurveyedMix(table.rows, k),
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,
-    history: surveyedMixes(table.records, k),
+    history: surveyedMixes(table.rows, k),
   };
 }
 

@@ -1,12 +1,13 @@
 import { SereError } from '../errors.js';
-import { readStructured, type KeyPath } from '../data/read-structured.js';
+import type { KeyPath } from '../data/read-structured.js';
+import { readJsonStructured } from '../data/read-json.js';
 import type { Fit } from './fit.js';
 import { fitFileSchema } from './fit-file-schema.js';
 import { checkFitFile } from './check-fit-file.js';
 
 /** Read a fit written by `sere fit --out`, checking every invariant the engine relies on (check-fit-file.ts). */
 export function loadFit(file: string): Fit {
-  const { value: f, locate } = readStructured(file, fitFileSchema, 'fit file', 'BAD_FIT_FILE');
+  const { value: f, locate } = readJsonStructured(file, fitFileSchema, 'fit file', 'BAD_FIT_FILE');
   const checked = checkFitFile(f, (what: string, path: KeyPath, hint = 'refit from the survey table with sere fit'): never => {
     throw new SereError('BAD_FIT_FILE', what, locate(path), hint);
   });

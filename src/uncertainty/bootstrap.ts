@@ -1,4 +1,3 @@
-import { addSiteCells } from '../chain/counts.js';
 import { fitMle, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
@@ -32,7 +31,7 @@ export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): M
   let emptyRows = 0;
   for (let d = 0; d < count; d++) {
     resampled.fill(0);
-    for (let s = 0; s < n; s++) addSiteCells(resampled, k, fit.sites[random.integer(n)]!.cells);
+    for (let s = 0; s < n; s++) fit.sites.addTo(resampled, random.integer(n));
     const base = d * k * k;
     for (let i = 0; i < k; i++) {
       let total = 0;

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
+import { recordsOf } from '../data/survey-rows.js';
 import { fitSurvey, type Fit } from '../fit/fit.js';
 import { groupOf } from '../fit/fit-from-file.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
@@ -97,7 +98,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
       'rerun the season instead of replaying it');
   }
   const scoring = scoresSeed === undefined ? undefined : randomStreams(scoresSeed);
-  const scores = earlier.flatMap((r) => scoreRecord(r, table, scoring!) ?? []);
+  const current = { states: table.states, records: recordsOf(table) };
+  const scores = earlier.flatMap((r) => scoreRecord(r, current, scoring!) ?? []);
 
   const inputs = new Map<string, string>();
   for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) inputs.set(rel, readFileSync(join(ws.root, rel), 'utf8'));

@@ -5,6 +5,7 @@ import { forecastJson } from '../../src/report/forecast-json.js';
 import { bootstrapDraws } from '../../src/uncertainty/bootstrap.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import { atLeast, fitWithCounts, mathjsProjection, scenarioFor } from '../helpers.js';
+import { SiteCountTable } from '../../src/chain/site-counts.js';
 
 const counts = [[40, 10, 0], [5, 30, 15], [0, 4, 36]];
 const fit = fitWithCounts(['bare', 'grass', 'shrub'], counts);
@@ -75,7 +76,7 @@ describe('runForecast', () => {
 describe('site bootstrap', () => {
   it('reproduces the MLE in every draw when all sites are alike', () => {
     const site = { site: 's', cells: [[0, 0, 3], [0, 1, 1], [1, 0, 2], [1, 1, 2]] as [number, number, number][] };
-    const f = { ...fitWithCounts(['a', 'b'], [[9, 3], [6, 6]]), sites: [site, { ...site, site: 't' }, { ...site, site: 'u' }] };
+    const f = { ...fitWithCounts(['a', 'b'], [[9, 3], [6, 6]]), sites: SiteCountTable.fromList(2, [site, { ...site, site: 't' }, { ...site, site: 'u' }]) };
     const d = bootstrapDraws(f, 50, randomStreams(4));
     for (let n = 0; n < 50; n++) expect(Array.from(d.data.subarray(n * 4, n * 4 + 4))).toEqual([0.75, 0.25, 0.5, 0.5]);
   });
@@ -83,7 +84,7 @@ describe('site bootstrap', () => {
   it('resamples whole sites: two unlike sites give at most three distinct matrices', () => {
     const one = { site: 'x', cells: [[0, 0, 4], [1, 1, 4], [1, 0, 1]] as [number, number, number][] };
     const two = { site: 'y', cells: [[0, 1, 4], [1, 1, 1], [1, 0, 1]] as [number, number, number][] };
-    const f = { ...fitWithCounts(['a', 'b'], [[4, 4], [2, 5]]), sites: [one, two] };
+    const f = { ...fitWithCounts(['a', 'b'], [[4, 4], [2, 5]]), sites: SiteCountTable.fromList(2, [one, two]) };
     const d = bootstrapDraws(f, 200, randomStreams(8));
     const distinct = new Set(Array.from({ length: 200 }, (_, n) => Array.from(d.data.subarray(n * 4, n * 4 + 4)).join(',')));
     expect(distinct.size).toBe(3);

@@ -5,6 +5,7 @@ import { bootstrapDraws, BOOTSTRAP_FEW_SITES } from '../../src/uncertainty/boots
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
+import { tableFromRecords } from '../../src/data/survey-rows.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { TRUE_MATRIX } from '../../scenarios/brenhollow/generate.js';
 
@@ -49,7 +50,7 @@ function coverage(sites: number, histories: number, random: RandomStream): { boo
         state = next;
       }
     }
-    const fit = fitSurvey({ file: 'sim', states: ['a', 'b', 'c', 'd', 'e'], records, repeatedRows: 0, sha256: '' }, DEFAULT_FIT_SETTINGS);
+    const fit = fitSurvey(tableFromRecords('sim', ['a', 'b', 'c', 'd', 'e'], records), DEFAULT_FIT_SETTINGS);
     const start = fit.latest.shares;
     const truth = project(P, 0, start);
     const inside = (draws: MatrixDraws): number => {
@@ -84,10 +85,9 @@ describe('site bootstrap coverage with few sites (the figures behind its warning
   });
 
   it(`notes the caution below ${BOOTSTRAP_FEW_SITES} sites, and not at or above it`, () => {
-    const fitOf = (sites: number) => fitSurvey({
-      file: 'f', states: ['a', 'b'], repeatedRows: 0, sha256: '',
-      records: Array.from({ length: sites * 2 }, (_, n) => ({ site: `s${Math.floor(n / 2)}`, time: n % 2, state: (n * 7) % 3 === 0 ? 1 : 0, line: n + 2 })),
-    }, DEFAULT_FIT_SETTINGS);
+    const fitOf = (sites: number) => fitSurvey(tableFromRecords('f', ['a', 'b'],
+      Array.from({ length: sites * 2 }, (_, n) => ({ site: `s${Math.floor(n / 2)}`, time: n % 2, state: (n * 7) % 3 === 0 ? 1 : 0, line: n + 2 }))),
+    DEFAULT_FIT_SETTINGS);
     expect(bootstrapDraws(fitOf(BOOTSTRAP_FEW_SITES - 1), 10, randomStreams(1)).notes.some((n) => n.includes('site bootstrap rests on only'))).toBe(true);
     expect(bootstrapDraws(fitOf(BOOTSTRAP_FEW_SITES), 10, randomStreams(1)).notes.some((n) => n.includes('site bootstrap rests on only'))).toBe(false);
   });

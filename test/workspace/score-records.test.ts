@@ -1,3 +1,4 @@
+import { tableFromRecords } from '../../src/data/survey-rows.js';
 import { describe, expect, it } from 'vitest';
 import { scoreRecord } from '../../src/workspace/score-records.js';
 import { fitSurvey } from '../../src/fit/fit.js';
@@ -8,7 +9,7 @@ import { simulatedSurveys } from '../helpers.js';
 describe('scoring an earlier record with its own chain', () => {
   const truth = [[0.8, 0.15, 0.05], [0.1, 0.75, 0.15], [0.05, 0.1, 0.85]];
   const table = simulatedSurveys(randomStreams(7).stream('surveys'), truth, 40, 7); // 2000 … 2006
-  const chain = fitSurvey({ ...table, records: table.records.filter((r) => r.time <= 2003) }, DEFAULT_FIT_SETTINGS);
+  const chain = fitSurvey(tableFromRecords(table.file, table.states, table.records.filter((r) => r.time <= 2003)), DEFAULT_FIT_SETTINGS);
   const forecasts = [
     { name: 'plain', start: { year: 2003, from: 'latest' }, treatments: [], events: [] },
     { name: 'with a storm', start: { year: 2003, from: 'latest' }, treatments: [], events: [{}] },

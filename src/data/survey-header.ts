@@ -1,0 +1,43 @@
+import { SereError, quote } from '../errors.js';
+import { normaliseLabel } from './labels.js';
+import type { SurveyColumns } from './survey.js';
+
+/** Which field of a row holds what. */
+export type ColumnIndex = { site: number; time: number; state: number; group?: number };
+
+/** The columns named in a header row (fields as read), or the error that says which is missing or repeated. */
+export function columnIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns): ColumnIndex {
+  const header = fields.map(normaliseLabel);
+  const seen = new Set<string>();
+  header.forEach((name, at) => {
+    // Which of two 'state' columns holds the states? Refuse rather than guess. Empty names (trailing
+    // commas from a spreadsheet) cannot be asked for, so they may repeat.
+    if (name !== '' && seen.has(name)) {
+      throw new SereError('DUPLICATE_COLUMN', `column ${quote(name)} appears twice in the header (columns ${header.indexOf(name) + 1} and ${at + 1})`,
+        { file, line, column: at + 1 }, 'rename or remove one of the two columns');
+    }
+    seen.add(name);
+  });
+  const find = (role: string, wanted: string): number => {
+    const name = normaliseLabel(wanted);
+    const at = header.indexOf(name);
+    if (at < 0) {
+      const found = header.map(quote).join(', ');
+      // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
+      const semicolons = header.length === 1 && header[0]!.includes(';');
+      throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (header has ${found})`,
+        { file, line },
+        semicolons
+          ? 'the file uses semicolons; save it with commas between values'
+          : `add a ${quote(name)} column, or name the column that holds the ${role} with --${role}-column`);
+    }
+    return at;
+  };
+  const index: ColumnIndex = {
+    site: find('site', columns.site),
+    time: find('time', columns.time),
+    state: find('state', columns.state),
+  };
+  if (columns.group !== undefined) index.group = find('group', columns.group);
+  return index;
+}
