@@ -1,5 +1,6 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
+import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
 import { countTransitions, likelyStep, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
 import type { SiteCountTable } from '../chain/site-counts.js';
 import { latestSurveyedMix, surveyedMixes, type MixAtTime, type SurveyedMix } from '../chain/latest-mix.js';
@@ -25,6 +26,8 @@ export interface Fit {
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   readonly repeatedRows: number;
+  /** Rare labels that look like slips for common ones (a warning; not kept in fit files). */
+  readonly typos?: readonly LikelyTypo[];
   readonly surveys: number;
   readonly firstTime: number;
   readonly latest: SurveyedMix;
@@ -81,6 +84,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     transitions: counted.transitions,
     skipped: counted.skipped,
     repeatedRows: table.repeatedRows,
+    typos: likelyTypos(table),
     surveys: table.rows.count,
     firstTime,
     latest: latestSurveyedMix(table.rows, k),

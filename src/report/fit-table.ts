@@ -13,6 +13,10 @@ export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
   const lines = fit.skipped.map(({ gap, pairs }) =>
     style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
   if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
+  for (const t of fit.typos ?? []) {
+    lines.push(style.yellow(`check state '${t.label}' (${count(t.rows, 'row')}, first on line ${t.line}): a slip for '${t.near}' ` +
+      `(${count(t.nearRows, 'row')})? Correct it, or declare the states with --states if both are real`));
+  }
   return lines;
 }
 
