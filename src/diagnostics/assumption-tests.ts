@@ -112,7 +112,8 @@ type Cells = [number, number, number][];
 function groupPeriods(periods: readonly PeriodCounts[], step: number, ranges?: readonly (readonly [number, number])[]): { label: string; cells: Cells }[] {
   if (!ranges) return periods.map((p) => ({ label: `${p.time}→${p.time + step}`, cells: [...p.cells] as Cells }));
   return ranges.map(([a, b]) => ({
-    label: `${a}–${b + step}`,
+    // The range as typed (start years), then the last survey its transitions reach.
+    label: `${a}–${b} (to ${b + step})`,
     cells: periods.filter((p) => p.time >= a && p.time <= b).flatMap((p) => p.cells) as Cells,
   })).filter((g) => g.cells.length > 0);
 }

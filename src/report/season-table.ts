@@ -34,7 +34,7 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
   } else {
     lines.push('', style.bold(`What changed since ${c.previous}`));
     lines.push(c.dataChanged
-      ? `data changed: ${signed(c.transitions.now - c.transitions.before)} transitions, ${signed(c.sites.now - c.sites.before)} sites`
+      ? `data changed: ${signed(c.transitions.now - c.transitions.before)} transitions, ${c.sites.now === c.sites.before ? 'no new sites' : `${signed(c.sites.now - c.sites.before)} sites`}`
       : 'data unchanged (same SHA-256): any difference below comes from settings, scenarios or the tool version');
     const moved = c.forecasts.filter((f) => f.before.median !== f.now.median || f.before.low !== f.now.low || f.before.high !== f.now.high);
     if (moved.length === 0) {

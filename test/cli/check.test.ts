@@ -42,7 +42,7 @@ describe('sere check (built binary)', () => {
   it('groups periods when asked, and gives the same numbers for the same seed', () => {
     const args = ['check', demo, ...demoFlags, '--draws', '100', '--seed', '9', '--periods', '2015-2019,2020-2023', '--json'];
     const a = sere(args);
-    expect(JSON.parse(a.stdout).tests.periods.strata).toEqual(['2015–2020', '2020–2024']);
+    expect(JSON.parse(a.stdout).tests.periods.strata).toEqual(['2015–2019 (to 2020)', '2020–2023 (to 2024)']);
     expect(sere(args).stdout).toBe(a.stdout);
   });
 
