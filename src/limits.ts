@@ -25,8 +25,9 @@ export const LIMITS = {
   /** Survey times a hindcast forecasts from (the most recent ones; each refits the chain). */
   hindcastOrigins: 200,
   /**
-   * Memory a run may plan to hold, estimated before anything is allocated (matrix draws and the
-   * shares kept by year): past this the run is refused with the estimate, not started.
+   * Memory a run may plan to hold, estimated before anything is allocated (engine/run-size.ts:
+   * matrix draws, each draw's current mix, a chunk of years): past this the run is refused with
+   * the estimate, not started.
    */
   memoryBytes: 4 * 1024 ** 3,
 } as const;

@@ -3,12 +3,31 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
-import { buildPlan } from './plan.js';
+import { buildPlan, type RunPlan } from './plan.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
-import { propagate, type Trajectories } from './propagate.js';
+import { projectDraws, projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { chunksOf, yearsPerChunk } from './chunk-years.js';
+import { bandOf } from './quantiles.js';
+import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
+
+/** Per draw, what a run keeps of its whole length: the first times (no mixes; see ProjectionState). */
+export interface Tracks {
+  readonly draws: number;
+  readonly horizon: number;
+  readonly k: number;
+  /** The steps summarised, increasing. */
+  readonly recorded: readonly number[];
+  readonly firstAtTarget: Int32Array;
+  readonly targetRunAtHorizon: Int32Array;
+  readonly firstMostCommon: Int32Array;
+}
 
 export interface Simulation {
-  readonly paths: Trajectories;
+  readonly tracks: Tracks;
+  /** Per state: bands of the share over draws at each of `tracks.recorded`. */
+  readonly shares: ShareBands[];
+  /** Every draw's mix at the horizon, `[s*D + d]`: for the uncertainty split and comparisons. */
+  readonly horizonShares: Float64Array;
   readonly plots?: PlotCounts;
   readonly notes: readonly string[];
 }
@@ -21,15 +40,109 @@ export interface Switches {
   readonly noPlots?: boolean;
 }
 
+export interface SimulateOptions {
+  readonly switches?: Switches;
+  readonly onProgress?: (done: number, total: number) => void;
+  /** Steps to summarise (default: every step 0 … horizon). Every step is run either way. */
+  readonly record?: readonly number[];
+  /** Memory for a chunk of years of every scenario's mixes (default CHUNK_BYTES, chunk-years.ts). */
+  readonly chunkBytes?: number;
+  /**
+   * Heard at each recorded step, in order, with every scenario's mixes of that step (`[s*D + d]`;
+   * valid during the call only): for summaries that pair the scenarios draw by draw (compare.ts).
+   */
+  readonly onYear?: (step: number, mixes: readonly Float64Array[]) => void;
+}
+
+/** Run one scenario on given matrix draws (see simulateTogether). */
+export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, options: SimulateOptions = {}): Simulation {
+  return simulateTogether([scenario], matrices, random, options)[0]!;
+}
+
 /**
- * Run one scenario on given matrix draws. Random event years and plot noise come from streams
- * named after the event and 'plots', sub-streams of `random`, so every alternative run on the same
- * draws with the same seed meets the same storms and the same plot-level chance. Treatments must
- * already have been checked on the fitted matrix (checkScenarios: runForecast and runComparison
- * do it once, not on every rerun the uncertainty split or the effort grid makes).
+ * Run scenarios side by side on the same matrix draws, a chunk of years at a time: every draw's
+ * current mix is kept, and only a chunk of years of mixes (as many as `chunkBytes` holds); each
+ * year of a chunk is summarised — bands, the horizon's mixes, `onYear` — before the next chunk is
+ * run, so memory does not grow with the horizon. Each draw's arithmetic is the same whatever the
+ * chunks, so the results do not depend on the budget.
+ *
+ * Random event years and plot noise come from streams named after the event and 'plots',
+ * sub-streams of `random`, so every alternative run on the same draws with the same seed meets the
+ * same storms and the same plot-level chance. Treatments must already have been checked on the
+ * fitted matrix (checkScenarios: runForecast and runComparison do it once, not on every rerun the
+ * uncertainty split or the effort grid makes). The scenarios must share horizon and level.
  */
-export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches = {},
-  onProgress?: (done: number, total: number) => void, record?: readonly number[]): Simulation {
+export function simulateTogether(scenarios: readonly Scenario[], matrices: MatrixDraws, random: RandomStream,
+  options: SimulateOptions = {}): Simulation[] {
+  const { switches = {}, onProgress } = options;
+  const D = matrices.count;
+  const { k } = matrices;
+  const H = scenarios[0]!.horizonSteps;
+  const steps = H + 1;
+  const recorded = options.record ? [...options.record] : Array.from({ length: steps }, (_, t) => t);
+  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches));
+  // Kept: the recorded steps and the horizon, whose mixes every run keeps.
+  const kept = [...new Set([...recorded, H])].sort((a, b) => a - b);
+  const isRecorded = new Uint8Array(steps);
+  for (const t of recorded) isRecorded[t] = 1;
+  const perChunk = Math.min(kept.length, yearsPerChunk(D, k, scenarios.length, options.chunkBytes));
+  const buffers = runs.map(() => new Float64Array(perChunk * k * D));
+  const slotOf = new Int32Array(steps);
+  const shares = runs.map(() => Array.from({ length: k }, emptyBands));
+  const horizonShares = runs.map(() => new Float64Array(k * D));
+  const total = D * runs.length;
+  let work = 0;
+  for (const chunk of chunksOf(kept, H, perChunk)) {
+    slotOf.fill(-1);
+    chunk.kept.forEach((t, r) => { slotOf[t] = r; });
+    runs.forEach((run, n) => {
+      projectDraws(run.inputs, run.state, 0, D, chunk.from, chunk.to, slotOf, buffers[n]!);
+      work += chunk.to - chunk.from;
+      onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
+    });
+    chunk.kept.forEach((t, r) => {
+      const mixes = buffers.map((b) => b.subarray(r * k * D, (r + 1) * k * D));
+      runs.forEach((run, n) => {
+        if (isRecorded[t]) {
+          for (let s = 0; s < k; s++) {
+            const band = bandOf(mixes[n]!.subarray(s * D, (s + 1) * D), run.scenario.level);
+            appendBand(shares[n]![s]!, band, band.mean);
+          }
+        }
+        if (t === H) horizonShares[n]!.set(mixes[n]!);
+      });
+      if (isRecorded[t]) options.onYear?.(t, mixes);
+    });
+  }
+  return runs.map((run, n) => {
+    const { firstAtTarget, targetRunAtHorizon, firstMostCommon } = run.state;
+    const notes = [...matrices.notes];
+    for (const [treatment, draws] of run.trouble) {
+      notes.push(`treatment '${run.plan.treatments[treatment]!.name}' could not act as written in ${draws.size} of ${D} draws ` +
+        '(probabilities capped at 1, or nothing left to rescale)');
+    }
+    const plots = run.scenario.plots && !switches.noPlots
+      ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
+        record: recorded, hits: run.inputs.hits, multinomial: multinomialSampler(random.stream('plots')),
+      })
+      : undefined;
+    return {
+      tracks: { draws: D, horizon: H, k, recorded, firstAtTarget, targetRunAtHorizon, firstMostCommon },
+      shares: shares[n]!, horizonShares: horizonShares[n]!, plots, notes,
+    };
+  });
+}
+
+interface Prepared {
+  readonly scenario: Scenario;
+  readonly plan: RunPlan;
+  readonly inputs: ProjectionInputs;
+  readonly state: ProjectionState;
+  /** Per treatment, the draws in which it could not act as written. */
+  readonly trouble: Map<number, Set<number>>;
+}
+
+function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches): Prepared {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
@@ -38,23 +151,13 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, random: Rand
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
   const trouble = new Map<number, Set<number>>();
-  const paths = propagate(matrices, scenario.start.shares, H, {
-    target: scenario.target, plan, hits, onProgress, record,
+  const inputs: ProjectionInputs = {
+    P: matrices.data, k: matrices.k, draws: D, horizon: H, start: scenario.start.shares, plan, hits, target: scenario.target,
     onOutcome: (draw, treatment) => {
       const draws = trouble.get(treatment) ?? new Set<number>();
       draws.add(draw);
       trouble.set(treatment, draws);
     },
-  });
-  const notes = [...matrices.notes];
-  for (const [treatment, draws] of trouble) {
-    notes.push(`treatment '${plan.treatments[treatment]!.name}' could not act as written in ${draws.size} of ${D} draws ` +
-      '(probabilities capped at 1, or nothing left to rescale)');
-  }
-  const plots = scenario.plots && !switches.noPlots
-    ? simulatePlots(matrices, plan, scenario.plots.start, {
-      record: paths.recorded, hits, multinomial: multinomialSampler(random.stream('plots')),
-    })
-    : undefined;
-  return { paths, plots, notes };
+  };
+  return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), trouble };
 }

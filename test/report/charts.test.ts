@@ -8,7 +8,7 @@ import { runForecast } from '../../src/engine/forecast.js';
 import { runComparison } from '../../src/engine/compare.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import type { Fit } from '../../src/fit/fit.js';
-import { fitWithCounts, scenarioFor, treatmentOf } from '../helpers.js';
+import { atLeast, fitWithCounts, scenarioFor, treatmentOf } from '../helpers.js';
 
 /** Rasterise with resvg (an independent SVG renderer) on white. */
 function raster(svg: string): { width: number; height: number; pixels: Buffer } {
@@ -53,7 +53,7 @@ describe('charts', () => {
   // Three surveys of 20 sites before the start year 2000, ending at the starting mix.
   const fit: Fit = { ...base, latest: { ...base.latest, counts: [10, 6, 4], shares: [0.5, 0.3, 0.2], sites: 20 },
     history: [{ time: 1998, counts: [16, 3, 1], sites: 20 }, { time: 1999, counts: [13, 5, 2], sites: 20 }, { time: 2000, counts: [10, 6, 4], sites: 20 }] };
-  const scenario = scenarioFor(fit, { draws: 300, target: { state: 2, share: 0.35 }, alternative: 'nothing', horizonSteps: 10 });
+  const scenario = scenarioFor(fit, { draws: 300, target: atLeast(2, 0.35), alternative: 'nothing', horizonSteps: 10 });
   const result = runForecast(scenario, randomStreams(2));
   const managed = { ...scenario, alternative: 'push grass on to shrub', treatments: [treatmentOf(1, { kind: 'multiply', cells: [{ to: 2, value: 3 }] }, 10)] };
   const comparison = runComparison([scenario, managed], randomStreams(2), undefined, { everyYear: true });
@@ -78,7 +78,7 @@ describe('charts', () => {
   it('render the same bytes every time, naming every state in full', async () => {
     const svg = await renderSvg(fanChartSpec([result], 'test chart'));
     expect(svg.startsWith('<svg')).toBe(true);
-    for (const label of ['bare', 'grass', 'a shrub state with a long name', 'test chart', 'target 35%']) expect(svg).toContain(label);
+    for (const label of ['bare', 'grass', 'a shrub state with a long name', 'test chart', 'target: at least 35%']) expect(svg).toContain(label);
     expect(await renderSvg(fanChartSpec([result], 'test chart'))).toBe(svg);
   });
 
