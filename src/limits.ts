@@ -4,6 +4,8 @@
  * run from hanging or exhausting memory on a mistyped number; none is near what a survey needs.
  */
 export const LIMITS = {
+  /** Threads a run may be asked to use (`--threads`); more than the blocks of draws are not used. */
+  threads: 256,
   /** Seeds are 1 … 2³² − 1. */
   seed: 4_294_967_295,
   /** States of a chain (a survey table, `--states`, a fit file): past this, a column is likely misnamed. */

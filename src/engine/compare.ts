@@ -86,7 +86,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   const paired = new Map<number, YearDifferences[]>();
   const column = new Float64Array(draws);
   const sims = simulateTogether(scenarios, matrices, random, {
-    record, onProgress, chunkBytes: engine.chunkBytes,
+    record, onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads,
     onYear: (step, mixes) => {
       if (shown.has(step)) paired.set(step, mixes.slice(1).map((alt) => differencesAt(mixes[0]!, alt, first, column)));
     },

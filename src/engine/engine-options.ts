@@ -2,4 +2,6 @@
 export interface EngineOptions {
   /** Memory for a chunk of years of mixes (default CHUNK_BYTES, chunk-years.ts). */
   readonly chunkBytes?: number;
+  /** Threads (threads.ts: default, every core for large runs, one for small ones). */
+  readonly threads?: number;
 }

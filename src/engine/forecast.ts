@@ -100,7 +100,7 @@ export function runForecast(scenario: Scenario, random: RandomStream, onProgress
   engine: EngineOptions = {}): ForecastResult {
   checkScenarios([scenario]);
   const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'));
-  const sim = simulate(scenario, matrices, random, { onProgress, chunkBytes: engine.chunkBytes });
+  const sim = simulate(scenario, matrices, random, { onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads });
   return summarise(scenario, matrices, sim, random, { engine });
 }
 

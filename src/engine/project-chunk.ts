@@ -34,13 +34,15 @@ export interface ProjectionState {
   readonly firstMostCommon: Int32Array;
 }
 
+/** A run's state, in shared memory so the engine's threads can each advance their blocks of draws. */
 export function projectionState(draws: number, k: number, subPopulations: number): ProjectionState {
+  const int32 = (n: number): Int32Array => new Int32Array(new SharedArrayBuffer(n * 4));
   return {
-    xs: new Float64Array(draws * subPopulations * k),
-    runStart: new Int32Array(draws).fill(-1),
-    firstAtTarget: new Int32Array(draws).fill(-1),
-    targetRunAtHorizon: new Int32Array(draws),
-    firstMostCommon: new Int32Array(draws * k).fill(-1),
+    xs: new Float64Array(new SharedArrayBuffer(draws * subPopulations * k * 8)),
+    runStart: int32(draws).fill(-1),
+    firstAtTarget: int32(draws).fill(-1),
+    targetRunAtHorizon: int32(draws),
+    firstMostCommon: int32(draws * k).fill(-1),
   };
 }
 

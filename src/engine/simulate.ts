@@ -5,9 +5,12 @@ import type { RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
 import { buildPlan, type RunPlan } from './plan.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
-import { projectDraws, projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import type { SharedRun } from './engine-tasks.js';
+import { makePool } from './thread-pool.js';
+import { threadsFor } from './threads.js';
 import { chunksOf, yearsPerChunk } from './chunk-years.js';
-import { bandOf } from './quantiles.js';
+import { blockName, sharedFloat64 } from '../uncertainty/draw-blocks.js';
 import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
 
 /** Per draw, what a run keeps of its whole length: the first times (no mixes; see ProjectionState). */
@@ -47,6 +50,8 @@ export interface SimulateOptions {
   readonly record?: readonly number[];
   /** Memory for a chunk of years of every scenario's mixes (default CHUNK_BYTES, chunk-years.ts). */
   readonly chunkBytes?: number;
+  /** Threads to use (threads.ts); the results are the same for any number. */
+  readonly threads?: number;
   /**
    * Heard at each recorded step, in order, with every scenario's mixes of that step (`[s*D + d]`;
    * valid during the call only): for summaries that pair the scenarios draw by draw (compare.ts).
@@ -86,7 +91,11 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   const isRecorded = new Uint8Array(steps);
   for (const t of recorded) isRecorded[t] = 1;
   const perChunk = Math.min(kept.length, yearsPerChunk(D, k, scenarios.length, options.chunkBytes));
-  const buffers = runs.map(() => new Float64Array(perChunk * k * D));
+  const shared: SharedRun[] = runs.map((run) => ({
+    inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
+  }));
+  const pool = makePool(threadsFor(options.threads, D, steps, k, runs.length));
+  pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));
   const horizonShares = runs.map(() => new Float64Array(k * D));
@@ -95,35 +104,41 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   for (const chunk of chunksOf(kept, H, perChunk)) {
     slotOf.fill(-1);
     chunk.kept.forEach((t, r) => { slotOf[t] = r; });
-    runs.forEach((run, n) => {
-      projectDraws(run.inputs, run.state, 0, D, chunk.from, chunk.to, slotOf, buffers[n]!);
-      work += chunk.to - chunk.from;
-      onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
-    });
+    pool.phase({ kind: 'project', from: chunk.from, to: chunk.to, slotOf });
+    work += (chunk.to - chunk.from) * runs.length;
+    onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
+    // The bands of every recorded year of the chunk, one task per (run, year, state).
+    const columns: number[] = [];
     chunk.kept.forEach((t, r) => {
-      const mixes = buffers.map((b) => b.subarray(r * k * D, (r + 1) * k * D));
-      runs.forEach((run, n) => {
-        if (isRecorded[t]) {
-          for (let s = 0; s < k; s++) {
-            const band = bandOf(mixes[n]!.subarray(s * D, (s + 1) * D), run.scenario.level);
-            appendBand(shares[n]![s]!, band, band.mean);
-          }
-        }
-        if (t === H) horizonShares[n]!.set(mixes[n]!);
-      });
+      if (isRecorded[t]) runs.forEach((_, n) => { for (let s = 0; s < k; s++) columns.push(n, r, s); });
+    });
+    const results = sharedFloat64((columns.length / 3) * 4);
+    pool.phase({ kind: 'bands', columns: Int32Array.from(columns), results });
+    for (let c = 0; c < columns.length / 3; c++) {
+      const band = { median: results[4 * c]!, low: results[4 * c + 1]!, high: results[4 * c + 2]! };
+      appendBand(shares[columns[3 * c]!]![columns[3 * c + 2]!]!, band, results[4 * c + 3]!);
+    }
+    chunk.kept.forEach((t, r) => {
+      const mixes = shared.map((run) => run.buffer.subarray(r * k * D, (r + 1) * k * D));
+      if (t === H) runs.forEach((_, n) => horizonShares[n]!.set(mixes[n]!));
       if (isRecorded[t]) options.onYear?.(t, mixes);
     });
   }
   return runs.map((run, n) => {
     const { firstAtTarget, targetRunAtHorizon, firstMostCommon } = run.state;
     const notes = [...matrices.notes];
-    for (const [treatment, draws] of run.trouble) {
-      notes.push(`treatment '${run.plan.treatments[treatment]!.name}' could not act as written in ${draws.size} of ${D} draws ` +
-        '(probabilities capped at 1, or nothing left to rescale)');
-    }
+    run.plan.treatments.forEach((treatment, tr) => {
+      let draws = 0;
+      for (let d = 0; d < D; d++) draws += run.outcomes[tr * D + d]!;
+      if (draws > 0) {
+        notes.push(`treatment '${treatment.name}' could not act as written in ${draws} of ${D} draws ` +
+          '(probabilities capped at 1, or nothing left to rescale)');
+      }
+    });
     const plots = run.scenario.plots && !switches.noPlots
       ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
-        record: recorded, hits: run.inputs.hits, multinomial: multinomialSampler(random.stream('plots')),
+        record: recorded, hits: run.inputs.hits,
+        multinomialOf: (b) => multinomialSampler(random.stream('plots').stream(blockName(b))),
       })
       : undefined;
     return {
@@ -136,10 +151,10 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
 interface Prepared {
   readonly scenario: Scenario;
   readonly plan: RunPlan;
-  readonly inputs: ProjectionInputs;
+  readonly inputs: Omit<ProjectionInputs, 'onOutcome'>;
   readonly state: ProjectionState;
-  /** Per treatment, the draws in which it could not act as written. */
-  readonly trouble: Map<number, Set<number>>;
+  /** `outcomes[treatment*D + d]` = 1 when the treatment could not act as written in draw d. */
+  readonly outcomes: Uint8Array;
 }
 
 function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches): Prepared {
@@ -150,14 +165,7 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
   const D = matrices.count;
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
-  const trouble = new Map<number, Set<number>>();
-  const inputs: ProjectionInputs = {
-    P: matrices.data, k: matrices.k, draws: D, horizon: H, start: scenario.start.shares, plan, hits, target: scenario.target,
-    onOutcome: (draw, treatment) => {
-      const draws = trouble.get(treatment) ?? new Set<number>();
-      draws.add(draw);
-      trouble.set(treatment, draws);
-    },
-  };
-  return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), trouble };
+  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: Array.from(scenario.start.shares), plan, hits, target: scenario.target };
+  const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
+  return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
 }

@@ -45,7 +45,7 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
     const draws = source === 'matrix' ? pointDraws(scenario.fit, matrices.count) : matrices;
     // Only the horizon is summarised: the reruns keep no other year.
-    const off = simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes });
+    const off = simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes, threads: engine.threads });
     const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');
     return {
       source,

@@ -5,8 +5,10 @@ import { describe, expect, it } from 'vitest';
 import { sere } from '../cli/binary.js';
 
 /**
- * Whole outputs of the demo, byte for byte, against files recorded before the engine was last
- * restructured (test/fixtures/engine-golden/). Every path of the engine is here: the posterior and
+ * Whole outputs of the demo, byte for byte, against recorded files (test/fixtures/engine-golden/).
+ * First recorded on the engine that kept every year of every draw, they proved the chunked engine
+ * byte-identical to it; re-recorded once when draws moved to per-block random sub-streams (for
+ * threads, value-breaking: CHANGELOG). Every path of the engine is here: the posterior and
  * the site bootstrap, a partial-area treatment (sub-populations), landscape events with plot
  * counts and the uncertainty split, a cap that must stay met with a treated long-run mix, a
  * comparison on common random numbers, and two season records (the second reruns the scenarios
