@@ -12,9 +12,17 @@
  *    a partial area and a landscape event), wall time with start-up (best of 5).
  * 6. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
  *    the bands, wall time with start-up (best of 3).
- * 6. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
+ * 8. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
  *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
- * 7. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
+ * 9. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
+ * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
+ *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
+ *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
+ *    thread, and the default) beside scripts/bench/numpy-forecast.py on the same counts,
+ *    alternating, best of 3, with the ratio; then the peak RSS of both at 1,000,000 draws
+ *    (/usr/bin/time); and the floor: a bare multiply-add loop doing the projection's arithmetic
+ *    (x ← x·P, D × H × k² multiply-adds) with no summaries. Skipped, with a notice, without python3
+ *    and numpy.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -25,6 +33,7 @@ import { propagate } from '../src/engine/propagate.js';
 import { bandOf } from '../src/engine/quantiles.js';
 import { quantilesBySelection } from './bench-old-quantiles.js';
 import { randomStreams } from '../src/uncertainty/random.js';
+import { existsSync } from 'node:fs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 
@@ -213,4 +222,96 @@ if (want('fit')) {
   benchFit(100_000, 3);
   benchFit(1_000_000, 3);
   benchFitFile(5);
+}
+
+/**
+ * A 10-state survey table (2,000 sites × 10 years, fixed seed), its counts for the numpy script,
+ * and scenarios of `draws` draws × 100 years with a target, as files in a temp folder.
+ */
+function numpyFixture(): { dir: string; counts: string; scenario: (draws: number) => string } {
+  const dir = surveyFolder(10, 2000, 10, (state, random) => {
+    const u = random.uniform();
+    return u < 0.7 ? state : u < 0.9 ? Math.min(9, state + 1) : random.integer(10);
+  });
+  const fit = spawnSync(process.execPath, ['dist/cli/sere.mjs', 'fit', join(dir, 'surveys.csv'), '--json'], { encoding: 'utf8', maxBuffer: 1 << 28 });
+  if (fit.status !== 0) throw new Error(fit.stderr);
+  const f = JSON.parse(fit.stdout) as { counts: number[][]; latest: { shares: number[] }; states: string[] };
+  const counts = join(dir, 'counts.json');
+  writeFileSync(counts, JSON.stringify({ counts: f.counts, start: f.latest.shares, target: [f.states.indexOf('s9'), 0.3] }));
+  const scenario = (draws: number): string => {
+    const file = join(dir, `job-${draws}.yaml`);
+    writeFileSync(file, `data: surveys.csv\nuncertainty: { draws: ${draws}, seed: 7 }\nhorizon: { years: 100 }\ntarget: { state: s9, share: 0.3 }\n`);
+    return file;
+  };
+  return { dir, counts, scenario };
+}
+
+/** Wall seconds of a whole process, its output thrown away. */
+function processSeconds(command: string, args: string[]): number {
+  const t = performance.now();
+  const r = spawnSync(command, args, { stdio: ['ignore', 'ignore', 'pipe'], encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`${command} ${args.join(' ')}: ${r.stderr}`);
+  return (performance.now() - t) / 1000;
+}
+
+/** Peak resident memory of a whole process, in MB, from /usr/bin/time. */
+function peakMb(command: string, args: string[]): number {
+  const r = spawnSync('/usr/bin/time', ['-f', '%M', command, ...args], { stdio: ['ignore', 'ignore', 'pipe'], encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`${command} ${args.join(' ')}: ${r.stderr}`);
+  const lines = r.stderr.trim().split('\n');
+  return Number(lines[lines.length - 1]) / 1024;
+}
+
+/** The floor: x ← x·P for every draw and year, the projection's multiply-adds and nothing else. */
+function multiplyAddFloor(): number {
+  const draws = randomDraws(D, K, 2);
+  const P = draws.data;
+  const x = new Float64Array(K);
+  const y = new Float64Array(K);
+  let sink = 0;
+  const ms = best(3, () => {
+    for (let d = 0; d < D; d++) {
+      x.fill(1 / K);
+      const base = d * K * K;
+      for (let t = 0; t < H; t++) {
+        y.fill(0);
+        for (let i = 0; i < K; i++) { const xi = x[i]!; for (let j = 0; j < K; j++) y[j] += xi * P[base + i * K + j]!; }
+        x.set(y);
+      }
+      sink += x[0]!;
+    }
+  });
+  if (!(sink > 0)) throw new Error('floor: nothing computed');
+  return ms / 1000;
+}
+
+if (want('numpy')) {
+  const script = 'scripts/bench/numpy-forecast.py';
+  const python = spawnSync('python3', ['-c', 'import numpy'], { encoding: 'utf8' });
+  if (python.status !== 0) {
+    console.log('numpy: skipped (python3 with numpy is not available here)');
+  } else {
+    const fx = numpyFixture();
+    const job = fx.scenario(D);
+    const sere = (threads?: number): string[] => ['dist/cli/sere.mjs', 'forecast', job, '--json', ...(threads ? ['--threads', String(threads)] : [])];
+    let one = Infinity; let all = Infinity; let numpy = Infinity;
+    for (let run = 0; run < 3; run++) {
+      one = Math.min(one, processSeconds(process.execPath, sere(1)));
+      numpy = Math.min(numpy, processSeconds('python3', [script, fx.counts, String(D), String(H), '7']));
+      all = Math.min(all, processSeconds(process.execPath, sere()));
+    }
+    console.log(`forecast job, ${D} draws × ${H} years × ${K} states, whole processes, best of 3 alternating: ` +
+      `numpy ${numpy.toFixed(2)} s; sere 1 thread ${one.toFixed(2)} s (${(numpy / one).toFixed(2)}× numpy's speed), ` +
+      `default threads ${all.toFixed(2)} s (${(numpy / all).toFixed(2)}×; ${(one / all).toFixed(2)}× one thread)`);
+    const floor = multiplyAddFloor();
+    console.log(`floor: bare multiply-add loop x ← x·P, ${D} × ${H} × ${K}² in one thread: ${floor.toFixed(2)} s`);
+    if (existsSync('/usr/bin/time')) {
+      const big = fx.scenario(1_000_000);
+      const sereMb = peakMb(process.execPath, ['dist/cli/sere.mjs', 'forecast', big, '--json']);
+      const numpyMb = peakMb('python3', [script, fx.counts, '1000000', String(H), '7']);
+      console.log(`peak RSS at 1000000 draws × ${H} years × ${K} states: sere ${sereMb.toFixed(0)} MB, numpy ${numpyMb.toFixed(0)} MB`);
+    } else {
+      console.log('peak RSS: skipped (/usr/bin/time is not available here)');
+    }
+  }
 }

@@ -11,7 +11,9 @@ import { build } from 'esbuild';
 rmSync('dist/cli', { recursive: true, force: true });
 
 await build({
-  entryPoints: { sere: 'src/bin/sere.ts' },
+  // The engine's worker thread is an entry of its own (dist/cli/engine-worker.mjs), found by
+  // engine/thread-pool.ts beside the bundle.
+  entryPoints: { sere: 'src/bin/sere.ts', 'engine-worker': 'src/engine/engine-worker.ts' },
   outdir: 'dist/cli',
   outExtension: { '.js': '.mjs' },
   splitting: true,

@@ -4,6 +4,8 @@
  * run from hanging or exhausting memory on a mistyped number; none is near what a survey needs.
  */
 export const LIMITS = {
+  /** Threads a run may be asked to use (`--threads`); more than the blocks of draws are not used. */
+  threads: 256,
   /** Seeds are 1 … 2³² − 1. */
   seed: 4_294_967_295,
   /** States of a chain (a survey table, `--states`, a fit file): past this, a column is likely misnamed. */
@@ -25,8 +27,9 @@ export const LIMITS = {
   /** Survey times a hindcast forecasts from (the most recent ones; each refits the chain). */
   hindcastOrigins: 200,
   /**
-   * Memory a run may plan to hold, estimated before anything is allocated (matrix draws and the
-   * shares kept by year): past this the run is refused with the estimate, not started.
+   * Memory a run may plan to hold, estimated before anything is allocated (engine/run-size.ts:
+   * matrix draws, each draw's current mix, a chunk of years): past this the run is refused with
+   * the estimate, not started.
    */
   memoryBytes: 4 * 1024 ** 3,
 } as const;

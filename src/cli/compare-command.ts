@@ -35,7 +35,8 @@ export function registerCompare(program: Command, io: Io): void {
       const progress = progressReporter(io.progress, 'comparing');
       let comparison;
       try {
-        comparison = runComparison(scenarios, randomStreams(seed), progress.update, { everyYear: Boolean(opts.chart || opts.csv) });
+        comparison = runComparison(scenarios, randomStreams(seed), progress.update, { everyYear: Boolean(opts.chart || opts.csv) },
+          { threads: opts.threads });
       } finally {
         progress.stop();
       }

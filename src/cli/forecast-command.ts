@@ -22,7 +22,7 @@ export function registerForecast(program: Command, io: Io): void {
         seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
-          return runForecast(scenario, randomStreams(seed), progress.update);
+          return runForecast(scenario, randomStreams(seed), progress.update, { threads: opts.threads });
         } finally {
           progress.stop();
         }

@@ -28,6 +28,7 @@ export function wholeNumberList(max: number, example: string): (value: string) =
 
 export const seedFlag = wholeNumber(LIMITS.seed);
 export const drawsFlag = wholeNumber(LIMITS.draws);
+export const threadsFlag = wholeNumber(LIMITS.threads);
 export const replicatesFlag = wholeNumber(LIMITS.replicates);
 /** Years ahead, and the survey step: up to the longest horizon. */
 export const yearsFlag = wholeNumber(LIMITS.horizonSteps);

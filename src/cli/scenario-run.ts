@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
-import { drawsFlag, seedFlag } from './parse-options.js';
+import { drawsFlag, seedFlag, threadsFlag } from './parse-options.js';
 import type { TopLevelSpec } from 'vega-lite';
 import type { Io } from './io.js';
 import { refuseExisting, writeFileAtomic } from './write-file.js';
@@ -11,6 +11,7 @@ import { refuseExisting, writeFileAtomic } from './write-file.js';
 export interface RunOptions {
   seed?: number;
   draws?: number;
+  threads?: number;
   json?: boolean;
   chart?: string;
   csv?: string;
@@ -24,6 +25,7 @@ export function withRunOptions(command: Command): Command {
     .argument('<scenario.yaml...>', 'scenario files (a file may list alternatives)')
     .option('--seed <n>', 'random seed (overrides the scenario file)', seedFlag)
     .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', drawsFlag)
+    .option('--threads <n>', 'threads to run on (default: every core for large runs, one for small ones); the results are the same for any number', threadsFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .option('--chart <file.svg>', 'also draw a fan chart (SVG): shares by year with their bands, one panel per state')
     .option('--csv <file.csv>', 'also write the tidy CSV (README, "Tidy CSV"): shares in %, target chance and timing; for compare also differences and chances of more')

@@ -4,10 +4,10 @@ import type { RandomStream } from '../uncertainty/random.js';
 import { appendBand, summarise, type ForecastResult, type ShareBands } from './forecast.js';
 import { bandOf, type Band } from './quantiles.js';
 import { timingBand } from './timing-band.js';
-import { simulate, type Simulation } from './simulate.js';
+import { simulateTogether, type Simulation } from './simulate.js';
+import type { EngineOptions } from './engine-options.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
-import { drawIndex } from './layout.js';
 import { differenceAt } from './difference-at.js';
 
 /** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
@@ -69,65 +69,86 @@ export interface Comparison {
  * and Analysis, ch. 11). The first scenario is the baseline.
  */
 export function runComparison(scenarios: readonly Scenario[], random: RandomStream,
-  onProgress?: (done: number, total: number) => void, options: { readonly everyYear?: boolean } = {}): Comparison {
+  onProgress?: (done: number, total: number) => void, options: { readonly everyYear?: boolean } = {},
+  engine: EngineOptions = {}): Comparison {
   checkScenarios(scenarios);
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
   const matrices = drawMatrices(first.fit, first.source, draws, random.stream('matrices'));
-  const total = draws * scenarios.length;
   // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
   const record = options.everyYear
     ? Array.from({ length: first.horizonSteps + 1 }, (_, t) => t)
     : [...new Set([...first.showSteps, first.horizonSteps])].sort((a, b) => a - b);
-  const sims = scenarios.map((sc, n) =>
-    simulate(sc, matrices, random, {}, onProgress && ((done) => onProgress(n * draws + done, total)), record));
+  // Differences at the shown years only: they are what a manager reads, and each band costs a
+  // selection over all draws (the alternatives' own shares are still summarised every year).
+  // The alternatives run side by side, so each shown year is paired draw by draw as it is made.
+  const shown = new Set(first.showSteps);
+  const paired = new Map<number, YearDifferences[]>();
+  const column = new Float64Array(draws);
+  const sims = simulateTogether(scenarios, matrices, random, {
+    record, onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads,
+    onYear: (step, mixes) => {
+      if (shown.has(step)) paired.set(step, mixes.slice(1).map((alt) => differencesAt(mixes[0]!, alt, first, column)));
+    },
+  });
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   const stationary = stationaryOfDraws(matrices);
   const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
-  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows }));
+  const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows, engine }));
   return {
     baseline: results[0]!,
-    alternatives: results.slice(1).map((result, n) => compareTo(first, sims[0]!, sims[n + 1]!, result)),
+    alternatives: results.slice(1).map((result, n) =>
+      compareTo(first, sims[0]!, sims[n + 1]!, result, first.showSteps.map((t) => paired.get(t)![n]!))),
   };
 }
 
-function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result: ForecastResult): AlternativeComparison {
+/** One shown year of one alternative against the baseline: per state, the band of differences and the odds. */
+interface YearDifferences {
+  readonly bands: { readonly band: Band; readonly mean: number }[];
+  readonly odds: Odds[];
+}
+
+/** Per state, (alternative − baseline) share draw by draw at one step (mixes `[s*D + d]`). */
+function differencesAt(base: Float64Array, alt: Float64Array, baseline: Scenario, column: Float64Array): YearDifferences {
   const k = baseline.fit.states.length;
-  const { draws, recorded } = base.paths;
+  const draws = column.length;
+  const bands: YearDifferences['bands'][number][] = [];
+  const odds: Odds[] = [];
+  for (let s = 0; s < k; s++) {
+    let more = 0; let tie = 0; let sum = 0;
+    for (let d = 0; d < draws; d++) {
+      const at = s * draws + d;
+      const diff = alt[at]! - base[at]!;
+      column[d] = diff;
+      sum += diff;
+      if (Math.abs(diff) <= TIE_TOLERANCE) tie += 1;
+      else if (diff > 0) more += 1;
+    }
+    bands.push({ band: bandOf(column, baseline.level), mean: sum / draws });
+    odds.push({ more: more / draws, tie: tie / draws, less: (draws - more - tie) / draws });
+  }
+  return { bands, odds };
+}
+
+function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result: ForecastResult,
+  byYear: readonly YearDifferences[]): AlternativeComparison {
+  const k = baseline.fit.states.length;
   const difference: ShareBands[] = [];
   const odds: Odds[][] = [];
-  const column = new Float64Array(draws);
-  // Differences at the shown years only: they are what a manager reads, and each band costs a
-  // selection over all draws (the alternatives' own shares are still summarised every year).
-  const rows = baseline.showSteps.map((t) => recorded.indexOf(t));
   for (let s = 0; s < k; s++) {
     const bands: ShareBands = { median: [], low: [], high: [], mean: [] };
-    const byYear: Odds[] = [];
-    for (const r of rows) {
-      let more = 0; let tie = 0; let sum = 0;
-      for (let d = 0; d < draws; d++) {
-        const at = drawIndex(base.paths, d, r, s);
-        const diff = alt.paths.shares[at]! - base.paths.shares[at]!;
-        column[d] = diff;
-        sum += diff;
-        if (Math.abs(diff) <= TIE_TOLERANCE) tie += 1;
-        else if (diff > 0) more += 1;
-      }
-      const band = bandOf(column, baseline.level);
-      appendBand(bands, band, sum / draws);
-      byYear.push({ more: more / draws, tie: tie / draws, less: (draws - more - tie) / draws });
-    }
+    for (const year of byYear) appendBand(bands, year.bands[s]!.band, year.bands[s]!.mean);
     difference.push(bands);
-    odds.push(byYear);
+    odds.push(byYear.map((year) => year.odds[s]!));
   }
-  const atHorizon = differenceAt(base.paths, base.paths.shares, alt.paths.shares, recorded.indexOf(baseline.horizonSteps), k, baseline.level);
+  const atHorizon = differenceAt(base.horizonShares, alt.horizonShares, k, baseline.level);
   return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null, atHorizon };
 }
 
 function dominanceDifference(base: Simulation, alt: Simulation, baseline: Scenario): TargetComparison {
-  const a = base.paths.firstAtTarget;
-  const b = alt.paths.firstAtTarget;
+  const a = base.tracks.firstAtTarget;
+  const b = alt.tracks.firstAtTarget;
   const draws = a.length;
   let sooner = 0; let same = 0; let later = 0; let onlyAlternative = 0; let onlyBaseline = 0; let neither = 0;
   const both: number[] = [];

@@ -12,13 +12,11 @@ import { priorSensitivity, type PriorSensitivity } from './prior-sensitivity.js'
 import { treatedStationary } from './treated-stationary.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
+import { appendBand, type ShareBands } from './year-bands.js';
+import type { EngineOptions } from './engine-options.js';
 
-export interface ShareBands {
-  readonly median: number[];
-  readonly low: number[];
-  readonly high: number[];
-  readonly mean: number[];
-}
+export type { ShareBands } from './year-bands.js';
+export { appendBand } from './year-bands.js';
 
 /** When something first happens in the landscape, over the draws in which it happens at all. */
 export interface FirstTime {
@@ -98,10 +96,12 @@ export interface ForecastResult {
 }
 
 /** Run one scenario end to end: draw matrices, simulate, summarise. */
-export function runForecast(scenario: Scenario, random: RandomStream, onProgress?: (done: number, total: number) => void): ForecastResult {
+export function runForecast(scenario: Scenario, random: RandomStream, onProgress?: (done: number, total: number) => void,
+  engine: EngineOptions = {}): ForecastResult {
   checkScenarios([scenario]);
   const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'));
-  return summarise(scenario, matrices, simulate(scenario, matrices, random, {}, onProgress), random);
+  const sim = simulate(scenario, matrices, random, { onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads });
+  return summarise(scenario, matrices, sim, random, { engine });
 }
 
 /**
@@ -111,10 +111,11 @@ export function runForecast(scenario: Scenario, random: RandomStream, onProgress
 export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simulation, random: RandomStream,
   options: { readonly split?: boolean; readonly stationary?: StationaryDraws; readonly observedRows?: ObservedRowsStationary | null;
     /** False to skip the prior checks (observedRows, priorSensitivity), as a hindcast does. */
-    readonly priorChecks?: boolean } = {}): ForecastResult {
+    readonly priorChecks?: boolean;
+    readonly engine?: EngineOptions } = {}): ForecastResult {
   const { fit, level } = scenario;
   const k = fit.states.length;
-  const { paths } = sim;
+  const paths = sim.tracks;
   const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
   const stationary = options.stationary ?? stationaryOfDraws(matrices);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
@@ -131,8 +132,8 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     draws: matrices.count,
     steps: paths.recorded,
     years,
-    shares: Array.from({ length: k }, (_, s) => bandsByStep(paths.shares, paths, s, level)),
-    plots: sim.plots ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, paths, s, level)) : null,
+    shares: sim.shares,
+    plots: sim.plots ? Array.from({ length: k }, (_, s) => bandsByStep(sim.plots!.counts, sim.plots!, s, level)) : null,
     stationary: { bands: bandsOf(stationary), unique: stationary.unique, notUnique: stationary.notUnique },
     observedRows: observed && {
       dropped: observed.dropped,
@@ -147,38 +148,27 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     priorSensitivity: priorChecks ? priorSensitivity(scenario, random.stream('prior-sensitivity')) : [],
     dominance: scenario.target ? targetOutcome(scenario, paths, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
-    split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random),
+    split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random, options.engine),
     notes: sim.notes,
   };
 }
 
 /**
- * Bands of one state's values over draws at each recorded step. Whole-number data (plot counts)
- * get whole-number bands (type 1 quantiles).
+ * Whole-number bands (type 1 quantiles) of one state's plot counts over draws at each recorded
+ * step. Sorting reorders its input, and the draws must stay aligned: work on one scratch copy.
  */
-function bandsByStep(values: Float64Array | Int32Array, layout: DrawLayout, state: number, level: number): ShareBands {
+function bandsByStep(values: Int32Array, layout: DrawLayout, state: number, level: number): ShareBands {
   const out: ShareBands = { median: [], low: [], high: [], mean: [] };
   const { draws, slots } = layout;
-  // Selection reorders its input, and the draws must stay aligned for comparisons: work on a
-  // copy, one scratch array reused for every step (a fresh slice each time fed the collector).
-  const column = values instanceof Int32Array ? new Int32Array(draws) : new Float64Array(draws);
+  const column = new Int32Array(draws);
   for (let r = 0; r < slots; r++) {
     const from = columnStart(layout, r, state);
     column.set(values.subarray(from, from + draws));
     let sum = 0;
     for (let d = 0; d < draws; d++) sum += column[d]!;
-    const band = column instanceof Int32Array ? discreteBandOf(column, level) : bandOf(column, level);
-    appendBand(out, band, sum / draws);
+    appendBand(out, discreteBandOf(column, level), sum / draws);
   }
   return out;
-}
-
-/** Add one year's band and mean to by-year arrays. */
-export function appendBand(out: ShareBands, band: Band, mean: number): void {
-  out.median.push(band.median);
-  out.low.push(band.low);
-  out.high.push(band.high);
-  out.mean.push(mean);
 }
 
 /** Every `stride`-th value from `offset`: one state's column out of a [draw][state] array. */
@@ -203,7 +193,7 @@ function firstTime(first: Int32Array, offset: number, stride: number, level: num
   };
 }
 
-function targetOutcome(scenario: Scenario, paths: Simulation['paths'], toYear: (step: number) => number): TargetOutcome {
+function targetOutcome(scenario: Scenario, paths: Simulation['tracks'], toYear: (step: number) => number): TargetOutcome {
   const target = scenario.target!;
   const { draws, horizon } = paths;
   const alreadyMet = targetMet(target, scenario.start.shares);

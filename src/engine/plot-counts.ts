@@ -3,6 +3,7 @@ import type { Multinomial } from '../uncertainty/multinomial.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 import type { DrawLayout } from './layout.js';
+import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 
 export interface PlotCounts extends DrawLayout {
   readonly recorded: readonly number[];
@@ -13,20 +14,21 @@ export interface PlotCounts extends DrawLayout {
 /**
  * Number of plots in each state, simulated plot by plot in aggregate: each step, the plots in
  * state i move on as Multinomial(nᵢ, row i of the year's matrix), and a landscape event moves every
- * plot by its row of the event matrix. This adds the chance of individual plots (process noise)
+ * plot by its row of the event matrix. Block b of draws takes its chance from its own sub-stream. This adds the chance of individual plots (process noise)
  * to the uncertainty about the matrix, so the bands are prediction bands for "how many of our N
  * plots". Plots are placed in the partial-area parcels at random at the start of each draw.
  */
 export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
   readonly record: readonly number[];
   readonly hits: readonly Uint8Array[];
-  readonly multinomial: Multinomial;
+  /** The plot-level chance of block b of draws (its own sub-stream, draw-blocks.ts). */
+  readonly multinomialOf: (block: number) => Multinomial;
 }): PlotCounts {
   const { k, count: D, data: P } = matrices;
   const k2 = k * k;
   const horizon = plan.horizon;
   const steps = horizon + 1;
-  const { record, hits, multinomial } = options;
+  const { record, hits, multinomialOf } = options;
   const slotOf = new Int32Array(steps).fill(-1);
   record.forEach((t, r) => { slotOf[t] = r; });
   const R = record.length;
@@ -40,7 +42,9 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const split = new Int32Array(G);
   const moved = new Int32Array(k);
 
+  let multinomial: Multinomial = multinomialOf(0);
   for (let d = 0; d < D; d++) {
+    if (d > 0 && d % DRAW_BLOCK === 0) multinomial = multinomialOf(d / DRAW_BLOCK);
     if (!plan.trivial) fillPlanMatrices(plan, P, d * k2, ws);
     now.fill(0);
     for (let s = 0; s < k; s++) {

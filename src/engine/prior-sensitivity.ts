@@ -5,7 +5,6 @@ import { fitPrior, type Fit } from '../fit/fit.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { simulate } from './simulate.js';
-import { columnStart } from './layout.js';
 
 /** The priors compared: a weak one, Jeffreys (1946) and uniform (Bayes–Laplace). */
 export const SENSITIVITY_PRIORS = [0.1, 0.5, 1] as const;
@@ -37,10 +36,10 @@ export function priorSensitivity(scenario: Scenario, random: RandomStream): Prio
     const withPrior: Fit = { ...fit, prior };
     const mean = posteriorMean(fit.counts, fitPrior(withPrior), k);
     const sim = simulate({ ...scenario, fit: withPrior, plots: undefined },
-      { k, count: 1, data: mean, source: 'point', notes: [] }, random, { expectedEvents: true, noPlots: true },
-      undefined, [scenario.horizonSteps]);
+      { k, count: 1, data: mean, source: 'point', notes: [] }, random,
+      { switches: { expectedEvents: true, noPlots: true }, record: [scenario.horizonSteps] });
     const stationary = stationaryMix(mean, k);
-    const horizon = Array.from({ length: k }, (_, st) => sim.paths.shares[columnStart(sim.paths, 0, st)]!);
+    const horizon = Array.from(sim.horizonShares); // one draw: [s*1 + 0]
     return { horizon, longRun: stationary.unique ? stationary.mix : null };
   });
   return flagged.map((reliance) => ({

@@ -3,12 +3,34 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
-import { buildPlan } from './plan.js';
+import { buildPlan, type RunPlan } from './plan.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
-import { propagate, type Trajectories } from './propagate.js';
+import { projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import type { SharedRun } from './engine-tasks.js';
+import { makePool } from './thread-pool.js';
+import { threadsFor } from './threads.js';
+import { chunksOf, yearsPerChunk } from './chunk-years.js';
+import { blockName, sharedFloat64 } from '../uncertainty/draw-blocks.js';
+import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
+
+/** Per draw, what a run keeps of its whole length: the first times (no mixes; see ProjectionState). */
+export interface Tracks {
+  readonly draws: number;
+  readonly horizon: number;
+  readonly k: number;
+  /** The steps summarised, increasing. */
+  readonly recorded: readonly number[];
+  readonly firstAtTarget: Int32Array;
+  readonly targetRunAtHorizon: Int32Array;
+  readonly firstMostCommon: Int32Array;
+}
 
 export interface Simulation {
-  readonly paths: Trajectories;
+  readonly tracks: Tracks;
+  /** Per state: bands of the share over draws at each of `tracks.recorded`. */
+  readonly shares: ShareBands[];
+  /** Every draw's mix at the horizon, `[s*D + d]`: for the uncertainty split and comparisons. */
+  readonly horizonShares: Float64Array;
   readonly plots?: PlotCounts;
   readonly notes: readonly string[];
 }
@@ -21,15 +43,126 @@ export interface Switches {
   readonly noPlots?: boolean;
 }
 
+export interface SimulateOptions {
+  readonly switches?: Switches;
+  readonly onProgress?: (done: number, total: number) => void;
+  /** Steps to summarise (default: every step 0 … horizon). Every step is run either way. */
+  readonly record?: readonly number[];
+  /** Memory for a chunk of years of every scenario's mixes (default CHUNK_BYTES, chunk-years.ts). */
+  readonly chunkBytes?: number;
+  /** Threads to use (threads.ts); the results are the same for any number. */
+  readonly threads?: number;
+  /**
+   * Heard at each recorded step, in order, with every scenario's mixes of that step (`[s*D + d]`;
+   * valid during the call only): for summaries that pair the scenarios draw by draw (compare.ts).
+   */
+  readonly onYear?: (step: number, mixes: readonly Float64Array[]) => void;
+}
+
+/** Run one scenario on given matrix draws (see simulateTogether). */
+export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, options: SimulateOptions = {}): Simulation {
+  return simulateTogether([scenario], matrices, random, options)[0]!;
+}
+
 /**
- * Run one scenario on given matrix draws. Random event years and plot noise come from streams
- * named after the event and 'plots', sub-streams of `random`, so every alternative run on the same
- * draws with the same seed meets the same storms and the same plot-level chance. Treatments must
- * already have been checked on the fitted matrix (checkScenarios: runForecast and runComparison
- * do it once, not on every rerun the uncertainty split or the effort grid makes).
+ * Run scenarios side by side on the same matrix draws, a chunk of years at a time: every draw's
+ * current mix is kept, and only a chunk of years of mixes (as many as `chunkBytes` holds); each
+ * year of a chunk is summarised — bands, the horizon's mixes, `onYear` — before the next chunk is
+ * run, so memory does not grow with the horizon. Each draw's arithmetic is the same whatever the
+ * chunks, so the results do not depend on the budget.
+ *
+ * Random event years and plot noise come from streams named after the event and 'plots',
+ * sub-streams of `random`, so every alternative run on the same draws with the same seed meets the
+ * same storms and the same plot-level chance. Treatments must already have been checked on the
+ * fitted matrix (checkScenarios: runForecast and runComparison do it once, not on every rerun the
+ * uncertainty split or the effort grid makes). The scenarios must share horizon and level.
  */
-export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches = {},
-  onProgress?: (done: number, total: number) => void, record?: readonly number[]): Simulation {
+export function simulateTogether(scenarios: readonly Scenario[], matrices: MatrixDraws, random: RandomStream,
+  options: SimulateOptions = {}): Simulation[] {
+  const { switches = {}, onProgress } = options;
+  const D = matrices.count;
+  const { k } = matrices;
+  const H = scenarios[0]!.horizonSteps;
+  const steps = H + 1;
+  const recorded = options.record ? [...options.record] : Array.from({ length: steps }, (_, t) => t);
+  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches));
+  // Kept: the recorded steps and the horizon, whose mixes every run keeps.
+  const kept = [...new Set([...recorded, H])].sort((a, b) => a - b);
+  const isRecorded = new Uint8Array(steps);
+  for (const t of recorded) isRecorded[t] = 1;
+  const perChunk = Math.min(kept.length, yearsPerChunk(D, k, scenarios.length, options.chunkBytes));
+  const shared: SharedRun[] = runs.map((run) => ({
+    inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
+  }));
+  const pool = makePool(threadsFor(options.threads, D, steps, k, runs.length));
+  pool.start(shared);
+  const slotOf = new Int32Array(steps);
+  const shares = runs.map(() => Array.from({ length: k }, emptyBands));
+  const horizonShares = runs.map(() => new Float64Array(k * D));
+  const total = D * runs.length;
+  let work = 0;
+  for (const chunk of chunksOf(kept, H, perChunk)) {
+    slotOf.fill(-1);
+    chunk.kept.forEach((t, r) => { slotOf[t] = r; });
+    pool.phase({ kind: 'project', from: chunk.from, to: chunk.to, slotOf });
+    work += (chunk.to - chunk.from) * runs.length;
+    onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
+    // The bands of every recorded year of the chunk, one task per (run, year, state).
+    const columns: number[] = [];
+    chunk.kept.forEach((t, r) => {
+      if (isRecorded[t]) runs.forEach((_, n) => { for (let s = 0; s < k; s++) columns.push(n, r, s); });
+    });
+    const results = sharedFloat64((columns.length / 3) * 4);
+    pool.phase({ kind: 'bands', columns: Int32Array.from(columns), results });
+    for (let c = 0; c < columns.length / 3; c++) {
+      const band = { median: results[4 * c]!, low: results[4 * c + 1]!, high: results[4 * c + 2]! };
+      appendBand(shares[columns[3 * c]!]![columns[3 * c + 2]!]!, band, results[4 * c + 3]!);
+    }
+    chunk.kept.forEach((t, r) => {
+      const mixes = shared.map((run) => run.buffer.subarray(r * k * D, (r + 1) * k * D));
+      if (t === H) runs.forEach((_, n) => horizonShares[n]!.set(mixes[n]!));
+      if (isRecorded[t]) options.onYear?.(t, mixes);
+    });
+  }
+  return runs.map((run, n) => {
+    const { firstAtTarget, targetRunAtHorizon, firstMostCommon } = run.state;
+    const notes = [...matrices.notes];
+    // A treatment whose years all fall outside the forecast is kept (a workspace's scenario may
+    // outlive its treatment as seasons move the start on) but said, so it is not read as acting.
+    for (const t of run.plan.treatments) {
+      if (t.weights.every((w) => w === 0)) notes.push(`treatment '${t.name}' acts in no year of this forecast (its years lie outside it)`);
+    }
+    run.plan.treatments.forEach((treatment, tr) => {
+      let draws = 0;
+      for (let d = 0; d < D; d++) draws += run.outcomes[tr * D + d]!;
+      if (draws > 0) {
+        notes.push(`treatment '${treatment.name}' could not act as written in ${draws} of ${D} draws ` +
+          '(probabilities capped at 1, or nothing left to rescale)');
+      }
+    });
+    const plots = run.scenario.plots && !switches.noPlots
+      ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
+        record: recorded, hits: run.inputs.hits,
+        multinomialOf: (b) => multinomialSampler(random.stream('plots').stream(blockName(b))),
+      })
+      : undefined;
+    return {
+      tracks: { draws: D, horizon: H, k, recorded, firstAtTarget, targetRunAtHorizon, firstMostCommon },
+      shares: shares[n]!, horizonShares: horizonShares[n]!, plots, notes,
+    };
+  });
+}
+
+interface Prepared {
+  readonly scenario: Scenario;
+  readonly plan: RunPlan;
+  readonly inputs: Omit<ProjectionInputs, 'onOutcome'>;
+  readonly state: ProjectionState;
+  /** `outcomes[treatment*D + d]` = 1 when the treatment could not act as written in draw d. */
+  readonly outcomes: Uint8Array;
+}
+
+function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches): Prepared {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
@@ -37,29 +170,7 @@ export function simulate(scenario: Scenario, matrices: MatrixDraws, random: Rand
   const D = matrices.count;
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
-  const trouble = new Map<number, Set<number>>();
-  const paths = propagate(matrices, scenario.start.shares, H, {
-    target: scenario.target, plan, hits, onProgress, record,
-    onOutcome: (draw, treatment) => {
-      const draws = trouble.get(treatment) ?? new Set<number>();
-      draws.add(draw);
-      trouble.set(treatment, draws);
-    },
-  });
-  const notes = [...matrices.notes];
-  // A treatment whose years all fall outside the forecast is kept (a workspace's scenario may
-  // outlive its treatment as seasons move the start on) but said, so it is not read as acting.
-  for (const t of plan.treatments) {
-    if (t.weights.every((w) => w === 0)) notes.push(`treatment '${t.name}' acts in no year of this forecast (its years lie outside it)`);
-  }
-  for (const [treatment, draws] of trouble) {
-    notes.push(`treatment '${plan.treatments[treatment]!.name}' could not act as written in ${draws.size} of ${D} draws ` +
-      '(probabilities capped at 1, or nothing left to rescale)');
-  }
-  const plots = scenario.plots && !switches.noPlots
-    ? simulatePlots(matrices, plan, scenario.plots.start, {
-      record: paths.recorded, hits, multinomial: multinomialSampler(random.stream('plots')),
-    })
-    : undefined;
-  return { paths, plots, notes };
+  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: Array.from(scenario.start.shares), plan, hits, target: scenario.target };
+  const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
+  return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
 }

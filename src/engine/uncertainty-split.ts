@@ -5,6 +5,7 @@ import { pointDraws } from '../uncertainty/point.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
 import { drawIndex } from './layout.js';
+import type { EngineOptions } from './engine-options.js';
 
 export type UncertaintySourceName = 'matrix' | 'events' | 'plots';
 
@@ -31,7 +32,8 @@ export interface UncertaintySplit {
  * plot-level chance (shares instead of counts). Sources interact, so the shares need not add up
  * to 1; they say which source matters, not an exact budget. Only sources present are listed.
  */
-export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full: Simulation, random: RandomStream): UncertaintySplit | null {
+export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full: Simulation, random: RandomStream,
+  engine: EngineOptions = {}): UncertaintySplit | null {
   const present: UncertaintySourceName[] = [];
   if (scenario.source !== 'point') present.push('matrix');
   if (scenario.events.some((e) => e.scope === 'landscape')) present.push('events');
@@ -42,7 +44,8 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   const sources = present.map((source) => {
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
     const draws = source === 'matrix' ? pointDraws(scenario.fit, matrices.count) : matrices;
-    const off = simulate(scenario, draws, random, switches);
+    // Only the horizon is summarised: the reruns keep no other year.
+    const off = simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes, threads: engine.threads });
     const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');
     return {
       source,
@@ -59,14 +62,13 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
 /** Per state at the horizon: band width and variance over draws, as a share (of area or of plots). */
 function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { width: number; variance: number }[] {
   const k = scenario.fit.states.length;
-  const { draws, recorded } = sim.paths;
-  const last = recorded.indexOf(scenario.horizonSteps);
+  const { draws } = sim.tracks;
+  const last = sim.plots ? sim.plots.recorded.indexOf(scenario.horizonSteps) : -1;
   const total = scenario.plots?.total ?? 1;
   return Array.from({ length: k }, (_, s) => {
     const column = new Float64Array(draws);
     for (let d = 0; d < draws; d++) {
-      const at = drawIndex(sim.paths, d, last, s);
-      column[d] = plots ? sim.plots!.counts[at]! / total : sim.paths.shares[at]!;
+      column[d] = plots ? sim.plots!.counts[drawIndex(sim.plots!, d, last, s)]! / total : sim.horizonShares[s * draws + d]!;
     }
     let mean = 0;
     for (const v of column) mean += v / draws;

@@ -3,8 +3,6 @@ import { posteriorDraws } from '../uncertainty/posterior.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { checkScenarios } from '../engine/check-treatments.js';
-import { columnStart } from '../engine/layout.js';
-import { bandOf } from '../engine/quantiles.js';
 import { resurveyedStates } from './resurvey-choice.js';
 
 export interface EffortCell {
@@ -47,12 +45,8 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
   const widthsOf = (counts: Float64Array, random: RandomStream): number[] => {
     const updated = { ...fit, counts };
     const matrices = posteriorDraws(updated, options.draws, random.stream('matrices'));
-    const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, random, {}, undefined, [scenario.horizonSteps]);
-    return Array.from({ length: k }, (_, s) => {
-      const from = columnStart(sim.paths, 0, s);
-      const band = bandOf(sim.paths.shares.slice(from, from + sim.paths.draws), scenario.level);
-      return band.high - band.low;
-    });
+    const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, random, { record: [scenario.horizonSteps] });
+    return sim.shares.map((band) => band.high[0]! - band.low[0]!);
   };
   const meanOverReplicates = (widths: (r: number) => number[]): number[] => {
     const sum = new Array<number>(k).fill(0);

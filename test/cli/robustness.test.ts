@@ -76,7 +76,12 @@ describe('numbers out of range are refused before any work', () => {
   });
 
   it('a run that would not fit in memory is refused with the estimate, before allocating', () => {
-    const f = scenario(scratch(), 'data: hand.csv\nuncertainty: { source: posterior, draws: 1000000, seed: 3 }\nhorizon: { steps: 1000 }\n');
+    // 30 states: the matrix draws alone are 1,000,000 × 30² doubles (7.2 GB).
+    const dir = scratch();
+    const rows = ['site,time,state'];
+    for (let site = 0; site < 60; site++) rows.push(`p${site},2000,s${site % 30}`, `p${site},2001,s${(site + 1) % 30}`);
+    writeFileSync(join(dir, 'many.csv'), rows.join('\n') + '\n');
+    const f = scenario(dir, 'data: many.csv\nuncertainty: { source: posterior, draws: 1000000, seed: 3 }\nhorizon: { steps: 10 }\n');
     const r = sere(['forecast', f, '--debug']);
     expect(r.code).toBe(1);
     expect(r.stderr).toContain('[TOO_LARGE]');

@@ -1,7 +1,10 @@
 import fc from 'fast-check';
 import { matrix, multiply, type Matrix } from 'mathjs';
 import { describe, expect, it } from 'vitest';
-import { simulate } from '../../src/engine/simulate.js';
+import { simulate as simulateSummarised, type Simulation } from '../../src/engine/simulate.js';
+import type { MatrixDraws } from '../../src/uncertainty/draws.js';
+import type { RandomStream } from '../../src/uncertainty/random.js';
+import type { Scenario } from '../../src/scenario/scenario.js';
 import { mixAt } from '../../src/engine/layout.js';
 import { pointDraws } from '../../src/uncertainty/point.js';
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
@@ -14,6 +17,15 @@ const mle = counts.map((row) => row.map((n) => n / row.reduce((a, b) => a + b, 0
 const H = 12;
 const x0 = [0.7, 0.2, 0.1];
 const base = scenarioFor(fit, { horizonSteps: H, start: { year: 2020, shares: Float64Array.from(x0), from: 'given' } });
+
+/** A simulation that also keeps every draw's mix at every step, [step][state][draw] (the engine keeps none). */
+function simulate(scenario: Scenario, draws: MatrixDraws, random: RandomStream): Simulation & { paths: { draws: number; slots: number; k: number; shares: Float64Array } } {
+  const kept: Float64Array[] = [];
+  const sim = simulateSummarised(scenario, draws, random, { onYear: (_, mixes) => { kept.push(mixes[0]!.slice()); } });
+  const shares = new Float64Array(kept.reduce((n, m) => n + m.length, 0));
+  kept.reduce((at, m) => { shares.set(m, at); return at + m.length; }, 0);
+  return { ...sim, paths: { draws: draws.count, slots: kept.length, k: draws.k, shares } };
+}
 
 const sharesAt = (sim: ReturnType<typeof simulate>, d: number, t: number): number[] => mixAt(sim.paths.shares, sim.paths, d, t);
 

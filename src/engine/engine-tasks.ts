@@ -1,0 +1,58 @@
+import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { projectDraws, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { bandOf } from './quantiles.js';
+
+/**
+ * The work of a run that threads share (thread-pool.ts), on shared memory only: what a worker
+ * receives once per run. Every array here is backed by a SharedArrayBuffer.
+ */
+export interface SharedRun {
+  readonly inputs: Omit<ProjectionInputs, 'onOutcome'>;
+  readonly state: ProjectionState;
+  /** A chunk of years of mixes, [slot][state][draw]. */
+  readonly buffer: Float64Array;
+  /** `outcomes[treatment*D + d]` = 1 when the treatment could not act as written in draw d. */
+  readonly outcomes: Uint8Array;
+  readonly level: number;
+}
+
+/** One phase of a run, split into tasks numbered 0 … count − 1 that any thread may take, in any order. */
+export type Phase =
+  /** Steps from … to − 1 of every block of draws of every run: task = run × blocks + block. */
+  | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
+  /** Bands of columns (run, slot, state), three numbers each; results [median, low, high, mean] per column. */
+  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array };
+
+export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
+  return phase.kind === 'project' ? runs.length * blocksOf(runs[0]!) : phase.columns.length / 3;
+}
+
+function blocksOf(run: SharedRun): number {
+  return Math.ceil(run.inputs.draws / DRAW_BLOCK);
+}
+
+/**
+ * Do task `task` of `phase`. Tasks write disjoint parts of shared arrays (a block's draws, a
+ * column's band) and read nothing another task of the same phase writes, so the results are the
+ * same whichever thread runs which task, and in whatever order.
+ */
+export function runTask(runs: readonly SharedRun[], phase: Phase, task: number): void {
+  if (phase.kind === 'project') {
+    const blocks = blocksOf(runs[0]!);
+    const run = runs[Math.floor(task / blocks)]!;
+    const b = task % blocks;
+    const D = run.inputs.draws;
+    const { outcomes } = run;
+    projectDraws({ ...run.inputs, onOutcome: (d, treatment) => { outcomes[treatment * D + d] = 1; } },
+      run.state, b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf, run.buffer);
+    return;
+  }
+  const { columns, results } = phase;
+  const run = runs[columns[3 * task]!]!;
+  const slot = columns[3 * task + 1]!;
+  const s = columns[3 * task + 2]!;
+  const { draws: D, k } = run.inputs;
+  const at = (slot * k + s) * D;
+  const band = bandOf(run.buffer.subarray(at, at + D), run.level);
+  results.set([band.median, band.low, band.high, band.mean], 4 * task);
+}

@@ -1,0 +1,175 @@
+import type { RowChangeOutcome } from '../chain/row-change.js';
+import type { LandscapeTarget } from '../scenario/scenario.js';
+import type { RunPlan } from './plan.js';
+import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import { targetBounds } from './target.js';
+
+/** A share within this of the largest counts as "most common" too (ties after rounding). */
+export const MOST_COMMON_TOLERANCE = 1e-12;
+
+/** Draws per block of the kernel's output buffer (see projectDraws); 256 draws × a chunk's steps × k fits in cache. */
+export const OUTPUT_BLOCK = 256;
+
+/**
+ * Everything the projection carries from one chunk of years to the next, per draw: each
+ * sub-population's current mix and the first-time tracking. This, not the years, is what a run
+ * holds for its whole length: D × (G·k + k + 3) numbers.
+ */
+export interface ProjectionState {
+  /** `xs[(d*G + g)*k + s]`: sub-population g's share of the whole area in state s, after the last step run. */
+  readonly xs: Float64Array;
+  /** Per draw: first step of the current run of steps meeting the target, −1 when it is not met. */
+  readonly runStart: Int32Array;
+  /**
+   * Per draw, the first step from which the target holds `staysMet` consecutive steps within the
+   * horizon (with staysMet 1: the first step it is met), or −1.
+   */
+  readonly firstAtTarget: Int32Array;
+  /**
+   * Per draw, how many consecutive steps the target has held up to and including the horizon (0:
+   * not met at the horizon; horizon + 1: met in every step from the start). Set by the last chunk.
+   */
+  readonly targetRunAtHorizon: Int32Array;
+  /** Per draw and state `[d*k + s]`: first step the state is the most common one, or −1. */
+  readonly firstMostCommon: Int32Array;
+}
+
+/** A run's state, in shared memory so the engine's threads can each advance their blocks of draws. */
+export function projectionState(draws: number, k: number, subPopulations: number): ProjectionState {
+  const int32 = (n: number): Int32Array => new Int32Array(new SharedArrayBuffer(n * 4));
+  return {
+    xs: new Float64Array(new SharedArrayBuffer(draws * subPopulations * k * 8)),
+    runStart: int32(draws).fill(-1),
+    firstAtTarget: int32(draws).fill(-1),
+    targetRunAtHorizon: int32(draws),
+    firstMostCommon: int32(draws * k).fill(-1),
+  };
+}
+
+/** What does not change during a run: the draws, the plan, the event years and the target. */
+export interface ProjectionInputs {
+  /** Matrix draws, flat D × k × k (MatrixDraws.data). */
+  readonly P: Float64Array;
+  readonly k: number;
+  readonly draws: number;
+  readonly horizon: number;
+  readonly start: ArrayLike<number>;
+  /** Treatments, sub-populations and events; absent: the drawn matrix every step. */
+  readonly plan?: RunPlan;
+  /** For each of `plan.landscapeEvents`, `hits[e][d*(horizon+1) + t]` = 1 when it strikes in step t. */
+  readonly hits: readonly Uint8Array[];
+  readonly target?: LandscapeTarget;
+  readonly onOutcome?: (draw: number, treatment: number, outcome: RowChangeOutcome) => void;
+}
+
+/**
+ * Steps `from` … `to − 1` of draws `d0` … `d1 − 1`: x_{t+1} = x_t P (row vector times a
+ * row-stochastic matrix) in every sub-population, then landscape events x ← x·E in the years they
+ * strike; the landscape's mix is the sum over sub-populations. Step 0 is the starting mix. At every
+ * step it tracks whether the target is met (the length of the run of years it has held, so a
+ * target that must stay met is found in the same pass) and when each state first becomes the most
+ * common; the landscape mix at step t with `slotOf[t] = r ≥ 0` goes to `out[(r*k + s)*D + d]`.
+ *
+ * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
+ * once per call, no allocation inside. Shares are not renormalised: every matrix row sums to 1
+ * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
+ * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
+ * memory budget.
+ */
+export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
+  from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
+  const { P, k, draws: D, horizon, start, plan, hits, target, onOutcome } = inputs;
+  const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
+  const k2 = k * k;
+  const steps = horizon + 1;
+  const members = target ? Int32Array.from(target.states) : new Int32Array(0);
+  const staysMet = target ? target.staysMet : 1;
+  const nMembers = members.length;
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
+  const trivial = !plan || plan.trivial;
+  const G = plan ? plan.subPopulations.length : 1;
+  const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
+  const planOf = plan?.planOf;
+  const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
+  const events = landscape.length;
+  const ws = plan && !trivial ? planWorkspace(plan) : undefined;
+  const total = new Float64Array(k);
+  const y = new Float64Array(k);
+  const z = new Float64Array(k);
+  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
+  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
+  // line for every number (measured: a third of a comparison's time).
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
+
+  for (let d = d0; d < d1; d++) {
+    const b = (d - d0) % OUTPUT_BLOCK;
+    if (ws) fillPlanMatrices(plan!, P, d * k2, ws, onOutcome && ((tr, outcome) => onOutcome(d, tr, outcome)));
+    const M = ws ? ws.matrices : P;
+    const hitRow = d * steps;
+    const x = d * G * k;
+    let pending = 0; // states not yet seen as the most common
+    for (let s = 0; s < k; s++) if (firstMostCommon[d * k + s] === -1) pending += 1;
+    let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
+    for (let t = from; t < to; t++) {
+      if (t === 0) {
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[s]!;
+        for (let s = 0; s < k; s++) total[s] = start[s]!;
+      } else {
+        for (let g = 0; g < G; g++) {
+          const base = ws ? planOf![t * G + g]! * k2 : d * k2;
+          const xo = x + g * k;
+          const x0 = xs[xo]!;
+          for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
+          for (let i = 1; i < k; i++) {
+            const xi = xs[xo + i]!;
+            if (xi === 0) continue;
+            const row = base + i * k;
+            for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
+          }
+          for (let e = 0; e < events; e++) {
+            if (hits[e]![hitRow + t] === 0) continue;
+            const E = landscape[e]!;
+            z.fill(0);
+            for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }
+            y.set(z);
+          }
+          // The landscape's mix is the sum over sub-populations: assign for the first, add after.
+          if (g === 0) for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] = y[s]!; }
+          else for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] += y[s]!; }
+        }
+      }
+      const slot = slotOf[t]!;
+      if (slot >= 0) {
+        const at = slot * k * OUTPUT_BLOCK + b;
+        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = total[s]!;
+      }
+      if (pending > 0) {
+        let largest = 0;
+        for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
+        for (let s = 0; s < k; s++) {
+          if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) {
+            firstMostCommon[d * k + s] = t;
+            pending -= 1;
+          }
+        }
+      }
+      if (target) {
+        let sum = 0;
+        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
+        if (!(sum >= metLow && sum <= metHigh)) run = -1;
+        else {
+          if (run < 0) run = t;
+          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
+        }
+      }
+    }
+    runStart[d] = run;
+    if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+      const first = d - b;
+      for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
+    }
+  }
+}
