@@ -1,14 +1,14 @@
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomStream } from '../uncertainty/random.js';
-import { appendBand, summarise, type ForecastResult, type ShareBands } from './forecast.js';
+import { summarise, type ForecastResult } from './forecast.js';
+import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
 import { bandOf, type Band } from './quantiles.js';
 import { timingBand } from './timing-band.js';
 import { simulateTogether, type Simulation } from './simulate.js';
 import type { EngineOptions } from './engine-options.js';
 import { checkScenarios } from './check-treatments.js';
 import { stationaryOfDraws, stationaryOfObservedRows } from './stationary-draws.js';
-import { differenceAt } from './difference-at.js';
 
 /** Two alternatives' shares closer than this in a draw count as a tie, not as one doing better. */
 export const TIE_TOLERANCE = 1e-12;
@@ -28,7 +28,7 @@ export interface AlternativeComparison {
   readonly odds: Odds[][];
   /** The landscape target, when the scenarios set one. */
   readonly dominance: TargetComparison | null;
-  /** Per state: the band of (alternative − baseline) share at the horizon (difference-at.ts). */
+  /** Per state: the band of (alternative − baseline) share at the horizon, shown year or not (the difference chart's row). */
   readonly atHorizon: Band[];
 }
 
@@ -137,12 +137,13 @@ function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result
   const difference: ShareBands[] = [];
   const odds: Odds[][] = [];
   for (let s = 0; s < k; s++) {
-    const bands: ShareBands = { median: [], low: [], high: [], mean: [] };
+    const bands = emptyBands();
     for (const year of byYear) appendBand(bands, year.bands[s]!.band, year.bands[s]!.mean);
     difference.push(bands);
     odds.push(byYear.map((year) => year.odds[s]!));
   }
-  const atHorizon = differenceAt(base.horizonShares, alt.horizonShares, k, baseline.level);
+  const atHorizon = differencesAt(base.horizonShares, alt.horizonShares, baseline, new Float64Array(base.tracks.draws))
+    .bands.map(({ band: { median, low, high } }) => ({ median, low, high }));
   return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null, atHorizon };
 }
 

@@ -12,7 +12,7 @@ import { priorSensitivity, type PriorSensitivity } from './prior-sensitivity.js'
 import { treatedStationary } from './treated-stationary.js';
 import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js';
 import { columnStart, type DrawLayout } from './layout.js';
-import { appendBand, type ShareBands } from './year-bands.js';
+import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
 import type { EngineOptions } from './engine-options.js';
 
 export type { ShareBands } from './year-bands.js';
@@ -158,7 +158,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
  * step. Sorting reorders its input, and the draws must stay aligned: work on one scratch copy.
  */
 function bandsByStep(values: Int32Array, layout: DrawLayout, state: number, level: number): ShareBands {
-  const out: ShareBands = { median: [], low: [], high: [], mean: [] };
+  const out = emptyBands();
   const { draws, slots } = layout;
   const column = new Int32Array(draws);
   for (let r = 0; r < slots; r++) {

@@ -43,6 +43,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
   // times) is hindcast from its most recent origins only, which is where the trust matters.
   const times = every.slice(-LIMITS.hindcastOrigins);
   const cases: HindcastCase[] = [];
+  const records = recordsOf(table); // once: each origin and horizon scores from the same surveys
   for (const origin of times) {
     const past = selectRows(table, (n) => table.rows.time[n]! <= origin);
     let fit;
@@ -56,7 +57,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       if (!observed.has(target)) continue;
       const random = options.random.stream(`hindcast:${origin}:${steps}`);
       const matrices = drawMatrices(fit, 'posterior', options.draws, random.stream('matrices'));
-      const scored = scoreSites(matrices, recordsOf(table),
+      const scored = scoreSites(matrices, records,
         { origin, target, step: settings.step, originCounts: observed.get(origin)!.counts, level: options.level }, random.stream('sites'));
       if (scored) cases.push({ origin, target, steps, ...scored });
     }

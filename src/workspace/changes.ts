@@ -1,4 +1,4 @@
-import type { Fit } from '../fit/fit.js';
+import { fitMle, type Fit } from '../fit/fit.js';
 import type { ForecastResult } from '../engine/forecast.js';
 
 /** What a record keeps of a forecast, as read back from its JSON. */
@@ -6,15 +6,6 @@ export interface StoredForecast {
   readonly name: string;
   readonly years: readonly number[];
   readonly shares: Record<string, { median: number[]; low: number[]; high: number[] }>;
-}
-
-/** What a record keeps of the fit, as read back from fit.json. */
-export interface StoredFit {
-  readonly states: readonly string[];
-  readonly counts: readonly (readonly number[])[];
-  readonly probabilities: readonly (readonly number[])[];
-  readonly input: { readonly sha256: string };
-  readonly data: { readonly sites: number; readonly transitions: number };
 }
 
 export interface ShareAt {
@@ -64,7 +55,7 @@ export const MOVED_SHOWN = 5;
  * scenarios rerun with the new fit from the previous record's start — and which transition
  * probabilities moved most and on how many new transitions. Scenarios and states match by name.
  */
-export function changesSince(previous: string, before: { fit: StoredFit; forecasts: readonly StoredForecast[] },
+export function changesSince(previous: string, before: { chain: Fit; forecasts: readonly StoredForecast[] },
   fit: Fit, estimates: { p: Float64Array }, results: readonly ForecastResult[], fromPreviousStart: readonly ForecastResult[]): Changes {
   const k = fit.states.length;
   const forecasts: ForecastChange[] = [];
@@ -91,15 +82,24 @@ export function changesSince(previous: string, before: { fit: StoredFit; forecas
     });
   }
   const moved: Changes['moved'][number][] = [];
+  // The previous record's chain, loaded from its fit.json; its MLE is recomputed from its counts and
+  // prior, exactly the probabilities that file holds.
+  const earlier = before.chain;
+  const kb = earlier.states.length;
+  const pBefore = fitMle(earlier).p;
+  const rowSum = (counts: ArrayLike<number>, width: number, row: number): number => {
+    let n = 0;
+    for (let j = 0; j < width; j++) n += counts[row * width + j]!;
+    return n;
+  };
   fit.states.forEach((from, i) => {
-    const bi = before.fit.states.indexOf(from);
+    const bi = earlier.states.indexOf(from);
     if (bi < 0) return;
-    const rowNow = Array.from({ length: k }, (_, j) => fit.counts[i * k + j]!).reduce((a, b) => a + b, 0);
-    const rowBefore = before.fit.counts[bi]!.reduce((a, b) => a + b, 0);
+    const newTransitions = rowSum(fit.counts, k, i) - rowSum(earlier.counts, kb, bi);
     fit.states.forEach((to, j) => {
-      const bj = before.fit.states.indexOf(to);
+      const bj = earlier.states.indexOf(to);
       if (bj < 0) return;
-      moved.push({ from, to, before: before.fit.probabilities[bi]![bj]!, now: estimates.p[i * k + j]!, newTransitions: rowNow - rowBefore });
+      moved.push({ from, to, before: pBefore[bi * kb + bj]!, now: estimates.p[i * k + j]!, newTransitions });
     });
   });
   moved.sort((a, b) => Math.abs(b.now - b.before) - Math.abs(a.now - a.before));
@@ -107,9 +107,9 @@ export function changesSince(previous: string, before: { fit: StoredFit; forecas
     format: 'sere-changes',
     format_version: 2,
     previous,
-    dataChanged: before.fit.input.sha256 !== fit.input.sha256,
-    sites: { before: before.fit.data.sites, now: fit.sites.length },
-    transitions: { before: before.fit.data.transitions, now: fit.transitions },
+    dataChanged: earlier.input.sha256 !== fit.input.sha256,
+    sites: { before: earlier.sites.length, now: fit.sites.length },
+    transitions: { before: earlier.transitions, now: fit.transitions },
     forecasts,
     moved: moved.filter((m) => m.now !== m.before).slice(0, MOVED_SHOWN),
   };

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { SereError } from '../errors.js';
 import { formatKeyPath } from '../data/read-structured.js';
 import { LIMITS } from '../limits.js';
-import type { StoredFit, StoredForecast } from './changes.js';
+import type { StoredForecast } from './changes.js';
 import type { ScorableForecast } from './score-records.js';
 import { loadFit } from '../fit/load-fit.js';
 import type { Fit } from '../fit/fit.js';
@@ -24,7 +24,6 @@ export interface StoredRecord {
   readonly name: string;
   readonly dir: string;
   readonly manifest: RecordManifest;
-  readonly fit: StoredFit;
   /** fit.json loaded as a fit file, every invariant checked: the chain a later season scores. */
   readonly chain: Fit;
   readonly forecasts: readonly (StoredForecast & ScorableForecast)[];
@@ -44,13 +43,6 @@ const manifestSchema = z.object({
   scored: z.array(z.string()).default([]),
   scores_seed: z.number().int().min(1).max(LIMITS.seed).nullish(),
   contents: z.array(z.string()),
-});
-const fitSchema = z.object({
-  states: z.array(z.string()).min(2),
-  counts: z.array(numbers),
-  probabilities: z.array(numbers),
-  input: z.object({ sha256: z.string() }),
-  data: z.object({ sites: z.number(), transitions: z.number() }),
 });
 const forecastFileSchema = z.object({
   scenarios: z.array(z.object({
@@ -87,14 +79,13 @@ function readJson<T>(file: string, schema: z.ZodType<T>): T {
 /** Read back what a later season needs of a record: its manifest, fit and forecasts, each checked. */
 export function readRecord(dir: string, name: string): StoredRecord {
   const manifest = readJson(join(dir, 'manifest.json'), manifestSchema);
-  const fit = readJson(join(dir, 'fit.json'), fitSchema);
   const chain = loadChain(join(dir, 'fit.json'));
   const folder = join(dir, 'forecasts');
   const forecasts = existsSync(folder)
     ? readdirSync(folder).filter((f) => f.endsWith('.json')).sort()
       .flatMap((f) => readJson(join(folder, f), forecastFileSchema).scenarios)
     : [];
-  return { name, dir, manifest, fit, chain, forecasts };
+  return { name, dir, manifest, chain, forecasts };
 }
 
 /** One owner for the invariants of a fit file (check-fit-file.ts); in a record, a broken one is a damaged record. */

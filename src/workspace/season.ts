@@ -15,7 +15,7 @@ import { SereError } from '../errors.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { carriedStart, rerunFromStart } from './rerun-from-start.js';
-import { changesSince, type Changes, type StoredFit, type StoredForecast } from './changes.js';
+import { changesSince, type Changes, type StoredForecast } from './changes.js';
 import { scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
 export interface SeasonOptions {
@@ -26,7 +26,7 @@ export interface SeasonOptions {
   /** The seed for files that name none, chosen (and so printable) where the run starts. */
   readonly fallbackSeed?: number;
   /** The previous record, read back, to say what changed. */
-  readonly previous?: { readonly name: string; readonly fit: StoredFit; readonly chain: Fit; readonly forecasts: readonly StoredForecast[] };
+  readonly previous?: { readonly name: string; readonly chain: Fit; readonly forecasts: readonly StoredForecast[] };
   /** Earlier records whose forecasts are scored against the surveys made since. */
   readonly earlier?: readonly ScorableRecord[];
   /** The seed of the scoring stream (a replay passes the record's); otherwise the workspace's or `fallbackSeed`. */
