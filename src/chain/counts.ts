@@ -7,6 +7,14 @@ export interface SkippedPairs {
   readonly pairs: number;
 }
 
+/**
+ * Pairs of consecutive surveys of one site a whole number of steps apart (two or more), pooled:
+ * `[from, to, gap, n]` with gap in steps, sorted by gap, from, to. A pair g steps apart is evidence
+ * about Pᵍ; these counts by gap are the sufficient statistics of that likelihood. The one shape
+ * shared by survey tables, fit files and counts tables.
+ */
+export type GapCell = readonly [from: number, to: number, gap: number, n: number];
+
 /** Transitions that started at one survey time: what tests of time-homogeneity compare. */
 export interface PeriodCounts {
   readonly time: number;
@@ -20,6 +28,8 @@ export interface TransitionCounts {
   readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
+  /** Pairs two or more whole steps apart (also tallied in `skipped` until the gap model uses them). */
+  readonly gapCounts: readonly GapCell[];
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
   readonly firstLine: Float64Array;
   /** Runs of three surveys each one step apart, as sparse `[i, j, l, n]`: the data of the order tests. */
@@ -47,6 +57,7 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
   const firstLine = new Float64Array(k * k);
   const sites = new SiteCountBuilder(k, rows.group !== undefined && table.groups !== undefined);
   const skipped = new Map<number, number>();
+  const byGap = new Map<number, Float64Array>();
   const triples = new Float64Array(k * k * k);
   const periods = new Map<number, Float64Array>();
   const siteCells = new Int32Array(k * k);
@@ -59,6 +70,11 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
       const gap = time[n]! - time[n - 1]!;
       if (gap !== step) {
         skipped.set(gap, (skipped.get(gap) ?? 0) + 1);
+        if (gap > step && gap % step === 0) {
+          let dense = byGap.get(gap / step);
+          if (dense === undefined) byGap.set(gap / step, dense = new Float64Array(k * k));
+          dense[state[n - 1]! * k + state[n]!] += 1;
+        }
         continue;
       }
       const cell = state[n - 1]! * k + state[n]!;
@@ -84,8 +100,12 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
   const skippedList = [...skipped.entries()].sort((x, y) => x[0] - y[0]).map(([gap, pairs]) => ({ gap, pairs }));
   const tripleList: (readonly [number, number, number, number])[] = [];
   triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
+  const gapCounts: GapCell[] = [];
+  for (const g of [...byGap.keys()].sort((x, y) => x - y)) {
+    for (const [i, j, n] of sparseCells(byGap.get(g)!, k)) gapCounts.push([i, j, g, n]);
+  }
   return {
-    k, counts, sites: sites.table(), transitions, skipped: skippedList, firstLine, triples: tripleList,
+    k, counts, sites: sites.table(), transitions, skipped: skippedList, gapCounts, firstLine, triples: tripleList,
     periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
   };
 }

@@ -1,7 +1,7 @@
 import { quote } from '../errors.js';
 import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
-import { addSiteCells, compareCodePoints } from '../chain/counts.js';
+import { addSiteCells, compareCodePoints, type GapCell } from '../chain/counts.js';
 import { SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
 
@@ -15,6 +15,7 @@ export interface CheckedFitFile {
   readonly counts: Float64Array;
   readonly sites: SiteCountTable;
   readonly transitions: number;
+  readonly gapCounts: readonly GapCell[];
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -38,7 +39,8 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   const sites = checkSites(f, k, counts, fail);
   checkPeriods(f, k, counts, fail);
   checkTriples(f, k, counts, fail);
-  return { states, impossible, counts, sites, transitions };
+  const gapCounts = checkGapCounts(f, k, fail);
+  return { states, impossible, counts, sites, transitions, gapCounts };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {
@@ -171,4 +173,19 @@ function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
   ends.forEach((x, c) => {
     if (x > counts[c]!) fail(`order2_counts hold ${x} runs ending in a transition counted ${counts[c]} times`, ['order2_counts']);
   });
+}
+
+/** Pairs by gap: indices in range, gaps of two or more steps, each cell once, in (gap, from, to) order. */
+function checkGapCounts(f: FitFile, k: number, fail: Fail): GapCell[] {
+  const cells = f.data.gap_counts ?? [];
+  let previous = -1;
+  cells.forEach(([i, j, g, n], c) => {
+    if (i >= k || j >= k) fail(`state index out of range (${k} states)`, ['data', 'gap_counts', c]);
+    if (g < 2) fail(`gap ${g} is not two or more steps (one-step pairs belong in counts)`, ['data', 'gap_counts', c, 2]);
+    if (n === 0) fail('a cell with no pairs is left out, not listed as 0', ['data', 'gap_counts', c, 3]);
+    const order = (g * k + i) * k + j;
+    if (order <= previous) fail('cells are listed twice or out of (gap, from, to) order', ['data', 'gap_counts', c]);
+    previous = order;
+  });
+  return cells.map(([i, j, g, n]) => [i, j, g, n] as const);
 }

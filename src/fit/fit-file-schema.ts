@@ -22,6 +22,7 @@ export const fitFileSchema = z.object({
   data: z.object({
     surveys: count,
     skipped_pairs: z.array(z.object({ gap: z.number().int().positive(), pairs: count })),
+    gap_counts: z.array(z.tuple([count, count, count, count])).optional(),
     repeated_rows: count,
     first_time: time,
   }),

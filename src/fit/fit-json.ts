@@ -41,6 +41,7 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       surveys: fit.surveys,
       transitions: fit.transitions,
       skipped_pairs: fit.skipped,
+      gap_counts: fit.gapCounts ?? [],
       repeated_rows: fit.repeatedRows,
       first_time: fit.firstTime,
       last_time: fit.latest.time,

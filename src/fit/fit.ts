@@ -1,7 +1,7 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
 import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
-import { countTransitions, likelyStep, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import { countTransitions, likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
 import type { SiteCountTable } from '../chain/site-counts.js';
 import { latestSurveyedMix, surveyedMixes, type MixAtTime, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
@@ -25,6 +25,8 @@ export interface Fit {
   readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
+  /** Pairs two or more whole steps apart, by gap in steps (chain/counts.ts GapCell; absent in old fit files). */
+  readonly gapCounts?: readonly GapCell[];
   readonly repeatedRows: number;
   /** Rare labels that look like slips for common ones (a warning; not kept in fit files). */
   readonly typos?: readonly LikelyTypo[];
@@ -83,6 +85,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     sites: counted.sites,
     transitions: counted.transitions,
     skipped: counted.skipped,
+    gapCounts: counted.gapCounts,
     repeatedRows: table.repeatedRows,
     typos: likelyTypos(table),
     surveys: table.rows.count,

@@ -22,6 +22,7 @@ export function loadFit(file: string): Fit {
     sites: checked.sites,
     transitions: checked.transitions,
     skipped: f.data.skipped_pairs,
+    gapCounts: checked.gapCounts,
     repeatedRows: f.data.repeated_rows,
     surveys: f.data.surveys,
     firstTime: f.data.first_time,

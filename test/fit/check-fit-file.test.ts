@@ -10,6 +10,7 @@ import { fitToJson } from '../../src/fit/fit-json.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { SereError } from '../../src/errors.js';
+import { tableFromRecords } from '../../src/data/survey-rows.js';
 
 function errorOf(fn: () => unknown): SereError {
   try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
@@ -76,6 +77,10 @@ const cases: [string, (f: Json) => void, string][] = [
   ['a period outside the surveys', (f) => { f.period_counts[0].time = f.latest.time; }, 'period_counts[0].time'],
   ['more runs of three than transitions', (f) => { f.order2_counts[0][3] += 100; }, 'order2_counts'],
   ['an order-2 index out of range', (f) => { f.order2_counts[0][2] = 7; }, 'order2_counts[0]'],
+  ['a gap count of one step', (f) => { f.data.gap_counts = [[0, 1, 1, 2]]; }, 'data.gap_counts[0][2]'],
+  ['a gap count listed as 0', (f) => { f.data.gap_counts = [[0, 1, 2, 0]]; }, 'data.gap_counts[0][3]'],
+  ['a gap index out of range', (f) => { f.data.gap_counts = [[0, 3, 2, 1]]; }, 'data.gap_counts[0]'],
+  ['gap counts out of order', (f) => { f.data.gap_counts = [[0, 1, 3, 1], [0, 1, 2, 1]]; }, 'data.gap_counts[1]'],
 ];
 
 describe('fit files edited by hand', () => {
@@ -91,6 +96,16 @@ describe('fit files edited by hand', () => {
     const back = loadFit(write(JSON.parse(JSON.stringify(fitToJson(fit, estimateFit(fit, 0.9)))) as Json));
     expect(back.sites).toEqual(fit.sites);
     expect(Array.from(back.counts)).toEqual(Array.from(fit.counts));
+  });
+
+  it('pairs two or more whole steps apart are counted by gap and survive the round trip', () => {
+    // Site A surveyed at 0, 2, 3, 7: pairs 0→2 (gap 2), 2→3 (one step), 3→7 (gap 4); site B at 0, 3 (gap 3).
+    const rows: [string, number, number][] = [['A', 0, 0], ['A', 2, 1], ['A', 3, 1], ['A', 7, 0], ['B', 0, 1], ['B', 3, 0]];
+    const table = tableFromRecords('gaps.csv', ['a', 'b'], rows.map(([site, time, state], n) => ({ site, time, state, line: n + 2 })));
+    const fit = fitSurvey(table, DEFAULT_FIT_SETTINGS);
+    expect(fit.gapCounts).toEqual([[0, 1, 2, 1], [1, 0, 3, 1], [1, 0, 4, 1]]);
+    const back = loadFit(write(JSON.parse(JSON.stringify(fitToJson(fit, estimateFit(fit, 0.9)))) as Json));
+    expect(back.gapCounts).toEqual(fit.gapCounts);
   });
 
   it('a site without its group, when the fit has a group column → BAD_FIT_FILE at that site', () => {
