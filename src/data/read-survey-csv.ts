@@ -4,7 +4,8 @@ import { readLineBlocks } from './read-line-blocks.js';
 import { CsvParseScanner } from './scan-csv-parse.js';
 import { PlainCsvScanner } from './scan-plain-csv.js';
 import { SurveyCollector } from './survey-collector.js';
-import type { SurveyColumns, SurveyTable } from './survey.js';
+import type { LabelMap } from './label-map.js';
+import type { SurveyColumns, SurveyLayout, SurveyTable } from './survey.js';
 
 export interface ReadSurveyOptions {
   readonly columns: SurveyColumns;
@@ -14,6 +15,12 @@ export interface ReadSurveyOptions {
   readonly statesPlace?: Place;
   /** One of several tables read as one (see read-survey-tables.ts): it may hold a single state. */
   readonly partOfSeveral?: boolean;
+  /** Long or wide; undefined: detected from the header (survey-layout.ts). */
+  readonly layout?: SurveyLayout;
+  /** The worksheet of a spreadsheet (.xlsx); undefined: the first. */
+  readonly sheet?: string;
+  /** Recorded labels → states, applied once per distinct label (label-map.ts). */
+  readonly labels?: LabelMap;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
   readonly blockSize?: number;
 }
@@ -21,7 +28,8 @@ export interface ReadSurveyOptions {
 const WHAT = 'survey table';
 
 /**
- * Read a long survey table (one row per site and survey) and validate it completely before any
+ * Read a survey table — long (one row per site and survey) or wide (one row per site, one column
+ * per survey time) — and validate it completely before any
  * counting: every problem is reported with the file, the line and the column, and nothing is
  * written when one is found.
  *

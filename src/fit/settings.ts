@@ -1,6 +1,8 @@
 import { SereError, quote, type Place } from '../errors.js';
 import { normaliseLabel } from '../data/labels.js';
-import type { SurveyColumns } from '../data/survey.js';
+import type { SurveyColumns, SurveyLayout } from '../data/survey.js';
+import { readLabelMap } from '../data/label-map.js';
+import type { ReadSurveyOptions } from '../data/read-survey-csv.js';
 import type { PriorSpec } from '../chain/prior.js';
 
 /** Everything that decides a fit besides the survey table itself. */
@@ -11,10 +13,28 @@ export interface FitSettings {
   /** Transitions declared impossible (structural zeros), as [from, to] labels. */
   readonly impossible: readonly (readonly [string, string])[];
   readonly columns: SurveyColumns;
+  /** Long or wide; undefined: detected from the header. */
+  readonly layout?: SurveyLayout;
+  /** The worksheet of a spreadsheet (.xlsx); undefined: its first sheet. */
+  readonly sheet?: string;
+  /** A label map file (recorded label → state), relative to the working folder. */
+  readonly labels?: string;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
   readonly places?: { readonly states?: Place; readonly impossible?: Place };
+}
+
+/** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */
+export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
+  return {
+    columns: settings.columns,
+    states: settings.states,
+    statesPlace: settings.places?.states,
+    ...(settings.layout ? { layout: settings.layout } : {}),
+    ...(settings.sheet !== undefined ? { sheet: settings.sheet } : {}),
+    ...(settings.labels !== undefined ? { labels: readLabelMap(settings.labels) } : {}),
+  };
 }
 
 /** Parse `from>to` pairs, e.g. `woodland>open-water`. */

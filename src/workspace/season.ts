@@ -1,4 +1,5 @@
 import { readFileSync } from 'node:fs';
+import { surveyReadOptions } from '../fit/settings.js';
 import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
 import { recordsOf } from '../data/survey-rows.js';
@@ -63,7 +64,7 @@ export interface SeasonRun {
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
-  let table = readSurveyTables(surveyPaths, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
   const fitted = fitSurvey(table, settings);
   const fit: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 } };
@@ -102,7 +103,7 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const scores = earlier.flatMap((r) => scoreRecord(r, current, scoring!) ?? []);
 
   const inputs = new Map<string, string>();
-  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) inputs.set(rel, readFileSync(join(ws.root, rel), 'utf8'));
+  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...(ws.labels !== undefined ? [ws.labels] : []), ...ws.scenarios]) inputs.set(rel, readFileSync(join(ws.root, rel), 'utf8'));
   return {
     workspace: { name: ws.name, surveys: ws.surveys, scenarios: ws.scenarios }, date: options.date,
     previous: options.previous?.name ?? null, scored: earlier.map((r) => r.name), scoresSeed: scoresSeed ?? null,
