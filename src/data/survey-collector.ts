@@ -61,6 +61,8 @@ export class SurveyCollector implements RowSink {
   private siteLines: Float64Array = new Float64Array(1024);
   private readonly unmapped: { label: string; line: number; column: number }[] = [];
   private dropped = 0;
+  /** Wide tables: cells holding a state (a table of empty cells has no survey, like a header alone). */
+  private filledCells = 0;
   /** Declared states, as labels: with a label map, a label spelled as one needs no entry. */
   private readonly declared: ReadonlySet<string>;
   private bodyRows = 0;
@@ -174,6 +176,7 @@ export class SurveyCollector implements RowSink {
       const state = this.stateLabels.id(bytes, starts[c]!, ends[c]!);
       // An empty cell: this site was not surveyed at this time.
       if (this.stateLabels.labels[state] === '') continue;
+      this.filledCells += 1;
       const stateId = this.stateIdOf(state, line, c);
       if (stateId === FAILED) return;
       if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time, stateId, line, group);
@@ -248,7 +251,7 @@ export class SurveyCollector implements RowSink {
         'add a header row (site,time,state) and one row per site and survey');
     }
     if (this.error && this.stage <= HEADER) throw this.error;
-    if (this.bodyRows === 0) {
+    if (this.bodyRows === 0 || (this.layout?.layout === 'wide' && this.filledCells === 0 && !this.error)) {
       throw new SereError('EMPTY_FILE', 'the survey table has a header but no survey rows', { file, line: this.headerLine },
         'add one row per site and survey below the header');
     }

@@ -1,6 +1,7 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { DEFAULT_COLUMNS, type SurveyColumns } from '../../src/data/survey.js';
@@ -111,6 +112,7 @@ describe('wide survey tables (one row per site, one column per survey time)', ()
     ['no time column', 'site,zone\nA,n\n', 'MISSING_COLUMN', { layout: 'wide', columns: { group: 'zone' } }, 1, undefined],
     ['an empty site', 'site,2001,2002\nA,a,b\n,b,a\n', 'EMPTY_VALUE', {}, 3, 1],
     ['a value under an empty header', 'site,2001,2002,\nA,a,b,\nB,b,a,x\n', 'BAD_CELL', {}, 3, 4],
+    ['a table of empty cells', 'site,2001,2002\nA,,\nB,,\n', 'EMPTY_FILE', {}, 1, undefined],
     ['a time that is not whole', 'site,2001,2001.5\nA,a,b\n', 'MISSING_COLUMN', {}, 1, undefined],
   ];
   for (const [what, text, code, extra, line, column] of bad) {
@@ -131,5 +133,32 @@ describe('wide survey tables (one row per site, one column per survey time)', ()
   it('keeps reading a long table as long, even when its extra columns are headed by numbers', () => {
     const t = read(write('long-extra.csv', 'site,time,state,2001\nA,1,a,\nA,2,b,\n'));
     expect(t.rows.count).toBe(2);
+  });
+
+  it('any table: long and wide give the same outcome — the same fit, or the same refusal (property)', () => {
+    const years = [2000, 2001, 2002, 2004, 2005];
+    let n = 0;
+    fc.assert(fc.property(
+      fc.array(fc.tuple(fc.constantFrom('n', 's'), fc.array(fc.constantFrom('', 'a', 'b', 'c'), { minLength: years.length, maxLength: years.length })), { minLength: 1, maxLength: 8 }),
+      (plots) => {
+        n += 1;
+        const long = ['site,zone,time,state'];
+        const wideLines = [`site,zone,${years.join(',')}`];
+        plots.forEach(([zone, cells], p) => {
+          cells.forEach((state, y) => { if (state !== '') long.push(`S${p},${zone},${years[y]},${state}`); });
+          wideLines.push(`S${p},${zone},${cells.join(',')}`);
+        });
+        const settings = { ...DEFAULT_FIT_SETTINGS, columns: { ...DEFAULT_COLUMNS, group: 'zone' } };
+        const outcome = (file: string): unknown => {
+          try {
+            const fit = fitSurvey(readSurveyCsv(file, { columns: settings.columns }), settings);
+            return { states: fit.states, counts: Array.from(fit.counts), latest: fit.latest, sites: JSON.stringify(fit.sites), skipped: fit.skipped };
+          } catch (err) {
+            if (err instanceof SereError) return err.code;
+            throw err;
+          }
+        };
+        expect(outcome(write(`p${n}-wide.csv`, wideLines.join('\n') + '\n'))).toEqual(outcome(write(`p${n}-long.csv`, long.join('\n') + '\n')));
+      }), { numRuns: 150, seed: 20261202 });
   });
 });
