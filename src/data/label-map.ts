@@ -17,6 +17,8 @@ export interface LabelMap {
   readonly targets: ReadonlyMap<string, string | null>;
   /** The states labels are mapped to: a label already spelled as one of them passes unchanged. */
   readonly states: ReadonlySet<string>;
+  /** The line of each key, for messages. */
+  readonly lines: ReadonlyMap<string, number>;
 }
 
 const WHAT = 'label map';
@@ -85,5 +87,5 @@ export function readLabelMap(file: string): LabelMap {
     targets.set(key, value);
     states.add(value);
   }
-  return { file, sha256, targets, states };
+  return { file, sha256, targets, states, lines };
 }

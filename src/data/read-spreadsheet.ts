@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
-import { columnLetters, SereError, quote } from '../errors.js';
+import { columnLetters, SereError, quote, type Place } from '../errors.js';
 import { workerFile } from '../worker-file.js';
 import { cannotRead, checkRegularFile } from './read-text-file.js';
 import type { SheetReply } from './sheet-cells.js';
@@ -26,7 +26,7 @@ export const OTHER_SPREADSHEET = /\.(xls|xlsb|ods|numbers)$/i;
  * whole sheet is held in memory (exceljs's reader): workbooks are field-team sized, at most
  * 1,048,576 rows; a table of millions of rows belongs in CSV.
  */
-export function readSpreadsheet(file: string, sheet: string | undefined, sink: RowSink): { sha256: string; sheet: string } {
+export function readSpreadsheet(file: string, sheet: string | undefined, sink: RowSink, sheetPlace: Place = { path: '--sheet' }): { sha256: string; sheet: string } {
   checkRegularFile(file, WHAT);
   let bytes: Buffer;
   try {
@@ -43,7 +43,7 @@ export function readSpreadsheet(file: string, sheet: string | undefined, sink: R
   if (reply.kind === 'no-sheet') {
     throw new SereError('UNKNOWN_SHEET', sheet === undefined ? 'the workbook has no worksheet'
       : `no sheet ${quote(sheet)} in the workbook (its sheets: ${reply.sheets.map(quote).join(', ')})`,
-    { file, path: '--sheet' }, sheet === undefined ? 'add a sheet holding the survey table' : 'name one of its sheets with --sheet (or fit.sheet in a scenario)');
+    { file, path: sheetPlace.path }, sheet === undefined ? 'add a sheet holding the survey table' : 'name one of its sheets with --sheet (or fit.sheet in a scenario)');
   }
   sink.expect(reply.rows.length);
   // The header's last named column sets the width, as a CSV header does: rows are cut or padded to

@@ -20,6 +20,8 @@ export interface ReadSurveyOptions {
   readonly layout?: SurveyLayout;
   /** The worksheet of a spreadsheet (.xlsx); undefined: the first. */
   readonly sheet?: string;
+  /** Where `sheet` was given (--sheet, or a scenario key), for messages. */
+  readonly sheetPlace?: Place;
   /** Recorded labels → states, applied once per distinct label (label-map.ts). */
   readonly labels?: LabelMap;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
@@ -46,7 +48,7 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
       'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
   }
   if (options.sheet !== undefined) {
-    throw new SereError('BAD_OPTION', `a sheet (${quote(options.sheet)}) is named, but this survey table is a text (CSV) file, not a workbook`, { file },
+    throw new SereError('BAD_OPTION', `a sheet (${quote(options.sheet)}) is named, but this survey table is a text (CSV) file, not a workbook`, { file, path: options.sheetPlace?.path },
       'drop --sheet (or fit.sheet), or name the .xlsx workbook');
   }
   const plain = new SurveyCollector(file, options, true);
@@ -68,7 +70,7 @@ function readSurveySheet(file: string, options: ReadSurveyOptions): SurveyTable 
   const collector = new SurveyCollector(file, options, true);
   let read: { sha256: string; sheet: string } | undefined;
   try {
-    read = readSpreadsheet(file, options.sheet, collector);
+    read = readSpreadsheet(file, options.sheet, collector, options.sheetPlace);
     return collector.table(read.sha256);
   } catch (err) {
     if (!(err instanceof SereError) || read === undefined || err.place.file !== file || err.place.sheet !== undefined) throw err;

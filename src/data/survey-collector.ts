@@ -218,7 +218,16 @@ export class SurveyCollector implements RowSink {
     if (map) {
       const target = map.targets.get(text);
       if (target === null) id = SKIP;
-      else if (target !== undefined) state = target;
+      else if (target !== undefined) {
+        state = target;
+        if (this.declared.size > 0 && !this.declared.has(target)) {
+          // The row holds the recorded label; the state to fix is in the map (or in the declared list).
+          this.fail(STATE, new SereError('UNKNOWN_STATE',
+            `label ${quote(text)} is mapped to ${quote(target)}, which is not a declared state (declared: ${[...this.declared].map(quote).join(', ')})`,
+            { file: map.file, line: map.lines.get(text) }, `map ${quote(text)} to a declared state, or add ${quote(target)} to the declared states`));
+          return FAILED;
+        }
+      }
       else if (!map.states.has(text) && !this.declared.has(text)) {
         id = UNMAPPED;
         this.unmapped.push({ label: text, line, column: at + 1 });

@@ -16,7 +16,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   if (!block) return DEFAULT_FIT_SETTINGS;
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
-    places: { states: locate(['fit', 'states']), impossible: impossiblePlace },
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
     step: block.step ?? DEFAULT_FIT_SETTINGS.step,
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
     states: block.states,

@@ -87,7 +87,8 @@ describe('label maps: recorded label or class code → state', () => {
 
   it('refuses a state the map gives that is not declared', () => {
     const err = errorOf(() => readSurveyCsv(recorded, { columns: DEFAULT_COLUMNS, labels: readLabelMap(map), states: ['bracken', 'heath', 'woodland'] }));
-    expect(err.code).toBe('UNKNOWN_STATE');
+    // '041' → scrub, on line 3 of the map: the place to fix is the map (or the declared states).
+    expect(err).toMatchObject({ code: 'UNKNOWN_STATE', place: { file: map, line: 3 } });
   });
 
   it('applies to each of several tables read as one, and adds up what it dropped', () => {
@@ -125,6 +126,6 @@ describe('label maps: recorded label or class code → state', () => {
     expect(Array.from(scenario.fit.counts)).toEqual([0, 0, 1, 1, 0, 0, 0, 0, 1]);
     expect(scenario.fit.labels?.droppedRows).toBe(1);
     writeFileSync(join(sub, 'missing.yaml'), 'data: surveys.csv\nfit: { labels: nowhere.yaml }\nhorizon: { steps: 2 }\n');
-    expect(errorOf(() => loadScenario(join(sub, 'missing.yaml')))).toMatchObject({ code: 'FILE_NOT_FOUND' });
+    expect(errorOf(() => loadScenario(join(sub, 'missing.yaml')))).toMatchObject({ code: 'FILE_NOT_FOUND', place: { path: 'fit.labels' } });
   });
 });

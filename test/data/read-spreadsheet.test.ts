@@ -53,7 +53,7 @@ describe('survey tables in .xlsx workbooks (exceljs)', () => {
 
   it('names the sheets there when the sheet asked for is not', () => {
     const err = errorOf(() => readSurveyCsv(books.surveys, options({ sheet: 'Plot' })));
-    expect(err).toMatchObject({ code: 'UNKNOWN_SHEET', place: { file: books.surveys } });
+    expect(err).toMatchObject({ code: 'UNKNOWN_SHEET', place: { file: books.surveys, path: '--sheet' } });
     expect(err.message).toContain("'Plots', 'By year', 'Notes'");
   });
 
