@@ -28,7 +28,7 @@ interface FitOptions extends FitFlags {
 export function registerFit(program: Command, io: Io): void {
   withFitOptions(program.command('fit')
     .description('fit a chain to a survey table (site,time,state): counts, estimates, stationary mix')
-    .argument('<survey.csv>', 'long table, one row per site and survey'))
+    .argument('<survey.csv>', 'survey table: CSV or .xlsx, long (one row per site and survey) or wide (one column per survey time)'))
     .option('--level <p>', 'credible level of the intervals', level, 0.9)
     .option('--out <fit.json>', 'write the fit to this file (never overwrites without --force)')
     .option('--force', 'replace an existing --out file')
