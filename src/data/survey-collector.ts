@@ -139,7 +139,9 @@ export class SurveyCollector implements RowSink {
       return;
     }
     if (this.stage <= STATE) return;
-    const stateId = this.stateIdOf(state, line, index.state);
+    // The cached id inline (most rows): the call is for a label's first row, or a skipped one.
+    const cached = state < this.stateIds.length ? this.stateIds[state]! : NEW;
+    const stateId = cached >= 0 ? cached : this.stateIdOf(state, line, index.state);
     if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group);
   }
 
