@@ -67,7 +67,7 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
  * (read-spreadsheet.ts). Its problems are placed on the sheet, so the message names the cell.
  */
 function readSurveySheet(file: string, options: ReadSurveyOptions): SurveyTable {
-  const collector = new SurveyCollector(file, options, true);
+  const collector = new SurveyCollector(file, options, true, 'row');
   let read: { sha256: string; sheet: string } | undefined;
   try {
     read = readSpreadsheet(file, options.sheet, collector, options.sheetPlace);

@@ -73,7 +73,9 @@ export class SurveyCollector implements RowSink {
   private readonly states: StateLabels;
   private readonly store: RowStore;
 
-  constructor(private readonly file: string, private readonly options: ReadSurveyOptions, private readonly trim: boolean) {
+  /** `lineWord`: what a record's number is called in messages — a CSV line, or a worksheet's row. */
+  constructor(private readonly file: string, private readonly options: ReadSurveyOptions, private readonly trim: boolean,
+    private readonly lineWord: 'line' | 'row' = 'line') {
     this.sites = new LabelColumn(trim);
     this.stateLabels = new LabelColumn(trim);
     this.groups = new LabelColumn(trim);
@@ -168,7 +170,7 @@ export class SurveyCollector implements RowSink {
       }
     }
     if (site !== knownSites) {
-      this.fail(DUPLICATE, new SereError('DUPLICATE_SITE', `site ${quote(this.sites.labels[site]!)} has a second row here (the first is line ${this.siteLines[site]})`,
+      this.fail(DUPLICATE, new SereError('DUPLICATE_SITE', `site ${quote(this.sites.labels[site]!)} has a second row here (the first is ${this.lineWord} ${this.siteLines[site]})`,
         { file: this.file, line, column: index.site + 1 }, 'a wide table has one row per site: merge the two rows into one'));
     }
     if (this.stage <= STATE) return;
@@ -288,7 +290,7 @@ export class SurveyCollector implements RowSink {
       // A site surveyed twice at one time must agree with itself; an exact repeat is used once.
       const { first, later } = ordered.conflict;
       throw new SereError('DUPLICATE_SURVEY',
-        `site ${quote(sites[later.site]!)} at time ${later.time} is ${quote(states[later.state]!)} here but ${quote(states[first.state]!)} on line ${first.line}`,
+        `site ${quote(sites[later.site]!)} at time ${later.time} is ${quote(states[later.state]!)} here but ${quote(states[first.state]!)} on ${this.lineWord} ${first.line}`,
         { file, line: later.line }, 'keep one of the two rows');
     }
     return {
@@ -321,7 +323,7 @@ export class SurveyCollector implements RowSink {
     const first = this.unmapped[0]!;
     const layout = this.layout;
     const where = (u: { line: number; column: number }): string =>
-      layout?.layout === 'wide' ? `line ${u.line}, ${layout.index.times[u.column - 1]}` : `line ${u.line}`;
+      layout?.layout === 'wide' ? `${this.lineWord} ${u.line}, ${layout.index.times[u.column - 1]}` : `${this.lineWord} ${u.line}`;
     const shown = this.unmapped.slice(0, MAX_LISTED).map((u) => `${quote(u.label)} (${where(u)})`).join(', ');
     const more = this.unmapped.length > MAX_LISTED ? ` and ${this.unmapped.length - MAX_LISTED} more` : '';
     const one = this.unmapped.length === 1;

@@ -1,6 +1,5 @@
 import { workerData } from 'node:worker_threads';
 import type { MessagePort } from 'node:worker_threads';
-import ExcelJS from 'exceljs';
 import { sheetRows, type SheetReply } from './sheet-cells.js';
 
 /**
@@ -17,6 +16,8 @@ function reply(message: SheetReply): void {
 }
 
 try {
+  // Loaded inside the try: a library that fails to load must still get a reply to the waiting thread.
+  const ExcelJS = (await import('exceljs')).default;
   const workbook = new ExcelJS.Workbook();
   await workbook.xlsx.readFile(file);
   const sheets = workbook.worksheets.map((w) => w.name);

@@ -72,6 +72,12 @@ describe('survey tables in .xlsx workbooks (exceljs)', () => {
     });
   }
 
+  it('lists unmapped labels by their sheet row', () => {
+    const err = errorOf(() => readSurveyCsv(books.surveys, { columns, labels: readLabelMap(mapFile) }));
+    expect(err).toMatchObject({ code: 'UNMAPPED_LABEL', place: { file: books.surveys, sheet: 'Plots', line: 2, column: 4 } });
+    expect(err.message).toContain("'heath' (row 2)");
+  });
+
   it('prints the place of a cell as sheet and A1 reference', () => {
     expect(formatPlace({ file: 'f.xlsx', sheet: 'Plots', line: 4, column: 2 })).toBe("f.xlsx, sheet 'Plots', cell B4");
     expect(formatPlace({ file: 'f.xlsx', sheet: 'S', line: 9, column: 28 })).toBe("f.xlsx, sheet 'S', cell AB9");
