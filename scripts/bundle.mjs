@@ -11,9 +11,9 @@ import { build } from 'esbuild';
 rmSync('dist/cli', { recursive: true, force: true });
 
 await build({
-  // The engine's worker thread is an entry of its own (dist/cli/engine-worker.mjs), found by
-  // engine/thread-pool.ts beside the bundle.
-  entryPoints: { sere: 'src/bin/sere.ts', 'engine-worker': 'src/engine/engine-worker.ts' },
+  // Worker threads are entries of their own (dist/cli/engine-worker.mjs, xlsx-worker.mjs), found
+  // beside the bundle by src/worker-file.ts.
+  entryPoints: { sere: 'src/bin/sere.ts', 'engine-worker': 'src/engine/engine-worker.ts', 'xlsx-worker': 'src/data/xlsx-worker.ts' },
   outdir: 'dist/cli',
   outExtension: { '.js': '.mjs' },
   splitting: true,

@@ -25,6 +25,13 @@ export type ErrorCode =
   | 'LABEL_TOO_LONG'
   | 'TOO_MANY_STATES'
   | 'DUPLICATE_COLUMN'
+  | 'DUPLICATE_SITE'
+  | 'UNMAPPED_LABEL'
+  | 'DUPLICATE_KEY'
+  | 'BAD_LABEL_MAP'
+  | 'UNKNOWN_SHEET'
+  | 'BAD_SPREADSHEET'
+  | 'BAD_CELL'
   | 'NO_TRANSITIONS'
   | 'TOO_FEW_STATES'
   | 'IMPOSSIBLE_OBSERVED'
@@ -45,6 +52,8 @@ export type ErrorCode =
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {
   readonly file?: string;
+  /** The worksheet of a spreadsheet: `line` is then its row and `column` its column (shown as A1). */
+  readonly sheet?: string;
   readonly line?: number;
   readonly column?: number;
   /** Key path inside a YAML or JSON document, e.g. `start.shares.reedbed`. */
@@ -112,11 +121,16 @@ export function quote(value: string): string {
 /** One part of the printed line: escaped, and cut if something long slipped through unquoted. */
 const printable = (text: string): string => escapeUnprintable(cut(text, MAX_PART_LENGTH));
 
-/** `file:line:column` (or as much of it as is known), then the key path. */
+/** `file:line:column` (or as much of it as is known), then the key path; in a spreadsheet `file, sheet 'S', cell B7`. */
 export function formatPlace(place: Place): string {
   let where = place.file ?? '';
-  if (place.line !== undefined) where += `:${place.line}`;
-  if (place.line !== undefined && place.column !== undefined) where += `:${place.column}`;
+  if (place.sheet !== undefined) {
+    where += `, sheet ${quote(place.sheet)}`;
+    if (place.line !== undefined) where += place.column !== undefined ? `, cell ${columnLetters(place.column)}${place.line}` : `, row ${place.line}`;
+  } else {
+    if (place.line !== undefined) where += `:${place.line}`;
+    if (place.line !== undefined && place.column !== undefined) where += `:${place.column}`;
+  }
   if (place.path) where += where ? ` (${place.path})` : place.path;
   return where;
 }
@@ -126,4 +140,11 @@ export function formatError(error: SereError): string {
   const where = printable(formatPlace(error.place));
   const fix = error.hint ? ` — ${printable(error.hint)}` : '';
   return `${where ? `${where}: ` : ''}${printable(error.message)}${fix}`;
+}
+
+/** A spreadsheet column's letters from its 1-based number: 1 → A, 27 → AA (bijective base 26). */
+export function columnLetters(column: number): string {
+  let out = '';
+  for (let n = column; n > 0; n = Math.floor((n - 1) / 26)) out = String.fromCharCode(65 + ((n - 1) % 26)) + out;
+  return out;
 }

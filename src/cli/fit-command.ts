@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { existsSync } from 'node:fs';
 import { SereError } from '../errors.js';
@@ -27,7 +28,7 @@ interface FitOptions extends FitFlags {
 export function registerFit(program: Command, io: Io): void {
   withFitOptions(program.command('fit')
     .description('fit a chain to a survey table (site,time,state): counts, estimates, stationary mix')
-    .argument('<survey.csv>', 'long table, one row per site and survey'))
+    .argument('<survey.csv>', 'survey table: CSV or .xlsx, long (one row per site and survey) or wide (one column per survey time)'))
     .option('--level <p>', 'credible level of the intervals', level, 0.9)
     .option('--out <fit.json>', 'write the fit to this file (never overwrites without --force)')
     .option('--force', 'replace an existing --out file')
@@ -39,7 +40,7 @@ export function registerFit(program: Command, io: Io): void {
         return;
       }
       const settings = fitSettingsFrom(opts);
-      const fit = fitSurvey(readSurveyCsv(file, { columns: settings.columns, states: opts.states }), settings);
+      const fit = fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings);
       const estimates = estimateFit(fit, opts.level);
       // The JSON only when it is printed or written: with 10⁶ sites it took 0.9 s (measured on 10⁷ rows).
       const json = opts.json || opts.out ? JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n' : '';
@@ -65,7 +66,7 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
   }
   const flags = fitSettingsFrom(opts);
   const settings = { ...flags, columns: { ...flags.columns, group: opts.by } };
-  const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
+  const table = readSurveyCsv(file, surveyReadOptions(settings));
   const whole = fitSurvey(table, settings);
   const stem = opts.out.replace(/\.json$/i, '');
   const groups = groupsOf(table).map((group) => {

@@ -13,10 +13,13 @@ export interface FitFlags {
   timeColumn: string;
   stateColumn: string;
   groupColumn?: string;
+  wide?: boolean;
+  sheet?: string;
+  labels?: string;
 }
 
 /** The option keys withFitOptions adds, to tell whether any was given. */
-export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn'] as const;
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'wide', 'sheet', 'labels'] as const;
 
 export function withFitOptions(command: Command): Command {
   return command
@@ -27,7 +30,10 @@ export function withFitOptions(command: Command): Command {
     .option('--site-column <name>', 'column holding the site', 'site')
     .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
     .option('--state-column <name>', 'column holding the state', 'state')
-    .option('--group-column <name>', 'optional column holding a group (soil type, management unit)');
+    .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
+    .option('--wide', 'the table is wide: one row per site, one column per survey time (detected when every other column is headed by a time)')
+    .option('--sheet <name>', 'the worksheet of a spreadsheet (.xlsx) to read (default: the first)')
+    .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)');
 }
 
 export function fitSettingsFrom(opts: FitFlags): FitSettings {
@@ -37,5 +43,8 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
     states: opts.states,
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),
     columns: { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn },
+    ...(opts.wide ? { layout: 'wide' as const } : {}),
+    ...(opts.sheet !== undefined ? { sheet: opts.sheet } : {}),
+    ...(opts.labels !== undefined ? { labels: opts.labels } : {}),
   };
 }

@@ -121,7 +121,9 @@ async function replay(record: string, io: Io): Promise<void> {
     previous: previousDir ? readRecord(previousDir, previousName!) : undefined, earlier,
   });
   const files = await recordFiles(run);
-  const differing = [...files].filter(([path, text]) => !existsSync(join(record, path)) || readFileSync(join(record, path), 'utf8') !== text)
+  const same = (path: string, data: string | Buffer): boolean =>
+    typeof data === 'string' ? readFileSync(path, 'utf8') === data : readFileSync(path).equals(data);
+  const differing = [...files].filter(([path, data]) => !existsSync(join(record, path)) || !same(join(record, path), data))
     .map(([path]) => path);
   if (differing.length > 0) {
     throw new SereError('REPLAY_DIFFERS', `replay differs in ${differing.length} of ${files.size} files: ${differing.join(', ')}`,

@@ -1,10 +1,12 @@
 import { statSync } from 'node:fs';
-import type { Place } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
+import { OTHER_SPREADSHEET, readSpreadsheet, WORKBOOK } from './read-spreadsheet.js';
 import { readLineBlocks } from './read-line-blocks.js';
 import { CsvParseScanner } from './scan-csv-parse.js';
 import { PlainCsvScanner } from './scan-plain-csv.js';
 import { SurveyCollector } from './survey-collector.js';
-import type { SurveyColumns, SurveyTable } from './survey.js';
+import type { LabelMap } from './label-map.js';
+import type { SurveyColumns, SurveyLayout, SurveyTable } from './survey.js';
 
 export interface ReadSurveyOptions {
   readonly columns: SurveyColumns;
@@ -14,6 +16,14 @@ export interface ReadSurveyOptions {
   readonly statesPlace?: Place;
   /** One of several tables read as one (see read-survey-tables.ts): it may hold a single state. */
   readonly partOfSeveral?: boolean;
+  /** Long or wide; undefined: detected from the header (survey-layout.ts). */
+  readonly layout?: SurveyLayout;
+  /** The worksheet of a spreadsheet (.xlsx); undefined: the first. */
+  readonly sheet?: string;
+  /** Where `sheet` was given (--sheet, or a scenario key), for messages. */
+  readonly sheetPlace?: Place;
+  /** Recorded labels → states, applied once per distinct label (label-map.ts). */
+  readonly labels?: LabelMap;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
   readonly blockSize?: number;
 }
@@ -21,7 +31,8 @@ export interface ReadSurveyOptions {
 const WHAT = 'survey table';
 
 /**
- * Read a long survey table (one row per site and survey) and validate it completely before any
+ * Read a survey table — long (one row per site and survey) or wide (one row per site, one column
+ * per survey time), as CSV or as a sheet of an .xlsx workbook — and validate it completely before any
  * counting: every problem is reported with the file, the line and the column, and nothing is
  * written when one is found.
  *
@@ -31,6 +42,15 @@ const WHAT = 'survey table';
  * read again from the start through csv-parse (scan-csv-parse.ts), as it always was.
  */
 export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyTable {
+  if (WORKBOOK.test(file)) return readSurveySheet(file, options);
+  if (OTHER_SPREADSHEET.test(file)) {
+    throw new SereError('BAD_SPREADSHEET', 'is a spreadsheet format sere does not read', { file },
+      'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
+  }
+  if (options.sheet !== undefined) {
+    throw new SereError('BAD_OPTION', `a sheet (${quote(options.sheet)}) is named, but this survey table is a text (CSV) file, not a workbook`, { file, path: options.sheetPlace?.path },
+      'drop --sheet (or fit.sheet), or name the .xlsx workbook');
+  }
   const plain = new SurveyCollector(file, options, true);
   const size = fileSize(file);
   const first = readLineBlocks(file, WHAT, new PlainCsvScanner(file, plain, size).block, options.blockSize);
@@ -40,6 +60,22 @@ export function readSurveyCsv(file: string, options: ReadSurveyOptions): SurveyT
   const again = readLineBlocks(file, WHAT, scanner.block, options.blockSize);
   scanner.end();
   return quoted.table(again.sha256);
+}
+
+/**
+ * A survey table on one sheet of an .xlsx workbook: the same collector, fed the sheet's rows
+ * (read-spreadsheet.ts). Its problems are placed on the sheet, so the message names the cell.
+ */
+function readSurveySheet(file: string, options: ReadSurveyOptions): SurveyTable {
+  const collector = new SurveyCollector(file, options, true, 'row');
+  let read: { sha256: string; sheet: string } | undefined;
+  try {
+    read = readSpreadsheet(file, options.sheet, collector, options.sheetPlace);
+    return collector.table(read.sha256);
+  } catch (err) {
+    if (!(err instanceof SereError) || read === undefined || err.place.file !== file || err.place.sheet !== undefined) throw err;
+    throw new SereError(err.code, err.message, { ...err.place, sheet: read.sheet }, err.hint);
+  }
 }
 
 /** For the first block's estimate of the row count; 0 when unknown (readLineBlocks then reports why). */

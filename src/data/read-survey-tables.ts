@@ -48,7 +48,9 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
       { file: later.file, line: later.row.line }, 'keep one of the two rows');
   }
   const sha256 = createHash('sha256').update(tables.map((t) => t.sha256).join('\n')).digest('hex');
-  return { ...table, file: files.join(', '), sha256 };
+  const labels = tables[0]!.labels;
+  return { ...table, file: files.join(', '), sha256,
+    ...(labels ? { labels: { ...labels, droppedRows: tables.reduce((n, t) => n + (t.labels?.droppedRows ?? 0), 0) } } : {}) };
 }
 
 interface RowAt { readonly file: string; readonly row: GivenRow }

@@ -1,11 +1,12 @@
 import { SereError, quote } from '../errors.js';
 import { LabelColumn } from './label-column.js';
-import { labelProblem } from './labels.js';
+import { labelProblem, normaliseLabel } from './labels.js';
 import { orderRows } from './order-rows.js';
 import { RowStore } from './row-store.js';
 import type { RowSink } from './row-sink.js';
 import { StateLabels } from './states.js';
-import { columnIndex, type ColumnIndex } from './survey-header.js';
+import type { ColumnIndex } from './survey-header.js';
+import { headerIndex, type HeaderIndex, type WideIndex } from './survey-layout.js';
 import type { ReadSurveyOptions } from './read-survey-csv.js';
 import type { SurveyTable } from './survey.js';
 import { parseTime, TIME_EMPTY, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
@@ -21,6 +22,29 @@ const HEADER = 1;
 const LABEL = 2;
 const VALUE = 3;
 const STATE = 4;
+const DUPLICATE = 5;
+
+/** stateIds: a label not seen yet; one the label map skips; one the label map lacks. FAILED: refused. */
+const NEW = -1;
+const SKIP = -2;
+const UNMAPPED = -3;
+const FAILED = -4;
+
+/** Unmapped labels listed in one message. */
+const MAX_LISTED = 10;
+
+/** A time written as a date (2024-05-17, 17/05/2024, 17.05.2024): the hint says what to write instead. */
+const DATE = /^\d{1,4}[-/.]\d{1,2}[-/.]\d{1,4}/;
+
+function setGrown(a: Float64Array, at: number, value: number): Float64Array {
+  let b = a;
+  if (at >= a.length) {
+    b = new Float64Array(Math.max(a.length * 2, at + 1));
+    b.set(a);
+  }
+  b[at] = value;
+  return b;
+}
 
 /**
  * Validate survey rows as they stream past and keep them in typed arrays (RowStore): one pass,
@@ -32,7 +56,15 @@ export class SurveyCollector implements RowSink {
   private stage = Infinity;
   private header: readonly string[] | undefined;
   private headerLine = 0;
-  private index: ColumnIndex | undefined;
+  private layout: HeaderIndex | undefined;
+  /** Wide tables: the line of each site's row, to name both lines of a repeated site. */
+  private siteLines: Float64Array = new Float64Array(1024);
+  private readonly unmapped: { label: string; line: number; column: number }[] = [];
+  private dropped = 0;
+  /** Wide tables: cells holding a state (a table of empty cells has no survey, like a header alone). */
+  private filledCells = 0;
+  /** Declared states, as labels: with a label map, a label spelled as one needs no entry. */
+  private readonly declared: ReadonlySet<string>;
   private bodyRows = 0;
   private readonly sites: LabelColumn;
   private readonly stateLabels: LabelColumn;
@@ -41,12 +73,15 @@ export class SurveyCollector implements RowSink {
   private readonly states: StateLabels;
   private readonly store: RowStore;
 
-  constructor(private readonly file: string, private readonly options: ReadSurveyOptions, private readonly trim: boolean) {
+  /** `lineWord`: what a record's number is called in messages — a CSV line, or a worksheet's row. */
+  constructor(private readonly file: string, private readonly options: ReadSurveyOptions, private readonly trim: boolean,
+    private readonly lineWord: 'line' | 'row' = 'line') {
     this.sites = new LabelColumn(trim);
     this.stateLabels = new LabelColumn(trim);
     this.groups = new LabelColumn(trim);
     this.states = new StateLabels(file, options.states, options.partOfSeveral ? 1 : 2, options.statesPlace);
     this.store = new RowStore(options.columns.group !== undefined);
+    this.declared = new Set((options.states ?? []).map((s) => normaliseLabel(s.trim())));
   }
 
   notCsv(error: SereError): void {
@@ -62,43 +97,41 @@ export class SurveyCollector implements RowSink {
       this.header = Array.from({ length: fields }, (_, n) => this.text(bytes, starts[n]!, ends[n]!));
       this.headerLine = line;
       try {
-        this.index = columnIndex(this.file, this.header, line, this.options.columns);
+        this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout);
       } catch (err) {
         if (!(err instanceof SereError)) throw err;
         this.fail(HEADER, err);
       }
       return;
     }
-    const index = this.index;
-    if (index === undefined) return;
+    const layout = this.layout;
+    if (layout === undefined) return;
     this.bodyRows += 1;
     if (this.stage <= LABEL) return;
+    if (layout.layout === 'long') this.longRow(bytes, starts, ends, line, layout.index);
+    else this.wideRow(bytes, starts, ends, fields, line, layout.index);
+  }
 
+  /** One survey: site, time, state (and group). */
+  private longRow(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, index: ColumnIndex): void {
     // Site and group ids in NFC, and free of invisible characters (states are checked with their look-alikes).
-    const knownSites = this.sites.labels.length;
-    const site = this.sites.id(bytes, starts[index.site]!, ends[index.site]!);
-    if (site === knownSites) this.checkLabel('site', this.sites.labels[site]!, line, index.site);
+    const site = this.siteOf(bytes, starts, ends, line, index.site);
     const state = this.stateLabels.id(bytes, starts[index.state]!, ends[index.state]!);
-    let group = 0;
-    if (index.group !== undefined) {
-      const knownGroups = this.groups.labels.length;
-      group = this.groups.id(bytes, starts[index.group]!, ends[index.group]!);
-      if (group === knownGroups) this.checkLabel('group', this.groups.labels[group]!, line, index.group);
-    }
+    const group = this.groupOf(bytes, starts, ends, line, index.group);
     if (this.stage <= VALUE) return;
 
     const time = parseTime(bytes, starts[index.time]!, ends[index.time]!, this.trim);
     const empty = this.sites.labels[site] === '' ? 'site' : time.status === TIME_EMPTY ? 'time'
       : this.stateLabels.labels[state] === '' ? 'state' : undefined;
     if (empty !== undefined) {
-      const at = index[empty];
-      this.fail(VALUE, new SereError('EMPTY_VALUE', `empty ${empty} in column ${at + 1} (${quote(this.header[at]!)})`,
-        { file: this.file, line, column: at + 1 }, `fill in the ${empty} or remove the row`));
+      this.emptyValue(empty, index[empty], line);
       return;
     }
     if (time.status === TIME_NOT_WHOLE) {
       this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a whole number`,
-        { file: this.file, line, column: index.time + 1 }, 'write survey times as integers such as 2024'));
+        { file: this.file, line, column: index.time + 1 },
+        DATE.test(time.text) ? 'a date: write the survey year (e.g. 2024), or whole days from an origin of your choice'
+          : 'write survey times as integers such as 2024'));
       return;
     }
     if (time.status === TIME_UNSAFE) {
@@ -108,24 +141,119 @@ export class SurveyCollector implements RowSink {
       return;
     }
     if (this.stage <= STATE) return;
+    // The cached id inline (most rows): the call is for a label's first row, or a skipped one.
+    const cached = state < this.stateIds.length ? this.stateIds[state]! : NEW;
+    const stateId = cached >= 0 ? cached : this.stateIdOf(state, line, index.state);
+    if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group);
+  }
 
-    let stateId = state < this.stateIds.length ? this.stateIds[state]! : -1;
-    if (stateId < 0) {
+  /**
+   * One site: its surveys are the non-empty cells of the time columns, each at the time its column
+   * is headed by. A site's second row is an error naming both lines (which row holds the truth?).
+   */
+  private wideRow(bytes: Buffer, starts: Int32Array, ends: Int32Array, fields: number, line: number, index: WideIndex): void {
+    const knownSites = this.sites.labels.length;
+    const site = this.siteOf(bytes, starts, ends, line, index.site);
+    const group = this.groupOf(bytes, starts, ends, line, index.group);
+    if (site === knownSites) this.siteLines = setGrown(this.siteLines, site, line);
+    if (this.stage <= VALUE) return;
+
+    if (this.sites.labels[site] === '') {
+      this.emptyValue('site', index.site, line);
+      return;
+    }
+    for (let c = 0; c < fields; c++) {
+      if (Number.isNaN(index.times[c]!) && c !== index.site && c !== index.group && this.text(bytes, starts[c]!, ends[c]!) !== '') {
+        this.fail(VALUE, new SereError('BAD_CELL', `a value under column ${c + 1}, which has no header`, { file: this.file, line, column: c + 1 },
+          'head the column with its survey time, or delete the value'));
+        return;
+      }
+    }
+    if (site !== knownSites) {
+      this.fail(DUPLICATE, new SereError('DUPLICATE_SITE', `site ${quote(this.sites.labels[site]!)} has a second row here (the first is ${this.lineWord} ${this.siteLines[site]})`,
+        { file: this.file, line, column: index.site + 1 }, 'a wide table has one row per site: merge the two rows into one'));
+    }
+    if (this.stage <= STATE) return;
+    for (let c = 0; c < fields; c++) {
+      const time = index.times[c]!;
+      if (Number.isNaN(time)) continue;
+      const state = this.stateLabels.id(bytes, starts[c]!, ends[c]!);
+      // An empty cell: this site was not surveyed at this time.
+      if (this.stateLabels.labels[state] === '') continue;
+      this.filledCells += 1;
+      const stateId = this.stateIdOf(state, line, c);
+      if (stateId === FAILED) return;
+      if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time, stateId, line, group);
+    }
+  }
+
+  private siteOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number): number {
+    const known = this.sites.labels.length;
+    const site = this.sites.id(bytes, starts[at]!, ends[at]!);
+    if (site === known) this.checkLabel('site', this.sites.labels[site]!, line, at);
+    return site;
+  }
+
+  private groupOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
+    if (at === undefined) return 0;
+    const known = this.groups.labels.length;
+    const group = this.groups.id(bytes, starts[at]!, ends[at]!);
+    if (group === known) this.checkLabel('group', this.groups.labels[group]!, line, at);
+    return group;
+  }
+
+  private emptyValue(what: 'site' | 'time' | 'state', at: number, line: number): void {
+    this.fail(VALUE, new SereError('EMPTY_VALUE', `empty ${what} in column ${at + 1} (${quote(this.header![at]!)})`,
+      { file: this.file, line, column: at + 1 }, `fill in the ${what} or remove the row`));
+  }
+
+  /**
+   * The state id of a label id, worked out once per distinct label: through the label map when
+   * there is one (a label mapped to skip gives SKIP, one it lacks UNMAPPED, listed at the end),
+   * then checked as a state. FAILED when the state is refused (the problem is kept).
+   */
+  private stateIdOf(label: number, line: number, at: number): number {
+    let id = label < this.stateIds.length ? this.stateIds[label]! : NEW;
+    if (id === SKIP) this.dropped += 1;
+    if (id !== NEW) return id;
+    const text = this.stateLabels.labels[label]!;
+    let state = text;
+    const map = this.options.labels;
+    if (map) {
+      const target = map.targets.get(text);
+      if (target === null) id = SKIP;
+      else if (target !== undefined) {
+        state = target;
+        if (this.declared.size > 0 && !this.declared.has(target)) {
+          // The row holds the recorded label; the state to fix is in the map (or in the declared list).
+          this.fail(STATE, new SereError('UNKNOWN_STATE',
+            `label ${quote(text)} is mapped to ${quote(target)}, which is not a declared state (declared: ${[...this.declared].map(quote).join(', ')})`,
+            { file: map.file, line: map.lines.get(text) }, `map ${quote(text)} to a declared state, or add ${quote(target)} to the declared states`));
+          return FAILED;
+        }
+      }
+      else if (!map.states.has(text) && !this.declared.has(text)) {
+        id = UNMAPPED;
+        this.unmapped.push({ label: text, line, column: at + 1 });
+      }
+    }
+    if (id === NEW) {
       try {
-        stateId = this.states.see(this.stateLabels.labels[state]!, line, index.state + 1);
+        id = this.states.see(state, line, at + 1);
       } catch (err) {
         if (!(err instanceof SereError)) throw err;
         this.fail(STATE, err);
-        return;
+        return FAILED;
       }
-      if (state >= this.stateIds.length) {
-        const grown = new Int16Array(Math.max(this.stateIds.length * 2, state + 1)).fill(-1);
-        grown.set(this.stateIds);
-        this.stateIds = grown;
-      }
-      this.stateIds[state] = stateId;
     }
-    if (this.stage === Infinity) this.store.push(site, time.value, stateId, line, group);
+    if (id === SKIP) this.dropped += 1;
+    if (label >= this.stateIds.length) {
+      const grown = new Int16Array(Math.max(this.stateIds.length * 2, label + 1)).fill(NEW);
+      grown.set(this.stateIds);
+      this.stateIds = grown;
+    }
+    this.stateIds[label] = id;
+    return id;
   }
 
   /** The validated table, or the first-ranked problem. */
@@ -136,15 +264,23 @@ export class SurveyCollector implements RowSink {
         'add a header row (site,time,state) and one row per site and survey');
     }
     if (this.error && this.stage <= HEADER) throw this.error;
-    if (this.bodyRows === 0) {
+    if (this.bodyRows === 0 || (this.layout?.layout === 'wide' && this.filledCells === 0 && !this.error)) {
       throw new SereError('EMPTY_FILE', 'the survey table has a header but no survey rows', { file, line: this.headerLine },
         'add one row per site and survey below the header');
     }
+    if (this.error && this.stage <= STATE) throw this.inTimeColumn(this.error);
+    if (this.unmapped.length > 0) throw this.unmappedError();
+    let resolved;
+    try {
+      resolved = this.states.finish();
+    } catch (err) {
+      throw err instanceof SereError ? this.inTimeColumn(err) : err;
+    }
     if (this.error) throw this.error;
-    const { states, index: stateIndex } = this.states.finish();
+    const { states, index: stateIndex } = resolved;
 
-    const { sorted: sites, rank } = this.sites.ranks();
     const store = this.store;
+    const { sites, rank } = this.surveyedSites();
     for (let n = 0; n < store.count; n++) {
       store.site[n] = rank[store.site[n]!]!;
       store.state[n] = stateIndex[store.state[n]!]!;
@@ -154,13 +290,56 @@ export class SurveyCollector implements RowSink {
       // A site surveyed twice at one time must agree with itself; an exact repeat is used once.
       const { first, later } = ordered.conflict;
       throw new SereError('DUPLICATE_SURVEY',
-        `site ${quote(sites[later.site]!)} at time ${later.time} is ${quote(states[later.state]!)} here but ${quote(states[first.state]!)} on line ${first.line}`,
+        `site ${quote(sites[later.site]!)} at time ${later.time} is ${quote(states[later.state]!)} here but ${quote(states[first.state]!)} on ${this.lineWord} ${first.line}`,
         { file, line: later.line }, 'keep one of the two rows');
     }
     return {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
-      ...(this.index?.group !== undefined ? { groups: this.groups.labels } : {}),
+      ...(this.layout?.index.group !== undefined ? { groups: this.groups.labels } : {}),
+      ...(this.options.labels ? { labels: { file: this.options.labels.file, sha256: this.options.labels.sha256, droppedRows: this.dropped } } : {}),
     };
+  }
+
+  /**
+   * Sites in code-point order and each site label's rank among them — only sites with a survey
+   * kept: a wide table's row of empty cells, or a site whose every label the map skips, is no site.
+   */
+  private surveyedSites(): { sites: string[]; rank: Int32Array } {
+    const { sorted, rank } = this.sites.ranks();
+    const surveyed = new Uint8Array(sorted.length);
+    for (let n = 0; n < this.store.count; n++) surveyed[rank[this.store.site[n]!]!] = 1;
+    if (surveyed.every((s) => s === 1)) return { sites: sorted, rank };
+    const kept = new Int32Array(sorted.length);
+    const sites: string[] = [];
+    sorted.forEach((site, r) => {
+      kept[r] = sites.length;
+      if (surveyed[r]) sites.push(site);
+    });
+    return { sites, rank: rank.map((r) => kept[r]!) };
+  }
+
+  /** Every label the map lacks, with where it first appears: one error, so one edit fixes them all. */
+  private unmappedError(): SereError {
+    const first = this.unmapped[0]!;
+    const layout = this.layout;
+    const where = (u: { line: number; column: number }): string =>
+      layout?.layout === 'wide' ? `${this.lineWord} ${u.line}, ${layout.index.times[u.column - 1]}` : `${this.lineWord} ${u.line}`;
+    const shown = this.unmapped.slice(0, MAX_LISTED).map((u) => `${quote(u.label)} (${where(u)})`).join(', ');
+    const more = this.unmapped.length > MAX_LISTED ? ` and ${this.unmapped.length - MAX_LISTED} more` : '';
+    const one = this.unmapped.length === 1;
+    return new SereError('UNMAPPED_LABEL', `${one ? 'a label is' : `${this.unmapped.length} labels are`} not in the label map: ${shown}${more}`,
+      { file: this.file, line: first.line, column: first.column },
+      `add ${one ? 'it' : 'each'} to ${this.options.labels!.file}, mapped to a state or to skip`);
+  }
+
+  /** In a wide table, a cell's message also names its column's survey time. */
+  private inTimeColumn(err: SereError): SereError {
+    const layout = this.layout;
+    const column = err.place.column;
+    if (layout?.layout !== 'wide' || column === undefined || err.place.line === this.headerLine) return err;
+    const time = layout.index.times[column - 1];
+    if (time === undefined || Number.isNaN(time)) return err;
+    return new SereError(err.code, `${err.message} (in the ${time} column)`, err.place, err.hint);
   }
 
   private checkLabel(role: 'site' | 'group', label: string, line: number, at: number): void {

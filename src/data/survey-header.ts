@@ -7,6 +7,19 @@ export type ColumnIndex = { site: number; time: number; state: number; group?: n
 
 /** The columns named in a header row (fields as read), or the error that says which is missing or repeated. */
 export function columnIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns): ColumnIndex {
+  const header = headerNames(file, fields, line);
+  const find = (role: 'site' | 'time' | 'state' | 'group', wanted: string): number => findColumn(file, header, line, role, wanted);
+  const index: ColumnIndex = {
+    site: find('site', columns.site),
+    time: find('time', columns.time),
+    state: find('state', columns.state),
+  };
+  if (columns.group !== undefined) index.group = find('group', columns.group);
+  return index;
+}
+
+/** The header's names, normalised; a name given twice is an error. */
+export function headerNames(file: string, fields: readonly string[], line: number): string[] {
   const header = fields.map(normaliseLabel);
   const seen = new Set<string>();
   header.forEach((name, at) => {
@@ -18,26 +31,22 @@ export function columnIndex(file: string, fields: readonly string[], line: numbe
     }
     seen.add(name);
   });
-  const find = (role: string, wanted: string): number => {
-    const name = normaliseLabel(wanted);
-    const at = header.indexOf(name);
-    if (at < 0) {
-      const found = header.map(quote).join(', ');
-      // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
-      const semicolons = header.length === 1 && header[0]!.includes(';');
-      throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (header has ${found})`,
-        { file, line },
-        semicolons
-          ? 'the file uses semicolons; save it with commas between values'
-          : `add a ${quote(name)} column, or name the column that holds the ${role} with --${role}-column`);
-    }
-    return at;
-  };
-  const index: ColumnIndex = {
-    site: find('site', columns.site),
-    time: find('time', columns.time),
-    state: find('state', columns.state),
-  };
-  if (columns.group !== undefined) index.group = find('group', columns.group);
-  return index;
+  return header;
+}
+
+/** The place of the column named `wanted` in a normalised header, or the MISSING_COLUMN error. */
+export function findColumn(file: string, header: readonly string[], line: number, role: 'site' | 'time' | 'state' | 'group', wanted: string): number {
+  const name = normaliseLabel(wanted);
+  const at = header.indexOf(name);
+  if (at < 0) {
+    const found = header.map(quote).join(', ');
+    // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
+    const semicolons = header.length === 1 && header[0]!.includes(';');
+    throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (header has ${found})`,
+      { file, line },
+      semicolons
+        ? 'the file uses semicolons; save it with commas between values'
+        : `add a ${quote(name)} column, or name the column that holds the ${role} with --${role}-column`);
+  }
+  return at;
 }

@@ -43,7 +43,22 @@ export interface SurveyTable {
   readonly repeatedRows: number;
   /** SHA-256 of the file's bytes, so a record can prove which data it came from. */
   readonly sha256: string;
+  /** The label map the labels went through, and how many surveys it left out (labels mapped to skip). */
+  readonly labels?: LabelMapUse;
 }
+
+export interface LabelMapUse {
+  readonly file: string;
+  readonly sha256: string;
+  readonly droppedRows: number;
+}
+
+/**
+ * How a table holds its surveys: `long`, one row per site and survey (site, time, state columns);
+ * `wide`, one row per site and one column per survey time, headed by the time, an empty cell for
+ * a time the site was not surveyed. Undefined: detected from the header (survey-layout.ts).
+ */
+export type SurveyLayout = 'long' | 'wide';
 
 /** Which CSV columns hold what. */
 export interface SurveyColumns {

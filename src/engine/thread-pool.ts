@@ -1,6 +1,5 @@
-import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
+import { workerFile } from '../worker-file.js';
 import { drainTasks, DONE, FAILED, NEXT } from './drain-tasks.js';
 import { taskCount, runTask, type Phase, type SharedRun } from './engine-tasks.js';
 
@@ -50,24 +49,10 @@ function workersFor(n: number): Worker[] {
   if (kept.length !== n) {
     for (const w of kept) void w.terminate();
     kept = Array.from({ length: n }, () => {
-      const w = new Worker(workerFile());
+      const w = new Worker(workerFile('engine-worker', 'engine', import.meta.url));
       w.unref();
       return w;
     });
   }
   return kept;
-}
-
-/**
- * Where the worker's code is: beside the bundle (dist/cli/engine-worker.mjs, from the entry or from
- * one of its chunks/), beside this file when compiled (dist/src/engine/engine-worker.js), or — when
- * this file runs from its TypeScript source, as under the test runner — the compiled copy.
- */
-function workerFile(): URL {
-  const candidates = ['./engine-worker.mjs', '../engine-worker.mjs', './engine-worker.js', '../../dist/src/engine/engine-worker.js'];
-  for (const c of candidates) {
-    const url = new URL(c, import.meta.url);
-    if (existsSync(fileURLToPath(url))) return url;
-  }
-  throw new Error(`the engine's worker file is missing (looked for ${candidates.join(', ')} from ${import.meta.url}); run npm run build`);
 }

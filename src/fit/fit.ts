@@ -1,5 +1,5 @@
 import { SereError, quote } from '../errors.js';
-import type { SurveyTable } from '../data/survey.js';
+import type { LabelMapUse, SurveyTable } from '../data/survey.js';
 import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
 import { countTransitions, likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
 import type { SiteCountTable } from '../chain/site-counts.js';
@@ -28,6 +28,8 @@ export interface Fit {
   /** Pairs two or more whole steps apart, by gap in steps (chain/counts.ts GapCell; absent in old fit files). */
   readonly gapCounts?: readonly GapCell[];
   readonly repeatedRows: number;
+  /** The label map the survey labels went through, and the surveys it left out (absent without one). */
+  readonly labels?: LabelMapUse;
   /** Rare labels that look like slips for common ones (a warning; not kept in fit files). */
   readonly typos?: readonly LikelyTypo[];
   readonly surveys: number;
@@ -87,6 +89,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     skipped: counted.skipped,
     gapCounts: counted.gapCounts,
     repeatedRows: table.repeatedRows,
+    ...(table.labels ? { labels: table.labels } : {}),
     typos: likelyTypos(table),
     surveys: table.rows.count,
     firstTime,

@@ -1,6 +1,8 @@
 import { SereError, quote, type Place } from '../errors.js';
 import { normaliseLabel } from '../data/labels.js';
-import type { SurveyColumns } from '../data/survey.js';
+import type { SurveyColumns, SurveyLayout } from '../data/survey.js';
+import { readLabelMap, type LabelMap } from '../data/label-map.js';
+import type { ReadSurveyOptions } from '../data/read-survey-csv.js';
 import type { PriorSpec } from '../chain/prior.js';
 
 /** Everything that decides a fit besides the survey table itself. */
@@ -11,10 +13,40 @@ export interface FitSettings {
   /** Transitions declared impossible (structural zeros), as [from, to] labels. */
   readonly impossible: readonly (readonly [string, string])[];
   readonly columns: SurveyColumns;
+  /** Long or wide; undefined: detected from the header. */
+  readonly layout?: SurveyLayout;
+  /** The worksheet of a spreadsheet (.xlsx); undefined: its first sheet. */
+  readonly sheet?: string;
+  /** A label map file (recorded label → state), relative to the working folder. */
+  readonly labels?: string;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
-  readonly places?: { readonly states?: Place; readonly impossible?: Place };
+  readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place };
+}
+
+/** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */
+export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
+  return {
+    columns: settings.columns,
+    states: settings.states,
+    statesPlace: settings.places?.states,
+    ...(settings.layout ? { layout: settings.layout } : {}),
+    ...(settings.sheet !== undefined ? { sheet: settings.sheet, sheetPlace: settings.places?.sheet ?? { path: '--sheet' } } : {}),
+    ...(settings.labels !== undefined ? { labels: labelMapAt(settings.labels, settings.places?.labels ?? { path: '--labels' }) } : {}),
+  };
+}
+
+/** The label map, or why it cannot be read — naming the key or flag that names it when the file is missing. */
+function labelMapAt(file: string, place: Place): LabelMap {
+  try {
+    return readLabelMap(file);
+  } catch (err) {
+    if (err instanceof SereError && (err.code === 'FILE_NOT_FOUND' || err.code === 'NOT_A_FILE')) {
+      throw new SereError(err.code, err.message, { file, path: place.path }, err.hint);
+    }
+    throw err;
+  }
 }
 
 /** Parse `from>to` pairs, e.g. `woodland>open-water`. */

@@ -13,9 +13,14 @@ export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
   const lines = fit.skipped.map(({ gap, pairs }) =>
     style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
   if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
+  if (fit.labels && fit.labels.droppedRows > 0) {
+    lines.push(style.yellow(`label map ${fit.labels.file}: ${count(fit.labels.droppedRows, 'survey')} left out (labels mapped to skip)`));
+  }
   for (const t of fit.typos ?? []) {
+    // The label map is where a recorded spelling is fixed without editing the field data.
+    const map = fit.labels ? `in the label map ${fit.labels.file}` : 'in a label map (--labels FILE, or fit.labels in a scenario)';
     lines.push(style.yellow(`check state '${t.label}' (${count(t.rows, 'row')}, first on line ${t.line}): a slip for '${t.near}' ` +
-      `(${count(t.nearRows, 'row')})? Correct it, or declare the states with --states if both are real`));
+      `(${count(t.nearRows, 'row')})? Map '${t.label}: ${t.near}' ${map}, or declare the states with --states if both are real`));
   }
   return lines;
 }

@@ -13,10 +13,10 @@ import { tidyCsv } from './tidy-csv.js';
  * seeds and version. Paths inside outputs are relative to the workspace, so a record reruns
  * identically elsewhere. The workspace computes the season; this stage only writes it down.
  */
-export async function recordFiles(run: SeasonRun): Promise<Map<string, string>> {
+export async function recordFiles(run: SeasonRun): Promise<Map<string, string | Buffer>> {
   const { fit, estimates, forecasts, comparisons, changes, scores, seeds } = run;
   const ws = run.workspace;
-  const files = new Map<string, string>();
+  const files = new Map<string, string | Buffer>();
   const json = (x: unknown): string => JSON.stringify(x, null, 2) + '\n';
   for (const [rel, text] of run.inputs) files.set(`inputs/${rel}`, text);
   files.set('fit.json', json(fitToJson(fit, estimates)));
@@ -46,7 +46,7 @@ export async function recordFiles(run: SeasonRun): Promise<Map<string, string>> 
       comparison: comparisons.find((c) => c.file === file)?.comparison,
       charts: [`charts/${stemOf(file)}.svg`, `charts/differences/${stemOf(file)}.svg`].flatMap((path) => {
         const svg = files.get(path);
-        return svg === undefined ? [] : [svg];
+        return typeof svg === 'string' ? [svg] : [];
       }),
     })),
   }));

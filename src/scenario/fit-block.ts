@@ -1,3 +1,4 @@
+import { relative, resolve } from 'node:path';
 import type { z } from 'zod';
 import type { Place } from '../errors.js';
 import type { KeyPath } from '../data/read-structured.js';
@@ -9,17 +10,22 @@ import type { fitSettingsSchema } from './schema.js';
 /**
  * A `fit:` block (of a scenario or a workspace file) as fit settings, every default stated once;
  * the places of `states` and `impossible` go along so a later error names the key, not a flag.
+ * `dir` is the folder of the file holding the block: a label map's path is relative to it.
  */
-export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefined, locate: (path: KeyPath) => Place): FitSettings {
+export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefined, locate: (path: KeyPath) => Place, dir: string): FitSettings {
   if (!block) return DEFAULT_FIT_SETTINGS;
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
-    places: { states: locate(['fit', 'states']), impossible: impossiblePlace },
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
     step: block.step ?? DEFAULT_FIT_SETTINGS.step,
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
     states: block.states,
     impossible: parseImpossible(block.impossible ?? [], impossiblePlace),
     columns: { ...DEFAULT_COLUMNS, ...block.columns },
     group: block.group,
+    ...(block.layout ? { layout: block.layout } : {}),
+    ...(block.sheet !== undefined ? { sheet: block.sheet } : {}),
+    // Relative to the file that names it; kept relative to the working folder, as data is.
+    ...(block.labels !== undefined ? { labels: relative(process.cwd(), resolve(dir, block.labels)) } : {}),
   };
 }

@@ -151,10 +151,10 @@ function fitOfData(s: ScenarioFile, file: string,
     fail('BAD_SCENARIO', `data names a folder ('${s.data}'), not a file`, ['data'], 'name the survey table (.csv) or fit file (.json) itself');
   }
   try {
-    return fitFromFile(dataFile, fitSettingsOf(s.fit, locate));
+    return fitFromFile(dataFile, fitSettingsOf(s.fit, locate, dirname(file)));
   } catch (err) {
     // The data file itself cannot be read: the place to fix is the scenario's data key.
-    if (err instanceof SereError && ['FILE_NOT_FOUND', 'NOT_A_FILE'].includes(err.code)) {
+    if (err instanceof SereError && ['FILE_NOT_FOUND', 'NOT_A_FILE'].includes(err.code) && err.place.file === dataFile) {
       fail('BAD_SCENARIO', `data: ${err.message} (${dataFile})`, ['data'], err.hint);
     }
     throw err;

@@ -24,6 +24,11 @@ export const fitSettingsSchema = z.strictObject({
     group: z.string().min(1).optional(),
   }).optional(),
   group: z.string().min(1).optional().describe("Fit only the sites of this group (the value in columns.group), e.g. a soil type's own fit."),
+  layout: z.enum(['long', 'wide'], { error: 'layout must be long or wide' }).optional()
+    .describe('long: one row per site and survey; wide: one row per site, one column per survey time. Default: detected from the header.'),
+  sheet: z.string().min(1).optional().describe('The worksheet of a spreadsheet (.xlsx) to read. Default: the first.'),
+  labels: z.string().min(1).optional()
+    .describe('A label map (YAML, relative to this file): recorded label or class code → state, or skip. Every recorded label must be mapped or be one of its states.'),
 });
 
 const startSchema = z.union([

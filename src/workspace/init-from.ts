@@ -3,8 +3,9 @@ import { basename, resolve } from 'node:path';
 import { Document } from 'yaml';
 import { readSurveyTables } from '../data/read-survey-tables.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
+import { SereError } from '../errors.js';
 import { fitSurvey } from '../fit/fit.js';
-import type { FitSettings } from '../fit/settings.js';
+import { surveyReadOptions, type FitSettings } from '../fit/settings.js';
 import { WORKSPACE_FILE } from './workspace.js';
 import { installed, refuseUsedFolder, writeWorkspace } from './init.js';
 
@@ -19,10 +20,15 @@ export const INIT_HORIZON_YEARS = 20;
  */
 export function initWorkspaceFrom(dir: string, survey: string, settings: FitSettings, seed: number): string[] {
   refuseUsedFolder(dir);
-  const table = readSurveyTables([survey], { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  const table = readSurveyTables([survey], surveyReadOptions(settings));
   const fit = fitSurvey(table, settings);
   const name = basename(resolve(dir));
   const tableName = `surveys/${basename(survey)}`;
+  // The label map is copied in beside the table: every season (and every record) reads its own copy.
+  const labelsName = settings.labels === undefined ? undefined : `surveys/${basename(settings.labels)}`;
+  if (labelsName === tableName) {
+    throw new SereError('BAD_OPTION', 'the label map and the survey table have the same file name', { path: '--labels' }, 'rename one of the two files');
+  }
   const columns = Object.fromEntries(Object.entries(settings.columns)
     .filter(([key, value]) => value !== undefined && value !== (DEFAULT_COLUMNS as unknown as Record<string, string>)[key]));
   const fitBlock: Record<string, unknown> = {
@@ -31,6 +37,9 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
     states: [...fit.states],
     ...(settings.impossible.length > 0 ? { impossible: settings.impossible.map(([from, to]) => `${from}>${to}`) } : {}),
     ...(Object.keys(columns).length > 0 ? { columns } : {}),
+    ...(settings.layout ? { layout: settings.layout } : {}),
+    ...(settings.sheet !== undefined ? { sheet: settings.sheet } : {}),
+    ...(labelsName !== undefined ? { labels: labelsName } : {}),
   };
   const workspace = new Document({
     name, surveys: [tableName], fit: fitBlock, scenarios: ['scenarios/do-nothing.yaml'], records: 'records', seed,
@@ -50,6 +59,7 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
   files.set(WORKSPACE_FILE, workspace.toString());
   // The exact bytes: the record's SHA-256 is of the file as surveyed.
   files.set(tableName, readFileSync(survey));
+  if (labelsName !== undefined) files.set(labelsName, readFileSync(settings.labels!));
   files.set('scenarios/do-nothing.yaml', scenario.toString());
   files.set('scenario.schema.json', readFileSync(installed('schema/scenario.schema.json'), 'utf8'));
   writeWorkspace(dir, files);

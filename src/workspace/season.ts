@@ -1,6 +1,8 @@
 import { readFileSync } from 'node:fs';
+import { surveyReadOptions } from '../fit/settings.js';
 import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
+import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
 import { fitSurvey, type Fit } from '../fit/fit.js';
 import { groupOf } from '../fit/fit-from-file.js';
@@ -42,8 +44,8 @@ export interface SeasonRun {
   /** Earlier records scored. */
   readonly scored: readonly string[];
   readonly scoresSeed: number | null;
-  /** The exact inputs, by workspace path: the workspace file, survey tables and scenario files. */
-  readonly inputs: ReadonlyMap<string, string>;
+  /** The exact inputs, by workspace path: the workspace file, survey tables, label map and scenario files (workbooks as bytes). */
+  readonly inputs: ReadonlyMap<string, string | Buffer>;
   readonly fit: Fit;
   readonly estimates: FitEstimates;
   readonly forecasts: readonly { readonly file: string; readonly results: readonly ForecastResult[] }[];
@@ -63,10 +65,12 @@ export interface SeasonRun {
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
-  let table = readSurveyTables(surveyPaths, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
   const fitted = fitSurvey(table, settings);
-  const fit: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 } };
+  // Paths as the workspace names them, so a record replayed from its own inputs/ writes the same fit.
+  const fit: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 },
+    ...(fitted.labels && ws.labels !== undefined ? { labels: { ...fitted.labels, file: ws.labels } } : {}) };
   const estimates = estimateFit(fit, 0.9);
 
   const seeds: Record<string, number> = {};
@@ -101,8 +105,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const current = { states: table.states, records: recordsOf(table) };
   const scores = earlier.flatMap((r) => scoreRecord(r, current, scoring!) ?? []);
 
-  const inputs = new Map<string, string>();
-  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...ws.scenarios]) inputs.set(rel, readFileSync(join(ws.root, rel), 'utf8'));
+  const inputs = new Map<string, string | Buffer>();
+  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...(ws.labels !== undefined ? [ws.labels] : []), ...ws.scenarios]) inputs.set(rel, WORKBOOK.test(rel) ? readFileSync(join(ws.root, rel)) : readFileSync(join(ws.root, rel), 'utf8'));
   return {
     workspace: { name: ws.name, surveys: ws.surveys, scenarios: ws.scenarios }, date: options.date,
     previous: options.previous?.name ?? null, scored: earlier.map((r) => r.name), scoresSeed: scoresSeed ?? null,

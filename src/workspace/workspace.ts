@@ -37,6 +37,8 @@ export interface Workspace {
   readonly records: string;
   readonly seed?: number;
   readonly fitSettings: FitSettings;
+  /** The label map named by fit.labels, relative to the workspace folder: an input of every record. */
+  readonly labels?: string;
 }
 
 /** Read `sere-workspace.yaml` in `root`, checking that every file it names exists inside the folder. */
@@ -55,7 +57,7 @@ export function loadWorkspace(root: string): Workspace {
     }
     return rel.split('\\').join('/');
   };
-  const fitSettings = fitSettingsOf(w.fit, locate);
+  const fitSettings = fitSettingsOf(w.fit, locate, root);
   const scenarios = w.scenarios.map((s, n) => inside(s, ['scenarios', n]));
   const clash = clashingStems(scenarios);
   if (clash) {
@@ -72,6 +74,7 @@ export function loadWorkspace(root: string): Workspace {
     records: inside(w.records, ['records']),
     seed: w.seed,
     fitSettings,
+    ...(w.fit?.labels !== undefined ? { labels: inside(w.fit.labels, ['fit', 'labels']) } : {}),
   };
 }
 

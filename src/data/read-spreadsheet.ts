@@ -1,0 +1,101 @@
+import { readFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
+import { columnLetters, SereError, quote, type Place } from '../errors.js';
+import { workerFile } from '../worker-file.js';
+import { cannotRead, checkRegularFile } from './read-text-file.js';
+import type { SheetReply } from './sheet-cells.js';
+import type { RowSink } from './row-sink.js';
+
+const WHAT = 'survey workbook';
+
+/** File name endings read as workbooks (Office Open XML; .xlsm is the same format with macros, never run). */
+export const WORKBOOK = /\.xls[xm]$/i;
+/** Spreadsheet formats that are not read: the message says to save as .xlsx or CSV. */
+export const OTHER_SPREADSHEET = /\.(xls|xlsb|ods|numbers)$/i;
+
+/**
+ * Read one worksheet of an .xlsx workbook with exceljs (pinned) and hand its rows to a RowSink as
+ * a CSV scanner would: the survey collector then validates them exactly as a CSV table's. A row's
+ * "line" is its row number in the sheet and a field's column its column, so a message can name
+ * the cell (errors.ts prints the place as sheet and A1 cell).
+ *
+ * exceljs reads only asynchronously and the survey readers are synchronous, so the workbook is
+ * read on a worker thread (xlsx-worker.ts) while this thread waits on a shared word
+ * (Atomics.wait), then takes the reply with receiveMessageOnPort — no event loop needed. The
+ * whole sheet is held in memory (exceljs's reader): workbooks are field-team sized, at most
+ * 1,048,576 rows; a table of millions of rows belongs in CSV.
+ */
+export function readSpreadsheet(file: string, sheet: string | undefined, sink: RowSink, sheetPlace: Place = { path: '--sheet' }): { sha256: string; sheet: string } {
+  checkRegularFile(file, WHAT);
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(file);
+  } catch {
+    throw cannotRead(file, WHAT);
+  }
+  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  const reply = readOnWorker(file, sheet);
+  if (reply.kind === 'unreadable') {
+    throw new SereError('BAD_SPREADSHEET', `cannot be read as an .xlsx workbook (${reply.message.split('\n')[0]!.slice(0, 200)})`, { file },
+      'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
+  }
+  if (reply.kind === 'no-sheet') {
+    throw new SereError('UNKNOWN_SHEET', sheet === undefined ? 'the workbook has no worksheet'
+      : `no sheet ${quote(sheet)} in the workbook (its sheets: ${reply.sheets.map(quote).join(', ')})`,
+    { file, path: sheetPlace.path }, sheet === undefined ? 'add a sheet holding the survey table' : 'name one of its sheets with --sheet (or fit.sheet in a scenario)');
+  }
+  sink.expect(reply.rows.length);
+  // The header's last named column sets the width, as a CSV header does: rows are cut or padded to
+  // it, and a value beyond it is refused (whose column would it be?).
+  const header = reply.rows[0]?.cells ?? [];
+  let width = header.length;
+  while (width > 0 && header[width - 1]!.trim() === '') width -= 1;
+  let bad: SereError | undefined;
+  for (const { row, cells } of reply.rows) {
+    const beyond = cells.findIndex((cell, c) => c >= width && cell.trim() !== '');
+    if (beyond >= 0) {
+      bad = new SereError('BAD_CELL', `a value beyond the header's last column (${columnLetters(width)})`,
+        { file, sheet: reply.sheet, line: row, column: beyond + 1 }, 'head its column, or delete the value');
+      break;
+    }
+    const fields = Array.from({ length: width }, (_, c) => cells[c] ?? '');
+    // Cells joined by NUL, as scan-csv-parse.ts hands on csv-parse's fields.
+    const joined = Buffer.from(fields.join('\u0000'));
+    const starts = new Int32Array(width);
+    const ends = new Int32Array(width);
+    let at = 0;
+    fields.forEach((cell, n) => {
+      starts[n] = at;
+      at += Buffer.byteLength(cell);
+      ends[n] = at;
+      at += 1;
+    });
+    sink.row(joined, starts, ends, width, row);
+  }
+  if (!bad && reply.bad) {
+    bad = new SereError('BAD_CELL', `the cell holds ${reply.bad.what}`, { file, sheet: reply.sheet, line: reply.bad.row, column: reply.bad.column },
+      'type the value (a formula needs its result saved: open and save the workbook in a spreadsheet program)');
+  }
+  if (bad) sink.notCsv(bad);
+  return { sha256, sheet: reply.sheet };
+}
+
+/** The worker's reply, waited for on this thread. */
+function readOnWorker(file: string, sheet: string | undefined): SheetReply {
+  const signal = new Int32Array(new SharedArrayBuffer(4));
+  const { port1, port2 } = new MessageChannel();
+  const worker = new Worker(workerFile('xlsx-worker', 'data', import.meta.url), {
+    workerData: { file, sheet, port: port2, signal }, transferList: [port2],
+  });
+  try {
+    // The worker always replies (it catches every error of its own); wait until it has.
+    while (Atomics.load(signal, 0) === 0) Atomics.wait(signal, 0, 0);
+    const message = receiveMessageOnPort(port1);
+    if (message === undefined) throw new Error('the workbook reader replied with nothing');
+    return message.message as SheetReply;
+  } finally {
+    port1.close();
+    void worker.terminate();
+  }
+}
