@@ -1,0 +1,36 @@
+import type { MatrixDraws } from '../uncertainty/draws.js';
+
+/**
+ * The posterior mean of Pʰ for each of `steps` (h ≥ 1): row i is the chance that a site in state i
+ * now is in each state h steps on, averaged over the drawn matrices — E[Pʰ], not (E[P])ʰ, which
+ * differ when the draws are spread. One k×k row-major matrix per step, in the order given.
+ *
+ * Work is draws × largest step × k³ and does not depend on how many sites (pixels) there are.
+ */
+export function meanMatrixPowers(draws: MatrixDraws, steps: readonly number[]): Float64Array[] {
+  const { k, count, data } = draws;
+  const k2 = k * k;
+  const horizon = Math.max(0, ...steps);
+  const sums = steps.map(() => new Float64Array(k2));
+  const power = new Float64Array(k2);
+  const next = new Float64Array(k2);
+  for (let d = 0; d < count; d++) {
+    const at = d * k2;
+    power.fill(0);
+    for (let i = 0; i < k; i++) power[i * k + i] = 1;
+    for (let h = 1; h <= horizon; h++) {
+      // next = power · P_d (row = from): the chance of each state h steps on.
+      for (let i = 0; i < k; i++) {
+        for (let j = 0; j < k; j++) {
+          let x = 0;
+          for (let l = 0; l < k; l++) x += power[i * k + l]! * data[at + l * k + j]!;
+          next[i * k + j] = x;
+        }
+      }
+      power.set(next);
+      steps.forEach((s, n) => { if (s === h) for (let c = 0; c < k2; c++) sums[n]![c] += power[c]!; });
+    }
+  }
+  for (const sum of sums) for (let c = 0; c < k2; c++) sum[c]! /= count;
+  return sums;
+}
