@@ -11,7 +11,8 @@ import type { Fit } from '../fit/fit.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import type { RandomStream } from '../uncertainty/random.js';
-import { meanMatrixPowers } from '../engine/pixel-chances.js';
+import { meanPlannedPowers } from '../engine/pixel-chances.js';
+import { buildPlan } from '../engine/plan.js';
 import { areaCsv, expectedAreas, mapFiles, refuseExistingMaps, writeProbabilityMaps } from '../report/probability-maps.js';
 import { formatBytes } from '../limits.js';
 import { writeFileAtomic } from './write-file.js';
@@ -73,9 +74,9 @@ export function checkMapsScenario(scenarios: readonly Scenario[], folder: string
     throw new SereError('BAD_OPTION', '--maps needs a scenario whose data is a raster stack (.yaml)', { file: scenario.file, path: 'data' },
       'name the raster stack file as data');
   }
-  if (scenario.treatments.length > 0 || scenario.events.length > 0) {
-    throw new SereError('BAD_OPTION', '--maps draws the fitted chain; maps under treatments or events are not drawn yet', { file: scenario.file },
-      'run --maps with a scenario without treatments and events');
+  if (scenario.events.some((e) => e.scope === 'landscape')) {
+    throw new SereError('BAD_OPTION', '--maps cannot draw landscape-scope events yet (their years are random per draw)', { file: scenario.file, path: 'events' },
+      'give the event scope: site, or run --maps with a scenario without it');
   }
   if (scenario.start.from !== 'latest') {
     throw new SereError('BAD_OPTION', '--maps starts from each pixel\'s state in the latest map, and this scenario gives its own start', { file: scenario.file, path: 'start' },
@@ -87,7 +88,8 @@ export function checkMapsScenario(scenarios: readonly Scenario[], folder: string
 /**
  * Write the probability maps of a scenario fitted to a raster stack, and the expected area by
  * zone: each pixel's chance of each state in each shown year given its state in the latest map
- * (posterior mean of a row of Pʰ). With zones and no single zone fitted, each zone has its own
+ * (posterior mean of a row of Pʰ; under the scenario's treatments and site events, of the product
+ * of its year matrices, mixed over partial-area parcels by area). With zones and no single zone fitted, each zone has its own
  * chain (its own counts, same prior and settings) and its own draws (`maps:zone:CODE`); otherwise
  * the forecast's own draws (the `matrices` stream), so the maps add up to its mean shares.
  */
@@ -105,7 +107,9 @@ export async function writeScenarioMaps(scenario: Scenario, folder: string, rand
     for (const { zone, fit } of fitRasterZones(counted, settings)) zoneChains.push({ zone, fit, stream: random.stream(`maps:zone:${zone}`) });
   }
   const chains = zoneChains.length > 0 ? zoneChains : [{ zone: -1, fit: scenario.fit, stream: random.stream('matrices') }];
-  const chances = chains.map((c) => meanMatrixPowers(drawMatrices(c.fit, scenario.source, scenario.draws, c.stream), steps));
+  // Treatments and site events act on every chain as on the forecast's (same states, same recipes).
+  const plan = buildPlan(scenario);
+  const chances = chains.map((c) => meanPlannedPowers(plan, drawMatrices(c.fit, scenario.source, scenario.draws, c.stream), steps));
   // Pixels by state in the latest map, per chain, in the fit's state order.
   const latest = chains.map((c) => {
     const mix = new Array<number>(k).fill(0);

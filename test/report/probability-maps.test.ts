@@ -110,6 +110,25 @@ describe('probability maps (sere forecast --maps)', () => {
     }
   });
 
+  it('under a partial-area treatment and a site-scope event, the maps still average to the forecast\'s mean shares (the engine\'s own path)', async () => {
+    const file = scenario(plain, 'treated.yaml', 'horizon: { steps: 5 }\nshow: [1, 5]\nuncertainty: { draws: 200, seed: 23 }\n' +
+      'treatments: [{ name: clear, state: scrub, set: { bare: 0.4 }, area: 0.3, ramp: 2 }]\n' +
+      'events: [{ name: trample, scope: site, chance: 0.2, matrix: { sward: { bare: 1 } } }]\n');
+    const out = relative(process.cwd(), join(plain, 'treated-maps'));
+    const run = await sereInProcess(['forecast', file, '--maps', out, '--json']);
+    expect(run.code).toBe(0);
+    const json = JSON.parse(run.stdout).scenarios[0] as { years: number[]; shares: Record<string, { mean: number[] }> };
+    for (const year of [2017, 2021]) {
+      for (const state of STATES) {
+        const map = await readMap(join(out, `${state}_${year}.tif`));
+        let sum = 0;
+        let pixels = 0;
+        for (const v of map.values) if (v !== -1) { sum += v; pixels += 1; }
+        expect(sum / pixels).toBeCloseTo(json.shares[state]!.mean[json.years.indexOf(year)]!, 5);
+      }
+    }
+  });
+
   it('never overwrites maps unasked, and refuses what it cannot draw, with nothing written', async () => {
     const file = scenario(plain, 'again.yaml', 'horizon: { steps: 2 }\nuncertainty: { draws: 50, seed: 3 }\n');
     const out = relative(process.cwd(), join(plain, 'again'));
@@ -124,9 +143,9 @@ describe('probability maps (sere forecast --maps)', () => {
     const refused = await sereInProcess(['forecast', boot, '--debug']);
     expect(refused.code).toBe(1);
     expect(refused.stderr).toContain('[NEEDS_SITES]');
-    const treated = scenario(plain, 'treated.yaml', 'horizon: { steps: 2 }\ntreatments: [{ name: t, state: bare, multiply: { sward: 2 } }]\n');
-    const noMaps = relative(process.cwd(), join(plain, 'treated-maps'));
-    const t = await sereInProcess(['forecast', treated, '--maps', noMaps, '--debug']);
+    const stormy = scenario(plain, 'stormy.yaml', 'horizon: { steps: 2 }\nevents: [{ name: fire, chance: 0.1, matrix: { heath: { bare: 1 } } }]\n');
+    const noMaps = relative(process.cwd(), join(plain, 'stormy-maps'));
+    const t = await sereInProcess(['forecast', stormy, '--maps', noMaps, '--debug']);
     expect(t.code).toBe(1);
     expect(t.stderr).toContain('[BAD_OPTION]');
     expect(() => statSync(noMaps)).toThrow();
