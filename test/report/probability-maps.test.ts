@@ -182,4 +182,21 @@ describe.skipIf(!gdal)('probability maps read by GDAL', () => {
     // (25, 8) lies in the invented lake: nodata in the input, nodata in the map.
     expect(values[8 * 37 + 25]).toBe(-1);
   });
+
+  it('reads tiled, compressed inputs (written by gdal_translate) to the same counts as the strip-written originals', async () => {
+    const folder = join(temp.folder, 'tiled');
+    const stack = smallStack(folder);
+    const tiled = join(temp.folder, 'tiled-copy');
+    spawnSync('mkdir', ['-p', tiled]);
+    for (const name of [...YEARS.map((y) => `lc${y}.tif`), 'zones.tif']) {
+      const r = spawnSync('gdal_translate', ['-q', '-co', 'TILED=YES', '-co', 'BLOCKXSIZE=16', '-co', 'BLOCKYSIZE=16', '-co', 'COMPRESS=DEFLATE',
+        join(folder, name), join(tiled, name)], { encoding: 'utf8' });
+      expect(r.status).toBe(0);
+    }
+    writeFileSync(join(tiled, 'stack.yaml'), readFileSync(stack, 'utf8'));
+    const [a, b] = [await countRasterStack(stack), await countRasterStack(join(tiled, 'stack.yaml'))];
+    expect(b.tallies.map((t) => [t.pairs.map((m) => (m ? Array.from(m) : null)), Array.from(t.history)]))
+      .toEqual(a.tallies.map((t) => [t.pairs.map((m) => (m ? Array.from(m) : null)), Array.from(t.history)]));
+    expect(b.grid).toEqual(a.grid);
+  });
 });

@@ -114,7 +114,8 @@ export function gridDifference(a: Grid, b: Grid): string | undefined {
   if (!near(a.origin[0], b.origin[0]) || !near(a.origin[1], b.origin[1])) {
     return `origin (${a.origin[0]}, ${a.origin[1]}) against (${b.origin[0]}, ${b.origin[1]})`;
   }
-  if (a.crs !== b.crs) return `CRS ${a.epsg !== null ? `EPSG:${a.epsg}` : 'as GeoKeys'} against ${b.epsg !== null ? `EPSG:${b.epsg}` : 'other GeoKeys'}`;
+  // Two files naming an EPSG code are compared by it (tools add citations and unit keys of their own).
+  if (a.epsg !== null && b.epsg !== null ? a.epsg !== b.epsg : a.crs !== b.crs) return `CRS ${a.epsg !== null ? `EPSG:${a.epsg}` : 'as GeoKeys'} against ${b.epsg !== null ? `EPSG:${b.epsg}` : 'other GeoKeys'}`;
   return undefined;
 }
 
