@@ -1,4 +1,4 @@
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
 import { parse } from 'yaml';
 import { SereError } from '../errors.js';
@@ -32,6 +32,8 @@ export async function countScenarioStacks(files: readonly string[]): Promise<Map
   for (const file of files) {
     let data: unknown;
     try {
+      // Only a regular file: opening a pipe would wait for a writer (the loader reports it instead).
+      if (!statSync(file).isFile()) continue;
       data = (parse(readFileSync(file, 'utf8')) as { data?: unknown } | null)?.data;
     } catch {
       continue;
