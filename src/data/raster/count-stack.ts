@@ -55,13 +55,14 @@ export async function countRasterStack(file: string, onBand?: (done: number, tot
   const stack = readRasterStack(file);
   const places = stack.rasters.map((r) => stack.locate(r.path));
   const rasters: OpenRaster[] = [];
+  let zoneRaster: OpenRaster | undefined;
   try {
     for (const [n, r] of stack.rasters.entries()) rasters.push(await openRaster(r.file, places[n]!));
-    const zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
+    zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
     checkSameGrid(zoneRaster ? [...rasters, zoneRaster] : rasters, zoneRaster ? [...places, stack.locate(['zones'])] : places);
     return await countOpen(stack, rasters, zoneRaster, onBand);
   } finally {
-    for (const r of rasters) void r.tiff.close();
+    for (const r of [...rasters, ...(zoneRaster ? [zoneRaster] : [])]) void r.tiff.close();
   }
 }
 
