@@ -51,7 +51,7 @@ const CODES = 65536;
  * years form its survey sequence, exactly as a long table with one site per pixel would (nodata
  * and `skip` codes are years not surveyed) — test/data/raster/count-stack.test.ts checks that.
  */
-export async function countRasterStack(file: string, onBand?: (done: number, total: number) => void): Promise<RasterCounts> {
+export async function countRasterStack(file: string): Promise<RasterCounts> {
   const stack = readRasterStack(file);
   const places = stack.rasters.map((r) => stack.locate(r.path));
   const rasters: OpenRaster[] = [];
@@ -60,14 +60,13 @@ export async function countRasterStack(file: string, onBand?: (done: number, tot
     for (const [n, r] of stack.rasters.entries()) rasters.push(await openRaster(r.file, places[n]!));
     zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
     checkSameGrid(zoneRaster ? [...rasters, zoneRaster] : rasters, zoneRaster ? [...places, stack.locate(['zones'])] : places);
-    return await countOpen(stack, rasters, zoneRaster, onBand);
+    return await countOpen(stack, rasters, zoneRaster);
   } finally {
     for (const r of [...rasters, ...(zoneRaster ? [zoneRaster] : [])]) void r.tiff.close();
   }
 }
 
-async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined,
-  onBand?: (done: number, total: number) => void): Promise<RasterCounts> {
+async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined): Promise<RasterCounts> {
   const T = rasters.length;
   const years = stack.rasters.map((r) => r.year);
   const { width, height } = rasters[0]!.grid;
@@ -145,7 +144,6 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
         lastState[p] = s;
       }
     }
-    onBand?.(y1, height);
   }
   k = codes.states.length;
   for (const tally of tallies) if (tally) grow(tally);
