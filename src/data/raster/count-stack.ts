@@ -4,7 +4,7 @@ import { SereError, quote } from '../../errors.js';
 import { LIMITS } from '../../limits.js';
 import { openRaster, checkSameGrid, type Grid, type OpenRaster } from './open-raster.js';
 import { readRasterStack, SKIP, type RasterStack } from './stack-file.js';
-import { bandRows, readBand } from './read-band.js';
+import { readWindow, readWindows } from './read-band.js';
 
 /**
  * The transitions of one zone (or of the whole map), by pairs of rasters: what every fit setting
@@ -35,7 +35,7 @@ export interface RasterCounts {
   readonly tallies: readonly RasterTally[];
   /** Pixels left out because the zone raster had no zone there. */
   readonly outsideZones: number;
-  /** Largest band of rows held at once, in pixels (for the memory note). */
+  /** Largest window held at once, in pixels (for the memory note). */
   readonly bandPixels: number;
 }
 
@@ -45,13 +45,13 @@ const SKIPPED = -2;
 const CODES = 65536;
 
 /**
- * Count a raster stack band by band: every raster (and the zone raster) is read one band of rows
- * at a time (a row of tiles or strips, `read-band.ts`), so memory holds a band per raster and a
- * few bytes per pixel of the band, never a whole map. Each pixel is a site: its consecutive valid
+ * Count a raster stack window by window: every raster (and the zone raster) is read one window of
+ * whole tiles or strips at a time (`read-band.ts`; `windowPixels` sets their size, for tests), so
+ * memory holds a window per raster and 12 bytes per pixel of the window, never a whole map. Each pixel is a site: its consecutive valid
  * years form its survey sequence, exactly as a long table with one site per pixel would (nodata
  * and `skip` codes are years not surveyed) — test/data/raster/count-stack.test.ts checks that.
  */
-export async function countRasterStack(file: string): Promise<RasterCounts> {
+export async function countRasterStack(file: string, options: { readonly windowPixels?: number } = {}): Promise<RasterCounts> {
   const stack = readRasterStack(file);
   const places = stack.rasters.map((r) => stack.locate(r.path));
   const rasters: OpenRaster[] = [];
@@ -60,22 +60,22 @@ export async function countRasterStack(file: string): Promise<RasterCounts> {
     for (const [n, r] of stack.rasters.entries()) rasters.push(await openRaster(r.file, places[n]!));
     zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
     checkSameGrid(zoneRaster ? [...rasters, zoneRaster] : rasters, zoneRaster ? [...places, stack.locate(['zones'])] : places);
-    return await countOpen(stack, rasters, zoneRaster);
+    return await countOpen(stack, rasters, zoneRaster, options.windowPixels);
   } finally {
     for (const r of [...rasters, ...(zoneRaster ? [zoneRaster] : [])]) void r.tiff.close();
   }
 }
 
-async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined): Promise<RasterCounts> {
+async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined,
+  windowPixels: number | undefined): Promise<RasterCounts> {
   const T = rasters.length;
   const years = stack.rasters.map((r) => r.year);
-  const { width, height } = rasters[0]!.grid;
   const codes = new CodeStates(stack);
   const zones = new ZoneIndex();
   const tallies: RasterTally[] = [];
   const tallyOf = (z: number): RasterTally => (tallies[z] ??= { pairs: [], triples: [], history: new Float64Array(0) });
-  const rows = bandRows(rasters[0]!, width);
-  const pixels = rows * width;
+  const windows = readWindows(rasters[0]!, windowPixels);
+  const pixels = windows.reduce((most, w) => Math.max(most, (w.x1 - w.x0) * (w.y1 - w.y0)), 0);
   const lastState = new Int16Array(pixels);
   const lastRaster = new Int16Array(pixels);
   const prevState = new Int16Array(pixels);
@@ -93,13 +93,14 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
     tally.pairs.forEach((m, n) => { if (m) tally.pairs[n] = widen(m, old, k, 2); });
     tally.triples.forEach((m, n) => { if (m) tally.triples[n] = widen(m, old, k, 3); });
   };
-  for (let y0 = 0; y0 < height; y0 += rows) {
-    const y1 = Math.min(height, y0 + rows);
-    const n = (y1 - y0) * width;
+  for (const window of windows) {
+    const { x0, y0 } = window;
+    const across = window.x1 - x0;
+    const n = across * (window.y1 - y0);
     lastRaster.fill(-1, 0, n);
     prevRaster.fill(-1, 0, n);
     if (zoneRaster) {
-      const band = await readBand(zoneRaster, y0, y1);
+      const band = await readWindow(zoneRaster, window);
       const nodata = zoneRaster.nodata;
       for (let p = 0; p < n; p++) {
         const v = band[p]!;
@@ -109,7 +110,7 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
     } else zoneOf.fill(0, 0, n);
     for (let t = 0; t < T; t++) {
       const raster = rasters[t]!;
-      const band = await readBand(raster, y0, y1);
+      const band = await readWindow(raster, window);
       const nodata = raster.nodata ?? NaN;
       const lut = codes.lut;
       for (let p = 0; p < n; p++) {
@@ -118,7 +119,7 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
         let s = lut[v & 0xffff]!;
         if (s < 0) {
           if (s === SKIPPED) continue;
-          s = codes.add(v, raster.file, years[t]!, y0 + Math.floor(p / width), p % width);
+          s = codes.add(v, raster.file, years[t]!, y0 + Math.floor(p / across), x0 + (p % across));
           k = codes.states.length;
         }
         const z = zoneOf[p]!;

@@ -72,8 +72,12 @@ describe('counting a raster stack', () => {
 
   it('reads a raster in bands of whole strips: a one-row-per-strip stack counts the same', async () => {
     const strips = smallStack(join(temp.folder, 'strips'), { rowsPerStrip: 1 });
-    expect(comparable(fitRasterCounts(await countRasterStack(strips), settings(1))))
-      .toEqual(comparable(fitRasterCounts(await countRasterStack(stack), settings(1))));
+    const whole = comparable(fitRasterCounts(await countRasterStack(stack), settings(1)));
+    expect(comparable(fitRasterCounts(await countRasterStack(strips), settings(1)))).toEqual(whole);
+    // One strip per window: 29 windows of one row.
+    const narrow = await countRasterStack(strips, { windowPixels: 37 });
+    expect(narrow.bandPixels).toBe(37);
+    expect(comparable(fitRasterCounts(narrow, settings(1)))).toEqual(whole);
   });
 
   it('without labels, each class code is its own state, in numeric order', async () => {
