@@ -50,7 +50,7 @@ export function stackSummary(counted: RasterCounts, fit: Fit): string {
   const g = counted.grid;
   const hectares = (fit.latest.sites * g.pixelArea) / 1e4;
   return `raster stack ${counted.stack.file}: ${counted.years.length} maps of ${g.width} × ${g.height} pixels of ${g.pixelArea} m²` +
-    `${g.epsg !== null ? ` (EPSG:${g.epsg})` : ''}, read in bands of ${counted.bandPixels} pixels (${formatBytes(counted.bandPixels * 12)} of per-pixel state); ` +
+    `${g.epsg !== null ? ` (EPSG:${g.epsg})` : ''}, read in windows of ${counted.bandPixels} pixels (${formatBytes(counted.bandPixels * 12)} of per-pixel state); ` +
     `latest map ${fit.latest.time}: ${fit.latest.sites} pixels, ${round(hectares)} ha (` +
     fit.states.map((state, i) => `${state} ${round((fit.latest.counts[i]! * g.pixelArea) / 1e4)} ha`).join(', ') + ')' +
     (counted.zones ? `; ${counted.zones.length} zones${counted.outsideZones ? `, ${counted.outsideZones} pixels outside every zone left out` : ''}` : '') + '\n';
