@@ -46,8 +46,8 @@ const CLASSIC_TIFF_LIMIT = 2 ** 32 - 1;
  *
  * Why not the geotiff package's writer: `writeArrayBuffer` takes every value of the image at once
  * and builds the whole file in one ArrayBuffer. Measured (`npm run bench -- raster`, which runs
- * scripts/bench/raster-writer.ts; node 20, one 4,000 × 4,000 Float32 map, 64 MB): 18.7 s and a peak
- * RSS of 184 MB with it, against 0.65 s and 59 MB here (256 rows at a time). Its memory grows with
+ * scripts/bench/raster-writer.ts; node 20, one 4,000 × 4,000 Float32 map, 64 MB): 9.95 s and a peak
+ * RSS of 179 MB with it, against 0.40 s and 58 MB here (256 rows at a time). Its memory grows with
  * the image (values plus file; for one 10⁸-pixel map about 0.8 GB — an estimate, not run) and one
  * map is written per state and shown year. Files written here are read back by the geotiff package and by GDAL in
  * test/report/probability-maps.test.ts.
