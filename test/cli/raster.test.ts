@@ -69,4 +69,17 @@ describe('sere with a raster stack', () => {
     expect(bad.code).toBe(1);
     expect(bad.stderr).toContain('[BAD_OPTION]');
   });
+
+  it('sere check reads a stack: the order and period tests run on the counts', async () => {
+    const run = await sereInProcess(['check', stack, '--seed', '4', '--draws', '100', '--replicates', '19', '--json']);
+    expect(run.code).toBe(0);
+    const json = JSON.parse(run.stdout) as { data: { sites: number; transitions: number }; tests: { order: { name: string; n: number; df: number }[] } };
+    expect(json.data.sites).toBe(0);
+    expect(json.data.transitions).toBeGreaterThan(2000);
+    // Order 0 vs 1 on every one-step pair; order 1 vs 2 on the runs of three one step apart.
+    const [zero, one] = json.tests.order;
+    expect(zero!.n).toBe(json.data.transitions);
+    expect(one!.n).toBeGreaterThan(0);
+    expect(one!.n).toBeLessThan(zero!.n);
+  });
 });
