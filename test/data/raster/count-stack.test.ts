@@ -1,4 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { join } from 'node:path';
 import { writeFileSync } from 'node:fs';
 import { countRasterStack } from '../../../src/data/raster/count-stack.js';
@@ -133,5 +134,27 @@ describe('counting a raster stack', () => {
     expect(wider.place.file).toMatch(/wider\.tif$/);
     expect(wider.message).toContain('lc2010.tif');
     await expectCode(countRasterStack(stackOf('elsewhere.tif')), 'GRID_MISMATCH');
+  });
+
+  it('property: for random sizes, survey years, strips and seeds, the stack and the long table give the same fit', async () => {
+    let run = 0;
+    await fc.assert(fc.asyncProperty(
+      fc.integer({ min: 1, max: 23 }), fc.integer({ min: 1, max: 19 }),
+      fc.uniqueArray(fc.integer({ min: 2000, max: 2012 }), { minLength: 2, maxLength: 5 }),
+      fc.integer({ min: 1, max: 7 }), fc.integer({ min: 1, max: 1000 }), fc.integer({ min: 1, max: 3 }),
+      async (width, height, years, rowsPerStrip, seed, step) => {
+        const dir = join(temp.folder, `prop${run++}`);
+        const sorted = [...years].sort((a, b) => a - b);
+        const file = smallStack(dir, { width, height, years: sorted, rowsPerStrip, seed });
+        await stackAsCsv(dir, sorted, join(dir, 'pixels.csv'));
+        const table = readSurveyCsv(join(dir, 'pixels.csv'), { columns: settings(1).columns, states: STATES });
+        const counted = await countRasterStack(file, { windowPixels: width * rowsPerStrip });
+        const fromTable = (): Fit => fitSurvey(table, settings(step));
+        let expected: object | string;
+        try { expected = comparable(fromTable()); } catch (err) { expected = (err as SereError).code; }
+        let actual: object | string;
+        try { actual = comparable(fitRasterCounts(counted, settings(step))); } catch (err) { actual = (err as SereError).code; }
+        expect(actual).toEqual(expected);
+      }), { numRuns: 25, seed: 20261202 });
   });
 });
