@@ -3,7 +3,6 @@ import { InvalidArgumentError, type Command } from 'commander';
 import { SereError } from '../errors.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
-import { countRasterStack } from '../data/raster/count-stack.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
@@ -60,7 +59,7 @@ export function registerCheck(program: Command, io: Io): void {
         'drop them, or check the survey table itself');
     }
     // A raster stack is counted first (reading rasters is asynchronous); its fit holds counts only.
-    const rasters = isRasterStackFile(file) ? new Map([[file, await countRasterStack(file)]]) : undefined;
+    const rasters = isRasterStackFile(file) ? new Map([[file, await (await import('../data/raster/count-stack.js')).countRasterStack(file)]]) : undefined;
     const fit = fitFromFile(file, fitSettingsFrom(opts), rasters);
     let target: { state: number; steps: number } | undefined;
     if (opts.target !== undefined) {

@@ -7,7 +7,7 @@ import { comparisonTable } from '../report/compare-table.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
-import { countScenarioStacks } from './raster-data.js';
+import { countScenarioStacks } from './scenario-stacks.js';
 import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';

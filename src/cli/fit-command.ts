@@ -16,9 +16,7 @@ import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { writeFileAtomic } from './write-file.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
-import { countRasterStack } from '../data/raster/count-stack.js';
 import { fitRasterCounts } from '../fit/fit-from-raster.js';
-import { stackSummary } from './raster-data.js';
 
 interface FitOptions extends FitFlags {
   by?: string;
@@ -48,10 +46,11 @@ export function registerFit(program: Command, io: Io): void {
         throw new SereError('BAD_OPTION', 'a raster stack has no columns: its groups are the zones of its zone raster', { path: opts.by !== undefined ? '--by' : '--group-column' },
           'name a zone raster in the stack file (zones: zones.tif); a scenario picks one zone with fit.group');
       }
-      const counted = raster ? await countRasterStack(file) : undefined;
+      // The raster code (and the geotiff package) is loaded only for a stack.
+      const counted = raster ? await (await import('../data/raster/count-stack.js')).countRasterStack(file) : undefined;
       const fit = counted ? fitRasterCounts(counted, settings)
         : fitSurvey(readSurveyCsv(file, { columns: settings.columns, states: opts.states }), settings);
-      if (counted) io.stderr(stackSummary(counted, fit));
+      if (counted) io.stderr((await import('./raster-data.js')).stackSummary(counted, fit));
       const estimates = estimateFit(fit, opts.level);
       // The JSON only when it is printed or written: with 10⁶ sites it took 0.9 s (measured on 10⁷ rows).
       const json = opts.json || opts.out ? JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n' : '';

@@ -9,7 +9,7 @@ import type { Io } from './io.js';
 import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
-import { checkMapsScenario, countScenarioStacks, writeScenarioMaps } from './raster-data.js';
+import { countScenarioStacks } from './scenario-stacks.js';
 import type { RandomStream } from '../uncertainty/random.js';
 
 export function registerForecast(program: Command, io: Io): void {
@@ -19,7 +19,8 @@ export function registerForecast(program: Command, io: Io): void {
     .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
       // Raster stacks named as data are counted first: reading them is asynchronous.
       const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
-      if (opts.maps !== undefined) checkMapsScenario(scenarios, opts.maps, Boolean(opts.force));
+      const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
+      maps?.checkMapsScenario(scenarios, opts.maps!, Boolean(opts.force));
       const randoms: RandomStream[] = [];
       // A file's alternatives share one seed, and so the same draws and event years.
       const seeds = new Map<string, number>();
@@ -40,7 +41,7 @@ export function registerForecast(program: Command, io: Io): void {
         await writeChart(opts.chart, (c) => c.fanChartSpec(results, title), Boolean(opts.force), io);
       }
       if (opts.csv) writeCsv(opts.csv, tidyCsv(results), Boolean(opts.force), io);
-      if (opts.maps !== undefined) await writeScenarioMaps(scenarios[0]!, opts.maps, randoms[0]!, io);
+      if (maps) await maps.writeScenarioMaps(scenarios[0]!, opts.maps!, randoms[0]!, io);
       if (opts.json) {
         io.stdout(JSON.stringify(forecastJson(results), null, 2) + '\n');
         return;

@@ -1,9 +1,7 @@
-import { mkdirSync, readFileSync, statSync } from 'node:fs';
-import { dirname, join, relative, resolve } from 'node:path';
-import { parse } from 'yaml';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
 import { SereError } from '../errors.js';
-import { isRasterStackFile } from '../data/raster/stack-file.js';
-import { classLookup, countRasterStack, type RasterCounts } from '../data/raster/count-stack.js';
+import { classLookup, type RasterCounts } from '../data/raster/count-stack.js';
 import { geoTagsOf, openRaster } from '../data/raster/open-raster.js';
 import { readBand } from '../data/raster/read-band.js';
 import { fitRasterZones, rasterSourceOf, rasterStateOrder } from '../fit/fit-from-raster.js';
@@ -20,30 +18,6 @@ import type { Io } from './io.js';
 
 /** The expected-area table beside the maps. */
 export const AREA_CSV = 'expected-area.csv';
-
-/**
- * Count every raster stack the scenario files name as `data`, once each, before the scenarios are
- * loaded: reading rasters is asynchronous and loading is not. Keys are the paths as `data`
- * resolves them (relative to the scenario file, shown relative to the working folder). A file that
- * cannot be read here is left for the loader to report.
- */
-export async function countScenarioStacks(files: readonly string[]): Promise<Map<string, RasterCounts>> {
-  const counted = new Map<string, RasterCounts>();
-  for (const file of files) {
-    let data: unknown;
-    try {
-      // Only a regular file: opening a pipe would wait for a writer (the loader reports it instead).
-      if (!statSync(file).isFile()) continue;
-      data = (parse(readFileSync(file, 'utf8')) as { data?: unknown } | null)?.data;
-    } catch {
-      continue;
-    }
-    if (typeof data !== 'string' || !isRasterStackFile(data)) continue;
-    const stack = relative(process.cwd(), resolve(dirname(file), data));
-    if (!counted.has(stack)) counted.set(stack, await countRasterStack(stack));
-  }
-  return counted;
-}
 
 /** One line about a counted stack for stderr: grid, pixel area, pixels read, memory held. */
 export function stackSummary(counted: RasterCounts, fit: Fit): string {
