@@ -25,6 +25,7 @@ export async function stackAsCsv(folder: string, years: readonly number[], out: 
     const tiff = await fromFile(file);
     const image = await tiff.getImage();
     const data = await image.readRasters({ interleave: true });
+    await tiff.close();
     return Object.assign(data as unknown as ArrayLike<number>, { width: image.getWidth() });
   };
   const zones = await read(join(folder, 'zones.tif'));
