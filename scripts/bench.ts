@@ -15,6 +15,7 @@
  * 8. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
  *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
  * 9. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
+ * 10. Rasters (`npm run bench -- raster`, only when named): scripts/bench/raster.ts.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -36,6 +37,7 @@ import { randomStreams } from '../src/uncertainty/random.js';
 import { existsSync } from 'node:fs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
+import { benchRaster } from './bench/raster.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -284,6 +286,9 @@ function multiplyAddFloor(): number {
   if (!(sink > 0)) throw new Error('floor: nothing computed');
   return ms / 1000;
 }
+
+// Only when named (npm run bench -- raster): two 10⁸-pixel rasters in a temporary folder (scripts/bench/raster.ts).
+if (only === 'raster') benchRaster();
 
 // Only when named (npm run bench -- numpy): its 1,000,000-draw numpy case needs ~18 GB and minutes.
 if (only === 'numpy') {

@@ -47,7 +47,10 @@ export type ErrorCode =
   | 'BAD_MATRIX'
   | 'TOO_LARGE'
   | 'BAD_WORKSPACE'
-  | 'BUSY';
+  | 'BUSY'
+  | 'BAD_RASTER'
+  | 'GRID_MISMATCH'
+  | 'NEEDS_SITES';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

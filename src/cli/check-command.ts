@@ -2,6 +2,7 @@ import { extname } from 'node:path';
 import { InvalidArgumentError, type Command } from 'commander';
 import { SereError } from '../errors.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
+import { isRasterStackFile } from '../data/raster/stack-file.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
@@ -35,7 +36,7 @@ const FIT_FLAGS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeC
 export function registerCheck(program: Command, io: Io): void {
   const command = withFitOptions(program.command('check')
     .description('test the Markov assumptions and describe the chain: structure, passage times, settling, sensitivities')
-    .argument('<survey.csv|fit.json>', 'a survey table (fitted now, with the fit flags) or a fit file'))
+    .argument('<survey.csv|fit.json>', 'a survey table (fitted now, with the fit flags), a fit file, or a raster stack file (.yaml)'))
     .option('--draws <n>', 'posterior draws for the bands', drawsFlag, 1000)
     .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--level <p>', 'credible level of the bands', level, 0.9)
@@ -57,7 +58,9 @@ export function registerCheck(program: Command, io: Io): void {
       throw new SereError('BAD_OPTION', `fit flags (${given.join(', ')}) apply to a survey table, not to a fit file`, { file, path: `--${given[0]!.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}` },
         'drop them, or check the survey table itself');
     }
-    const fit = fitFromFile(file, fitSettingsFrom(opts));
+    // A raster stack is counted first (reading rasters is asynchronous); its fit holds counts only.
+    const rasters = isRasterStackFile(file) ? new Map([[file, await (await import('../data/raster/count-stack.js')).countRasterStack(file)]]) : undefined;
+    const fit = fitFromFile(file, fitSettingsFrom(opts), rasters);
     let target: { state: number; steps: number } | undefined;
     if (opts.target !== undefined) {
       const state = fit.states.indexOf(opts.target);

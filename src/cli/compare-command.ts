@@ -7,6 +7,7 @@ import { comparisonTable } from '../report/compare-table.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
+import { countScenarioStacks } from './scenario-stacks.js';
 import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
@@ -25,7 +26,7 @@ export function registerCompare(program: Command, io: Io): void {
     .description('compare management alternatives on common random numbers (the first is the baseline)'))
     .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
     .action(async (files: string[], opts: RunOptions) => {
-      const scenarios = loadAndCheck(files, opts);
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
       if (scenarios.length < 2) {
         throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },
           'name two or more scenario files, or list alternatives in the file');

@@ -9,12 +9,19 @@ import type { Io } from './io.js';
 import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
+import { countScenarioStacks } from './scenario-stacks.js';
+import type { RandomStream } from '../uncertainty/random.js';
 
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
     .description('project the mix of states with credible bands, long-run mix and time to a landscape target'))
-    .action(async (files: string[], opts: RunOptions) => {
-      const scenarios = loadAndCheck(files, opts);
+    .option('--maps <folder>', 'with a raster stack as data: write per-pixel probability maps (GeoTIFF, one per state and shown year) and expected-area.csv')
+    .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
+      // Raster stacks named as data are counted first: reading them is asynchronous.
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
+      const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
+      maps?.checkMapsScenario(scenarios, opts.maps!, Boolean(opts.force));
+      const randoms: RandomStream[] = [];
       // A file's alternatives share one seed, and so the same draws and event years.
       const seeds = new Map<string, number>();
       const results = scenarios.map((scenario) => {
@@ -22,7 +29,9 @@ export function registerForecast(program: Command, io: Io): void {
         seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
-          return runForecast(scenario, randomStreams(seed), progress.update, { threads: opts.threads });
+          const random = randomStreams(seed);
+          randoms.push(random);
+          return runForecast(scenario, random, progress.update, { threads: opts.threads });
         } finally {
           progress.stop();
         }
@@ -32,6 +41,7 @@ export function registerForecast(program: Command, io: Io): void {
         await writeChart(opts.chart, (c) => c.fanChartSpec(results, title), Boolean(opts.force), io);
       }
       if (opts.csv) writeCsv(opts.csv, tidyCsv(results), Boolean(opts.force), io);
+      if (maps) await maps.writeScenarioMaps(scenarios[0]!, opts.maps!, randoms[0]!, io);
       if (opts.json) {
         io.stdout(JSON.stringify(forecastJson(results), null, 2) + '\n');
         return;

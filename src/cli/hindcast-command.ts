@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
+import { isRasterStackFile } from '../data/raster/stack-file.js';
 import { hindcast } from '../evaluation/hindcast.js';
 import { hindcastTable } from '../report/hindcast-table.js';
 import { hindcastJson } from '../report/hindcast-json.js';
@@ -32,6 +33,10 @@ export function registerHindcast(program: Command, io: Io): void {
     .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: HindcastOptions) => {
+      if (isRasterStackFile(file)) {
+        throw new SereError('NEEDS_SITES', 'a hindcast needs per-site data (each site\'s surveys), and a raster stack gives counts only', { file },
+          'run the hindcast on a survey table (site,time,state); for maps, sample pixels into such a table first');
+      }
       const settings = fitSettingsFrom(opts);
       for (const y of opts.years) {
         if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);

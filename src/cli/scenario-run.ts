@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { loadScenarios } from '../scenario/load-scenario.js';
+import { loadScenarios, type LoadOptions } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { drawsFlag, seedFlag, threadsFlag } from './parse-options.js';
@@ -53,9 +53,9 @@ export function writeCsv(file: string, csv: string, force: boolean, io: Io): voi
  * anything runs or is printed, so a typo in the last file costs nothing. `--draws` applies to
  * scenarios that draw more than once.
  */
-export function loadAndCheck(files: readonly string[], opts: RunOptions): Scenario[] {
+export function loadAndCheck(files: readonly string[], opts: RunOptions, load: LoadOptions = {}): Scenario[] {
   refuseExisting([opts.chart, opts.csv, opts.differenceChart], Boolean(opts.force));
-  const scenarios = files.flatMap((file) => loadScenarios(file))
+  const scenarios = files.flatMap((file) => loadScenarios(file, load))
     .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
   checkScenarios(scenarios);
   return scenarios;

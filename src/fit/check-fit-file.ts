@@ -141,7 +141,8 @@ function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): Si
     const cells = s.cells.map(([i, j, x]) => [i, j, x] as const);
     return s.group === undefined ? { site, cells } : { site, group: normaliseLabel(s.group), cells };
   });
-  if (fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
+  // No site_counts at all: a fit from counts alone (a raster stack); the site bootstrap then refuses.
+  if (sites.length > 0 && fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
   // The bootstrap draws sites by position: the canonical order makes a reordered file give the same draws.
   return SiteCountTable.fromList(k, sites.sort((a, b) => compareCodePoints(a.site, b.site)));
 }

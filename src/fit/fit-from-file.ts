@@ -7,12 +7,30 @@ import { groupsWithRows, selectRows } from '../data/survey-rows.js';
 import { fitSurvey, type Fit } from './fit.js';
 import { loadFit } from './load-fit.js';
 import { surveyReadOptions, type FitSettings } from './settings.js';
+import { isRasterStackFile } from '../data/raster/stack-file.js';
+import type { RasterCounts } from '../data/raster/count-stack.js';
+import { fitRasterCounts } from './fit-from-raster.js';
 
 export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
 
-/** A fit from either a fit file (.json, written by `sere fit --out`) or a survey table, fitted now. */
-export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS): Fit {
+/**
+ * A fit from a fit file (.json, written by `sere fit --out`), a survey table, fitted now, or a
+ * raster stack (.yaml) — counted beforehand (reading rasters is asynchronous) and passed in `rasters`.
+ */
+export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS, rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
+  if (isRasterStackFile(file)) {
+    if (settings.labels !== undefined || settings.sheet !== undefined || settings.layout !== undefined) {
+      throw new SereError('BAD_OPTION', 'a raster stack names its class-code labels in the stack file, and has no sheets or layout',
+        settings.places?.labels ?? settings.places?.sheet ?? { file }, 'map class codes to states under labels: in the stack file');
+    }
+    const counted = rasters?.get(file);
+    if (!counted) {
+      throw new SereError('BAD_OPTION', 'this command reads survey tables and fit files, not raster stacks', { file },
+        'fit the stack first (sere fit STACK.yaml --out fit.json) and name fit.json as data, or run sere forecast');
+    }
+    return fitRasterCounts(counted, settings);
+  }
   const table = readSurveyCsv(file, surveyReadOptions(settings));
   return fitSurvey(settings.group === undefined ? table : groupOf(table, settings.group, settings.columns.group), settings);
 }

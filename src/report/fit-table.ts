@@ -2,7 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { Fit } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
-import { count, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
+import { count, fitSites, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
 import { makeTable } from './style.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
@@ -38,7 +38,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   };
 
   lines.push(style.bold(`Fit of ${fit.input.file}`));
-  lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
+  lines.push(`${fitSites(fit)} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
     `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +

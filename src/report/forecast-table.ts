@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
-import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
+import { count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { firstTimeCell, targetLines } from './target-lines.js';
@@ -14,7 +14,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const band = levelLabel(sc.level);
   const lines: string[] = [];
   lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
-  lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
+  lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
     ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`

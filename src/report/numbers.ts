@@ -41,7 +41,8 @@ export function count(n: number, noun: string): string {
 
 /** How many sites the latest survey covered, and a warning when it missed some. */
 export function latestCoverage(latestSites: number, allSites: number): string {
-  return latestSites === allSites
+  // allSites 0: a fit from counts alone (a raster stack), whose sites are not listed.
+  return latestSites === allSites || allSites === 0
     ? count(latestSites, 'site')
     : `${latestSites} of ${allSites} sites; the others were last surveyed earlier and are not in this mix`;
 }
@@ -51,4 +52,9 @@ export function signed(x: number, digits?: number): string {
   if (x === 0) return '0';
   const size = digits === undefined ? String(Math.abs(x)) : Math.abs(x).toFixed(digits);
   return `${x > 0 ? '+' : '−'}${size}`;
+}
+
+/** How many sites a fit lists, or that it holds counts only (a raster stack: no per-site data). */
+export function fitSites(fit: { readonly sites: { readonly length: number }; readonly transitions: number }): string {
+  return fit.sites.length === 0 && fit.transitions > 0 ? 'counts only (no per-site data)' : count(fit.sites.length, 'site');
 }

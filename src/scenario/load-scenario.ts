@@ -10,6 +10,7 @@ import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
 import { largestRemainder } from './largest-remainder.js';
 import { resolveTarget } from './resolve-target.js';
+import type { RasterCounts } from '../data/raster/count-stack.js';
 
 /** Explicit starting shares must sum to 1 within this (absolute); they are typed by hand. */
 export const SHARES_SUM_TOLERANCE = 1e-9;
@@ -20,6 +21,8 @@ const DEFAULT_SHOW_YEARS = [5, 10, 20, 50];
 export interface LoadOptions {
   /** A workspace's fit, used instead of the file's `data` and `fit` (which are then ignored). */
   readonly fit?: Fit;
+  /** Raster stacks named as data, counted beforehand (cli/raster-data.ts), by path as `data` resolves. */
+  readonly rasters?: ReadonlyMap<string, RasterCounts>;
 }
 
 /** Load a scenario file that describes exactly one scenario (no `alternatives`). */
@@ -43,7 +46,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
     throw new SereError(code, what, locate(path), hint);
   };
-  const fit = options.fit ?? fitOfData(s, file, fail, locate);
+  const fit = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);
@@ -135,7 +138,8 @@ function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['star
 }
 
 function fitOfData(s: ScenarioFile, file: string,
-  fail: (code: 'BAD_SCENARIO', what: string, path: KeyPath, hint: string) => never, locate: (path: KeyPath) => Place): Fit {
+  fail: (code: 'BAD_SCENARIO', what: string, path: KeyPath, hint: string) => never, locate: (path: KeyPath) => Place,
+  rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (s.data === undefined) {
     return fail('BAD_SCENARIO', 'data is required: name a fit file (.json) or survey table (.csv)', ['data'],
       'add "data: surveys.csv" (relative to this file), or run the scenario from a workspace');
@@ -151,7 +155,7 @@ function fitOfData(s: ScenarioFile, file: string,
     fail('BAD_SCENARIO', `data names a folder ('${s.data}'), not a file`, ['data'], 'name the survey table (.csv) or fit file (.json) itself');
   }
   try {
-    return fitFromFile(dataFile, fitSettingsOf(s.fit, locate, dirname(file)));
+    return fitFromFile(dataFile, fitSettingsOf(s.fit, locate, dirname(file)), rasters);
   } catch (err) {
     // The data file itself cannot be read: the place to fix is the scenario's data key.
     if (err instanceof SereError && ['FILE_NOT_FOUND', 'NOT_A_FILE'].includes(err.code) && err.place.file === dataFile) {

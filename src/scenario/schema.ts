@@ -143,7 +143,7 @@ export const scenarioSchema = z.strictObject({
   description: z.string().optional(),
   /** A fit file from `sere fit --out` (.json) or a survey table (.csv) fitted on the fly. Required. */
   data: z.string({ error: 'data must name a fit file (.json) or survey table (.csv)' }).min(1).optional()
-    .describe('A fit file from sere fit --out (.json) or a survey table (.csv), relative to this file. Required, except in a workspace, whose surveys are used.'),
+    .describe('A fit file from sere fit --out (.json), a survey table (.csv) or a raster stack file (.yaml: one classified GeoTIFF per year), relative to this file. Required, except in a workspace, whose surveys are used.'),
   fit: fitSettingsSchema.optional(),
   uncertainty: z.strictObject({
     /** Default posterior. */

@@ -1,0 +1,210 @@
+import { SereError, quote, type Place } from '../errors.js';
+import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
+import { SiteCountBuilder } from '../chain/site-counts.js';
+import { likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import type { MixAtTime } from '../chain/latest-mix.js';
+import { impossibleMask, type FitSettings } from './settings.js';
+import type { Fit } from './fit.js';
+
+/**
+ * A fit from a counted raster stack: every pixel is a site, and the counts by pair of rasters are
+ * read with the fit's step — pairs `step` years apart are the one-step counts, whole multiples
+ * the counts by gap, any other gap is tallied as skipped — as `fitSurvey` reads a long table.
+ * The per-site counts are absent (10⁸ pixels would be 10⁸ sites): the site bootstrap and hindcasts
+ * say they need per-site data. `settings.group` picks one zone of the zone raster (its code).
+ */
+export function fitRasterCounts(counted: RasterCounts, settings: FitSettings): Fit {
+  const place: Place = { file: counted.stack.file };
+  const tally = settings.group === undefined ? pooled(counted) : zoneTally(counted, settings.group, place);
+  const fit = fitTally(counted, tally, settings);
+  sources.set(fit, { counted, settings });
+  return fit;
+}
+
+/** The raster stack a fit was made from, with its settings: what probability maps read. */
+export interface RasterSource {
+  readonly counted: RasterCounts;
+  readonly settings: FitSettings;
+}
+const sources = new WeakMap<Fit, RasterSource>();
+
+/** The raster stack behind a fit, or undefined for a fit of a survey table or fit file. */
+export function rasterSourceOf(fit: Fit): RasterSource | undefined {
+  return sources.get(fit);
+}
+
+/** One fit per zone (same states and settings), for maps that give each zone its own chain. */
+export function fitRasterZones(counted: RasterCounts, settings: FitSettings): { zone: number; fit: Fit }[] {
+  return (counted.zones ?? []).map((zone, z) => ({ zone, fit: fitTally(counted, counted.tallies[z]!, settings, true) }));
+}
+
+/** The fit's state order (declared, or sorted) and where each counted state goes in it. */
+export function rasterStateOrder(counted: RasterCounts, settings: FitSettings): { states: string[]; index: Int32Array } {
+  // Raw class codes sort as numbers; labelled states keep the labels' order (by lowest class code).
+  const sorted = counted.numericStates ? [...counted.states].sort((a, b) => Number(a) - Number(b)) : [...counted.states];
+  const states = settings.states ? [...settings.states] : sorted;
+  const index = new Int32Array(counted.states.length);
+  counted.states.forEach((s, n) => {
+    index[n] = states.indexOf(s);
+    if (index[n]! < 0) {
+      throw new SereError('UNKNOWN_STATE', `the rasters hold state ${quote(s)}, which is not among the declared states`,
+        settings.places?.states ?? { path: '--states' }, `add ${quote(s)} to the states, or map its class code to skip in the stack's labels`);
+    }
+  });
+  return { states, index };
+}
+
+function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettings, zoneFit = false): Fit {
+  const { years } = counted;
+  const T = years.length;
+  const { states, index } = rasterStateOrder(counted, settings);
+  const k = states.length;
+  const kc = counted.states.length;
+  const mask = impossibleMask(settings.impossible, states, settings.places?.impossible ?? { path: '--impossible' });
+  const step = settings.step;
+  const counts = new Float64Array(k * k);
+  const skipped = new Map<number, number>();
+  const byGap = new Map<number, Float64Array>();
+  const periods = new Map<number, Float64Array>();
+  const triples = new Float64Array(k * k * k);
+  let transitions = 0;
+  for (let u = 0; u < T; u++) {
+    for (let t = u + 1; t < T; t++) {
+      const pair = tally.pairs[u * T + t];
+      if (!pair) continue;
+      const gap = years[t]! - years[u]!;
+      let into: Float64Array | undefined;
+      if (gap === step) {
+        into = counts;
+        let period = periods.get(years[u]!);
+        if (!period) periods.set(years[u]!, period = new Float64Array(k * k));
+        addMapped(period, pair, index, kc, k);
+      } else {
+        let n = 0;
+        for (const x of pair) n += x;
+        skipped.set(gap, (skipped.get(gap) ?? 0) + n);
+        if (gap > step && gap % step === 0) {
+          into = byGap.get(gap / step);
+          if (!into) byGap.set(gap / step, into = new Float64Array(k * k));
+        }
+      }
+      if (into) addMapped(into, pair, index, kc, k);
+      if (gap === step) for (const x of pair) transitions += x;
+      const run = tally.triples[u * T + t];
+      if (run && gap === step) {
+        for (let a = 0; a < kc; a++) for (let b = 0; b < kc; b++) for (let c = 0; c < kc; c++) {
+          const x = run[(a * kc + b) * kc + c]!;
+          if (x > 0) triples[(index[a]! * k + index[b]!) * k + index[c]!] += x;
+        }
+      }
+    }
+  }
+  const where: Place = { file: counted.stack.file };
+  if (transitions === 0 && !zoneFit) {
+    const guess = likelyStep([...skipped].map(([gap, pairs]) => ({ gap, pairs })));
+    throw new SereError('NO_TRANSITIONS', `no two rasters of the stack are ${step} year${step === 1 ? '' : 's'} apart`, where,
+      guess !== undefined && guess !== step ? `most pairs are ${guess} apart: try --step ${guess}` : 'add rasters one step apart');
+  }
+  for (let c = 0; c < k * k; c++) {
+    if (mask[c] && counts[c]! > 0) {
+      const pairName = `${states[Math.floor(c / k)]}>${states[c % k]}`;
+      throw new SereError('IMPOSSIBLE_OBSERVED', `transition ${quote(pairName)} is declared impossible but observed in ${counts[c]} pixels`,
+        where, `check the rasters, or drop ${quote(pairName)} from the impossible list`);
+    }
+  }
+  for (let i = 0; i < k; i++) {
+    let allowed = 0;
+    for (let j = 0; j < k; j++) allowed += mask[i * k + j] ? 0 : 1;
+    if (allowed === 0) {
+      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of ${quote(states[i]!)} is declared impossible`,
+        { path: 'impossible' }, `allow at least ${quote(`${states[i]}>${states[i]}`)} (staying put)`);
+    }
+  }
+  const history: MixAtTime[] = [];
+  let surveys = 0;
+  for (let t = 0; t < T; t++) {
+    const mix = new Array<number>(k).fill(0);
+    let sites = 0;
+    for (let s = 0; s < kc; s++) {
+      const x = tally.history[t * kc + s]!;
+      mix[index[s]!]! += x;
+      sites += x;
+    }
+    surveys += sites;
+    if (sites > 0) history.push({ time: years[t]!, counts: mix, sites });
+  }
+  if (history.length === 0) {
+    throw new SereError('NO_TRANSITIONS', 'every pixel is nodata or skipped', where, 'check the nodata value and the labels');
+  }
+  const last = history[history.length - 1]!;
+  const gapCounts: GapCell[] = [];
+  for (const g of [...byGap.keys()].sort((a, b) => a - b)) {
+    byGap.get(g)!.forEach((n, c) => { if (n > 0) gapCounts.push([Math.floor(c / k), c % k, g, n]); });
+  }
+  const skippedList: SkippedPairs[] = [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => ({ time, cells: sparse(dense, k) }));
+  const tripleList: (readonly [number, number, number, number])[] = [];
+  triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
+  return {
+    input: { file: counted.stack.file, sha256: counted.sha256 },
+    states,
+    step,
+    prior: settings.prior,
+    impossible: settings.impossible,
+    counts,
+    sites: new SiteCountBuilder(k, false).table(),
+    transitions,
+    skipped: skippedList,
+    gapCounts,
+    repeatedRows: 0,
+    surveys,
+    firstTime: history[0]!.time,
+    latest: { time: last.time, counts: last.counts, shares: last.counts.map((c) => c / last.sites), sites: last.sites },
+    triples: tripleList,
+    periods: periodList,
+    history,
+  };
+}
+
+function addMapped(into: Float64Array, pair: Float64Array, index: Int32Array, kc: number, k: number): void {
+  for (let a = 0; a < kc; a++) for (let b = 0; b < kc; b++) {
+    const x = pair[a * kc + b]!;
+    if (x > 0) into[index[a]! * k + index[b]!] += x;
+  }
+}
+
+function sparse(dense: Float64Array, k: number): [number, number, number][] {
+  const cells: [number, number, number][] = [];
+  dense.forEach((n, c) => { if (n > 0) cells.push([Math.floor(c / k), c % k, n]); });
+  return cells;
+}
+
+/** Every zone's tally added up (the whole map when there are no zones). */
+function pooled(counted: RasterCounts): RasterTally {
+  if (counted.tallies.length === 1) return counted.tallies[0]!;
+  const T = counted.years.length;
+  const kc = counted.states.length;
+  const sum: RasterTally = { pairs: [], triples: [], history: new Float64Array(T * kc) };
+  for (const tally of counted.tallies) {
+    tally.history.forEach((x, n) => { sum.history[n] += x; });
+    for (const [key, m] of tally.pairs.entries()) if (m) addInto(sum.pairs, key, m);
+    for (const [key, m] of tally.triples.entries()) if (m) addInto(sum.triples, key, m);
+  }
+  return sum;
+}
+
+function addInto(list: (Float64Array | undefined)[], key: number, m: Float64Array): void {
+  const into = list[key] ?? (list[key] = new Float64Array(m.length));
+  for (let c = 0; c < m.length; c++) into[c] += m[c]!;
+}
+
+function zoneTally(counted: RasterCounts, group: string, place: Place): RasterTally {
+  if (counted.zones === null) {
+    throw new SereError('BAD_OPTION', `fitting zone ${quote(group)} needs a zone raster`, place, 'add zones: zones.tif to the stack file, or drop the group');
+  }
+  const z = counted.zones.indexOf(Number(group));
+  if (z < 0 || !/^-?\d+$/.test(group.trim())) {
+    throw new SereError('BAD_OPTION', `no zone ${quote(group)} in the zone raster`, place, `use one of: ${counted.zones.join(', ')}`);
+  }
+  return counted.tallies[z]!;
+}
