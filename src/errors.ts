@@ -40,7 +40,11 @@ export type ErrorCode =
   | 'BAD_MATRIX'
   | 'TOO_LARGE'
   | 'BAD_WORKSPACE'
-  | 'BUSY';
+  | 'BUSY'
+  | 'NO_SITE_COUNTS'
+  | 'BAD_COUNTS'
+  | 'SITE_IN_TWO_SHARDS'
+  | 'BAD_SQL_NAME';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

@@ -6,13 +6,20 @@ import type { SurveyTable } from '../data/survey.js';
 import { groupsWithRows, selectRows } from '../data/survey-rows.js';
 import { fitSurvey, type Fit } from './fit.js';
 import { loadFit } from './load-fit.js';
+import { fitCounts } from './fit-counts.js';
+import { isCountsFile } from '../data/counts-table.js';
+import { readCountsCsv } from '../data/read-counts-csv.js';
 import type { FitSettings } from './settings.js';
 
 export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
 
-/** A fit from either a fit file (.json, written by `sere fit --out`) or a survey table, fitted now. */
+/**
+ * A fit from a fit file (.json, written by `sere fit --out`), a counts table (`sere count`, told by
+ * its header) or a survey table, fitted now.
+ */
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
+  if (isCountsFile(file)) return fitCounts(readCountsCsv(file, { states: settings.states, statesPlace: settings.places?.states }), settings);
   const table = readSurveyCsv(file, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
   return fitSurvey(settings.group === undefined ? table : groupOf(table, settings.group, settings.columns.group), settings);
 }

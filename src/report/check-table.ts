@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import type { ChalkInstance } from 'chalk';
 import type { CheckResult } from '../diagnostics/check.js';
 import type { TestReport } from '../diagnostics/assumption-tests.js';
@@ -15,7 +16,7 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
   const section = (title: string): void => { lines.push('', style.bold(title)); };
 
   lines.push(style.bold(`Checking the chain fitted to ${fit.input.file}`));
-  lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} of one ${fit.step}-year step · ` +
+  lines.push(`${count(siteCount(fit), 'site')} · ${count(fit.transitions, 'transition')} of one ${fit.step}-year step · ` +
     `bands ${band} from ${settings.draws} posterior draws · seed ${r.seed}`);
 
   section('Does the next state depend only on the current one? (Anderson & Goodman 1957)');

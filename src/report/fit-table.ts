@@ -1,5 +1,5 @@
 import type { ChalkInstance } from 'chalk';
-import type { Fit } from '../fit/fit.js';
+import { siteCount, type Fit } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
 import { count, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
@@ -33,7 +33,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   };
 
   lines.push(style.bold(`Fit of ${fit.input.file}`));
-  lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
+  lines.push(`${count(siteCount(fit), 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
     `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
@@ -66,7 +66,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
     lines.push('', ...priorSensitivityLines(states, priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.longRun] })),
       ['long-run share'], style));
   }
-  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, fit.sites.length)})`));
+  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
 }

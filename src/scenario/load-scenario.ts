@@ -4,7 +4,7 @@ import { fitSettingsOf } from './fit-block.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
-import { fitMask, type Fit } from '../fit/fit.js';
+import { fitMask, needPerSite, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -44,6 +44,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     throw new SereError(code, what, locate(path), hint);
   };
   const fit = options.fit ?? fitOfData(s, file, fail, locate);
+  if (s.uncertainty.source === 'bootstrap') needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);

@@ -1,0 +1,86 @@
+import type { Command } from 'commander';
+import { createHash } from 'node:crypto';
+import { SereError } from '../errors.js';
+import { isCountsFile, type CountsTable } from '../data/counts-table.js';
+import { readCountsCsv } from '../data/read-counts-csv.js';
+import { readSurveyTables } from '../data/read-survey-tables.js';
+import { hashFile } from '../data/hash-file.js';
+import { tallyCounts } from '../chain/tally-counts.js';
+import { mergeCounts } from '../chain/merge-counts.js';
+import { countsCsv, countsSources, type CountsInput } from '../data/counts-csv.js';
+import type { SurveyColumns } from '../data/survey.js';
+import type { Io } from './io.js';
+import { commaList, yearsFlag } from './parse-options.js';
+import { writeFilesAtomic } from './write-file.js';
+
+interface CountOptions {
+  out?: string;
+  force?: boolean;
+  perSite?: boolean;
+  step: number;
+  states?: string[];
+  siteColumn: string;
+  timeColumn: string;
+  stateColumn: string;
+  groupColumn?: string;
+}
+
+export function registerCount(program: Command, io: Io): void {
+  program.command('count')
+    .description('count transitions into a counts table (the sufficient statistics sere fit reads), from survey tables, Parquet files or counts shards')
+    .argument('[inputs...]', 'survey tables (.csv, .parquet) counted as one; counts tables (told by their header) added in as shards')
+    .option('--out <counts.csv>', 'write the counts table here, with NAME.sources.json beside it (never overwrites without --force)')
+    .option('--force', 'replace existing --out files')
+    .option('--per-site', "also write each site's counts (the site bootstrap and the groups test need them)")
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)
+    .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
+    .option('--site-column <name>', 'column holding the site', 'site')
+    .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
+    .option('--state-column <name>', 'column holding the state', 'state')
+    .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
+    .action(async (inputs: string[], opts: CountOptions) => {
+      const columns: SurveyColumns = { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn };
+      if (inputs.length === 0) {
+        throw new SereError('BAD_OPTION', 'no input to count', { path: 'INPUT' }, 'name one or more survey tables or counts tables, or use --sql');
+      }
+      const shards = inputs.filter((f) => isCountsFile(f));
+      const surveys = inputs.filter((f) => !shards.includes(f));
+      const tables: CountsTable[] = [];
+      const sources: CountsInput[] = [];
+      if (surveys.length > 0) {
+        let counted: CountsTable;
+        {
+          const table = readSurveyTables(surveys, { columns, states: opts.states });
+          counted = tallyCounts(table, { step: opts.step, perSite: Boolean(opts.perSite) });
+          if (surveys.length === 1) sources.push({ file: surveys[0]!, sha256: table.sha256, kind: 'survey table' });
+        }
+        if (sources.length === 0) for (const f of surveys) sources.push({ file: f, sha256: hashFile(f, 'survey table'), kind: 'survey table' });
+        tables.push(counted);
+      }
+      for (const f of shards) {
+        const shard = readCountsCsv(f, { states: opts.states });
+        if (shard.step !== opts.step) {
+          throw new SereError('BAD_COUNTS', `this shard was counted with steps of ${shard.step} time units, not ${opts.step}`, { file: f, path: '--step' },
+            `count with --step ${shard.step}, or count that shard again with --step ${opts.step}`);
+        }
+        tables.push(shard);
+        sources.push({ file: f, sha256: shard.sha256, kind: 'counts table' });
+      }
+      const merged = mergeCounts(tables, opts.states !== undefined);
+      const csv = countsCsv(merged);
+      if (opts.out === undefined) {
+        io.stdout(csv);
+        return;
+      }
+      const sidecar = sidecarName(opts.out);
+      const sha256 = createHash('sha256').update(csv).digest('hex');
+      const json = JSON.stringify(countsSources(merged, opts.out, sha256, sources, 'in-process'), null, 2) + '\n';
+      writeFilesAtomic([{ file: opts.out, text: csv }, { file: sidecar, text: json }], Boolean(opts.force));
+      io.stderr(`wrote ${opts.out} (${merged.cells.length} rows${merged.siteCells ? ` and ${merged.siteCells.length} per-site rows` : ''}) and ${sidecar}\n`);
+    });
+}
+
+/** counts.csv → counts.sources.json: the inputs' hashes and the totals, beside the table. */
+export function sidecarName(out: string): string {
+  return `${out.replace(/\.csv$/i, '')}.sources.json`;
+}
