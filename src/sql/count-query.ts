@@ -1,0 +1,82 @@
+import { SereError, quote } from '../errors.js';
+import type { SurveyColumns } from '../data/survey.js';
+
+export interface CountingSqlOptions {
+  /** The table (or view) holding one row per site and survey; `schema.table` allowed. */
+  readonly table: string;
+  readonly columns: SurveyColumns;
+  readonly step: number;
+  /** Also each site's counts over all times (rows with a site and no time). */
+  readonly perSite: boolean;
+}
+
+/**
+ * Words reserved in standard SQL or in one of the engines the query is for (Spark SQL, Trino,
+ * DuckDB, SQLite) that a survey column might be called: unquoted they would not parse, and the
+ * engines quote identifiers differently ("…" in Trino and SQLite, `…` in Spark), so the query
+ * quotes nothing and such names are refused with the fix.
+ */
+const RESERVED = new Set(['all', 'and', 'as', 'between', 'by', 'case', 'cast', 'cross', 'current_date', 'current_time',
+  'current_timestamp', 'date', 'desc', 'distinct', 'else', 'end', 'except', 'exists', 'false', 'from', 'full', 'group',
+  'having', 'in', 'inner', 'intersect', 'interval', 'is', 'join', 'left', 'like', 'limit', 'not', 'null', 'on', 'or',
+  'order', 'outer', 'over', 'partition', 'right', 'select', 'table', 'then', 'to', 'true', 'union', 'user', 'using',
+  'values', 'when', 'where', 'window', 'with']);
+
+function identifier(name: string, flag: string, dotted = false): string {
+  const part = /^[A-Za-z_][A-Za-z0-9_]*$/;
+  const parts = dotted ? name.split('.') : [name];
+  const bad = parts.find((p) => !part.test(p) || RESERVED.has(p.toLowerCase()));
+  if (bad !== undefined) {
+    throw new SereError('BAD_SQL_NAME', `${quote(name)} cannot be written unquoted in portable SQL${RESERVED.has(bad.toLowerCase()) ? ` (${quote(bad)} is a reserved word)` : ''}`,
+      { path: flag }, 'use letters, digits and _ only (not starting with a digit, no reserved word): rename the column, or make a view that does');
+  }
+  return name;
+}
+
+/**
+ * The counting query, in SQL that runs unchanged on Spark SQL, Trino, DuckDB and SQLite (≥ 3.25):
+ * only SELECT DISTINCT, a CTE, the standard window function LAG … OVER (PARTITION BY … ORDER BY
+ * …), GROUP BY, UNION ALL and CAST(… AS DOUBLE); no quoting, no engine functions. Its result is a
+ * counts table (data/counts-table.ts) — rows in no particular order, which `sere fit` does not
+ * need. The DuckDB engine runs this same text over its view of the files (sql/duckdb-count.ts).
+ *
+ * Exact repeats of a survey are dropped by the DISTINCT; two different states of one site at one
+ * time survive it and come out as a pair with gap 0, which `sere fit` refuses as a contradiction.
+ */
+export function countingSql(options: CountingSqlOptions): string {
+  const { columns, step } = options;
+  if (!Number.isSafeInteger(step) || step < 1) throw new Error('internal: step must be a positive whole number');
+  const table = identifier(options.table, '--table', true);
+  const site = identifier(columns.site, '--site-column');
+  const time = identifier(columns.time, '--time-column');
+  const state = identifier(columns.state, '--state-column');
+  const group = columns.group === undefined ? undefined : identifier(columns.group, '--group-column');
+  const g = group === undefined ? '' : 'site_group, ';
+  const pooled = [
+    `SELECT ${g}${options.perSite ? 'NULL AS site, ' : ''}from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, survey_time AS time, ${step} AS step, COUNT(*) AS n`,
+    'FROM paired',
+    `GROUP BY ${g}from_state, state, dt, survey_time`,
+  ];
+  const perSite = options.perSite ? [
+    'UNION ALL',
+    `SELECT ${g}site, from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, NULL AS time, ${step} AS step, COUNT(*) AS n`,
+    'FROM paired',
+    `GROUP BY ${g}site, from_state, state, dt`,
+  ] : [];
+  return [
+    `-- sere count: the counts table of ${table} (site ${site}, time ${time}, state ${state}${group ? `, group ${group}` : ''}), steps of ${step}.`,
+    '-- Save the result as CSV with a header and fit it with: sere fit counts.csv',
+    'WITH surveys AS (',
+    `  SELECT DISTINCT ${site} AS site, ${time} AS survey_time, ${state} AS state${group ? `, ${group} AS site_group` : ''}`,
+    `  FROM ${table}`,
+    '),',
+    'paired AS (',
+    `  SELECT ${g}site, state, survey_time,`,
+    '    LAG(state) OVER (PARTITION BY site ORDER BY survey_time) AS from_state,',
+    '    survey_time - LAG(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS dt',
+    '  FROM surveys',
+    ')',
+    ...pooled,
+    ...perSite,
+  ].join('\n') + '\n';
+}
