@@ -1,8 +1,6 @@
 import { SereError, quote } from '../errors.js';
-import { compareCodePoints } from '../data/code-points.js';
-import type { CountCell, CountsTable, SiteCell } from '../data/counts-table.js';
+import { sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import { StateLabels } from '../data/states.js';
-import { sortCells } from './tally-counts.js';
 
 /**
  * Counts of several shards as one table: the counts add up, cell by cell. This is exact when the
@@ -60,7 +58,7 @@ export function mergeCounts(tables: readonly CountsTable[], declared: boolean): 
       siteCells.push({ ...c, from: to(c.from), to: to(c.to), line: 0 });
     }
   }
-  siteCells.sort((a, b) => compareCodePoints(a.site, b.site) || a.from - b.from || a.to - b.to || a.gap - b.gap);
+  sortSiteCells(siteCells);
   return {
     file: files, sha256: '', states, step: first.step, grouped: first.grouped,
     cells: sortCells([...cells.values()]),

@@ -1,5 +1,4 @@
-import { compareCodePoints } from '../data/code-points.js';
-import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { FIRST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import type { SurveyTable } from '../data/survey.js';
 
 export interface TallyOptions {
@@ -75,11 +74,5 @@ function siteRows(table: SurveyTable, a: number, b: number, step: number): SiteC
   };
   add(FIRST_SURVEY, rows.state[a]!, 0);
   for (let n = a + 1; n < b; n++) add(rows.state[n - 1]!, rows.state[n]!, (rows.time[n]! - rows.time[n - 1]!) / step);
-  return [...tally.values()].sort((x, y) => x.from - y.from || x.to - y.to || x.gap - y.gap)
-    .map((c) => ({ site: id, ...group, ...c, line: 0 }));
-}
-
-/** The order a counts table is written in: group (code points), from (first surveys first), to, gap, time. */
-export function sortCells<C extends CountCell>(cells: C[]): C[] {
-  return cells.sort((x, y) => compareCodePoints(x.group ?? '', y.group ?? '') || x.from - y.from || x.to - y.to || x.gap - y.gap || x.time - y.time);
+  return sortSiteCells([...tally.values()].map((c) => ({ site: id, ...group, ...c, line: 0 })));
 }

@@ -4,12 +4,12 @@ import { TOOL_VERSION } from '../version.js';
 
 /**
  * A counts table as CSV — the writer beside its reader (read-counts-csv.ts), one owner of the format (README, "Counts table"): pooled rows (site empty), then, when counted per
- * site, each site's rows over all times (time empty). site_group and site are written only when
+ * site, each site's rows over all times (to_time empty). site_group and site are written only when
  * the table has them. Gaps are in steps, exactly as JavaScript prints Δt / step.
  */
 export function countsCsv(table: CountsTable): string {
   const perSite = table.siteCells !== undefined;
-  const header = [...(table.grouped ? ['site_group'] : []), ...(perSite ? ['site'] : []), 'from_state', 'to_state', 'gap', 'time', 'step', 'n'];
+  const header = [...(table.grouped ? ['site_group'] : []), ...(perSite ? ['site'] : []), 'from_state', 'to_state', 'gap', 'to_time', 'step', 'n'];
   const label = (i: number): string => (i === FIRST_SURVEY ? '' : table.states[i]!);
   const gap = (from: number, g: number): string => (from === FIRST_SURVEY ? '' : String(g));
   const rows: (string | number)[][] = [header];

@@ -1,9 +1,10 @@
 import { closeSync, openSync, readSync, statSync } from 'node:fs';
+import { compareCodePoints } from './code-points.js';
 
 /**
  * A counts table: the sufficient statistics of a survey table, as `sere count` writes them and
  * `sere fit` reads them (README, "Counts table"). Column names avoid SQL reserved words (group,
- * from, to) so the same table comes out of `sere count --sql` on any engine unquoted.
+ * from, to, time) so the same table comes out of `sere count --sql` on any engine unquoted.
  *
  * Every survey of the table is the `to` end of exactly one row: a site's first survey is a row
  * with no `from_state` (and no gap), each later survey the end of a pair from the survey before it.
@@ -11,9 +12,9 @@ import { closeSync, openSync, readSync, statSync } from 'node:fs';
  * them starts a forecast), the number of surveys, and — summing the first-survey rows — the number
  * of sites.
  */
-export const COUNTS_COLUMNS = ['site_group', 'site', 'from_state', 'to_state', 'gap', 'time', 'step', 'n'] as const;
+export const COUNTS_COLUMNS = ['site_group', 'site', 'from_state', 'to_state', 'gap', 'to_time', 'step', 'n'] as const;
 /** The columns every counts table has; site_group and site are there only when counted by group, or per site. */
-export const REQUIRED_COUNTS_COLUMNS = ['from_state', 'to_state', 'gap', 'time', 'step', 'n'] as const;
+export const REQUIRED_COUNTS_COLUMNS = ['from_state', 'to_state', 'gap', 'to_time', 'step', 'n'] as const;
 
 /** `from` of a site's first survey: there is no survey before it. */
 export const FIRST_SURVEY = -1;
@@ -85,4 +86,14 @@ export function isCountsFile(file: string): boolean {
   } finally {
     if (fd !== undefined) closeSync(fd);
   }
+}
+
+/** The order a counts table is written in: group (code points), from (first surveys first), to, gap, time. */
+export function sortCells<C extends CountCell>(cells: C[]): C[] {
+  return cells.sort((x, y) => compareCodePoints(x.group ?? '', y.group ?? '') || x.from - y.from || x.to - y.to || x.gap - y.gap || x.time - y.time);
+}
+
+/** Per-site rows in site order (code points, the site bootstrap's order), then from, to, gap. */
+export function sortSiteCells<C extends SiteCell>(cells: C[]): C[] {
+  return cells.sort((x, y) => compareCodePoints(x.site, y.site) || x.from - y.from || x.to - y.to || x.gap - y.gap);
 }

@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { SereError, quote } from '../errors.js';
-import { COUNTS_COLUMNS, FIRST_SURVEY, isCountsHeader, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
+import { COUNTS_COLUMNS, FIRST_SURVEY, isCountsHeader, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
 import { labelProblem, normaliseLabel } from './labels.js';
 import { readTextFile } from './read-text-file.js';
 import { StateLabels } from './states.js';
@@ -39,7 +39,7 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
       { file, line: records[0]!.info.lines }, HINT);
   }
   const at = (name: string): number => header.indexOf(name);
-  const col = { group: at('site_group'), site: at('site'), from: at('from_state'), to: at('to_state'), gap: at('gap'), time: at('time'), step: at('step'), n: at('n') };
+  const col = { group: at('site_group'), site: at('site'), from: at('from_state'), to: at('to_state'), gap: at('gap'), time: at('to_time'), step: at('step'), n: at('n') };
   const labels = new StateLabels(file, options.states, 2, options.statesPlace);
   const cells: (CountCell & { rawFrom: number; rawTo: number })[] = [];
   const siteCells: (SiteCell & { rawFrom: number; rawTo: number })[] = [];
@@ -52,7 +52,7 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
       const value = field(name);
       const x = value === '' ? NaN : Number(value);
       if (!Number.isSafeInteger(x) || x < min) {
-        throw new SereError('BAD_COUNTS', `${name} ${quote(value)} is not a whole number${min > Number.MIN_SAFE_INTEGER ? ` of at least ${min}` : ''}`, place(name), HINT);
+        throw new SereError('BAD_COUNTS', `${name === 'time' ? 'to_time' : name} ${quote(value)} is not a whole number${min > Number.MIN_SAFE_INTEGER ? ` of at least ${min}` : ''}`, place(name), HINT);
       }
       return x;
     };
@@ -105,8 +105,8 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
   const perSite = col.site >= 0 && siteCells.length > 0;
   return {
     file, sha256, states, step, grouped: col.group >= 0,
-    cells: cells.map(strip),
-    ...(perSite ? { siteCells: siteCells.map(strip) } : {}),
+    cells: sortCells(cells.map(strip)),
+    ...(perSite ? { siteCells: sortSiteCells(siteCells.map(strip)) } : {}),
     repeatedRows: 0,
   };
 }

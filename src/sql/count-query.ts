@@ -47,34 +47,38 @@ export function countingSql(options: CountingSqlOptions): string {
   const { columns, step } = options;
   if (!Number.isSafeInteger(step) || step < 1) throw new Error('internal: step must be a positive whole number');
   const table = identifier(options.table, '--table', true);
+  // The query's own names (its CTEs) would shadow a table of the same name.
+  if (['sere_once', 'sere_pairs'].includes(table.toLowerCase())) {
+    throw new SereError('BAD_SQL_NAME', `${quote(table)} is a name the counting query uses itself`, { path: '--table' }, 'make a view with another name');
+  }
   const site = identifier(columns.site, '--site-column');
   const time = identifier(columns.time, '--time-column');
   const state = identifier(columns.state, '--state-column');
   const group = columns.group === undefined ? undefined : identifier(columns.group, '--group-column');
   const g = group === undefined ? '' : 'site_group, ';
   const pooled = [
-    `SELECT ${g}${options.perSite ? 'NULL AS site, ' : ''}from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, survey_time AS time, ${step} AS step, COUNT(*) AS n`,
-    'FROM paired',
+    `SELECT ${g}${options.perSite ? 'NULL AS site, ' : ''}from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, survey_time AS to_time, ${step} AS step, COUNT(*) AS n`,
+    'FROM sere_pairs',
     `GROUP BY ${g}from_state, state, dt, survey_time`,
   ];
   const perSite = options.perSite ? [
     'UNION ALL',
-    `SELECT ${g}site, from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, NULL AS time, ${step} AS step, COUNT(*) AS n`,
-    'FROM paired',
+    `SELECT ${g}site, from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, NULL AS to_time, ${step} AS step, COUNT(*) AS n`,
+    'FROM sere_pairs',
     `GROUP BY ${g}site, from_state, state, dt`,
   ] : [];
   return [
     `-- sere count: the counts table of ${table} (site ${site}, time ${time}, state ${state}${group ? `, group ${group}` : ''}), steps of ${step}.`,
     '-- Save the result as CSV with a header and fit it with: sere fit counts.csv',
-    'WITH surveys AS (',
+    'WITH sere_once AS (',
     `  SELECT DISTINCT ${site} AS site, ${time} AS survey_time, ${state} AS state${group ? `, ${group} AS site_group` : ''}`,
     `  FROM ${table}`,
     '),',
-    'paired AS (',
+    'sere_pairs AS (',
     `  SELECT ${g}site, state, survey_time,`,
     '    LAG(state) OVER (PARTITION BY site ORDER BY survey_time) AS from_state,',
     '    survey_time - LAG(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS dt',
-    '  FROM surveys',
+    '  FROM sere_once',
     ')',
     ...pooled,
     ...perSite,

@@ -2,12 +2,11 @@ import { extname } from 'node:path';
 import { DuckDBInstance, DuckDBPendingResultState, type DuckDBConnection } from '@duckdb/node-api';
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
-import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { FIRST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import { labelProblem, MAX_LABEL_LENGTH } from '../data/labels.js';
 import { StateLabels } from '../data/states.js';
 import { checkRegularFile } from '../data/read-text-file.js';
 import type { SurveyColumns } from '../data/survey.js';
-import { sortCells } from '../chain/tally-counts.js';
 import { countingSql } from './count-query.js';
 
 export interface DuckDbCountOptions {
@@ -69,9 +68,9 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
         continue;
       }
       kept += n;
-      cells.push({ ...group, from, to, gap, time: Number(r.time), n, line: 0 });
+      cells.push({ ...group, from, to, gap, time: Number(r.to_time), n, line: 0 });
     }
-    siteCells.sort((a, b) => compareCodePoints(a.site, b.site) || a.from - b.from || a.to - b.to || a.gap - b.gap);
+    sortSiteCells(siteCells);
     return {
       file: fileNames, sha256: '', states: rows.states, step: options.step, grouped: g,
       cells: sortCells(cells), ...(options.perSite ? { siteCells } : {}), repeatedRows: rows.count - kept,

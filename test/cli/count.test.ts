@@ -32,7 +32,7 @@ describe('sere count', () => {
     const r = await sereInProcess(['count', DEMO, '--out', out, '--group-column', 'zone']);
     expect(r.code).toBe(0);
     const csv = readFileSync(out, 'utf8');
-    expect(csv.split('\n')[0]).toBe('site_group,from_state,to_state,gap,time,step,n');
+    expect(csv.split('\n')[0]).toBe('site_group,from_state,to_state,gap,to_time,step,n');
     const sources = JSON.parse(readFileSync(at('counts.sources.json'), 'utf8'));
     expect(sources.inputs).toEqual([{ file: DEMO, kind: 'survey table', sha256: sha(DEMO) }]);
     expect(sources.counts.sha256).toBe(sha(out));

@@ -138,7 +138,7 @@ describe('a fit from a counts table equals the survey-table fit', () => {
 });
 
 describe('counts tables refused at the door', () => {
-  const header = 'from_state,to_state,gap,time,step,n';
+  const header = 'from_state,to_state,gap,to_time,step,n';
   const ok = [',a,,2000,1,2', ',b,,2000,1,1', 'a,b,1,2001,1,1', 'b,a,1,2001,1,1', 'a,a,1,2001,1,1'];
   const code = (text: string, settings = settingsOf(1)): string | undefined => {
     try {
@@ -181,7 +181,7 @@ describe('counts tables refused at the door', () => {
     expect(code([header, ...ok, 'a,A,1,2001,1,1'].join('\n'))).toBe('STATE_CASE_CLASH');
   });
   it('refuses per-site counts that do not add up to the pooled ones', () => {
-    const h = 'site,from_state,to_state,gap,time,step,n';
+    const h = 'site,from_state,to_state,gap,to_time,step,n';
     const pooled = ok.map((r) => `,${r}`);
     const sites = ['s1,,a,,,1,1', 's2,,a,,,1,1', 's3,,b,,,1,1', 's1,a,b,1,,1,1', 's3,b,a,1,,1,1'];
     expect(code([h, ...pooled, ...sites].join('\n'))).toBe('BAD_COUNTS');
