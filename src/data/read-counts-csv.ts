@@ -19,8 +19,9 @@ const HINT = 'write counts tables with sere count (or sere count --sql), and do 
  * Read a counts table (data/counts-table.ts; README, "Counts table") and check every row before
  * anything is fitted: labels as a survey table's are checked (labels.ts, states.ts), counts whole
  * and positive, one step throughout, a gap for every pair and none for a first survey. A pair 0
- * steps apart is two surveys of one site at one time that disagree — the contradiction a survey
- * table refuses — and is refused here too.
+ * steps apart is two surveys of one site at one time: in one state, an exact repeat, dropped and
+ * counted as a survey table's are; in two states, the contradiction a survey table refuses, and
+ * refused here too.
  */
 export function readCountsCsv(file: string, options: ReadCountsOptions = {}): CountsTable {
   const { text, sha256 } = readTextFile(file, WHAT);
@@ -44,6 +45,7 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
   const cells: (CountCell & { rawFrom: number; rawTo: number })[] = [];
   const siteCells: (SiteCell & { rawFrom: number; rawTo: number })[] = [];
   let step: number | undefined;
+  let repeatedRows = 0;
   for (const { record, info } of records.slice(1)) {
     const line = info.lines;
     const place = (name: keyof typeof col): Place => ({ file, line, column: col[name] + 1 });
@@ -75,20 +77,25 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
     if (toLabel === '') throw new SereError('EMPTY_VALUE', 'to_state is empty', place('to'), HINT);
     const to = labels.see(toLabel, line, col.to + 1);
     const from = fromLabel === '' ? FIRST_SURVEY : labels.see(fromLabel, line, col.from + 1);
+    const group = label('group');
+    const site = label('site');
     const gapText = field('gap');
     let gap = 0;
     if (from === FIRST_SURVEY) {
       if (gapText !== '') throw new SereError('BAD_COUNTS', `a first survey (no from_state) has gap ${quote(gapText)}`, place('gap'), 'leave gap empty on first-survey rows');
     } else {
       gap = gapText === '' ? NaN : Number(gapText);
+      if (gap === 0 && fromLabel === toLabel) {
+        // Two identical surveys of a site at one time (the counting SQL keeps them): used once, as a survey table's.
+        if (site === undefined || site === '') repeatedRows += n;
+        continue;
+      }
       if (gap === 0) {
         throw new SereError('DUPLICATE_SURVEY', `${n} site${n === 1 ? ' was' : 's were'} surveyed twice at time ${field('time')} with different states (${quote(fromLabel)} and ${quote(toLabel)})`,
           place('gap'), 'find the contradicting rows in the survey table and keep one of each pair');
       }
       if (!Number.isFinite(gap) || gap < 0) throw new SereError('BAD_COUNTS', `gap ${quote(gapText)} is not a positive number of steps`, place('gap'), HINT);
     }
-    const group = label('group');
-    const site = label('site');
     const groupPart = group === undefined ? {} : { group };
     if (site !== undefined && site !== '') {
       if (from === FIRST_SURVEY && n !== 1) throw new SereError('BAD_COUNTS', `site ${quote(site)} has ${n} first surveys`, place('n'), HINT);
@@ -107,6 +114,6 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
     file, sha256, states, step, grouped: col.group >= 0,
     cells: sortCells(cells.map(strip)),
     ...(perSite ? { siteCells: sortSiteCells(siteCells.map(strip)) } : {}),
-    repeatedRows: 0,
+    repeatedRows,
   };
 }

@@ -35,13 +35,16 @@ function identifier(name: string, flag: string, dotted = false): string {
 
 /**
  * The counting query, in SQL that runs unchanged on Spark SQL, Trino, DuckDB and SQLite (≥ 3.25):
- * only SELECT DISTINCT, a CTE, the standard window function LAG … OVER (PARTITION BY … ORDER BY
- * …), GROUP BY, UNION ALL and CAST(… AS DOUBLE); no quoting, no engine functions. Its result is a
+ * only a CTE, the standard window function LAG … OVER (PARTITION BY … ORDER BY …), GROUP BY,
+ * UNION ALL and CAST(… AS DOUBLE); no quoting, no engine functions. Its result is a
  * counts table (data/counts-table.ts) — rows in no particular order, which `sere fit` does not
  * need. The DuckDB engine runs this same text over its view of the files (sql/duckdb-count.ts).
  *
- * Exact repeats of a survey are dropped by the DISTINCT; two different states of one site at one
- * time survive it and come out as a pair with gap 0, which `sere fit` refuses as a contradiction.
+ * Two rows of one site at one time come out as a pair with gap 0: in the same state, an exact
+ * repeat, which the counts reader drops (and counts, as the survey reader does); in two states, a
+ * contradiction, which it refuses. Whatever order the engine puts tied rows in, dropping the
+ * repeat leaves the site's other pairs as they would be without it. No SELECT DISTINCT, then:
+ * measured on 10⁷ Parquet rows in DuckDB, it doubled the query's time (11.0 s against 4.6 s).
  */
 export function countingSql(options: CountingSqlOptions): string {
   const { columns, step } = options;
@@ -71,7 +74,7 @@ export function countingSql(options: CountingSqlOptions): string {
     `-- sere count: the counts table of ${table} (site ${site}, time ${time}, state ${state}${group ? `, group ${group}` : ''}), steps of ${step}.`,
     '-- Save the result as CSV with a header and fit it with: sere fit counts.csv',
     'WITH sere_once AS (',
-    `  SELECT DISTINCT ${site} AS site, ${time} AS survey_time, ${state} AS state${group ? `, ${group} AS site_group` : ''}`,
+    `  SELECT ${site} AS site, ${time} AS survey_time, ${state} AS state${group ? `, ${group} AS site_group` : ''}`,
     `  FROM ${table}`,
     '),',
     'sere_pairs AS (',

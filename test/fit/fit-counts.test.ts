@@ -165,8 +165,11 @@ describe('counts tables refused at the door', () => {
     expect(code([header, ...ok, 'a,b,1,2001,1,1.5'].join('\n'))).toBe('BAD_COUNTS');
     expect(place([header, ...ok, 'a,b,1,2001,1,0'].join('\n'))).toEqual({ line: 7, column: 6 });
   });
-  it('refuses a pair 0 steps apart: two different states at one time', () => {
+  it('refuses a pair 0 steps apart in two states (a contradiction); one in the same state is a repeat, used once', () => {
     expect(code([header, ...ok, 'a,b,0,2001,1,1'].join('\n'))).toBe('DUPLICATE_SURVEY');
+    const repeated = readCountsCsv(file([header, ...ok, 'b,b,0,2001,1,2'].join('\n')));
+    expect(repeated.repeatedRows).toBe(2);
+    expect(fitCounts(repeated, settingsOf(1)).surveys).toBe(6);
   });
   it('refuses a gap on a first survey, and no gap on a pair', () => {
     expect(code([header, ...ok, ',b,1,2001,1,1'].join('\n'))).toBe('BAD_COUNTS');
