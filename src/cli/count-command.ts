@@ -96,7 +96,7 @@ export function registerCount(program: Command, io: Io): void {
       for (const f of shards) {
         const shard = readCountsCsv(f, { states: opts.states });
         if (shard.step !== opts.step) {
-          throw new SereError('BAD_COUNTS', `this shard was counted with steps of ${shard.step} time units, not ${opts.step}`, { file: f, path: '--step' },
+          throw new SereError('BAD_COUNTS', `this shard was counted with steps of ${shard.step} time unit${shard.step === 1 ? '' : 's'}, not ${opts.step}`, { file: f, path: '--step' },
             `count with --step ${shard.step}, or count that shard again with --step ${opts.step}`);
         }
         tables.push(shard);

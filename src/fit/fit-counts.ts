@@ -17,9 +17,10 @@ export const COUNTS_GROUP_COLUMN = 'site_group';
  * per-site counts, the site table the bootstrap resamples. What needs runs of surveys (the order
  * test's triples) or the rows themselves (a hindcast) is absent, and those features say so.
  */
-export function fitCounts(table: CountsTable, settings: FitSettings): Fit {
+export function fitCounts(table: CountsTable, given: FitSettings): Fit {
+  const settings = given.stepDefaulted ? { ...given, step: table.step } : given;
   if (settings.step !== table.step) {
-    throw new SereError('BAD_OPTION', `the counts table was counted with steps of ${table.step} time units, not ${settings.step}`,
+    throw new SereError('BAD_OPTION', `the counts table was counted with steps of ${unitsOf(table.step)}, not ${settings.step}`,
       { file: table.file, path: '--step' }, `fit with --step ${table.step}, or count the survey table again with --step ${settings.step}`);
   }
   const cells = settings.group === undefined ? table.cells : groupCells(table.cells, table, settings.group);
@@ -143,4 +144,8 @@ function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable
       'count the survey table again with sere count --per-site (do not edit a counts table by hand)');
   }
   return builder.table();
+}
+
+function unitsOf(step: number): string {
+  return `${step} time unit${step === 1 ? '' : 's'}`;
 }

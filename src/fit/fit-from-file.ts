@@ -11,7 +11,7 @@ import { isCountsFile } from '../data/counts-table.js';
 import { readCountsCsv } from '../data/read-counts-csv.js';
 import type { FitSettings } from './settings.js';
 
-export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
+export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
 
 /**
  * A fit from a fit file (.json, written by `sere fit --out`), a counts table (`sere count`, told by

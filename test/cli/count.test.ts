@@ -91,6 +91,18 @@ describe('fitting from counts', () => {
     expect(reread.sites.length).toBe(0);
   });
 
+  it("takes the counts table's own step unless --step is given, which must then match", async () => {
+    await sereInProcess(['count', DEMO, '--step', '2', '--out', at('step2.csv')]);
+    const direct = JSON.parse((await sereInProcess(['fit', DEMO, '--step', '2', '--json'])).stdout);
+    const counted = JSON.parse((await sereInProcess(['fit', at('step2.csv'), '--json'])).stdout);
+    expect(counted.step).toBe(2);
+    expect(counted.counts).toEqual(direct.counts);
+    expect(counted.data.skipped_pairs).toEqual(direct.data.skipped_pairs);
+    const wrong = await sereInProcess(['fit', at('step2.csv'), '--step', '1', '--debug']);
+    expect(wrong.code).toBe(1);
+    expect(code(wrong.stderr)).toBe('BAD_OPTION');
+  });
+
   it('a scenario with data: counts.csv forecasts as with the survey table', async () => {
     await sereInProcess(['count', DEMO, '--out', at('sc.csv')]);
     const yaml = readFileSync('scenarios/brenhollow/no-action.yaml', 'utf8').replace('data: surveys.csv', 'data: sc.csv').replace('draws: 4000', 'draws: 300');
