@@ -9,6 +9,7 @@ import { readSurveyTables } from '../data/read-survey-tables.js';
 import { hashFile } from '../data/hash-file.js';
 import { tallyCounts } from '../chain/tally-counts.js';
 import { mergeCounts } from '../chain/merge-counts.js';
+import { likelyTypos } from '../data/label-typos.js';
 import { countsCsv, countsSources, type CountsInput } from '../data/counts-csv.js';
 import type { SurveyColumns } from '../data/survey.js';
 import type { Io } from './io.js';
@@ -73,6 +74,7 @@ export function registerCount(program: Command, io: Io): void {
         throw new SereError('BAD_OPTION', 'Parquet files are counted by DuckDB', { file: parquet[0]!, path: '--engine' }, 'drop --engine in-process, or convert the file to CSV');
       }
       const tables: CountsTable[] = [];
+      const notes: string[] = [];
       const sources: CountsInput[] = [];
       if (surveys.length > 0) {
         let counted: CountsTable;
@@ -88,6 +90,11 @@ export function registerCount(program: Command, io: Io): void {
         } else {
           const table = readSurveyTables(surveys, { columns, states: opts.states });
           counted = tallyCounts(table, { step: opts.step, perSite: Boolean(opts.perSite) });
+          // The warning sere fit gives on a survey table: a fit from the counts cannot see the rows.
+          for (const t of likelyTypos(table)) {
+            notes.push(`check state '${t.label}' (${t.rows} row${t.rows === 1 ? '' : 's'}, first on line ${t.line}): a slip for '${t.near}' (${t.nearRows} rows)? ` +
+              'Correct it, or declare the states with --states if both are real');
+          }
           if (surveys.length === 1) sources.push({ file: surveys[0]!, sha256: table.sha256, kind: 'survey table' });
         }
         if (sources.length === 0) for (const f of surveys) sources.push({ file: f, sha256: hashFile(f, 'survey table'), kind: 'survey table' });
@@ -103,6 +110,9 @@ export function registerCount(program: Command, io: Io): void {
         sources.push({ file: f, sha256: shard.sha256, kind: 'counts table' });
       }
       const merged = mergeCounts(tables, opts.states !== undefined);
+      if (merged.repeatedRows > 0) notes.push(`repeated rows: ${merged.repeatedRows} exact duplicates, each used once`);
+      // Printed when the command succeeds (run.ts holds notices), so a failing run's stderr is its one error line.
+      for (const note of notes) (io.notice ?? io.stderr)(`sere: ${note}\n`);
       const csv = countsCsv(merged);
       if (opts.out === undefined) {
         io.stdout(csv);
