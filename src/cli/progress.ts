@@ -15,7 +15,7 @@ export function progressReporter(enabled: boolean, label: string, unit = 'draws'
     update(done, total) {
       if (!bar && Date.now() - started < SHOW_AFTER_MS) return;
       if (!bar) {
-        bar = new SingleBar({ format: `${label} [{bar}] {percentage}% · {value}/{total} ${unit}`, stream: process.stderr, hideCursor: true, clearOnComplete: true });
+        bar = new SingleBar({ format: unit === 'percent' ? `${label} [{bar}] {percentage}%` : `${label} [{bar}] {percentage}% · {value}/{total} ${unit}`, stream: process.stderr, hideCursor: true, clearOnComplete: true });
         bar.start(total, done);
       }
       bar.update(done);
