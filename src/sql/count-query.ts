@@ -35,7 +35,7 @@ function identifier(name: string, flag: string, dotted = false): string {
 
 /**
  * The counting query, in SQL that runs unchanged on Spark SQL, Trino, DuckDB and SQLite (≥ 3.25):
- * only a CTE, the standard window function LAG … OVER (PARTITION BY … ORDER BY …), GROUP BY,
+ * only a CTE, the standard window functions LAG and FIRST_VALUE … OVER (PARTITION BY … ORDER BY …), GROUP BY,
  * UNION ALL and CAST(… AS DOUBLE); no quoting, no engine functions. Its result is a
  * counts table (data/counts-table.ts) — rows in no particular order, which `sere fit` does not
  * need. The DuckDB engine runs this same text over its view of the files (sql/duckdb-count.ts).
@@ -78,7 +78,8 @@ export function countingSql(options: CountingSqlOptions): string {
     `  FROM ${table}`,
     '),',
     'sere_pairs AS (',
-    `  SELECT ${g}site, state, survey_time,`,
+    // A site's group is the one of its first survey, as the survey reader keeps it (one group per site).
+    `  SELECT ${group ? 'FIRST_VALUE(site_group) OVER (PARTITION BY site ORDER BY survey_time) AS site_group, ' : ''}site, state, survey_time,`,
     '    LAG(state) OVER (PARTITION BY site ORDER BY survey_time) AS from_state,',
     '    survey_time - LAG(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS dt',
     '  FROM sere_once',
