@@ -1,4 +1,5 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { closeSync, mkdtempSync, openSync, readSync, rmSync } from 'node:fs';
+import { parse } from 'csv-parse/sync';
 import { tmpdir } from 'node:os';
 import { extname, join } from 'node:path';
 import { DuckDBInstance, DuckDBPendingResultState, type DuckDBConnection } from '@duckdb/node-api';
@@ -9,6 +10,7 @@ import { labelProblem, MAX_LABEL_LENGTH } from '../data/labels.js';
 import { StateLabels } from '../data/states.js';
 import { checkRegularFile } from '../data/read-text-file.js';
 import type { SurveyColumns } from '../data/survey.js';
+import { columnIndex } from '../data/survey-header.js';
 import { countingSql } from './count-query.js';
 
 export interface DuckDbCountOptions {
@@ -110,7 +112,8 @@ function source(files: readonly string[]): string {
   const csv = files.filter((f) => !isParquet(f));
   const parquet = files.filter(isParquet);
   const parts = [
-    ...(csv.length ? [`SELECT * FROM read_csv([${csv.map(literal).join(', ')}], header = true, all_varchar = true, union_by_name = true)`] : []),
+    // Commas and double quotes only, as the in-process reader: DuckDB would otherwise sniff a semicolon file as valid.
+    ...(csv.length ? [`SELECT * FROM read_csv([${csv.map(literal).join(', ')}], header = true, all_varchar = true, union_by_name = true, delim = ',', quote = '"', escape = '"')`] : []),
     ...(parquet.length ? [`SELECT * FROM read_parquet([${parquet.map(literal).join(', ')}], union_by_name = true)`] : []),
   ];
   return parts.length === 1 ? `(${parts[0]})` : `(${parts.join(' UNION ALL BY NAME ')})`;
@@ -118,6 +121,9 @@ function source(files: readonly string[]): string {
 
 /** Each file has the named columns: else one line naming the file and the missing column. */
 async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyColumns): Promise<void> {
+  // A CSV header is checked as the in-process reader checks it (survey-header.ts): the same
+  // errors for a missing or repeated column, a semicolon file, with the line.
+  if (!isParquet(file)) columnIndex(file, csvHeader(file), 1, columns);
   let names: string[];
   try {
     const described = await db.runAndReadAll(`DESCRIBE SELECT * FROM ${source([file])}`);
@@ -218,4 +224,18 @@ async function withProgress(db: DuckDBConnection, sql: string, options: DuckDbCo
   options.onProgress?.(1);
   const result = await pending.getResult();
   return (await result.getRowObjects()) as Record<string, unknown>[];
+}
+
+/** The header fields of a CSV file: its first record, from the first MiB, as csv-parse reads it. */
+function csvHeader(file: string): string[] {
+  const fd = openSync(file, 'r');
+  try {
+    const buffer = Buffer.alloc(1 << 20);
+    const bytes = readSync(fd, buffer, 0, buffer.length, 0);
+    const text = buffer.subarray(0, bytes).toString('utf8');
+    const [first] = parse(text, { bom: true, trim: true, to_line: 1, skip_empty_lines: true, relax_column_count: true }) as string[][];
+    return first ?? [];
+  } finally {
+    closeSync(fd);
+  }
 }

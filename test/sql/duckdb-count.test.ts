@@ -99,6 +99,8 @@ describe('counting with DuckDB gives the in-process counts', () => {
       ['site,time,state\nx,1,a\nx,2,a\n'],
       ['site,time,state\nx,1,a\nx,2,b\nx,3,c\n', { ...defaults, states: ['a', 'b'] }],
       ['site,when,state\nx,1,a\nx,2,b\n'],
+      ['site;time;state\nx;1;a\nx;2;b\n'],
+      ['site,time,state,state\nx,1,a,a\nx,2,b,b\n'],
     ];
     const codes: string[] = [];
     for (const [text, o] of cases) {
@@ -109,7 +111,14 @@ describe('counting with DuckDB gives the in-process counts', () => {
       codes.push(expected);
     }
     expect(codes).toEqual(['EMPTY_VALUE', 'EMPTY_VALUE', 'BAD_TIME', 'DUPLICATE_SURVEY', 'STATE_CASE_CLASH',
-      'INVISIBLE_CHARACTER', 'INVISIBLE_CHARACTER', 'TOO_FEW_STATES', 'UNKNOWN_STATE', 'MISSING_COLUMN']);
+      'INVISIBLE_CHARACTER', 'INVISIBLE_CHARACTER', 'TOO_FEW_STATES', 'UNKNOWN_STATE', 'MISSING_COLUMN', 'MISSING_COLUMN', 'DUPLICATE_COLUMN']);
+  });
+
+  it('reads what the in-process reader reads: a BOM, CRLF, blank lines, quoted fields', async () => {
+    const input = file('\uFEFFsite,time,state\r\nx,1,"a"\r\n\r\n"x",2,b\r\ny,1, b \r\ny,3,a\r\n');
+    const expected = inProcess([input]);
+    expect(expected.split('\n').length).toBe(6);
+    expect(await duck([input])).toBe(expected);
   });
 
   it('a Parquet file without the columns: one error naming the file and the column', async () => {
