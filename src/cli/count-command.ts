@@ -14,7 +14,8 @@ import { countsCsv, countsSources, type CountsInput } from '../data/counts-csv.j
 import type { SurveyColumns } from '../data/survey.js';
 import type { Io } from './io.js';
 import { commaList, yearsFlag } from './parse-options.js';
-import { writeFilesAtomic } from './write-file.js';
+import { refuseExisting, writeFilesAtomic } from './write-file.js';
+import { DEFAULT_STEP } from './fit-options.js';
 import { progressReporter } from './progress.js';
 
 interface CountOptions {
@@ -24,7 +25,7 @@ interface CountOptions {
   engine: 'auto' | 'in-process' | 'duckdb';
   sql?: boolean;
   table: string;
-  step: number;
+  step?: number;
   states?: string[];
   siteColumn: string;
   timeColumn: string;
@@ -49,13 +50,18 @@ export function registerCount(program: Command, io: Io): void {
     .option('--engine <name>', `in-process, duckdb, or auto (DuckDB for Parquet and tables over ${DUCKDB_THRESHOLD_BYTES / 1024 ** 3} GiB)`, engineFlag, 'auto')
     .option('--sql', 'print the counting query as portable SQL (for Spark SQL, Trino, a warehouse) instead of counting')
     .option('--table <name>', 'the table the --sql query reads', 'surveys')
-    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)
+    .option('--step <n>', "time units one step spans (surveys every 5 years: 5; default 1, or the shards' own)", yearsFlag)
     .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
     .option('--site-column <name>', 'column holding the site', 'site')
     .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
     .option('--state-column <name>', 'column holding the state', 'state')
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
-    .action(async (inputs: string[], opts: CountOptions) => {
+    .action(async (inputs: string[], given: CountOptions) => {
+      // Counts tables alone keep their own step unless --step says otherwise (then it must match).
+      const shardStep = given.step === undefined && inputs.length > 0 && inputs.every((f) => isCountsFile(f))
+        ? readCountsCsv(inputs[0]!, { states: given.states }).step : undefined;
+      const opts = { ...given, step: given.step ?? shardStep ?? DEFAULT_STEP };
+      if (opts.out !== undefined) refuseExisting([opts.out, sidecarName(opts.out)], Boolean(opts.force));
       const columns: SurveyColumns = { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn };
       if (opts.sql) {
         const { countingSql } = await import('../sql/count-query.js');

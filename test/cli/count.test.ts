@@ -59,6 +59,21 @@ describe('sere count', () => {
     expect(sources.totals.sites).toBe(60);
   });
 
+  it("adds shards in their own step, refuses another, and refuses an existing --out before counting", async () => {
+    const [a, b] = shards(30);
+    for (const [input, out] of [[a, 's5a.csv'], [b, 's5b.csv'], [DEMO, 's5.csv']] as const) {
+      expect((await sereInProcess(['count', input, '--step', '2', '--out', at(out)])).code).toBe(0);
+    }
+    expect((await sereInProcess(['count', at('s5a.csv'), at('s5b.csv'), '--out', at('s5m.csv')])).code).toBe(0);
+    expect(readFileSync(at('s5m.csv'), 'utf8')).toBe(readFileSync(at('s5.csv'), 'utf8'));
+    const other = await sereInProcess(['count', at('s5a.csv'), at('s5b.csv'), '--step', '1', '--debug']);
+    expect(code(other.stderr)).toBe('BAD_COUNTS');
+    writeFileSync(at('taken.sources.json'), '{}');
+    const taken = await sereInProcess(['count', DEMO, '--out', at('taken.csv'), '--debug']);
+    expect(code(taken.stderr)).toBe('FILE_EXISTS');
+    expect(existsSync(at('taken.csv'))).toBe(false);
+  });
+
   it('refuses a site found in two shards (with per-site counts), writing nothing', async () => {
     const [a, b] = shards(25, true);
     await sereInProcess(['count', a, '--per-site', '--out', at('oa.csv')]);
