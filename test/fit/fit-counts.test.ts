@@ -11,6 +11,9 @@ import { countsCsv } from '../../src/data/counts-csv.js';
 import { fitSurvey, fitMle, siteCount, type Fit } from '../../src/fit/fit.js';
 import { fitCounts } from '../../src/fit/fit-counts.js';
 import { groupOf } from '../../src/fit/fit-from-file.js';
+import { fitToJson } from '../../src/fit/fit-json.js';
+import { estimateFit } from '../../src/fit/estimate.js';
+import { loadFit } from '../../src/fit/load-fit.js';
 import type { FitSettings } from '../../src/fit/settings.js';
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
 import { bootstrapDraws } from '../../src/uncertainty/bootstrap.js';
@@ -134,6 +137,21 @@ describe('a fit from a counts table equals the survey-table fit', () => {
         expect(viaCounts.fit.repeatedRows).toBe(0);
       }
     }), { numRuns: 150, seed: 20261202 });
+  });
+});
+
+describe('a fit file from pooled counts', () => {
+  it('keeps the number of sites (site_counts null) and reads back; without data.sites it is refused', () => {
+    const table = readSurveyCsv(DEMO, { columns: DEFAULT_COLUMNS });
+    const fit = fitCounts(readCountsCsv(file(countsCsv(tallyCounts(table, { step: 1, perSite: false })))), settingsOf(1));
+    const json = JSON.parse(JSON.stringify(fitToJson(fit, estimateFit(fit, 0.9))));
+    expect(json.site_counts).toBeNull();
+    expect(json.data.sites).toBe(60);
+    const back = loadFit(file(JSON.stringify(json), `f${files++}.json`));
+    expect(back.pooledSites).toBe(60);
+    expect(Array.from(back.counts)).toEqual(Array.from(fit.counts));
+    delete json.data.sites;
+    expect(() => loadFit(file(JSON.stringify(json), `f${files++}.json`))).toThrow(expect.objectContaining({ code: 'BAD_FIT_FILE' }));
   });
 });
 
