@@ -45,14 +45,15 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
     await db.run('SET preserve_insertion_order = false; SET enable_progress_bar = true; SET enable_progress_bar_print = false');
     for (const f of files) await checkColumns(db, f, options.columns);
     const g = options.columns.group !== undefined;
+    // Trimmed of what the in-process reader trims: JavaScript's String.prototype.trim white space.
+    const text = (column: string): string => `trim(CAST(${q(column)} AS VARCHAR), ${literal(JS_WHITE_SPACE)})`;
     await db.run(`CREATE VIEW sere_surveys AS SELECT
-      nfc_normalize(trim(CAST(${q(options.columns.site)} AS VARCHAR))) AS site,
-      trim(CAST(${q(options.columns.time)} AS VARCHAR)) AS time_text,
+      nfc_normalize(${text(options.columns.site)}) AS site,
+      ${text(options.columns.time)} AS time_text,
       -- Whole numbers only, as parse-time.ts reads them (TRY_CAST alone would round '2.5').
-      CASE WHEN regexp_full_match(trim(CAST(${q(options.columns.time)} AS VARCHAR)), '[+-]?[0-9]+')
-        THEN TRY_CAST(trim(CAST(${q(options.columns.time)} AS VARCHAR)) AS BIGINT) END AS time,
-      nfc_normalize(trim(CAST(${q(options.columns.state)} AS VARCHAR))) AS state
-      ${g ? `, nfc_normalize(trim(CAST(${q(options.columns.group!)} AS VARCHAR))) AS site_group` : ''}
+      CASE WHEN regexp_full_match(${text(options.columns.time)}, '[+-]?[0-9]+') THEN TRY_CAST(${text(options.columns.time)} AS BIGINT) END AS time,
+      nfc_normalize(${text(options.columns.state)}) AS state
+      ${g ? `, nfc_normalize(${text(options.columns.group!)}) AS site_group` : ''}
       FROM ${source(files)}`);
     const fileNames = files.join(', ');
     const rows = await checkRows(db, fileNames, g, options);
@@ -92,6 +93,9 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
     rmSync(spill, { recursive: true, force: true });
   }
 }
+
+/** The characters String.prototype.trim removes (ECMAScript WhiteSpace and LineTerminator). */
+const JS_WHITE_SPACE = ' \t\n\v\f\r\u00a0\u1680\u2000\u2001\u2002\u2003\u2004\u2005\u2006\u2007\u2008\u2009\u200a\u2028\u2029\u202f\u205f\u3000\ufeff';
 
 /** A double-quoted DuckDB identifier (column names are the user's, any text). */
 function q(name: string): string {

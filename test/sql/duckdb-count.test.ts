@@ -114,8 +114,8 @@ describe('counting with DuckDB gives the in-process counts', () => {
       'INVISIBLE_CHARACTER', 'INVISIBLE_CHARACTER', 'TOO_FEW_STATES', 'UNKNOWN_STATE', 'MISSING_COLUMN', 'MISSING_COLUMN', 'DUPLICATE_COLUMN']);
   });
 
-  it('reads what the in-process reader reads: a BOM, CRLF, blank lines, quoted fields', async () => {
-    const input = file('\uFEFFsite,time,state\r\nx,1,"a"\r\n\r\n"x",2,b\r\ny,1, b \r\ny,3,a\r\n');
+  it('reads what the in-process reader reads: a BOM, CRLF, blank lines, quoted fields, white space trimmed', async () => {
+    const input = file('\uFEFFsite,time,state\r\nx,1,"a"\r\n\r\n"x",2,b\t\r\ny,1, b \r\ny,3,a\u00a0\r\n');
     const expected = inProcess([input]);
     expect(expected.split('\n').length).toBe(6);
     expect(await duck([input])).toBe(expected);
