@@ -138,7 +138,7 @@ function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['star
 function fitOfData(s: ScenarioFile, file: string,
   fail: (code: 'BAD_SCENARIO', what: string, path: KeyPath, hint: string) => never, locate: (path: KeyPath) => Place): Fit {
   if (s.data === undefined) {
-    return fail('BAD_SCENARIO', 'data is required: name a fit file (.json) or survey table (.csv)', ['data'],
+    return fail('BAD_SCENARIO', 'data is required: name a fit file (.json), or a survey table or counts table (.csv)', ['data'],
       'add "data: surveys.csv" (relative to this file), or run the scenario from a workspace');
   }
   // Relative to the scenario file; shown and recorded relative to the working folder, so output

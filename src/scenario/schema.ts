@@ -136,9 +136,9 @@ export const scenarioSchema = z.strictObject({
   /** Shown in every table; default: the file name. */
   name: z.string().min(1).optional(),
   description: z.string().optional(),
-  /** A fit file from `sere fit --out` (.json) or a survey table (.csv) fitted on the fly. Required. */
-  data: z.string({ error: 'data must name a fit file (.json) or survey table (.csv)' }).min(1).optional()
-    .describe('A fit file from sere fit --out (.json) or a survey table (.csv), relative to this file. Required, except in a workspace, whose surveys are used.'),
+  /** A fit file from `sere fit --out` (.json), or a survey table or counts table (.csv) fitted on the fly. Required. */
+  data: z.string({ error: 'data must name a fit file (.json), or a survey table or counts table (.csv)' }).min(1).optional()
+    .describe('A fit file from sere fit --out (.json), or a survey table or a counts table from sere count (.csv), relative to this file. Required, except in a workspace, whose surveys are used.'),
   fit: fitSettingsSchema.optional(),
   uncertainty: z.strictObject({
     /** Default posterior. */
