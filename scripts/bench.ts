@@ -16,6 +16,8 @@
  *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
  * 9. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
  * 10. Rasters (`npm run bench -- raster`, only when named): scripts/bench/raster.ts.
+ * 11. Count (`npm run bench -- count`, only when named): `sere count` on 10⁷ CSV rows in-process and on
+ *    DuckDB beside numpy-count.py, and on 10⁸ Parquet rows through DuckDB (scripts/bench/count-bench.ts).
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -38,6 +40,7 @@ import { existsSync } from 'node:fs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 import { benchRaster } from './bench/raster.js';
+import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -224,6 +227,13 @@ if (want('fit')) {
   benchFit(100_000, 3);
   benchFit(1_000_000, 3);
   benchFitFile(5);
+}
+
+// `sere count` on 10⁷ CSV rows (in-process, DuckDB, numpy) and 10⁸ Parquet rows (DuckDB), once
+// each: the big cases take minutes, so they run only when named (scripts/bench/count-bench.ts).
+if (only === 'count') {
+  benchCountCsv(1_000_000, 1);
+  await benchCountParquet(10_000_000);
 }
 
 /**

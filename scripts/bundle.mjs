@@ -23,6 +23,9 @@ await build({
   format: 'esm',
   target: 'node20',
   logLevel: 'warning',
+  // DuckDB is a native addon (a prebuilt .node per platform): loaded from node_modules at run time,
+  // and only by `sere count` on the DuckDB engine (a dynamic import in cli/count-command.ts).
+  external: ['@duckdb/node-api', '@duckdb/node-bindings', '@duckdb/node-bindings-*'],
   // CommonJS dependencies call require(); give the ES module bundle one.
   banner: { js: "import { createRequire as sereCreateRequire } from 'node:module'; const require = sereCreateRequire(import.meta.url);" },
 });

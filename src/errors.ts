@@ -50,7 +50,10 @@ export type ErrorCode =
   | 'BUSY'
   | 'BAD_RASTER'
   | 'GRID_MISMATCH'
-  | 'NEEDS_SITES';
+  | 'NO_SITE_COUNTS'
+  | 'BAD_COUNTS'
+  | 'SITE_IN_TWO_SHARDS'
+  | 'BAD_SQL_NAME';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

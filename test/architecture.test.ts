@@ -10,6 +10,8 @@ const allowed: Record<string, string[]> = {
   data: [],
   chain: ['data'],
   fit: ['data', 'chain'],
+  // Counting with SQL engines: the portable query and embedded DuckDB, from files to a counts table.
+  sql: ['data', 'chain'],
   uncertainty: ['chain', 'fit'],
   scenario: ['data', 'chain', 'fit', 'uncertainty'],
   engine: ['chain', 'fit', 'uncertainty', 'scenario'],
@@ -17,7 +19,7 @@ const allowed: Record<string, string[]> = {
   evaluation: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine'],
   workspace: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'evaluation'],
   report: ['chain', 'fit', 'engine', 'scenario', 'diagnostics', 'evaluation', 'workspace'],
-  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'evaluation', 'workspace', 'report'],
+  cli: ['data', 'chain', 'fit', 'uncertainty', 'scenario', 'engine', 'diagnostics', 'evaluation', 'workspace', 'report', 'sql'],
 };
 
 function sources(dir: string): string[] {

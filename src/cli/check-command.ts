@@ -36,7 +36,7 @@ const FIT_FLAGS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeC
 export function registerCheck(program: Command, io: Io): void {
   const command = withFitOptions(program.command('check')
     .description('test the Markov assumptions and describe the chain: structure, passage times, settling, sensitivities')
-    .argument('<survey.csv|fit.json>', 'a survey table (fitted now, with the fit flags), a fit file, or a raster stack file (.yaml)'))
+    .argument('<survey.csv|counts.csv|fit.json>', 'a survey table or a counts table (fitted now, with the fit flags), a fit file, or a raster stack file (.yaml)'))
     .option('--draws <n>', 'posterior draws for the bands', drawsFlag, 1000)
     .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
     .option('--level <p>', 'credible level of the bands', level, 0.9)

@@ -4,6 +4,9 @@ import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { existsSync } from 'node:fs';
 import { SereError } from '../errors.js';
 import { fitSurvey } from '../fit/fit.js';
+import { fitCounts } from '../fit/fit-counts.js';
+import { isCountsFile } from '../data/counts-table.js';
+import { readCountsCsv } from '../data/read-counts-csv.js';
 import { groupOf, groupsOf } from '../fit/fit-from-file.js';
 import { groupDifference } from '../diagnostics/group-difference.js';
 import { fitGroupsTable } from '../report/fit-groups-table.js';
@@ -29,8 +32,8 @@ interface FitOptions extends FitFlags {
 
 export function registerFit(program: Command, io: Io): void {
   withFitOptions(program.command('fit')
-    .description('fit a chain to a survey table (site,time,state): counts, estimates, stationary mix')
-    .argument('<survey.csv>', 'survey table: CSV or .xlsx, long (one row per site and survey) or wide (one column per survey time); or a raster stack file (.yaml), one classified GeoTIFF per year'))
+    .description('fit a chain to a survey table (site,time,state), a counts table (sere count) or a raster stack: counts, estimates, stationary mix')
+    .argument('<survey.csv>', 'survey table: CSV or .xlsx, long (one row per site and survey) or wide (one column per survey time); a counts table, told by its header; or a raster stack file (.yaml), one classified GeoTIFF per year'))
     .option('--level <p>', 'credible level of the intervals', level, 0.9)
     .option('--out <fit.json>', 'write the fit to this file (never overwrites without --force)')
     .option('--force', 'replace an existing --out file')
@@ -54,7 +57,8 @@ export function registerFit(program: Command, io: Io): void {
       // The raster code (and the geotiff package) is loaded only for a stack.
       const counted = raster ? await (await import('../data/raster/count-stack.js')).countRasterStack(file) : undefined;
       const fit = counted ? fitRasterCounts(counted, settings)
-        : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings);
+        : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
+          : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings);
       if (counted) io.stderr((await import('./raster-data.js')).stackSummary(counted, fit));
       const estimates = estimateFit(fit, opts.level);
       // The JSON only when it is printed or written: with 10⁶ sites it took 0.9 s (measured on 10⁷ rows).
@@ -78,6 +82,10 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
   if (!opts.out) {
     throw new SereError('BAD_OPTION', '--by writes one file per group and needs --out', { path: '--by' },
       'add --out NAME.json; the groups go to NAME-<group>.json');
+  }
+  if (isCountsFile(file)) {
+    throw new SereError('BAD_OPTION', '--by needs the survey table: a counts table is fitted whole', { file, path: '--by' },
+      'run sere fit --by on the survey table, or count each group into its own counts table');
   }
   const flags = fitSettingsFrom(opts);
   const settings = { ...flags, columns: { ...flags.columns, group: opts.by } };

@@ -5,7 +5,8 @@ import { commaList, yearsFlag } from './parse-options.js';
 
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
-  step: number;
+  /** Absent when not given: fitSettingsFrom applies the default (DEFAULT_STEP), so a counts table's own step can apply. */
+  step?: number;
   states?: string[];
   prior: string;
   impossible?: string[];
@@ -21,9 +22,12 @@ export interface FitFlags {
 /** The option keys withFitOptions adds, to tell whether any was given. */
 export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'wide', 'sheet', 'labels'] as const;
 
+/** One time unit per step, unless --step says otherwise. */
+export const DEFAULT_STEP = 1;
+
 export function withFitOptions(command: Command): Command {
   return command
-    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5; default 1, or a counts table\'s own)', yearsFlag)
     .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
     .option('--prior <p>', 'prior pseudo-count per cell: jeffreys (0.5), uniform (1) or a number', 'jeffreys')
     .option('--impossible <from>to,...>', 'transitions that cannot happen (structural zeros)', commaList)
@@ -38,7 +42,8 @@ export function withFitOptions(command: Command): Command {
 
 export function fitSettingsFrom(opts: FitFlags): FitSettings {
   return {
-    step: opts.step,
+    step: opts.step ?? DEFAULT_STEP,
+    ...(opts.step === undefined ? { stepDefaulted: true } : {}),
     prior: parsePrior(opts.prior, { path: '--prior' }),
     states: opts.states,
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),

@@ -34,7 +34,7 @@ export function registerHindcast(program: Command, io: Io): void {
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: HindcastOptions) => {
       if (isRasterStackFile(file)) {
-        throw new SereError('NEEDS_SITES', 'a hindcast needs per-site data (each site\'s surveys), and a raster stack gives counts only', { file },
+        throw new SereError('NO_SITE_COUNTS', 'a hindcast needs per-site data (each site\'s surveys), and a raster stack gives counts only', { file },
           'run the hindcast on a survey table (site,time,state); for maps, sample pixels into such a table first');
       }
       const settings = fitSettingsFrom(opts);

@@ -7,7 +7,7 @@ const SHOW_AFTER_MS = 1000;
  * A progress reporter for long runs: nothing unless stderr is a TTY, and nothing until the work
  * has taken SHOW_AFTER_MS; then a bar on stderr (never stdout, which carries data).
  */
-export function progressReporter(enabled: boolean, label: string): { update(done: number, total: number): void; stop(): void } {
+export function progressReporter(enabled: boolean, label: string, unit = 'draws'): { update(done: number, total: number): void; stop(): void } {
   if (!enabled) return { update: () => undefined, stop: () => undefined };
   const started = Date.now();
   let bar: SingleBar | undefined;
@@ -15,7 +15,7 @@ export function progressReporter(enabled: boolean, label: string): { update(done
     update(done, total) {
       if (!bar && Date.now() - started < SHOW_AFTER_MS) return;
       if (!bar) {
-        bar = new SingleBar({ format: `${label} [{bar}] {percentage}% · {value}/{total} draws`, stream: process.stderr, hideCursor: true, clearOnComplete: true });
+        bar = new SingleBar({ format: unit === 'percent' ? `${label} [{bar}] {percentage}%` : `${label} [{bar}] {percentage}% · {value}/{total} ${unit}`, stream: process.stderr, hideCursor: true, clearOnComplete: true });
         bar.start(total, done);
       }
       bar.update(done);

@@ -8,6 +8,7 @@ import { registerCheck } from './check-command.js';
 import { registerSeason } from './season-command.js';
 import { registerHindcast } from './hindcast-command.js';
 import { registerEffort } from './effort-command.js';
+import { registerCount } from './count-command.js';
 import type { Io } from './io.js';
 
 /** Exit codes: the public surface, documented in the README. */
@@ -36,6 +37,7 @@ export async function run(argv: readonly string[], outer: Io): Promise<number> {
   registerSeason(program, io);
   registerHindcast(program, io);
   registerEffort(program, io);
+  registerCount(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput(output);
 
   try {

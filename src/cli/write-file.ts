@@ -32,3 +32,20 @@ export function refuseExisting(files: readonly (string | undefined)[], force: bo
     }
   }
 }
+
+/**
+ * Write several files that belong together (a counts table and its sidecar): every one to a
+ * temporary file first, then each renamed, so a failure while writing leaves none of them.
+ */
+export function writeFilesAtomic(files: readonly { file: string; text: string }[], force: boolean): void {
+  refuseExisting(files.map((f) => f.file), force);
+  const temporary = files.map((f) => join(dirname(f.file), `.${basename(f.file)}.${process.pid}.tmp`));
+  try {
+    files.forEach((f, n) => writeFileSync(temporary[n]!, f.text));
+  } catch (err) {
+    for (const t of temporary) rmSync(t, { force: true });
+    const reason = (err as NodeJS.ErrnoException).code ?? 'write failed';
+    throw new SereError('CANNOT_WRITE', `cannot write the file (${reason})`, { file: files[0]!.file }, 'check that the folder exists and is writable');
+  }
+  files.forEach((f, n) => renameSync(temporary[n]!, f.file));
+}

@@ -1,5 +1,6 @@
 import { SereError, quote } from '../errors.js';
 import { normaliseLabel } from './labels.js';
+import { isCountsHeader } from './counts-table.js';
 import type { SurveyColumns } from './survey.js';
 
 /** Which field of a row holds what. */
@@ -39,6 +40,10 @@ export function findColumn(file: string, header: readonly string[], line: number
   const name = normaliseLabel(wanted);
   const at = header.indexOf(name);
   if (at < 0) {
+    if (isCountsHeader(header)) {
+      throw new SereError('NO_SITE_COUNTS', 'this is a counts table (sere count), and this needs the survey table itself (one row per site and survey)',
+        { file, line }, 'give the survey table; a counts table serves sere fit, forecast, compare and check');
+    }
     const found = header.map(quote).join(', ');
     // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
     const semicolons = header.length === 1 && header[0]!.includes(';');

@@ -82,7 +82,10 @@ export function assumptionTests(fit: Fit, options: TestOptions): AssumptionTests
     selection = orderSelection(fit.triples, k, fitMask(fit));
   } else {
     unavailable.push(fit.triples ? 'order 1 vs 2: no site has three surveys in a row one step apart'
-      : 'order 1 vs 2: this fit file has no second-order counts; refit from the survey table');
+      // A survey-table fit always has triples and a fit file no history: this is a counts table's fit.
+      : fit.history
+        ? 'order 1 vs 2: a counts table has no runs of three surveys; run sere check on the survey table'
+        : 'order 1 vs 2: this fit file has no second-order counts; refit from the survey table');
   }
 
   let periods: TestReport | null = null;
@@ -101,7 +104,9 @@ export function assumptionTests(fit: Fit, options: TestOptions): AssumptionTests
     groups = report('groups', `transition probabilities differ between groups of sites (${fit.groupColumn ?? 'group'})`,
       homogeneity(byGroup.map((g) => g.cells), k), options, byGroup.map((g) => g.label));
   } else {
-    unavailable.push(fit.groupColumn ? 'groups: fewer than two groups with transitions' : 'groups: no group column (use --group-column)');
+    unavailable.push(fit.pooledSites !== undefined
+      ? 'groups: this fit has pooled counts only; count with sere count --per-site --group-column, or use the survey table'
+      : fit.groupColumn ? 'groups: fewer than two groups with transitions' : 'groups: no group column (use --group-column)');
   }
   return { order, orderSelection: selection, periods, groups, unavailable };
 }

@@ -13,7 +13,8 @@ export interface CheckedFitFile {
   readonly states: readonly string[];
   readonly impossible: readonly (readonly [string, string])[];
   readonly counts: Float64Array;
-  readonly sites: SiteCountTable;
+  /** The per-site table, or how many sites when the fit holds pooled counts only. */
+  readonly sites: SiteCountTable | number;
   readonly transitions: number;
   readonly gapCounts: readonly GapCell[];
 }
@@ -123,7 +124,12 @@ function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
   if (total !== latest.sites) fail(`latest.counts add up to ${total} sites, but latest.sites is ${latest.sites}`, ['latest', 'sites']);
 }
 
-function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable {
+function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable | number {
+  if (f.site_counts === null) {
+    // Pooled counts (a fit from a counts table without per-site counts): only how many sites.
+    if (f.data.sites === undefined || f.data.sites < 1) fail('a fit without site_counts needs data.sites, the number of sites', ['data', 'sites']);
+    return f.data.sites;
+  }
   const seen = new Map<string, number>();
   const fromSites = new Float64Array(k * k);
   const grouped = f.group_column !== undefined && f.group_column !== null;
@@ -141,8 +147,7 @@ function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): Si
     const cells = s.cells.map(([i, j, x]) => [i, j, x] as const);
     return s.group === undefined ? { site, cells } : { site, group: normaliseLabel(s.group), cells };
   });
-  // No site_counts at all: a fit from counts alone (a raster stack); the site bootstrap then refuses.
-  if (sites.length > 0 && fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
+  if (fromSites.some((x, c) => x !== counts[c])) fail('site_counts do not add up to counts', ['site_counts']);
   // The bootstrap draws sites by position: the canonical order makes a reordered file give the same draws.
   return SiteCountTable.fromList(k, sites.sort((a, b) => compareCodePoints(a.site, b.site)));
 }

@@ -21,6 +21,7 @@ export const fitFileSchema = z.object({
   counts: z.array(z.array(count)),
   data: z.object({
     surveys: count,
+    sites: count.optional(),
     skipped_pairs: z.array(z.object({ gap: z.number().int().positive(), pairs: count })),
     gap_counts: z.array(z.tuple([count, count, count, count])).optional(),
     repeated_rows: count,
@@ -34,7 +35,7 @@ export const fitFileSchema = z.object({
     site: label,
     group: z.string().optional(),
     cells: z.array(cell),
-  })),
+  })).nullable(),
 }).loose();
 
 export type FitFile = z.infer<typeof fitFileSchema>;

@@ -10,11 +10,15 @@ import { surveyReadOptions, type FitSettings } from './settings.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
 import type { RasterCounts } from '../data/raster/count-stack.js';
 import { fitRasterCounts } from './fit-from-raster.js';
+import { fitCounts } from './fit-counts.js';
+import { isCountsFile } from '../data/counts-table.js';
+import { readCountsCsv } from '../data/read-counts-csv.js';
 
-export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
+export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
 
 /**
- * A fit from a fit file (.json, written by `sere fit --out`), a survey table, fitted now, or a
+ * A fit from a fit file (.json, written by `sere fit --out`), a counts table (`sere count`, told by
+ * its header), a survey table, fitted now, or a
  * raster stack (.yaml) — counted beforehand (reading rasters is asynchronous) and passed in `rasters`.
  */
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS, rasters?: ReadonlyMap<string, RasterCounts>): Fit {
@@ -31,6 +35,7 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
     }
     return fitRasterCounts(counted, settings);
   }
+  if (isCountsFile(file)) return fitCounts(readCountsCsv(file, { states: settings.states, statesPlace: settings.places?.states }), settings);
   const table = readSurveyCsv(file, surveyReadOptions(settings));
   return fitSurvey(settings.group === undefined ? table : groupOf(table, settings.group, settings.columns.group), settings);
 }

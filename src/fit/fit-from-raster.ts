@@ -1,10 +1,10 @@
 import { SereError, quote, type Place } from '../errors.js';
 import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
 import { SiteCountBuilder } from '../chain/site-counts.js';
-import { likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import type { GapCell, PeriodCounts, SkippedPairs } from '../chain/counts.js';
 import type { MixAtTime } from '../chain/latest-mix.js';
 import { impossibleMask, type FitSettings } from './settings.js';
-import type { Fit } from './fit.js';
+import { checkTransitions, type Fit } from './fit.js';
 
 /**
  * A fit from a counted raster stack: every pixel is a site, and the counts by pair of rasters are
@@ -99,26 +99,9 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
       }
     }
   }
-  const where: Place = { file: counted.stack.file };
-  if (transitions === 0 && !zoneFit) {
-    const guess = likelyStep([...skipped].map(([gap, pairs]) => ({ gap, pairs })));
-    throw new SereError('NO_TRANSITIONS', `no two rasters of the stack are ${step} year${step === 1 ? '' : 's'} apart`, where,
-      guess !== undefined && guess !== step ? `most pairs are ${guess} apart: try --step ${guess}` : 'add rasters one step apart');
-  }
-  for (let c = 0; c < k * k; c++) {
-    if (mask[c] && counts[c]! > 0) {
-      const pairName = `${states[Math.floor(c / k)]}>${states[c % k]}`;
-      throw new SereError('IMPOSSIBLE_OBSERVED', `transition ${quote(pairName)} is declared impossible but observed in ${counts[c]} pixels`,
-        where, `check the rasters, or drop ${quote(pairName)} from the impossible list`);
-    }
-  }
-  for (let i = 0; i < k; i++) {
-    let allowed = 0;
-    for (let j = 0; j < k; j++) allowed += mask[i * k + j] ? 0 : 1;
-    if (allowed === 0) {
-      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of ${quote(states[i]!)} is declared impossible`,
-        { path: 'impossible' }, `allow at least ${quote(`${states[i]}>${states[i]}`)} (staying put)`);
-    }
+  // The checks every fit's one-step counts pass (fit.ts); a zone's fit for maps may have none.
+  if (!zoneFit || transitions > 0) {
+    checkTransitions({ file: counted.stack.file, states, step, mask, counts, transitions, skipped: skippedOf(skipped), firstLine: new Float64Array(k * k) });
   }
   const history: MixAtTime[] = [];
   let surveys = 0;
@@ -134,14 +117,14 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     if (sites > 0) history.push({ time: years[t]!, counts: mix, sites });
   }
   if (history.length === 0) {
-    throw new SereError('NO_TRANSITIONS', 'every pixel is nodata or skipped', where, 'check the nodata value and the labels');
+    throw new SereError('NO_TRANSITIONS', 'every pixel is nodata or skipped', { file: counted.stack.file }, 'check the nodata value and the labels');
   }
   const last = history[history.length - 1]!;
   const gapCounts: GapCell[] = [];
   for (const g of [...byGap.keys()].sort((a, b) => a - b)) {
     byGap.get(g)!.forEach((n, c) => { if (n > 0) gapCounts.push([Math.floor(c / k), c % k, g, n]); });
   }
-  const skippedList: SkippedPairs[] = [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  const skippedList = skippedOf(skipped);
   const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => ({ time, cells: sparse(dense, k) }));
   const tripleList: (readonly [number, number, number, number])[] = [];
   triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
@@ -153,6 +136,8 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     impossible: settings.impossible,
     counts,
     sites: new SiteCountBuilder(k, false).table(),
+    // Every pixel surveyed at least once is a site: each adds its surveys less one consecutive pair.
+    pooledSites: surveys - pairsTotal(tally),
     transitions,
     skipped: skippedList,
     gapCounts,
@@ -207,4 +192,14 @@ function zoneTally(counted: RasterCounts, group: string, place: Place): RasterTa
     throw new SereError('BAD_OPTION', `no zone ${quote(group)} in the zone raster`, place, `use one of: ${counted.zones.join(', ')}`);
   }
   return counted.tallies[z]!;
+}
+
+function skippedOf(skipped: ReadonlyMap<number, number>): SkippedPairs[] {
+  return [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+}
+
+function pairsTotal(tally: RasterTally): number {
+  let n = 0;
+  for (const pair of tally.pairs) if (pair) for (const x of pair) n += x;
+  return n;
 }

@@ -2,7 +2,7 @@ import { toRows } from '../chain/matrix.js';
 import { pseudoCount } from '../chain/prior.js';
 import { TOOL_VERSION } from '../version.js';
 import type { FitEstimates } from './estimate.js';
-import type { Fit } from './fit.js';
+import { siteCount, type Fit } from './fit.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -37,7 +37,7 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       rows_never_left: est.mle.rowsNeverLeft.map(label),
     },
     data: {
-      sites: fit.sites.length,
+      sites: siteCount(fit),
       surveys: fit.surveys,
       transitions: fit.transitions,
       skipped_pairs: fit.skipped,
@@ -49,7 +49,8 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     },
     latest: fit.latest,
     group_column: fit.groupColumn ?? null,
-    site_counts: fit.sites,
+    // null when the fit came from pooled counts (a counts table without per-site counts).
+    site_counts: fit.pooledSites === undefined ? fit.sites : null,
     period_counts: fit.periods ?? null,
     order2_counts: fit.triples ?? null,
   };

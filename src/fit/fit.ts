@@ -1,4 +1,4 @@
-import { SereError, quote } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
 import type { LabelMapUse, SurveyTable } from '../data/survey.js';
 import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
 import { countTransitions, likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
@@ -22,7 +22,13 @@ export interface Fit {
   readonly impossible: readonly (readonly [string, string])[];
   /** Row-major k×k pooled counts, row = from. */
   readonly counts: Float64Array;
+  /** Every site's transitions, for the site bootstrap; empty when `pooledSites` is set. */
   readonly sites: SiteCountTable;
+  /**
+   * Set when the fit came from a counts table without per-site counts: how many sites it pooled.
+   * Features that resample or replay sites then say so (`needPerSite`).
+   */
+  readonly pooledSites?: number;
   readonly transitions: number;
   readonly skipped: readonly SkippedPairs[];
   /** Pairs two or more whole steps apart, by gap in steps (chain/counts.ts GapCell; absent in old fit files). */
@@ -45,36 +51,59 @@ export interface Fit {
   readonly history?: readonly MixAtTime[];
 }
 
-export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
-  const k = table.states.length;
-  const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
-  const counted = countTransitions(table, k, settings.step);
-  if (counted.transitions === 0) {
-    const guess = likelyStep(counted.skipped);
+/** What the checks of a fit's transitions need, from a survey table or a counts table. */
+export interface CountedTransitions {
+  readonly file: string;
+  readonly states: readonly string[];
+  readonly step: number;
+  readonly mask: Uint8Array;
+  readonly counts: Float64Array;
+  readonly transitions: number;
+  readonly skipped: readonly SkippedPairs[];
+  /** For each cell, the line of its first transition in `file` (0 when unknown). */
+  readonly firstLine: Float64Array;
+}
+
+/**
+ * The checks every fit's one-step counts pass, whatever they were counted from: some transitions
+ * one step apart, none declared impossible, and every state free to go somewhere.
+ */
+export function checkTransitions(c: CountedTransitions): void {
+  const k = c.states.length;
+  if (c.transitions === 0) {
+    const guess = likelyStep(c.skipped);
     throw new SereError('NO_TRANSITIONS',
-      `no two surveys of the same site are ${settings.step} time unit${settings.step === 1 ? '' : 's'} apart`,
-      { file: table.file },
-      guess !== undefined && guess !== settings.step
+      `no two surveys of the same site are ${c.step} time unit${c.step === 1 ? '' : 's'} apart`,
+      { file: c.file },
+      guess !== undefined && guess !== c.step
         ? `most surveys are ${guess} apart: try --step ${guess}`
         : 'each site needs at least two surveys one step apart');
   }
-  for (let c = 0; c < k * k; c++) {
-    if (mask[c] && counted.counts[c]! > 0) {
-      const from = table.states[Math.floor(c / k)];
-      const to = table.states[c % k];
+  for (let cell = 0; cell < k * k; cell++) {
+    if (c.mask[cell] && c.counts[cell]! > 0) {
+      const from = c.states[Math.floor(cell / k)];
+      const to = c.states[cell % k];
       throw new SereError('IMPOSSIBLE_OBSERVED',
-        `transition ${quote(`${from}>${to}`)} is declared impossible but observed ${counted.counts[c]} times (first ending here)`,
-        { file: table.file, line: counted.firstLine[c] }, `check these surveys, or drop ${quote(`${from}>${to}`)} from the impossible list`);
+        `transition ${quote(`${from}>${to}`)} is declared impossible but observed ${c.counts[cell]} times (first ending here)`,
+        { file: c.file, ...(c.firstLine[cell] ? { line: c.firstLine[cell] } : {}) },
+        `check these surveys, or drop ${quote(`${from}>${to}`)} from the impossible list`);
     }
   }
   for (let i = 0; i < k; i++) {
     let allowed = 0;
-    for (let j = 0; j < k; j++) allowed += mask[i * k + j] ? 0 : 1;
+    for (let j = 0; j < k; j++) allowed += c.mask[i * k + j] ? 0 : 1;
     if (allowed === 0) {
-      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of ${quote(table.states[i]!)} is declared impossible`,
-        { path: 'impossible' }, `allow at least ${quote(`${table.states[i]}>${table.states[i]}`)} (staying put)`);
+      throw new SereError('ROW_ALL_IMPOSSIBLE', `every transition out of ${quote(c.states[i]!)} is declared impossible`,
+        { path: 'impossible' }, `allow at least ${quote(`${c.states[i]}>${c.states[i]}`)} (staying put)`);
     }
   }
+}
+
+export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
+  const k = table.states.length;
+  const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
+  const counted = countTransitions(table, k, settings.step);
+  checkTransitions({ file: table.file, states: table.states, step: settings.step, mask, ...counted });
   let firstTime = Infinity;
   for (let n = 0; n < table.rows.count; n++) firstTime = Math.min(firstTime, table.rows.time[n]!);
   return {
@@ -99,6 +128,22 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     groupColumn: settings.columns.group,
     history: surveyedMixes(table.rows, k),
   };
+}
+
+/** How many sites a fit rests on, with or without their per-site counts. */
+export function siteCount(fit: Fit): number {
+  return fit.pooledSites ?? fit.sites.length;
+}
+
+/**
+ * Refuse, in one line with the fix, a feature that needs each site's own counts (the site
+ * bootstrap, a hindcast, scoring by site) when the fit pooled them away (a counts table counted
+ * without --per-site).
+ */
+export function needPerSite(fit: Fit, feature: string, place: Place = { file: fit.input.file }): void {
+  if (fit.pooledSites === undefined) return;
+  throw new SereError('NO_SITE_COUNTS', `${feature} needs each site's counts, and this fit has only pooled counts`, place,
+    'count again with sere count --per-site, or use the survey table itself');
 }
 
 /**

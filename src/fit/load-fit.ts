@@ -2,6 +2,7 @@ import { SereError } from '../errors.js';
 import type { KeyPath } from '../data/read-structured.js';
 import { readJsonStructured } from '../data/read-json.js';
 import type { Fit } from './fit.js';
+import { SiteCountTable } from '../chain/site-counts.js';
 import { fitFileSchema } from './fit-file-schema.js';
 import { checkFitFile } from './check-fit-file.js';
 
@@ -19,7 +20,9 @@ export function loadFit(file: string): Fit {
     prior,
     impossible: checked.impossible,
     counts: checked.counts,
-    sites: checked.sites,
+    ...(typeof checked.sites === 'number'
+      ? { sites: SiteCountTable.fromList(checked.states.length, []), pooledSites: checked.sites }
+      : { sites: checked.sites }),
     transitions: checked.transitions,
     skipped: f.data.skipped_pairs,
     gapCounts: checked.gapCounts,

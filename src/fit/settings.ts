@@ -8,6 +8,11 @@ import type { PriorSpec } from '../chain/prior.js';
 /** Everything that decides a fit besides the survey table itself. */
 export interface FitSettings {
   readonly step: number;
+  /**
+   * The step was not given (a flag's or scenario's default): a counts table's own step is used
+   * then, while a step that was given must match it.
+   */
+  readonly stepDefaulted?: boolean;
   readonly prior: PriorSpec;
   readonly states?: readonly string[];
   /** Transitions declared impossible (structural zeros), as [from, to] labels. */

@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import type { CheckResult } from '../diagnostics/check.js';
 import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
@@ -15,7 +16,7 @@ export function checkJson(r: CheckResult): object {
     format: 'sere-check',
     format_version: 1,
     tool_version: TOOL_VERSION,
-    data: { file: fit.input.file, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
+    data: { file: fit.input.file, sha256: fit.input.sha256, sites: siteCount(fit), transitions: fit.transitions },
     states,
     level: r.settings.level,
     posterior_draws: r.settings.draws,

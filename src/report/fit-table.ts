@@ -1,5 +1,5 @@
 import type { ChalkInstance } from 'chalk';
-import type { Fit } from '../fit/fit.js';
+import { siteCount, type Fit } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
 import { count, fitSites, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
@@ -71,7 +71,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
     lines.push('', ...priorSensitivityLines(states, priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.longRun] })),
       ['long-run share'], style));
   }
-  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, fit.sites.length)})`));
+  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
 }

@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import type { ForecastResult } from '../engine/forecast.js';
 import { TOOL_VERSION } from '../version.js';
 import { SENSITIVITY_PRIORS } from '../engine/prior-sensitivity.js';
@@ -21,7 +22,7 @@ export function scenarioJson(r: ForecastResult): object {
     name: sc.name,
     file: sc.file,
     sha256: sc.sha256,
-    data: { file: fit.input.file, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions },
+    data: { file: fit.input.file, sha256: fit.input.sha256, sites: siteCount(fit), transitions: fit.transitions },
     states: fit.states,
     step: fit.step,
     uncertainty: { source: sc.source, draws: r.draws, seed: r.seed },

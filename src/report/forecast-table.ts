@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
 import { count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
@@ -17,7 +18,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
-    ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`
+    ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
     : `start: ${sc.start.year}, shares given in the scenario`);
   for (const t of sc.treatments) lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the area` : ''})`);
   for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope)`);

@@ -1,3 +1,4 @@
+import { siteCount, type Fit } from '../fit/fit.js';
 import type { Band } from '../engine/quantiles.js';
 
 /** A share as a whole percent; shares under half a percent but above zero show as "<1". */
@@ -54,7 +55,8 @@ export function signed(x: number, digits?: number): string {
   return `${x > 0 ? '+' : '−'}${size}`;
 }
 
-/** How many sites a fit lists, or that it holds counts only (a raster stack: no per-site data). */
-export function fitSites(fit: { readonly sites: { readonly length: number }; readonly transitions: number }): string {
-  return fit.sites.length === 0 && fit.transitions > 0 ? 'counts only (no per-site data)' : count(fit.sites.length, 'site');
+/** How many sites a fit rests on, and whether it pooled their counts (a counts table or a raster stack). */
+export function fitSites(fit: Fit): string {
+  const n = siteCount(fit);
+  return fit.pooledSites === undefined ? count(n, 'site') : `${count(n, 'site')} (pooled counts, no per-site data)`;
 }

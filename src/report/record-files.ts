@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import { fitToJson } from '../fit/fit-json.js';
 import type { SeasonRun } from '../workspace/season.js';
 import { stemOf } from '../workspace/record-names.js';
@@ -37,7 +38,7 @@ export async function recordFiles(run: SeasonRun): Promise<Map<string, string | 
     files.set(`charts/differences/${stemOf(file)}.svg`,
       await renderSvg(differenceChartSpec(comparison, `${ws.name}: ${stemOf(file)} — differences from the baseline`)));
   }
-  const data = { files: ws.surveys, sha256: fit.input.sha256, sites: fit.sites.length, transitions: fit.transitions };
+  const data = { files: ws.surveys, sha256: fit.input.sha256, sites: siteCount(fit), transitions: fit.transitions };
   const { seasonReportHtml } = await import('./season-report.js');
   files.set('report.html', seasonReportHtml({
     workspace: ws.name, date: run.date, toolVersion: TOOL_VERSION, previous: run.previous, data, states: fit.states,

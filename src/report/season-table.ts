@@ -1,3 +1,4 @@
+import { siteCount } from '../fit/fit.js';
 import type { ChalkInstance } from 'chalk';
 import type { SeasonRun } from '../workspace/season.js';
 import { count, levelLabel, percentBand, signed } from './numbers.js';
@@ -10,7 +11,7 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
   const { fit } = run;
   const lines: string[] = [];
   lines.push(style.bold(`${workspace}: season record written to ${recordPath}`));
-  lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} · ` +
+  lines.push(`data: ${fit.input.file} · ${count(siteCount(fit), 'site')} · ${count(fit.transitions, 'transition')} · ` +
     `latest survey ${fit.latest.time} · sha256 ${fit.input.sha256.slice(0, 12)}…`);
   lines.push(...dataWarnings(fit, style));
   for (const { file, results } of run.forecasts) {

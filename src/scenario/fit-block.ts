@@ -18,6 +18,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   return {
     places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
     step: block.step ?? DEFAULT_FIT_SETTINGS.step,
+    ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
     states: block.states,
     impossible: parseImpossible(block.impossible ?? [], impossiblePlace),

@@ -4,7 +4,7 @@ import { fitSettingsOf } from './fit-block.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
-import { fitMask, type Fit } from '../fit/fit.js';
+import { fitMask, needPerSite, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -47,6 +47,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     throw new SereError(code, what, locate(path), hint);
   };
   const fit = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
+  if (s.uncertainty.source === 'bootstrap') needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);
@@ -141,7 +142,7 @@ function fitOfData(s: ScenarioFile, file: string,
   fail: (code: 'BAD_SCENARIO', what: string, path: KeyPath, hint: string) => never, locate: (path: KeyPath) => Place,
   rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (s.data === undefined) {
-    return fail('BAD_SCENARIO', 'data is required: name a fit file (.json) or survey table (.csv)', ['data'],
+    return fail('BAD_SCENARIO', 'data is required: name a fit file (.json), or a survey table or counts table (.csv)', ['data'],
       'add "data: surveys.csv" (relative to this file), or run the scenario from a workspace');
   }
   // Relative to the scenario file; shown and recorded relative to the working folder, so output

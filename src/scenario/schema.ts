@@ -141,9 +141,9 @@ export const scenarioSchema = z.strictObject({
   /** Shown in every table; default: the file name. */
   name: z.string().min(1).optional(),
   description: z.string().optional(),
-  /** A fit file from `sere fit --out` (.json) or a survey table (.csv) fitted on the fly. Required. */
-  data: z.string({ error: 'data must name a fit file (.json) or survey table (.csv)' }).min(1).optional()
-    .describe('A fit file from sere fit --out (.json), a survey table (.csv) or a raster stack file (.yaml: one classified GeoTIFF per year), relative to this file. Required, except in a workspace, whose surveys are used.'),
+  /** A fit file from `sere fit --out` (.json), a survey table or counts table (.csv) fitted on the fly, or a raster stack (.yaml). Required. */
+  data: z.string({ error: 'data must name a fit file (.json), a survey table or counts table (.csv), or a raster stack (.yaml)' }).min(1).optional()
+    .describe('A fit file from sere fit --out (.json), a survey table or a counts table from sere count (.csv), or a raster stack file (.yaml: one classified GeoTIFF per year), relative to this file. Required, except in a workspace, whose surveys are used.'),
   fit: fitSettingsSchema.optional(),
   uncertainty: z.strictObject({
     /** Default posterior. */

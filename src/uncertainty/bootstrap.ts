@@ -1,5 +1,4 @@
-import { fitMle, type Fit } from '../fit/fit.js';
-import { SereError } from '../errors.js';
+import { fitMle, needPerSite, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
 
@@ -32,7 +31,7 @@ export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): M
 
 /** `count` bootstrap matrices into `data` from `offset` (in numbers); returns how many resampled rows were empty. */
 export function bootstrapInto(fit: Fit, count: number, random: RandomStream, data: Float64Array, offset: number): number {
-  needsSites(fit, 'the site bootstrap');
+  needPerSite(fit, 'the site bootstrap');
   const k = fit.states.length;
   const full = fitMle(fit).p;
   const resampled = new Float64Array(k * k);
@@ -65,15 +64,4 @@ export function bootstrapNotes(fit: Fit, emptyRows: number): string[] {
       `below ${BOOTSTRAP_FEW_SITES} sites (README, the scenario file's uncertainty sources); compare with source: posterior and its prior-sensitivity lines`);
   }
   return notes;
-}
-
-/**
- * A fit from counts alone (a raster stack: transitions but no per-site counts) cannot resample
- * sites: say so in one line rather than resample nothing.
- */
-export function needsSites(fit: Fit, what: string): void {
-  if (fit.sites.length === 0 && fit.transitions > 0) {
-    throw new SereError('NEEDS_SITES', `${what} needs per-site data, and this fit has counts only (${fit.input.file})`, { file: fit.input.file },
-      'use source: posterior (or point), or fit a survey table with one row per site and survey');
-  }
 }

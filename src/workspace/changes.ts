@@ -1,4 +1,4 @@
-import { fitMle, type Fit } from '../fit/fit.js';
+import { fitMle, siteCount, type Fit } from '../fit/fit.js';
 import type { ForecastResult } from '../engine/forecast.js';
 
 /** What a record keeps of a forecast, as read back from its JSON. */
@@ -108,7 +108,7 @@ export function changesSince(previous: string, before: { chain: Fit; forecasts: 
     format_version: 2,
     previous,
     dataChanged: earlier.input.sha256 !== fit.input.sha256,
-    sites: { before: earlier.sites.length, now: fit.sites.length },
+    sites: { before: siteCount(earlier), now: siteCount(fit) },
     transitions: { before: earlier.transitions, now: fit.transitions },
     forecasts,
     moved: moved.filter((m) => m.now !== m.before).slice(0, MOVED_SHOWN),

@@ -143,7 +143,7 @@ describe('probability maps (sere forecast --maps)', () => {
     const boot = scenario(plain, 'boot.yaml', 'horizon: { steps: 2 }\nuncertainty: { source: bootstrap, draws: 50, seed: 3 }\n');
     const refused = await sereInProcess(['forecast', boot, '--debug']);
     expect(refused.code).toBe(1);
-    expect(refused.stderr).toContain('[NEEDS_SITES]');
+    expect(refused.stderr).toContain('[NO_SITE_COUNTS]');
     const stormy = scenario(plain, 'stormy.yaml', 'horizon: { steps: 2 }\nevents: [{ name: fire, chance: 0.1, matrix: { heath: { bare: 1 } } }]\n');
     const noMaps = relative(process.cwd(), join(plain, 'stormy-maps'));
     const t = await sereInProcess(['forecast', stormy, '--maps', noMaps, '--debug']);

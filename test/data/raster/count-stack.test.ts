@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { writeFileSync } from 'node:fs';
 import { countRasterStack } from '../../../src/data/raster/count-stack.js';
 import { fitRasterCounts } from '../../../src/fit/fit-from-raster.js';
-import { fitSurvey, type Fit } from '../../../src/fit/fit.js';
+import { fitSurvey, siteCount, type Fit } from '../../../src/fit/fit.js';
 import { readSurveyCsv } from '../../../src/data/read-survey-csv.js';
 import { groupOf } from '../../../src/fit/fit-from-file.js';
 import { DEFAULT_COLUMNS } from '../../../src/data/survey.js';
@@ -28,6 +28,7 @@ function comparable(fit: Fit): object {
   return {
     states: fit.states, counts: Array.from(fit.counts), transitions: fit.transitions, skipped: fit.skipped, gapCounts: fit.gapCounts,
     surveys: fit.surveys, firstTime: fit.firstTime, latest: fit.latest, history: fit.history, periods: fit.periods,
+    sites: siteCount(fit),
     triples: [...(fit.triples ?? [])].sort((a, b) => a[0] - b[0] || a[1] - b[1] || a[2] - b[2]),
   };
 }

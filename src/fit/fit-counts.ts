@@ -1,0 +1,151 @@
+import { SereError, quote } from '../errors.js';
+import { compareCodePoints } from '../data/code-points.js';
+import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import type { GapCell, PeriodCounts, SkippedPairs } from '../chain/counts.js';
+import type { MixAtTime } from '../chain/latest-mix.js';
+import { SiteCountBuilder, type SiteCountTable } from '../chain/site-counts.js';
+import { impossibleMask, type FitSettings } from './settings.js';
+import { checkTransitions, type Fit } from './fit.js';
+
+/** The column name a fit from a counts table reports for its groups, unless the settings name one. */
+export const COUNTS_GROUP_COLUMN = 'site_group';
+
+/**
+ * A fit from a counts table (`sere count`, or `sere count --sql` run elsewhere). The counts are
+ * the sufficient statistics, so everything a survey-table fit computes from counts comes out the
+ * same — counts, skipped pairs, pairs by gap, periods, the surveyed mix at every time, and, with
+ * per-site counts, the site table the bootstrap resamples. What needs runs of surveys (the order
+ * test's triples) or the rows themselves (a hindcast) is absent, and those features say so.
+ */
+export function fitCounts(table: CountsTable, given: FitSettings): Fit {
+  const settings = given.stepDefaulted ? { ...given, step: table.step } : given;
+  if (settings.step !== table.step) {
+    throw new SereError('BAD_OPTION', `the counts table was counted with steps of ${unitsOf(table.step)}, not ${settings.step}`,
+      { file: table.file, path: '--step' }, `fit with --step ${table.step}, or count the survey table again with --step ${settings.step}`);
+  }
+  const cells = settings.group === undefined ? table.cells : groupCells(table.cells, table, settings.group);
+  const siteCells = settings.group === undefined ? table.siteCells : table.siteCells?.filter((c) => c.group === settings.group);
+  const { states, step } = table;
+  const k = states.length;
+  const mask = impossibleMask(settings.impossible, states, settings.places?.impossible ?? { path: '--impossible' });
+  const counts = new Float64Array(k * k);
+  const firstLine = new Float64Array(k * k);
+  const skipped = new Map<number, number>();
+  const byGap = new Map<string, number>();
+  const periods = new Map<number, Float64Array>();
+  const history = new Map<number, number[]>();
+  let transitions = 0;
+  let surveys = 0;
+  let pooledSites = 0;
+  for (const c of cells) {
+    surveys += c.n;
+    const mix = history.get(c.time) ?? new Array<number>(k).fill(0);
+    mix[c.to]! += c.n;
+    history.set(c.time, mix);
+    if (c.from === FIRST_SURVEY) {
+      pooledSites += c.n;
+      continue;
+    }
+    if (c.gap !== 1) {
+      // Back to time units, as a survey-table fit reports them (the gap may be a rounded fraction).
+      const dt = Math.round(c.gap * step);
+      skipped.set(dt, (skipped.get(dt) ?? 0) + c.n);
+      if (Number.isInteger(c.gap) && c.gap >= 2) {
+        const key = `${c.gap} ${c.from} ${c.to}`;
+        byGap.set(key, (byGap.get(key) ?? 0) + c.n);
+      }
+      continue;
+    }
+    const cell = c.from * k + c.to;
+    counts[cell] += c.n;
+    transitions += c.n;
+    if (c.line > 0 && (firstLine[cell] === 0 || c.line < firstLine[cell]!)) firstLine[cell] = c.line;
+    let period = periods.get(c.time - step);
+    if (period === undefined) periods.set(c.time - step, period = new Float64Array(k * k));
+    period[cell] += c.n;
+  }
+  const skippedList: SkippedPairs[] = [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  checkTransitions({ file: table.file, states, step, mask, counts, transitions, skipped: skippedList, firstLine });
+  const mixes: MixAtTime[] = [...history].sort((a, b) => a[0] - b[0])
+    .map(([time, c]) => ({ time, counts: c, sites: c.reduce((a, b) => a + b, 0) }));
+  const latest = mixes[mixes.length - 1]!;
+  const gapCounts: GapCell[] = [...byGap].map(([key, n]) => {
+    const [gap, from, to] = key.split(' ').map(Number) as [number, number, number];
+    return [from, to, gap, n] as const;
+  }).sort((a, b) => a[2] - b[2] || a[0] - b[0] || a[1] - b[1]);
+  const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => {
+    const list: [number, number, number][] = [];
+    dense.forEach((n, cell) => { if (n > 0) list.push([Math.floor(cell / k), cell % k, n]); });
+    return { time, cells: list };
+  });
+  const sites = siteCells ? siteTable(siteCells, k, table, counts) : new SiteCountBuilder(k, false).table();
+  return {
+    input: { file: table.file, sha256: table.sha256 },
+    states,
+    step,
+    prior: settings.prior,
+    impossible: settings.impossible,
+    counts,
+    sites,
+    ...(siteCells ? {} : { pooledSites }),
+    transitions,
+    skipped: skippedList,
+    gapCounts,
+    repeatedRows: table.repeatedRows,
+    surveys,
+    firstTime: mixes[0]!.time,
+    latest: { time: latest.time, counts: latest.counts, shares: latest.counts.map((c) => c / latest.sites), sites: latest.sites },
+    periods: periodList,
+    ...(table.grouped ? { groupColumn: settings.columns.group ?? COUNTS_GROUP_COLUMN } : {}),
+    history: mixes,
+  };
+}
+
+function groupCells(cells: readonly CountCell[], table: CountsTable, group: string): CountCell[] {
+  if (!table.grouped) {
+    throw new SereError('BAD_OPTION', `fitting group ${quote(group)} needs a counts table counted by group`, { file: table.file },
+      'count the survey table again with --group-column');
+  }
+  const selected = cells.filter((c) => c.group === group);
+  if (selected.length === 0) {
+    const groups = [...new Set(cells.map((c) => c.group!))].sort(compareCodePoints);
+    throw new SereError('BAD_OPTION', `no rows with site_group = ${quote(group)}`, { file: table.file }, `use one of: ${groups.join(', ')}`);
+  }
+  return selected;
+}
+
+/**
+ * The site bootstrap's table from per-site cells: every site (each has a first survey), in
+ * code-point order, with its one-step cells in cell order. The per-site counts must add up to the
+ * pooled ones — a hand-edited file that breaks this is refused rather than bootstrapped.
+ */
+function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable, counts: Float64Array): SiteCountTable {
+  const bySite = new Map<string, SiteCell[]>();
+  for (const c of siteCells) {
+    const list = bySite.get(c.site);
+    if (list) list.push(c); else bySite.set(c.site, [c]);
+  }
+  const builder = new SiteCountBuilder(k, table.grouped);
+  const total = new Float64Array(k * k);
+  for (const id of [...bySite.keys()].sort(compareCodePoints)) {
+    const dense = new Map<number, number>();
+    for (const c of bySite.get(id)!) {
+      if (c.from === FIRST_SURVEY || c.gap !== 1) continue;
+      dense.set(c.from * k + c.to, (dense.get(c.from * k + c.to) ?? 0) + c.n);
+    }
+    for (const cell of [...dense.keys()].sort((a, b) => a - b)) {
+      builder.cell(cell, dense.get(cell)!);
+      total[cell] += dense.get(cell)!;
+    }
+    builder.endSite(id, table.grouped ? bySite.get(id)![0]!.group : undefined);
+  }
+  if (total.some((n, c) => n !== counts[c])) {
+    throw new SereError('BAD_COUNTS', 'the per-site counts do not add up to the pooled counts', { file: table.file },
+      'count the survey table again with sere count --per-site (do not edit a counts table by hand)');
+  }
+  return builder.table();
+}
+
+function unitsOf(step: number): string {
+  return `${step} time unit${step === 1 ? '' : 's'}`;
+}

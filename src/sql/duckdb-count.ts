@@ -1,0 +1,245 @@
+import { closeSync, mkdtempSync, openSync, readSync, rmSync } from 'node:fs';
+import { parse } from 'csv-parse/sync';
+import { tmpdir } from 'node:os';
+import { extname, join } from 'node:path';
+import { DuckDBInstance, DuckDBPendingResultState, type DuckDBConnection } from '@duckdb/node-api';
+import { SereError, quote } from '../errors.js';
+import { compareCodePoints } from '../data/code-points.js';
+import { FIRST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { labelProblem, MAX_LABEL_LENGTH } from '../data/labels.js';
+import { StateLabels } from '../data/states.js';
+import { checkRegularFile } from '../data/read-text-file.js';
+import type { SurveyColumns } from '../data/survey.js';
+import { columnIndex } from '../data/survey-header.js';
+import { countingSql } from './count-query.js';
+
+export interface DuckDbCountOptions {
+  readonly columns: SurveyColumns;
+  readonly step: number;
+  readonly states?: readonly string[];
+  readonly perSite: boolean;
+  /** Called with the fraction done of the counting query (tests and the CLI's bar). */
+  readonly onProgress?: (fraction: number) => void;
+}
+
+const WHAT = 'survey table';
+
+/**
+ * Count survey tables (CSV or Parquet, several read as one) with embedded DuckDB: out of core,
+ * on every core, for tables too big to hold. The counting itself is the portable query of
+ * count-query.ts, run over a view that reads the files and normalises the columns as the
+ * in-process reader does (trimmed, labels in NFC, times whole numbers). The checks give the same
+ * outcomes (error codes) as the in-process reader: empty values, times that are not whole,
+ * labels with invisible characters or too long (labels.ts), states as states.ts decides them, and
+ * a site surveyed twice at one time in two states; exact repeats are dropped and counted.
+ * Messages name the file and the site and time (DuckDB does not keep line numbers).
+ */
+export async function countWithDuckDb(files: readonly string[], options: DuckDbCountOptions): Promise<CountsTable> {
+  for (const f of files) checkRegularFile(f, WHAT);
+  // Out of core: when the window's sort outgrows DuckDB's memory limit (80% of RAM unless set), it
+  // spills to this folder — a fresh one under the system's temp folder, never the working folder.
+  const spill = mkdtempSync(join(tmpdir(), 'sere-duckdb-'));
+  const instance = await DuckDBInstance.create(':memory:', { temp_directory: spill });
+  const db = await instance.connect();
+  try {
+    await db.run('SET preserve_insertion_order = false; SET enable_progress_bar = true; SET enable_progress_bar_print = false');
+    for (const f of files) await checkColumns(db, f, options.columns);
+    const g = options.columns.group !== undefined;
+    // Trimmed of what the in-process reader trims: JavaScript's String.prototype.trim white space.
+    const text = (column: string): string => `trim(CAST(${q(column)} AS VARCHAR), ${literal(JS_WHITE_SPACE)})`;
+    await db.run(`CREATE VIEW sere_surveys AS SELECT
+      nfc_normalize(${text(options.columns.site)}) AS site,
+      ${text(options.columns.time)} AS time_text,
+      -- Whole numbers only, as parse-time.ts reads them (TRY_CAST alone would round '2.5').
+      CASE WHEN regexp_full_match(${text(options.columns.time)}, '[+-]?[0-9]+') THEN TRY_CAST(${text(options.columns.time)} AS BIGINT) END AS time,
+      nfc_normalize(${text(options.columns.state)}) AS state
+      ${g ? `, nfc_normalize(${text(options.columns.group!)}) AS site_group` : ''}
+      FROM ${source(files)}`);
+    const fileNames = files.join(', ');
+    const rows = await checkRows(db, fileNames, g, options);
+    const sql = countingSql({ table: 'sere_surveys', columns: { site: 'site', time: 'time', state: 'state', ...(g ? { group: 'site_group' } : {}) }, step: options.step, perSite: options.perSite });
+    const result = await withProgress(db, sql, options);
+    const index = new Map(rows.states.map((s, i) => [s, i] as const));
+    const cells: CountCell[] = [];
+    const siteCells: SiteCell[] = [];
+    let repeated = 0;
+    for (const r of result) {
+      const from = r.from_state === null ? FIRST_SURVEY : index.get(String(r.from_state))!;
+      const to = index.get(String(r.to_state))!;
+      const gap = r.gap === null ? 0 : Number(r.gap);
+      const n = Number(r.n);
+      const group = g ? { group: String(r.site_group) } : {};
+      const pooled = !options.perSite || r.site === null || r.site === undefined;
+      if (from !== FIRST_SURVEY && gap === 0) {
+        // An exact repeat (count-query.ts): used once. Two states at one time: refused.
+        if (from !== to) await contradiction(db, fileNames);
+        if (pooled) repeated += n;
+        continue;
+      }
+      if (!pooled) {
+        siteCells.push({ site: String(r.site), ...group, from, to, gap, n, line: 0 });
+        continue;
+      }
+      cells.push({ ...group, from, to, gap, time: Number(r.to_time), n, line: 0 });
+    }
+    sortSiteCells(siteCells);
+    return {
+      file: fileNames, sha256: '', states: rows.states, step: options.step, grouped: g,
+      cells: sortCells(cells), ...(options.perSite ? { siteCells } : {}), repeatedRows: repeated,
+    };
+  } finally {
+    db.closeSync();
+    instance.closeSync();
+    rmSync(spill, { recursive: true, force: true });
+  }
+}
+
+/** The characters String.prototype.trim removes (ECMAScript WhiteSpace and LineTerminator). */
+const JS_WHITE_SPACE = ' \t\n\v\f\r\u00a0\u1680\u2000\u2001\u2002\u2003\u2004\u2005\u2006\u2007\u2008\u2009\u200a\u2028\u2029\u202f\u205f\u3000\ufeff';
+
+/** A double-quoted DuckDB identifier (column names are the user's, any text). */
+function q(name: string): string {
+  return `"${name.replace(/"/g, '""')}"`;
+}
+
+/** A single-quoted SQL string. */
+function literal(text: string): string {
+  return `'${text.replace(/'/g, "''")}'`;
+}
+
+function isParquet(file: string): boolean {
+  return extname(file).toLowerCase() === '.parquet';
+}
+
+/** Every file as text columns (CSV) or as stored (Parquet), CSV and Parquet files together. */
+function source(files: readonly string[]): string {
+  const csv = files.filter((f) => !isParquet(f));
+  const parquet = files.filter(isParquet);
+  const parts = [
+    // Commas and double quotes only, as the in-process reader: DuckDB would otherwise sniff a semicolon file as valid.
+    ...(csv.length ? [`SELECT * FROM read_csv([${csv.map(literal).join(', ')}], header = true, all_varchar = true, union_by_name = true, delim = ',', quote = '"', escape = '"')`] : []),
+    ...(parquet.length ? [`SELECT * FROM read_parquet([${parquet.map(literal).join(', ')}], union_by_name = true)`] : []),
+  ];
+  return parts.length === 1 ? `(${parts[0]})` : `(${parts.join(' UNION ALL BY NAME ')})`;
+}
+
+/** Each file has the named columns: else one line naming the file and the missing column. */
+async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyColumns): Promise<void> {
+  // A CSV header is checked as the in-process reader checks it (survey-header.ts): the same
+  // errors for a missing or repeated column, a semicolon file, with the line.
+  if (!isParquet(file)) columnIndex(file, csvHeader(file), 1, columns);
+  let names: string[];
+  try {
+    const described = await db.runAndReadAll(`DESCRIBE SELECT * FROM ${source([file])}`);
+    names = described.getRowObjects().map((r) => String(r['column_name']));
+  } catch (err) {
+    throw new SereError('NOT_CSV', `DuckDB cannot read it as ${isParquet(file) ? 'Parquet' : 'CSV'} (${(err as Error).message.split('\n')[0]!.slice(0, 160)})`,
+      { file }, isParquet(file) ? 'check that the file is a Parquet file' : 'save the survey table as comma-separated values with a header row');
+  }
+  const wanted: [string, string | undefined][] = [['site', columns.site], ['time', columns.time], ['state', columns.state], ['group', columns.group]];
+  for (const [role, name] of wanted) {
+    if (name !== undefined && !names.includes(name)) {
+      throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (columns: ${names.map(quote).join(', ')})`, { file },
+        `name the column that holds the ${role} with --${role}-column`);
+    }
+  }
+}
+
+interface RowCheck {
+  readonly states: readonly string[];
+}
+
+/**
+ * One pass over the rows for what the in-process reader checks row by row: empty values, times,
+ * site and group labels; and the distinct states, decided by states.ts as for any survey table.
+ */
+async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, options: DuckDbCountOptions): Promise<RowCheck> {
+  // Only printable ASCII up to the length limit is surely fine; the rest (rare) are checked by labels.ts.
+  // Measured on 10⁷ rows: 0.3 s, where a \p{Cc}\p{Cf} regular expression on every row took 1.2 s.
+  const suspect = (column: string): string => `(strlen(${column}) > ${MAX_LABEL_LENGTH} OR NOT (${column} SIMILAR TO '[ -~]*'))`;
+  const empty = `(site IS NULL OR site = '' OR time_text IS NULL OR time_text = '' OR state IS NULL OR state = ''${grouped ? " OR site_group IS NULL OR site_group = ''" : ''})`;
+  const summary = await db.runAndReadAll(`SELECT state, ${grouped ? 'site_group' : 'NULL AS site_group'}, COUNT(*) AS n,
+    COUNT(*) FILTER (WHERE ${empty}) AS empty,
+    COUNT(*) FILTER (WHERE NOT ${empty} AND time IS NULL) AS bad_time,
+    COUNT(*) FILTER (WHERE ${suspect('site')}) AS suspect_site
+    FROM sere_surveys GROUP BY ALL`);
+  const rows = summary.getRowObjects();
+  const sum = (key: string): number => rows.reduce((a, r) => a + Number(r[key]), 0);
+  if (sum('empty') > 0) {
+    const example = await one(db, `SELECT site, time_text, state FROM sere_surveys WHERE ${empty} LIMIT 1`);
+    const which = !example['site'] ? options.columns.site : !example['time_text'] ? options.columns.time : !example['state'] ? options.columns.state : options.columns.group!;
+    throw new SereError('EMPTY_VALUE', `${sum('empty')} row${sum('empty') === 1 ? ' has' : 's have'} no ${which}${example['site'] ? ` (site ${quote(String(example['site']))})` : ''}`,
+      { file }, `fill in the ${which} of every row, or remove the rows`);
+  }
+  if (sum('bad_time') > 0) {
+    const example = await one(db, 'SELECT site, time_text FROM sere_surveys WHERE time IS NULL LIMIT 1');
+    throw new SereError('BAD_TIME', `time ${quote(String(example['time_text']))} of site ${quote(String(example['site']))} is not a whole number`,
+      { file }, 'write survey times as whole numbers (years, or season numbers)');
+  }
+  if (sum('suspect_site') > 0) {
+    const suspects = await db.runAndReadAll(`SELECT DISTINCT site FROM sere_surveys WHERE ${suspect('site')} ORDER BY site`);
+    for (const [value] of suspects.getRows()) {
+      const site = String(value);
+      const problem = labelProblem(site, () => `site ${quote(site)}`);
+      if (problem) throw new SereError(problem.code, problem.what, { file }, problem.hint);
+    }
+  }
+  const labels = new StateLabels(file, options.states);
+  for (const state of [...new Set(rows.map((r) => String(r['state'])))].sort(compareCodePoints)) labels.see(state, 0, 0);
+  if (grouped) {
+    for (const group of new Set(rows.map((r) => String(r['site_group'])))) {
+      const problem = labelProblem(group, () => `group ${quote(group)}`);
+      if (problem) throw new SereError(problem.code, problem.what, { file }, problem.hint);
+    }
+  }
+  return { states: labels.finish().states };
+}
+
+/** The first site surveyed twice at one time in two states, as the in-process reader refuses it. */
+async function contradiction(db: DuckDBConnection, file: string): Promise<never> {
+  const r = await one(db, `SELECT site, time, MIN(state) AS a, MAX(state) AS b FROM (SELECT DISTINCT site, time, state FROM sere_surveys)
+    GROUP BY site, time HAVING COUNT(*) > 1 ORDER BY site, time LIMIT 1`);
+  throw new SereError('DUPLICATE_SURVEY', `site ${quote(String(r['site']))} at time ${String(r['time'])} is ${quote(String(r['a']))} in one row and ${quote(String(r['b']))} in another`,
+    { file }, 'keep one of the two rows');
+}
+
+async function one(db: DuckDBConnection, sql: string): Promise<Record<string, unknown>> {
+  return (await db.runAndReadAll(sql)).getRowObjects()[0] as Record<string, unknown>;
+}
+
+/**
+ * Run the counting query task by task, reporting DuckDB's own estimate of the fraction done
+ * (query_progress) between tasks, so a bar can move while a 10⁸-row count runs.
+ */
+async function withProgress(db: DuckDBConnection, sql: string, options: DuckDbCountOptions): Promise<Record<string, unknown>[]> {
+  const pending = await db.start(sql);
+  let last = -1;
+  for (;;) {
+    const state = pending.runTask();
+    if (state === DuckDBPendingResultState.RESULT_READY) break;
+    const fraction = db.progress.percentage / 100;
+    if (fraction >= 0 && fraction - last >= 0.01) {
+      last = fraction;
+      options.onProgress?.(fraction);
+    }
+    // Let the event loop breathe (and DuckDB's threads work) between tasks.
+    if (state === DuckDBPendingResultState.NO_TASKS_AVAILABLE) await new Promise((r) => setTimeout(r, 5));
+  }
+  options.onProgress?.(1);
+  const result = await pending.getResult();
+  return (await result.getRowObjects()) as Record<string, unknown>[];
+}
+
+/** The header fields of a CSV file: its first record, from the first MiB, as csv-parse reads it. */
+function csvHeader(file: string): string[] {
+  const fd = openSync(file, 'r');
+  try {
+    const buffer = Buffer.alloc(1 << 20);
+    const bytes = readSync(fd, buffer, 0, buffer.length, 0);
+    const text = buffer.subarray(0, bytes).toString('utf8');
+    const [first] = parse(text, { bom: true, trim: true, to_line: 1, skip_empty_lines: true, relax_column_count: true }) as string[][];
+    return first ?? [];
+  } finally {
+    closeSync(fd);
+  }
+}
