@@ -64,8 +64,8 @@ export function estimateVariation(fit: Fit, random: RandomStream): RowVariation[
     if (r.cells.length < 2) return none('one-cell', informative);
     let left = 0;
     for (let j = 0; j < k; j++) if (j !== i) left += fit.counts[i * k + j]!;
-    if (left === 0) return none('never-left', informative);
     if (informative < MIN_INFORMATIVE_PERIODS) return none('few-counts', informative);
+    if (left === 0) return none('never-left', informative);
     const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
     const samples = sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream(`row:${i}`));
     const mean = new Float64Array(VARIATION_SAMPLES * k);
