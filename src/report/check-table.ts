@@ -2,7 +2,7 @@ import type { ChalkInstance } from 'chalk';
 import type { CheckResult } from '../diagnostics/check.js';
 import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
-import { count, levelLabel, percent } from './numbers.js';
+import { concentration, count, levelLabel, percent } from './numbers.js';
 import { makeTable } from './style.js';
 import { standoutLine, verdict } from './check-verdicts.js';
 
@@ -52,8 +52,8 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
     const t = makeTable(['state', 'κ posterior', 'κ most likely', 'periods', 'note'], style, ['left', 'right', 'right', 'right', 'left']);
     states.forEach((name, i) => {
       const v = r.variation![i]!;
-      const kappa = v.kappa ? `${kappaText(v.kappa.median)} [${kappaText(v.kappa.low)}–${kappaText(v.kappa.high)}]` : '—';
-      const mle = v.mle === null ? '—' : v.mle === Infinity ? '∞ (no spread beyond chance)' : kappaText(v.mle);
+      const kappa = v.kappa ? `${concentration(v.kappa.median)} [${concentration(v.kappa.low)}–${concentration(v.kappa.high)}]` : '—';
+      const mle = v.mle === null ? '—' : v.mle === Infinity ? '∞ (no spread beyond chance)' : concentration(v.mle);
       t.push([name, kappa, mle, String(v.informativePeriods), VARIATION_NOTE[v.status]]);
     });
     lines.push(t.toString());
@@ -152,9 +152,6 @@ const VARIATION_NOTE = {
   'few-counts': 'does not vary: fewer than 3 periods with two or more transitions', 'no-periods': 'no per-period counts in the fit file',
 } as const;
 
-function kappaText(x: number): string {
-  return x >= 100 ? Math.round(x).toLocaleString('en-US') : x >= 10 ? x.toFixed(0) : x.toFixed(1);
-}
 
 function testTable(reports: readonly TestReport[], style: ChalkInstance): string {
   const t = makeTable(['test', 'G²', 'X²', 'df', 'p (G²)', 'p (X²)', 'p (sim.)', 'expected < 5'], style,

@@ -1,6 +1,6 @@
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
-import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
+import { concentration, count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { firstTimeCell, targetLines } from './target-lines.js';
@@ -109,7 +109,7 @@ function variationLines(r: ForecastResult, style: ChalkInstance): string[] {
   const table = makeTable(['state', 'κ (how alike years are)', 'periods', 'note'], style, ['left', 'right', 'right', 'left']);
   r.scenario.fit.states.forEach((name, s) => {
     const v = r.variation![s]!;
-    const kappa = v.kappa ? (v.kappa.low === v.kappa.high ? concentrationText(v.kappa.median) : `${concentrationText(v.kappa.median)} [${concentrationText(v.kappa.low)}–${concentrationText(v.kappa.high)}]`) : '—';
+    const kappa = v.kappa ? (v.kappa.low === v.kappa.high ? concentration(v.kappa.median) : `${concentration(v.kappa.median)} [${concentration(v.kappa.low)}–${concentration(v.kappa.high)}]`) : '—';
     const why = v.status === 'given' && !v.kappa ? 'does not vary (not listed)' : VARIATION_WHY[v.status];
     table.push([name, kappa, v.status === 'given' ? '' : String(v.informativePeriods), why]);
   });
@@ -117,9 +117,6 @@ function variationLines(r: ForecastResult, style: ChalkInstance): string[] {
     style.dim('Small κ: years differ a lot; large κ: years are alike (κ = 100 lets a probability of 0.5 swing by about ±0.05 a year). Periods: survey periods with two or more transitions from the state.')];
 }
 
-function concentrationText(x: number): string {
-  return x >= 100 ? Math.round(x).toLocaleString('en-US') : x >= 10 ? x.toFixed(0) : x.toFixed(1);
-}
 
 /** Band width at the horizon, and what it would be with each source of uncertainty switched off. */
 function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
