@@ -48,7 +48,7 @@ export function fitWithCounts(states: string[], counts: number[][], prior: Fit['
 /** A scenario over a fit with sensible defaults, for engine tests. */
 export function scenarioFor(fit: Fit, overrides: Partial<Scenario> = {}): Scenario {
   return {
-    name: 'test', file: 'test.yaml', sha256: '', fit, source: 'posterior', draws: 500, seed: 1,
+    name: 'test', file: 'test.yaml', sha256: '', fit, source: 'posterior', variation: { kind: 'none' }, draws: 500, seed: 1,
     start: { year: 2000, shares: Float64Array.from(fit.latest.shares), from: 'latest' },
     horizonSteps: 10, showSteps: [0, 5, 10], level: 0.9, treatments: [], events: [], ...overrides,
   };

@@ -42,3 +42,9 @@ export function level(value: string): number {
 export function commaList(value: string, previous: string[] = []): string[] {
   return [...previous, ...value.split(',').map((s) => s.trim()).filter((s) => s !== '')];
 }
+
+/** `--variation`: none (the fixed-matrix chain) or estimated (from the record's survey periods). */
+export function variationFlag(value: string): 'none' | 'estimated' {
+  if (value === 'none' || value === 'estimated') return value;
+  throw new InvalidArgumentError("expected none or estimated.");
+}

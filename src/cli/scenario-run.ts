@@ -2,7 +2,9 @@ import type { Command } from 'commander';
 import { loadScenarios, type LoadOptions } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
-import { drawsFlag, seedFlag, threadsFlag } from './parse-options.js';
+import { drawsFlag, seedFlag, threadsFlag, variationFlag } from './parse-options.js';
+import { SereError } from '../errors.js';
+import { MIN_VARIATION_PERIODS, periodCount } from '../uncertainty/variation.js';
 import type { TopLevelSpec } from 'vega-lite';
 import type { Io } from './io.js';
 import { refuseExisting, writeFileAtomic } from './write-file.js';
@@ -12,6 +14,8 @@ export interface RunOptions {
   seed?: number;
   draws?: number;
   threads?: number;
+  /** Override the scenarios' year-to-year variation. */
+  variation?: 'none' | 'estimated';
   json?: boolean;
   chart?: string;
   csv?: string;
@@ -26,6 +30,7 @@ export function withRunOptions(command: Command): Command {
     .option('--seed <n>', 'random seed (overrides the scenario file)', seedFlag)
     .option('--draws <n>', 'number of matrix draws (overrides the scenario file)', drawsFlag)
     .option('--threads <n>', 'threads to run on (default: every core for large runs, one for small ones); the results are the same for any number', threadsFlag)
+    .option('--variation <none|estimated>', "year-to-year variation (overrides the scenario file): 'none' is the fixed-matrix chain", variationFlag)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .option('--chart <file.svg>', 'also draw a fan chart (SVG): shares by year with their bands, one panel per state')
     .option('--csv <file.csv>', 'also write the tidy CSV (README, "Tidy CSV"): shares in %, target chance and timing; for compare also differences and chances of more')
@@ -56,7 +61,15 @@ export function writeCsv(file: string, csv: string, force: boolean, io: Io): voi
 export function loadAndCheck(files: readonly string[], opts: RunOptions, load: LoadOptions = {}): Scenario[] {
   refuseExisting([opts.chart, opts.csv, opts.differenceChart], Boolean(opts.force));
   const scenarios = files.flatMap((file) => loadScenarios(file, load))
-    .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
+    .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s))
+    .map((s) => {
+      if (opts.variation === undefined) return s;
+      if (opts.variation === 'estimated' && periodCount(s.fit) < MIN_VARIATION_PERIODS) {
+        throw new SereError('BAD_SCENARIO', `--variation estimated needs at least ${MIN_VARIATION_PERIODS} survey periods; the record has ${periodCount(s.fit)}`,
+          { file: s.file, path: '--variation' }, 'use --variation none, or give a concentration in the scenario file');
+      }
+      return { ...s, variation: { kind: opts.variation } };
+    });
   checkScenarios(scenarios);
   return scenarios;
 }

@@ -6,6 +6,7 @@ import type { SiteCountTable } from '../chain/site-counts.js';
 import { fitMask, type Fit } from '../fit/fit.js';
 import { bootstrapPValue } from '../uncertainty/bootstrap-p-value.js';
 import type { RandomStream } from '../uncertainty/random.js';
+import { periodStandout, type PeriodStandout } from './period-standout.js';
 
 /**
  * Cochran's (1954) rule, common practice: the chi-square approximation is doubted when more than a
@@ -37,6 +38,10 @@ export interface AssumptionTests {
   readonly orderSelection: readonly OrderFit[] | null;
   readonly periods: TestReport | null;
   readonly groups: TestReport | null;
+  /** Which period differs most, and the periods test without it (period-standout.ts). */
+  readonly periodStandout: PeriodStandout | null;
+  /** Set when the periods were grouped into blocks by default (a long record with few transitions a period). */
+  readonly periodBlocks: { readonly periods: number; readonly blocks: number } | null;
   /** Why a test could not be run (no runs of three surveys, no group column, one period …). */
   readonly unavailable: readonly string[];
 }
@@ -89,10 +94,14 @@ export function assumptionTests(fit: Fit, options: TestOptions): AssumptionTests
   }
 
   let periods: TestReport | null = null;
-  const grouped = fit.periods ? groupPeriods(fit.periods, fit.step, options.periodGroups) : [];
+  let standout: PeriodStandout | null = null;
+  const ranges = options.periodGroups ?? (fit.periods ? defaultBlocks(fit.periods) : undefined);
+  const periodBlocks = !options.periodGroups && ranges ? { periods: fit.periods!.length, blocks: ranges.length } : null;
+  const grouped = fit.periods ? groupPeriods(fit.periods, fit.step, ranges) : [];
   if (grouped.length >= 2) {
     periods = report('periods', 'transition probabilities changed between survey periods',
       homogeneity(grouped.map((g) => g.cells), k), options, grouped.map((g) => g.label));
+    standout = periodStandout(grouped, k);
   } else {
     unavailable.push(fit.periods ? 'periods: fewer than two survey periods with transitions'
       : 'periods: this fit file has no per-period counts; refit from the survey table');
@@ -108,7 +117,31 @@ export function assumptionTests(fit: Fit, options: TestOptions): AssumptionTests
       ? 'groups: this fit has pooled counts only; count with sere count --per-site --group-column, or use the survey table'
       : fit.groupColumn ? 'groups: fewer than two groups with transitions' : 'groups: no group column (use --group-column)');
   }
-  return { order, orderSelection: selection, periods, groups, unavailable };
+  return { order, orderSelection: selection, periods, groups, periodStandout: standout, periodBlocks, unavailable };
+}
+
+/** At most this many blocks of periods are tested by default on a long record with few transitions a period. */
+export const MAX_PERIOD_BLOCKS = 10;
+/**
+ * Below this many transitions a period on average, and with more than MAX_PERIOD_BLOCKS periods
+ * (a daily or yearly record of one or a few sites), each period's row of the table is almost all
+ * zeros and hundreds of one-pair periods make a test with hundreds of degrees of freedom and no
+ * power: consecutive periods are grouped into MAX_PERIOD_BLOCKS blocks of nearly equal numbers of
+ * periods instead. Our rule, stated; `--periods` overrides it.
+ */
+export const FEW_TRANSITIONS_PER_PERIOD = 10;
+
+function defaultBlocks(periods: readonly PeriodCounts[]): [number, number][] | undefined {
+  const P = periods.length;
+  if (P <= MAX_PERIOD_BLOCKS) return undefined;
+  let total = 0;
+  for (const p of periods) for (const [, , n] of p.cells) total += n;
+  if (total / P >= FEW_TRANSITIONS_PER_PERIOD) return undefined;
+  return Array.from({ length: MAX_PERIOD_BLOCKS }, (_, b) => {
+    const first = Math.floor((b * P) / MAX_PERIOD_BLOCKS);
+    const last = Math.floor(((b + 1) * P) / MAX_PERIOD_BLOCKS) - 1;
+    return [periods[first]!.time, periods[last]!.time] as [number, number];
+  });
 }
 
 type Cells = [number, number, number][];

@@ -3,6 +3,7 @@ import { posteriorDraws } from '../uncertainty/posterior.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { assumptionTests, type AssumptionTests } from './assumption-tests.js';
 import { chainProperties, type ChainProperties } from './chain-properties.js';
+import { variationCheck, type RowVariationCheck } from './variation-check.js';
 
 export interface CheckSettings {
   readonly level: number;
@@ -20,6 +21,8 @@ export interface CheckResult {
   readonly seed: number;
   readonly tests: AssumptionTests;
   readonly properties: ChainProperties;
+  /** Per state, how alike the years are (κ); null with fewer than three survey periods. */
+  readonly variation: RowVariationCheck[] | null;
 }
 
 /**
@@ -35,5 +38,8 @@ export function checkChain(fit: Fit, settings: CheckSettings, random: RandomStre
     simulateAll: settings.simulateAll,
     periodGroups: settings.periodGroups,
   });
-  return { fit, settings, seed: random.seed, tests, properties: chainProperties(fit, draws, settings.level, settings.target) };
+  return {
+    fit, settings, seed: random.seed, tests, properties: chainProperties(fit, draws, settings.level, settings.target),
+    variation: variationCheck(fit, settings.level, random.stream('variation')),
+  };
 }

@@ -74,7 +74,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   checkScenarios(scenarios);
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
-  const matrices = drawMatrices(first.fit, first.source, draws, random.stream('matrices'));
+  const matrices = drawMatrices(first.fit, first.source, draws, random.stream('matrices'), first.variation);
   // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
   const record = options.everyYear
     ? Array.from({ length: first.horizonSteps + 1 }, (_, t) => t)

@@ -14,6 +14,7 @@ import { splitUncertainty, type UncertaintySplit } from './uncertainty-split.js'
 import { columnStart, type DrawLayout } from './layout.js';
 import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
 import type { EngineOptions } from './engine-options.js';
+import { variationSummary, type RowVariationSummary } from './variation-summary.js';
 
 export type { ShareBands } from './year-bands.js';
 export { appendBand } from './year-bands.js';
@@ -92,6 +93,8 @@ export interface ForecastResult {
   readonly mostCommon: FirstTime[];
   /** Where the band at the horizon comes from, when more than one source adds to it. */
   readonly split: UncertaintySplit | null;
+  /** Per state, its year-to-year variation (variation-summary.ts); null when no row varies. */
+  readonly variation: RowVariationSummary[] | null;
   readonly notes: readonly string[];
 }
 
@@ -99,7 +102,7 @@ export interface ForecastResult {
 export function runForecast(scenario: Scenario, random: RandomStream, onProgress?: (done: number, total: number) => void,
   engine: EngineOptions = {}): ForecastResult {
   checkScenarios([scenario]);
-  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'));
+  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'), scenario.variation);
   const sim = simulate(scenario, matrices, random, { onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads });
   return summarise(scenario, matrices, sim, random, { engine });
 }
@@ -149,6 +152,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     dominance: scenario.target ? targetOutcome(scenario, paths, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random, options.engine),
+    variation: variationSummary(matrices, level),
     notes: sim.notes,
   };
 }

@@ -21,26 +21,31 @@ export function planWorkspace(plan: RunPlan): PlanWorkspace {
  */
 export function fillPlanMatrices(plan: RunPlan, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
   onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
+  for (let p = 0; p < plan.plans.length; p++) fillRecipe(plan, p, base, baseOffset, ws, onOutcome);
+}
+
+/** Build recipe p's matrix alone from `base` (a year's matrix, with year-to-year variation), as fillPlanMatrices does. */
+export function fillRecipe(plan: RunPlan, p: number, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
+  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
   const { k } = plan;
   const k2 = k * k;
-  plan.plans.forEach((recipe, p) => {
-    const at = p * k2;
-    for (let c = 0; c < k2; c++) ws.matrices[at + c] = base[baseOffset + c]!;
-    for (const { treatment, weight } of recipe.changes) {
-      const tr = plan.treatments[treatment]!;
-      const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);
-      if (outcome !== 'ok') onOutcome?.(treatment, outcome);
-    }
-    for (const { event, chance } of recipe.siteEvents) {
-      const E = plan.events[event]!.matrix;
-      for (let i = 0; i < k; i++) {
-        for (let j = 0; j < k; j++) {
-          let hit = 0;
-          for (let l = 0; l < k; l++) hit += ws.matrices[at + i * k + l]! * E[l * k + j]!;
-          ws.product[i * k + j] = (1 - chance) * ws.matrices[at + i * k + j]! + chance * hit;
-        }
+  const recipe = plan.plans[p]!;
+  const at = p * k2;
+  for (let c = 0; c < k2; c++) ws.matrices[at + c] = base[baseOffset + c]!;
+  for (const { treatment, weight } of recipe.changes) {
+    const tr = plan.treatments[treatment]!;
+    const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);
+    if (outcome !== 'ok') onOutcome?.(treatment, outcome);
+  }
+  for (const { event, chance } of recipe.siteEvents) {
+    const E = plan.events[event]!.matrix;
+    for (let i = 0; i < k; i++) {
+      for (let j = 0; j < k; j++) {
+        let hit = 0;
+        for (let l = 0; l < k; l++) hit += ws.matrices[at + i * k + l]! * E[l * k + j]!;
+        ws.product[i * k + j] = (1 - chance) * ws.matrices[at + i * k + j]! + chance * hit;
       }
-      ws.matrices.set(ws.product, at);
     }
-  });
+    ws.matrices.set(ws.product, at);
+  }
 }

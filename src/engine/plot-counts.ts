@@ -1,7 +1,9 @@
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { Multinomial } from '../uncertainty/multinomial.js';
 import type { RunPlan } from './plan.js';
-import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
+import type { ProjectionInputs } from './project-chunk.js';
+import { sampleYearMatrix, yearStreams, type YearStream } from './year-matrix.js';
 import type { DrawLayout } from './layout.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 
@@ -21,6 +23,8 @@ export interface PlotCounts extends DrawLayout {
 export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
   readonly record: readonly number[];
   readonly hits: readonly Uint8Array[];
+  /** Year-to-year variation: the same year matrices as the shares' run (the same streams, taken in the same order). */
+  readonly variation?: ProjectionInputs['variation'];
   /** The plot-level chance of block b of draws (its own sub-stream, draw-blocks.ts). */
   readonly multinomialOf: (block: number) => Multinomial;
 }): PlotCounts {
@@ -28,7 +32,11 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const k2 = k * k;
   const horizon = plan.horizon;
   const steps = horizon + 1;
-  const { record, hits, multinomialOf } = options;
+  const { record, hits, multinomialOf, variation } = options;
+  const year = new Float64Array(k2);
+  const alpha = new Float64Array(k);
+  const built = new Int32Array(plan.plans.length);
+  let streams: YearStream[] = [];
   const slotOf = new Int32Array(steps).fill(-1);
   record.forEach((t, r) => { slotOf[t] = r; });
   const R = record.length;
@@ -45,7 +53,9 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   let multinomial: Multinomial = multinomialOf(0);
   for (let d = 0; d < D; d++) {
     if (d > 0 && d % DRAW_BLOCK === 0) multinomial = multinomialOf(d / DRAW_BLOCK);
-    if (!plan.trivial) fillPlanMatrices(plan, P, d * k2, ws);
+    if (variation && d % DRAW_BLOCK === 0) streams = yearStreams(variation.keys, d / DRAW_BLOCK, horizon, 0, steps);
+    if (!plan.trivial && !variation) fillPlanMatrices(plan, P, d * k2, ws);
+    built.fill(-1);
     now.fill(0);
     for (let s = 0; s < k; s++) {
       split.fill(0);
@@ -55,9 +65,12 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
     for (let t = 0; t < steps; t++) {
       if (t > 0) {
         next.fill(0);
+        if (variation) sampleYearMatrix(P, d * k2, k, variation.concentration, d * k, streams[t]!, alpha, year);
         for (let g = 0; g < G; g++) {
-          const M = plan.trivial ? P : ws.matrices;
-          const base = plan.trivial ? d * k2 : plan.planOf[t * G + g]! * k2;
+          const recipe = plan.trivial ? -1 : plan.planOf[t * G + g]!;
+          if (variation && recipe >= 0 && built[recipe] !== t) { fillRecipe(plan, recipe, year, 0, ws); built[recipe] = t; }
+          const M = plan.trivial ? (variation ? year : P) : ws.matrices;
+          const base = plan.trivial ? (variation ? 0 : d * k2) : recipe * k2;
           for (let i = 0; i < k; i++) {
             const n = now[g * k + i]!;
             if (n > 0) multinomial(n, M, base + i * k, k, next, g * k);

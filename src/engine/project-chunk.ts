@@ -1,8 +1,10 @@
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RunPlan } from './plan.js';
-import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
 import { targetBounds } from './target.js';
+import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { sampleYearMatrix, yearStreams, type YearStream } from './year-matrix.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
@@ -60,11 +62,18 @@ export interface ProjectionInputs {
   readonly hits: readonly Uint8Array[];
   readonly target?: LandscapeTarget;
   readonly onOutcome?: (draw: number, treatment: number, outcome: RowChangeOutcome) => void;
+  /**
+   * Year-to-year variation (absent: none): `concentration[d*k + i]`, κ of row i in draw d
+   * (Infinity: the row does not vary), with the keys of the year streams (year-matrix.ts).
+   */
+  readonly variation?: { readonly concentration: Float64Array; readonly keys: Uint32Array };
 }
 
 /**
  * Steps `from` … `to − 1` of draws `d0` … `d1 − 1`: x_{t+1} = x_t P (row vector times a
- * row-stochastic matrix) in every sub-population, then landscape events x ← x·E in the years they
+ * row-stochastic matrix) in every sub-population — with year-to-year variation, P is a fresh year
+ * matrix around the draw's (year-matrix.ts), made before the year's treatments and site events
+ * change it, and shared by every sub-population — then landscape events x ← x·E in the years they
  * strike; the landscape's mix is the sum over sub-populations. Step 0 is the starting mix. At every
  * step it tracks whether the target is met (the length of the run of years it has held, so a
  * target that must stay met is found in the same pass) and when each state first becomes the most
@@ -87,6 +96,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const nMembers = members.length;
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const trivial = !plan || plan.trivial;
+  const { variation } = inputs;
+  const year = variation ? new Float64Array(k2) : undefined;
+  const alpha = new Float64Array(k);
+  /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
+  const built = new Int32Array(plan ? plan.plans.length : 0);
+  let streams: YearStream[] = [];
   const G = plan ? plan.subPopulations.length : 1;
   const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
   const planOf = plan?.planOf;
@@ -105,8 +120,11 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
 
   for (let d = d0; d < d1; d++) {
     const b = (d - d0) % OUTPUT_BLOCK;
-    if (ws) fillPlanMatrices(plan!, P, d * k2, ws, onOutcome && ((tr, outcome) => onOutcome(d, tr, outcome)));
-    const M = ws ? ws.matrices : P;
+    const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
+    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard);
+    if (variation && (d === d0 || d % DRAW_BLOCK === 0)) streams = yearStreams(variation.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
+    built.fill(-1);
+    const M = ws ? ws.matrices : variation ? year! : P;
     const hitRow = d * steps;
     const x = d * G * k;
     let pending = 0; // states not yet seen as the most common
@@ -117,8 +135,11 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
         for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[s]!;
         for (let s = 0; s < k; s++) total[s] = start[s]!;
       } else {
+        if (variation) sampleYearMatrix(P, d * k2, k, variation.concentration, d * k, streams[t - from]!, alpha, year!);
         for (let g = 0; g < G; g++) {
-          const base = ws ? planOf![t * G + g]! * k2 : d * k2;
+          const recipe = ws ? planOf![t * G + g]! : -1;
+          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, year!, 0, ws, heard); built[recipe] = t; }
+          const base = ws ? recipe * k2 : variation ? 0 : d * k2;
           const xo = x + g * k;
           const x0 = xs[xo]!;
           for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;

@@ -3,7 +3,7 @@ import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { RunPlan } from './plan.js';
 import type { DrawLayout } from './layout.js';
-import { projectDraws, projectionState } from './project-chunk.js';
+import { projectDraws, projectionState, type ProjectionInputs } from './project-chunk.js';
 
 export { MOST_COMMON_TOLERANCE } from './project-chunk.js';
 
@@ -30,6 +30,8 @@ export interface PropagateOptions {
   /** For each of `plan.landscapeEvents`, the years it strikes (see eventHits). */
   readonly hits?: readonly Uint8Array[];
   readonly onOutcome?: (draw: number, treatment: number, outcome: RowChangeOutcome) => void;
+  /** Year-to-year variation (project-chunk.ts): per draw and row κ, and the year streams' keys. */
+  readonly variation?: ProjectionInputs['variation'];
 }
 
 /**
@@ -48,7 +50,7 @@ export function propagate(matrices: MatrixDraws, start: ArrayLike<number>, horiz
   const shares = new Float64Array(D * recorded.length * k);
   const plan = options.plan;
   const state = projectionState(D, k, plan ? plan.subPopulations.length : 1);
-  projectDraws({ P, k, draws: D, horizon, start, plan, hits: options.hits ?? [], target: options.target, onOutcome: options.onOutcome },
+  projectDraws({ P, k, draws: D, horizon, start, plan, hits: options.hits ?? [], target: options.target, onOutcome: options.onOutcome, variation: options.variation },
     state, 0, D, 0, steps, slotOf, shares);
   const { firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
   return { draws: D, slots: recorded.length, horizon, k, recorded, shares, firstAtTarget, targetRunAtHorizon, firstMostCommon };

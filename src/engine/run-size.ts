@@ -3,6 +3,7 @@ import { formatBytes, LIMITS } from '../limits.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { CHUNK_BYTES } from './chunk-years.js';
 import { buildPlan } from './plan.js';
+import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 
 /**
  * Bytes a run of these scenarios (alternatives sharing one set of draws, run side by side) is
@@ -15,7 +16,9 @@ import { buildPlan } from './plan.js';
  *   the years of each landscape event (D × (H + 1) bytes);
  * - the chunk of years, CHUNK_BYTES, or one year of every scenario when that is more;
  * - plot counts, when asked: D × (recorded years) × k 32-bit numbers (whole-horizon, for now);
- * - once more one scenario's run state, for the uncertainty split's reruns.
+ * - once more one scenario's run state, for the uncertainty split's reruns;
+ * - with year-to-year variation, each draw's concentrations (D × k doubles) and the keys of the
+ *   year streams (32 bytes per block of draws and step).
  * An estimate for refusing a run before allocating, not an exact account.
  */
 export function plannedBytes(scenarios: readonly Scenario[]): number {
@@ -29,7 +32,8 @@ export function plannedBytes(scenarios: readonly Scenario[]): number {
       + (s.plots ? D * steps * k * 4 : 0);
   });
   const chunk = Math.max(CHUNK_BYTES, D * k * 8 * scenarios.length);
-  return D * k * k * 8 + 3 * D * k * 8 + perScenario.reduce((a, b) => a + b, 0) + chunk + Math.max(...perScenario);
+  const variation = first.variation.kind === 'none' ? 0 : D * k * 8 + Math.ceil(D / DRAW_BLOCK) * steps * 32;
+  return D * k * k * 8 + 3 * D * k * 8 + perScenario.reduce((a, b) => a + b, 0) + chunk + Math.max(...perScenario) + variation;
 }
 
 /** Refuse, with the estimate and what to change, a run that would hold more than the memory limit. */

@@ -12,6 +12,7 @@ import { threadsFor } from './threads.js';
 import { chunksOf, yearsPerChunk } from './chunk-years.js';
 import { blockName, sharedFloat64 } from '../uncertainty/draw-blocks.js';
 import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
+import { yearStreamKeys } from './year-matrix.js';
 
 /** Per draw, what a run keeps of its whole length: the first times (no mixes; see ProjectionState). */
 export interface Tracks {
@@ -59,6 +60,13 @@ export interface SimulateOptions {
   readonly onYear?: (step: number, mixes: readonly Float64Array[]) => void;
 }
 
+/**
+ * Multiply-adds one gamma variate of a year matrix costs: measured with `npm run bench -- variation`,
+ * 100,000 draws × 100 years × 10 states took 2.7 s without year matrices (2.7 ns a multiply-add)
+ * and about 40 times that with them (~100 ns a variate on a loaded machine; ~60 ns alone).
+ */
+export const VARIATION_WORK = 30;
+
 /** Run one scenario on given matrix draws (see simulateTogether). */
 export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, options: SimulateOptions = {}): Simulation {
   return simulateTogether([scenario], matrices, random, options)[0]!;
@@ -85,7 +93,11 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   const H = scenarios[0]!.horizonSteps;
   const steps = H + 1;
   const recorded = options.record ? [...options.record] : Array.from({ length: steps }, (_, t) => t);
-  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches));
+  // Year matrices come from streams named after the block and step, shared by the alternatives (common random numbers).
+  const variation = matrices.concentration
+    ? { concentration: matrices.concentration, keys: yearStreamKeys(random.stream('years'), D, H) }
+    : undefined;
+  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches, variation));
   // Kept: the recorded steps and the horizon, whose mixes every run keeps.
   const kept = [...new Set([...recorded, H])].sort((a, b) => a - b);
   const isRecorded = new Uint8Array(steps);
@@ -94,7 +106,9 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   const shared: SharedRun[] = runs.map((run) => ({
     inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
   }));
-  const pool = makePool(threadsFor(options.threads, D, steps, k, runs.length));
+  // A year matrix costs a gamma variate per cell, about VARIATION_WORK multiply-adds' time: count it
+  // as that much work when deciding whether worker threads pay for their start.
+  const pool = makePool(threadsFor(options.threads, D, steps * (variation ? VARIATION_WORK : 1), k, runs.length));
   pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));
@@ -142,7 +156,7 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     });
     const plots = run.scenario.plots && !switches.noPlots
       ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
-        record: recorded, hits: run.inputs.hits,
+        record: recorded, hits: run.inputs.hits, variation,
         multinomialOf: (b) => multinomialSampler(random.stream('plots').stream(blockName(b))),
       })
       : undefined;
@@ -162,7 +176,8 @@ interface Prepared {
   readonly outcomes: Uint8Array;
 }
 
-function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches): Prepared {
+function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches,
+  variation: ProjectionInputs['variation']): Prepared {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
@@ -170,7 +185,7 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
   const D = matrices.count;
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
-  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: Array.from(scenario.start.shares), plan, hits, target: scenario.target };
+  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: Array.from(scenario.start.shares), plan, hits, target: scenario.target, variation };
   const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
   return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
 }

@@ -7,7 +7,7 @@ import { simulate, type Simulation, type Switches } from './simulate.js';
 import { drawIndex } from './layout.js';
 import type { EngineOptions } from './engine-options.js';
 
-export type UncertaintySourceName = 'matrix' | 'events' | 'plots';
+export type UncertaintySourceName = 'matrix' | 'variation' | 'events' | 'plots';
 
 export interface SourceShare {
   readonly source: UncertaintySourceName;
@@ -28,7 +28,8 @@ export interface UncertaintySplit {
 /**
  * Where the band at the horizon comes from, found by switching each source of uncertainty off in
  * turn and rerunning on the same random numbers: the fitted matrix (replaced by the MLE — more
- * surveys shrink this part), landscape events (replaced by their expected effect each year), and
+ * surveys shrink this part; year-to-year variation is kept), year-to-year variation (every year
+ * the drawn matrix itself), landscape events (replaced by their expected effect each year), and
  * plot-level chance (shares instead of counts). Sources interact, so the shares need not add up
  * to 1; they say which source matters, not an exact budget. Only sources present are listed.
  */
@@ -36,6 +37,7 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   engine: EngineOptions = {}): UncertaintySplit | null {
   const present: UncertaintySourceName[] = [];
   if (scenario.source !== 'point') present.push('matrix');
+  if (matrices.concentration) present.push('variation');
   if (scenario.events.some((e) => e.scope === 'landscape')) present.push('events');
   if (scenario.plots) present.push('plots');
   if (present.length < 2) return null;
@@ -43,7 +45,8 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   const fullStats = horizonStats(full, scenario, quantity === 'plots');
   const sources = present.map((source) => {
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
-    const draws = source === 'matrix' ? pointDraws(scenario.fit, matrices.count) : matrices;
+    const draws: MatrixDraws = source === 'matrix' ? { ...pointDraws(scenario.fit, matrices.count), concentration: matrices.concentration }
+      : source === 'variation' ? { ...matrices, concentration: undefined } : matrices;
     // Only the horizon is summarised: the reruns keep no other year.
     const off = simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes, threads: engine.threads });
     const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');

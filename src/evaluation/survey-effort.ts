@@ -29,7 +29,8 @@ export interface SurveyEffort {
  * them and further plots from the latest mix — add their transitions to the counts, and measure the
  * horizon band of the scenario under the updated posterior. The mean width over replicates is what
  * that effort is expected to buy. Uses posterior draws whatever the scenario's source (more data
- * acts through the counts).
+ * acts through the counts), and leaves year-to-year variation out: it does not shrink with more
+ * surveys, and the widths measure the part that does.
  *
  * "Now" is measured the same way — the mean over the same number of replicates of bands from the
  * same number of draws — and replicate r's band draws, and its "truth", are common to "now" and

@@ -4,6 +4,7 @@ import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
 import { TOOL_VERSION } from '../version.js';
 import { toRows } from '../chain/matrix.js';
+import { standoutLine, verdict, verdictP, VERDICT_LEVEL } from './check-verdicts.js';
 
 /** The documented JSON of `sere check --json`. States by name; matrices as rows, row = from. */
 export function checkJson(r: CheckResult): object {
@@ -27,7 +28,19 @@ export function checkJson(r: CheckResult): object {
       periods: tests.periods && testJson(tests.periods),
       groups: tests.groups && testJson(tests.groups),
       not_tested: tests.unavailable,
+      verdicts: [...tests.order, ...[tests.periods, tests.groups].filter((t): t is TestReport => t !== null)]
+        .map((t) => ({ test: t.name, p: verdictP(t), evidence_against: verdictP(t) < VERDICT_LEVEL, text: verdict(t) })),
+      period_blocks: tests.periodBlocks,
+      period_standout: tests.periodStandout && {
+        ranked: tests.periodStandout.ranked.map((c) => ({ period: c.label, g2: c.g2 })),
+        without_top: tests.periodStandout.withoutTop,
+        text: standoutLine(tests.periodStandout),
+      },
     },
+    variation: r.variation && Object.fromEntries(states.map((name, s) => {
+      const v = r.variation![s]!;
+      return [name, { status: v.status, kappa: v.kappa, kappa_mle: v.mle === Infinity ? 'infinite' : v.mle, informative_periods: v.informativePeriods }];
+    })),
     structure: {
       classes: pr.structure.classes.map((c, n) => ({ states: names(c), closed: pr.structure.closed[n], period: pr.structure.periods[n] })),
       irreducible: pr.structure.irreducible,

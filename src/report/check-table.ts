@@ -2,8 +2,9 @@ import type { ChalkInstance } from 'chalk';
 import type { CheckResult } from '../diagnostics/check.js';
 import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
-import { count, fitSites, levelLabel, percent } from './numbers.js';
+import { concentration, count, fitSites, levelLabel, percent } from './numbers.js';
 import { makeTable } from './style.js';
+import { standoutLine, verdict } from './check-verdicts.js';
 
 /** The terminal report of `sere check`. */
 export function checkTable(r: CheckResult, style: ChalkInstance): string {
@@ -35,9 +36,32 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
   const strata = [tests.periods, tests.groups].filter((t): t is TestReport => t !== null);
   if (strata.length > 0) lines.push(testTable(strata, style));
   for (const t of strata) if (t.strata) lines.push(style.dim(`${t.name}: ${t.strata.join(', ')}`));
+  if (tests.periodBlocks) {
+    lines.push(style.dim(`${tests.periodBlocks.periods} survey periods with few transitions each, tested as ${tests.periodBlocks.blocks} blocks of consecutive periods (--periods to choose others)`));
+  }
   for (const why of tests.unavailable) lines.push(style.yellow(`not tested — ${why}`));
   lines.push(style.dim('A small p-value (below 0.05, say) is evidence against the assumption in that row; ' +
     '"p (sim.)" is a parametric-bootstrap p-value, given when expected counts are small.'));
+  if (tests.periodStandout) {
+    const s = tests.periodStandout;
+    lines.push(`Which period stands out: ${standoutLine(s)}`);
+    lines.push(style.dim(`  share of G² by period, largest first: ${s.ranked.slice(0, 5).map((c) => `${c.label} ${c.g2.toFixed(1)}`).join(' · ')}${s.ranked.length > 5 ? ' · …' : ''}`));
+  }
+  if (r.variation) {
+    section(`How alike are the years? κ per state (year-to-year variation: a year's p varies with variance p(1 − p)/(κ + 1)) — median [${band}]`);
+    const t = makeTable(['state', 'κ posterior', 'κ most likely', 'periods', 'note'], style, ['left', 'right', 'right', 'right', 'left']);
+    states.forEach((name, i) => {
+      const v = r.variation![i]!;
+      const kappa = v.kappa ? `${concentration(v.kappa.median)} [${concentration(v.kappa.low)}–${concentration(v.kappa.high)}]` : '—';
+      const mle = v.mle === null ? '—' : v.mle === Infinity ? '∞ (no spread beyond chance)' : concentration(v.mle);
+      t.push([name, kappa, mle, String(v.informativePeriods), VARIATION_NOTE[v.status]]);
+    });
+    lines.push(t.toString());
+    lines.push(style.dim('  Small κ: years differ a lot; large κ: years are alike. Forecasts draw each year\'s matrix with these κ ' +
+      '(variation: estimated, the default from three survey periods). Periods: survey periods with two or more transitions from the state.'));
+  }
+  section('In one line each');
+  for (const t of [...tests.order, ...strata]) lines.push(`  ${verdict(t)}`);
 
   section('Structure (Kemeny & Snell 1960)');
   const s = pr.structure;
@@ -122,6 +146,12 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
   }
   return lines.join('\n') + '\n';
 }
+
+const VARIATION_NOTE = {
+  estimated: '', given: '', 'one-cell': 'does not vary: one possible transition', 'never-left': 'does not vary: never seen to leave',
+  'few-counts': 'does not vary: fewer than 3 periods with two or more transitions', 'no-periods': 'no per-period counts in the fit file',
+} as const;
+
 
 function testTable(reports: readonly TestReport[], style: ChalkInstance): string {
   const t = makeTable(['test', 'G²', 'X²', 'df', 'p (G²)', 'p (X²)', 'p (sim.)', 'expected < 5'], style,

@@ -103,6 +103,13 @@ export function scenarioJson(r: ForecastResult): object {
         })),
       }
       : null,
+    // Present only when some row varies, so a run without variation writes today's bytes.
+    ...(r.variation ? {
+      variation: byState((s) => {
+        const v = r.variation![s]!;
+        return { status: v.status, kappa: v.kappa && { median: v.kappa.median, low: v.kappa.low, high: v.kappa.high }, informative_periods: v.informativePeriods };
+      }),
+    } : {}),
     notes: r.notes,
   };
 }

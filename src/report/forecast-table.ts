@@ -1,7 +1,7 @@
 import { siteCount } from '../fit/fit.js';
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
-import { count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
+import { concentration, count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { firstTimeCell, targetLines } from './target-lines.js';
@@ -16,7 +16,8 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const lines: string[] = [];
   lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
   lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
-  lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed} · bands ${band}`);
+  const varying = r.variation ? ` · year-to-year variation ${sc.variation.kind === 'given' ? 'given' : 'estimated'}` : '';
+  lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed}${varying} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
     ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
     : `start: ${sc.start.year}, shares given in the scenario`);
@@ -75,6 +76,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
     common.push([name, `${percent(m.probability)}%`, firstTimeCell(m)]);
   });
   lines.push(common.toString());
+  if (r.variation) lines.push('', ...variationLines(r, style));
   if (r.split) lines.push('', ...splitTable(r, style));
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
@@ -95,7 +97,27 @@ function observedRowsNotes(o: NonNullable<ForecastResult['observedRows']>, state
   return lines;
 }
 
-const SOURCE_LABEL = { matrix: 'the fitted matrix', events: 'event years', plots: 'plot-level chance' } as const;
+const SOURCE_LABEL = { matrix: 'the fitted matrix', variation: 'year-to-year variation', events: 'event years', plots: 'plot-level chance' } as const;
+
+const VARIATION_WHY = {
+  estimated: '', given: 'given in the scenario', 'one-cell': 'does not vary (one possible transition)',
+  'never-left': 'does not vary: never seen to leave', 'few-counts': 'does not vary: too few periods with two or more transitions',
+  'no-periods': 'does not vary: the fit file has no per-period counts',
+} as const;
+
+/** κ per state: how alike the years are (a year's probability p varies with variance p(1 − p)/(κ + 1)). */
+function variationLines(r: ForecastResult, style: ChalkInstance): string[] {
+  const table = makeTable(['state', 'κ (how alike years are)', 'periods', 'note'], style, ['left', 'right', 'right', 'left']);
+  r.scenario.fit.states.forEach((name, s) => {
+    const v = r.variation![s]!;
+    const kappa = v.kappa ? (v.kappa.low === v.kappa.high ? concentration(v.kappa.median) : `${concentration(v.kappa.median)} [${concentration(v.kappa.low)}–${concentration(v.kappa.high)}]`) : '—';
+    const why = v.status === 'given' && !v.kappa ? 'does not vary (not listed)' : VARIATION_WHY[v.status];
+    table.push([name, kappa, v.status === 'given' ? '' : String(v.informativePeriods), why]);
+  });
+  return [style.bold('Year-to-year variation — each year draws its own matrix around the fitted one'), table.toString(),
+    style.dim('Small κ: years differ a lot; large κ: years are alike (κ = 100 lets a probability of 0.5 swing by about ±0.05 a year). Periods: survey periods with two or more transitions from the state.')];
+}
+
 
 /** Band width at the horizon, and what it would be with each source of uncertainty switched off. */
 function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
@@ -109,7 +131,7 @@ function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
       `${points(src.widthWithout[s]!)} (${percent(Math.max(0, src.varianceShare[s]!))}% of variance)`)]);
   });
   return [style.bold(`Where the uncertainty in ${last} comes from — band width in percentage points (${unit})`), table.toString(),
-    style.dim('A large share for the fitted matrix means more surveys would narrow the bands; event years and plot-level chance will not shrink with more data.')];
+    style.dim('A large share for the fitted matrix means more surveys would narrow the bands; year-to-year variation, event years and plot-level chance will not shrink with more data.')];
 }
 
 function points(x: number): string {

@@ -60,3 +60,12 @@ export function fitSites(fit: Fit): string {
   const n = siteCount(fit);
   return fit.pooledSites === undefined ? count(n, 'site') : `${count(n, 'site')} (pooled counts, no per-site data)`;
 }
+
+/**
+ * A concentration κ: one decimal below 10, whole from 10, with thousands separated by commas from
+ * 1,000 (by hand: toLocaleString's first call loads the locale data, 30 ms of a forecast).
+ */
+export function concentration(x: number): string {
+  if (x < 10) return x.toFixed(1);
+  return String(Math.round(x)).replace(/\B(?=(\d{3})+(?!\d))/g, ',');
+}

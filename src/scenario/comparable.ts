@@ -23,6 +23,10 @@ export function checkComparable(scenarios: readonly Scenario[]): void {
     }
     if (s.horizonSteps !== base.horizonSteps) differs('the horizon', 'give every alternative the same horizon');
     if (s.source !== base.source) differs('the uncertainty source', 'use the same uncertainty source in every alternative');
+    if (JSON.stringify({ ...s.variation, concentration: 'concentration' in s.variation ? Array.from(s.variation.concentration, String) : undefined })
+      !== JSON.stringify({ ...base.variation, concentration: 'concentration' in base.variation ? Array.from(base.variation.concentration, String) : undefined })) {
+      differs('the year-to-year variation', 'use the same variation in every alternative');
+    }
     if (s.level !== base.level) differs('the credible level', 'use the same level in every alternative');
     if (!sameTarget(s.target, base.target)) {
       differs('the target', 'give every alternative the same target');

@@ -11,6 +11,7 @@ import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve
 import { largestRemainder } from './largest-remainder.js';
 import { resolveTarget } from './resolve-target.js';
 import type { RasterCounts } from '../data/raster/count-stack.js';
+import { MIN_VARIATION_PERIODS, periodCount, type VariationSpec } from '../uncertainty/variation.js';
 
 /** Explicit starting shares must sum to 1 within this (absolute); they are typed by hand. */
 export const SHARES_SUM_TOLERANCE = 1e-9;
@@ -89,6 +90,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     impossible: fitMask(fit),
     stateIndex, locate,
   };
+  const variation = resolveVariation(s.variation, fit, stateIndex, locate);
   const target = s.target && resolveTarget(s.target, { step: fit.step, horizonSteps, stateIndex, locate });
   const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));
   const baseName = s.name ?? basename(file).replace(/\.ya?ml$/i, '');
@@ -109,7 +111,9 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
       sha256,
       fit,
       source: s.uncertainty.source,
-      draws: s.uncertainty.source === 'point' && !random ? 1 : s.uncertainty.draws,
+      variation,
+      // Year matrices are random too: the MLE with variation needs replicates like events do.
+      draws: s.uncertainty.source === 'point' && !random && variation.kind === 'none' ? 1 : s.uncertainty.draws,
       seed: s.uncertainty.seed,
       start,
       horizonSteps,
@@ -121,6 +125,30 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
       plots,
     };
   });
+}
+
+/**
+ * The scenario's year-to-year variation. Default: estimated when the record has at least
+ * MIN_VARIATION_PERIODS survey periods (fewer cannot show a spread between years), else none. A
+ * given concentration is one number for every state, or a map (states not listed do not vary).
+ */
+function resolveVariation(given: ScenarioFile['variation'], fit: Fit,
+  stateIndex: (name: string, path: KeyPath) => number, locate: (path: KeyPath) => Place): VariationSpec {
+  if (given === undefined) return periodCount(fit) >= MIN_VARIATION_PERIODS ? { kind: 'estimated' } : { kind: 'none' };
+  if (given === 'none') return { kind: 'none' };
+  if (given === 'estimated') {
+    if (periodCount(fit) < MIN_VARIATION_PERIODS) {
+      throw new SereError('BAD_SCENARIO', `variation: estimated needs at least ${MIN_VARIATION_PERIODS} survey periods; the record has ${periodCount(fit)}`,
+        locate(['variation']), 'give a concentration ({ concentration: 50 }) or use variation: none');
+    }
+    return { kind: 'estimated' };
+  }
+  const k = fit.states.length;
+  const c = given.concentration;
+  if (typeof c === 'number') return { kind: 'given', concentration: new Float64Array(k).fill(c) };
+  const concentration = new Float64Array(k).fill(Infinity);
+  for (const [name, kappa] of Object.entries(c)) concentration[stateIndex(name, ['variation', 'concentration', name])] = kappa;
+  return { kind: 'given', concentration };
 }
 
 /**

@@ -1,6 +1,7 @@
 import type { Place } from '../errors.js';
 import type { Fit } from '../fit/fit.js';
 import type { RowChange } from '../chain/row-change.js';
+import type { VariationSpec } from '../uncertainty/variation.js';
 
 /** A scenario with every reference resolved against its fit: what the engine runs. */
 export interface Scenario {
@@ -11,6 +12,8 @@ export interface Scenario {
   readonly sha256: string;
   readonly fit: Fit;
   readonly source: 'posterior' | 'bootstrap' | 'point';
+  /** Year-to-year variation of the matrix (README, "Year-to-year variation"); `kind: none` is today's chain. */
+  readonly variation: VariationSpec;
   readonly draws: number;
   /** Absent when the scenario names none; the CLI then picks one and prints it. */
   readonly seed?: number;

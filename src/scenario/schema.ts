@@ -153,6 +153,18 @@ export const scenarioSchema = z.strictObject({
     /** Default: a fresh seed, printed. */
     seed: positiveInt('seed').max(MAX_SEED, { error: `seed must be at most ${MAX_SEED}` }).optional(),
   }).default({ source: 'posterior', draws: 4000 }),
+  /** Default: estimated when the record has at least three survey periods, else none. */
+  variation: z.union([
+    z.enum(['estimated', 'none']),
+    z.strictObject({
+      concentration: z.union([
+        z.number().gt(0, { error: 'a concentration must be above 0' }),
+        z.record(z.string(), z.number().gt(0, { error: 'a concentration must be above 0' })),
+      ], { error: 'concentration is a number above 0, or a map from state to a number above 0' })
+        .describe('κ: how alike the years are (a year\'s cell varies with variance p(1 − p)/(κ + 1)); one number for every state, or per state (states not listed do not vary).'),
+    }),
+  ], { error: "variation must be estimated, none or { concentration: … }" }).optional()
+    .describe('Year-to-year variation of the transition probabilities: estimated from the spread between survey periods (default with at least three periods), none, or { concentration: κ }.'),
   /** Default latest: the mix of the latest survey. */
   start: startSchema.default('latest').describe("'latest' (the latest surveyed mix) or { year, shares }."),
   horizon: horizonSchema.describe('How far ahead: { years: N } or { steps: N }.'),

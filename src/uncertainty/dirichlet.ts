@@ -11,7 +11,7 @@ import type { RandomStream } from './random.js';
  * distribution conditioned on a representable result, and after MAX_REDRAWS we give the mass to
  * the largest α (the mode's direction) rather than return NaN.
  */
-export function sampleDirichlet(random: RandomStream, alpha: ArrayLike<number>, alphaOffset: number,
+export function sampleDirichlet(random: Pick<RandomStream, 'gamma'>, alpha: ArrayLike<number>, alphaOffset: number,
   n: number, out: Float64Array, offset: number): void {
   for (let attempt = 0; attempt < MAX_REDRAWS; attempt++) {
     let total = 0;

@@ -5,6 +5,7 @@ import { pointDraws } from './point.js';
 import { posteriorDraws } from './posterior.js';
 import type { RandomStream } from './random.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
+import { estimateVariation, VARIATION_SAMPLES, type RowVariation, type VariationSpec } from './variation.js';
 
 export type UncertaintySource = MatrixDraws['source'];
 
@@ -13,7 +14,12 @@ export type UncertaintySource = MatrixDraws['source'];
  * are made in blocks of DRAW_BLOCK, block b from `random.stream('block:b')` (draw-blocks.ts), into
  * shared memory the engine's threads read.
  */
-export function drawMatrices(fit: Fit, source: UncertaintySource, count: number, random: RandomStream): MatrixDraws {
+export function drawMatrices(fit: Fit, source: UncertaintySource, count: number, random: RandomStream,
+  variation: VariationSpec = { kind: 'none' }): MatrixDraws {
+  return withVariation(fit, drawSource(fit, source, count, random), variation, random);
+}
+
+function drawSource(fit: Fit, source: UncertaintySource, count: number, random: RandomStream): MatrixDraws {
   const k = fit.states.length;
   const data = sharedFloat64(count * k * k);
   if (source === 'point') {
@@ -29,4 +35,38 @@ export function drawMatrices(fit: Fit, source: UncertaintySource, count: number,
     else data.set(posteriorDraws(fit, n, stream).data, first * k * k);
   }
   return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [] };
+}
+
+/**
+ * Attach each draw's concentrations. Estimated from the record (sub-stream `variation`), each draw
+ * d takes posterior sample d mod VARIATION_SAMPLES of every estimated row: κ and, for posterior
+ * draws, the mean row sampled with it — the mean row's posterior under the hierarchical model, wider
+ * than the Dirichlet of pooled counts when years differ (periods' transitions are then not
+ * independent). Bootstrap draws keep their rows; point draws take each row's posterior median κ.
+ * With no row varying, the draws are returned unchanged (today's chain, the same bytes).
+ */
+function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random: RandomStream): MatrixDraws {
+  if (spec.kind === 'none') return draws;
+  const { k, count } = draws;
+  const concentration = sharedFloat64(count * k).fill(Infinity);
+  let rows: RowVariation[];
+  if (spec.kind === 'given') {
+    rows = fit.states.map((_, i) => ({ state: i, status: 'given' as const,
+      kappa: new Float64Array(0), mean: new Float64Array(0), informativePeriods: 0 }));
+    for (let d = 0; d < count; d++) concentration.set(spec.concentration, d * k);
+  } else {
+    rows = estimateVariation(fit, random.stream('variation'));
+    for (const row of rows) {
+      if (row.status !== 'estimated') continue;
+      const i = row.state;
+      const median = draws.source === 'point' ? Array.from(row.kappa).sort((a, b) => a - b)[VARIATION_SAMPLES >> 1]! : 0;
+      for (let d = 0; d < count; d++) {
+        const s = d % VARIATION_SAMPLES;
+        concentration[d * k + i] = draws.source === 'point' ? median : row.kappa[s]!;
+        if (draws.source === 'posterior') draws.data.set(row.mean.subarray(s * k, (s + 1) * k), d * k * k + i * k);
+      }
+    }
+  }
+  if (concentration.every((c) => c === Infinity)) return { ...draws, variation: rows };
+  return { ...draws, concentration, variation: rows };
 }

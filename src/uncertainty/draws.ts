@@ -1,3 +1,5 @@
+import type { RowVariation } from './variation.js';
+
 /**
  * D transition matrices, one per draw, in one flat array: matrix d starts at `d*k*k` and is
  * row-major (row = from). Every sampler returns this shape, so the engine does not care where the
@@ -11,4 +13,11 @@ export interface MatrixDraws {
   readonly source: 'posterior' | 'bootstrap' | 'point';
   /** Notes the user should hear (rows that fell back to the prior, …). */
   readonly notes: readonly string[];
+  /**
+   * Year-to-year variation: `concentration[d*k + i]`, κ of row i's year-to-year spread in draw d
+   * (Infinity: the row does not vary). Absent: no variation, today's chain.
+   */
+  readonly concentration?: Float64Array;
+  /** How each row's variation was set (variation.ts), when there is any. */
+  readonly variation?: readonly RowVariation[];
 }

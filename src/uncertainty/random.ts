@@ -78,6 +78,20 @@ export function streamKey(seed: number, name: string): Uint32Array {
   return key;
 }
 
+/**
+ * The key of a stream (its generator's whole starting state), to hand to another thread: a worker
+ * receives numbers, not closures. `generatorOfKey` there gives the same numbers as `stream`.
+ */
+export function keyOf(stream: RandomStream): Uint32Array {
+  return streamKey(stream.seed, stream.name);
+}
+
+/** Uniforms and gamma variates of the stream whose key is `key[offset … offset+8)` (see keyOf). */
+export function generatorOfKey(key: Uint32Array, offset = 0): Pick<RandomStream, 'uniform' | 'gamma'> {
+  const uniform = xoshiroUniforms(key.slice(offset, offset + 8));
+  return { uniform, gamma: gammaVariates(uniform, polarNormals(uniform)) };
+}
+
 /** A fresh seed for a run that named none; it is printed so the run can be repeated. */
 export function freshSeed(): number {
   return 1 + Math.floor(Math.random() * (MAX_SEED - 1));

@@ -34,7 +34,7 @@ export function rerunFromStart(path: string, rel: string, fit: Fit, start: Surve
   const moved: Fit = { ...fit, latest: start };
   return loadScenarios(path, { fit: moved }).map((s): ForecastResult => {
     const scenario: Scenario = { ...s, file: rel };
-    const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'));
+    const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'), scenario.variation);
     return summarise(scenario, matrices, simulate(scenario, matrices, random), random, { split: false, priorChecks: false });
   });
 }

@@ -21,6 +21,18 @@ describe('sere check (built binary)', () => {
     expect(j.tests.order_selection.map((o: { order: number }) => o.order)).toEqual([0, 1, 2]);
     expect(j.tests.periods.strata).toHaveLength(9);
     expect(j.tests.groups.strata).toEqual(['north', 'south']);
+    // One verdict per test; the period that differs most (no randomness: the counts decide), and
+    // without it the other eight agree.
+    expect(j.tests.verdicts.map((v: { test: string }) => v.test)).toEqual(['order 0 vs 1', 'order 1 vs 2', 'periods', 'groups']);
+    expect(j.tests.verdicts.map((v: { evidence_against: boolean }) => v.evidence_against)).toEqual([true, false, false, false]);
+    expect(j.tests.period_standout.ranked).toHaveLength(9);
+    expect(j.tests.period_standout.ranked[0].period).toBe('2020→2021');
+    expect(j.tests.period_standout.without_top.p).toBeGreaterThan(0.05);
+    expect(j.tests.period_blocks).toBeNull();
+    // κ per state: estimated for the four states that leave, none for rank-grass (never seen to leave).
+    expect(j.variation['rank-grass']).toEqual({ status: 'never-left', kappa: null, kappa_mle: null, informative_periods: 7 });
+    expect(j.variation['low-marsh'].status).toBe('estimated');
+    expect(j.variation['low-marsh'].kappa.low).toBeLessThan(j.variation['low-marsh'].kappa.median);
     expect(j.structure).toMatchObject({ irreducible: false, transient: ['mudflat', 'pioneer', 'low-marsh', 'high-marsh'], absorbing: ['rank-grass'] });
     expect(j.residence['rank-grass'].point).toBeNull();
     expect(j.residence.mudflat.point).toBeCloseTo(1 / (1 - 92 / 135), 12);

@@ -5,7 +5,9 @@ import { randomStreams } from '../../src/uncertainty/random.js';
 import { MIN_BAND_DRAWS } from '../../src/engine/timing-band.js';
 
 describe('the landscape target compared draw by draw', () => {
-  const scenarios = loadScenarios('scenarios/brenhollow/options.yaml').map((s) => ({ ...s, draws: 600 }));
+  // Without year-to-year variation: with it, single good years reach the 40% target far more often
+  // (README, "Year-to-year variation"), and the counts below are of the fixed-matrix chain.
+  const scenarios = loadScenarios('scenarios/brenhollow/options.yaml').map((s) => ({ ...s, draws: 600, variation: { kind: 'none' as const } }));
   const c = runComparison(scenarios, randomStreams(scenarios[0]!.seed!));
 
   it('every draw falls in exactly one of six outcomes, and "neither" is not counted as the same year', () => {

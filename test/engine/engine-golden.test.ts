@@ -43,6 +43,28 @@ function check(name: string, text: string): void {
   }
 }
 
+/**
+ * `--variation none` is the fixed-matrix chain of before year-to-year variation: these goldens were
+ * recorded by that engine (test/fixtures/engine-golden/no-variation/, never re-recorded) and must
+ * come out byte for byte — the posterior, a partial-area treatment, events with plot counts and
+ * the uncertainty split, and a comparison.
+ */
+describe('without year-to-year variation, the outputs of before it, byte for byte', () => {
+  const before: { name: string; args: string[] }[] = [
+    { name: 'forecast-no-action.json', args: ['forecast', demo('no-action'), '--draws', '1100', '--json'] },
+    { name: 'forecast-sow-pioneer.json', args: ['forecast', demo('sow-pioneer'), '--draws', '900', '--json'] },
+    { name: 'forecast-storm-surges.json', args: ['forecast', demo('storm-surges'), '--draws', '1300', '--json'] },
+    { name: 'compare-options.json', args: ['compare', demo('options'), '--draws', '1200', '--json'] },
+  ];
+  for (const run of before) {
+    it(run.name, () => {
+      const r = sere([...run.args, '--variation', 'none']);
+      expect(r.code, r.stderr).toBe(0);
+      expect(r.stdout === readFileSync(join(GOLDEN, 'no-variation', run.name), 'utf8')).toBe(true);
+    });
+  }
+});
+
 describe('engine outputs are byte-identical to the recorded goldens', () => {
   for (const run of runs) {
     it(run.name, () => {

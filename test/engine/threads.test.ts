@@ -25,6 +25,10 @@ describe('the same JSON on any number of threads', () => {
       const run = (threads: number, chunkBytes?: number): string =>
         JSON.stringify(forecastJson([runForecast(s, randomStreams(s.seed!), undefined, { threads, chunkBytes })]));
       const one = run(1);
+      // The demo's record has nine survey periods: year-to-year variation is on by default, so each
+      // block's year streams (year-matrix.ts) are exercised too.
+      expect(s.variation.kind).toBe('estimated');
+      expect(one).toContain('"variation":{');
       expect(run(2)).toBe(one);
       expect(run(3)).toBe(one);
       expect(run(3, 1)).toBe(one);

@@ -89,7 +89,10 @@ describe('probability maps (sere forecast --maps)', () => {
   });
 
   it('without zones the maps use the forecast\'s own draws: their mean over pixels is the forecast\'s mean share, and the area CSV adds the maps up', async () => {
-    const file = scenario(plain, 'posterior.yaml', 'horizon: { steps: 6 }\nshow: [2, 6]\nuncertainty: { draws: 300, seed: 17 }\n');
+    const file = scenario(plain, 'posterior.yaml', 'horizon: { steps: 6 }\nshow: [2, 6]\nuncertainty: { draws: 300, seed: 17 }\n' +
+      // Year-to-year variation leaves each draw's expected Pʰ unchanged (independent years, mean P), so the
+      // maps do not draw it; without it the forecast's mean shares come from exactly the maps' draws.
+      'variation: none\n');
     const out = relative(process.cwd(), join(plain, 'maps'));
     const run = await sereInProcess(['forecast', file, '--maps', out, '--json']);
     expect(run.code).toBe(0);
@@ -112,7 +115,7 @@ describe('probability maps (sere forecast --maps)', () => {
   });
 
   it('under a partial-area treatment and a site-scope event, the maps still average to the forecast\'s mean shares (the engine\'s own path)', async () => {
-    const file = scenario(plain, 'treated.yaml', 'horizon: { steps: 5 }\nshow: [1, 5]\nuncertainty: { draws: 200, seed: 23 }\n' +
+    const file = scenario(plain, 'treated.yaml', 'horizon: { steps: 5 }\nshow: [1, 5]\nuncertainty: { draws: 200, seed: 23 }\nvariation: none\n' +
       'treatments: [{ name: clear, state: scrub, set: { bare: 0.4 }, area: 0.3, ramp: 2 }]\n' +
       'events: [{ name: trample, scope: site, chance: 0.2, matrix: { sward: { bare: 1 } } }]\n');
     const out = relative(process.cwd(), join(plain, 'treated-maps'));
