@@ -1,7 +1,8 @@
 import { quote } from '../errors.js';
 import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
-import { addSiteCells, compareCodePoints, type GapCell } from '../chain/counts.js';
+import { addSiteCells, compareCodePoints, type GapCell, type PairsByGap } from '../chain/counts.js';
+import { reachableInSteps } from '../chain/reachable.js';
 import { SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
 
@@ -16,6 +17,8 @@ export interface CheckedFitFile {
   readonly sites: SiteCountTable;
   readonly transitions: number;
   readonly gapCounts: readonly GapCell[];
+  /** Pairs by gap, worked out from counts and gap_counts (a pairs_by_gap key, when present, must agree). */
+  readonly pairsByGap: readonly PairsByGap[];
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -39,8 +42,9 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   const sites = checkSites(f, k, counts, fail);
   checkPeriods(f, k, counts, fail);
   checkTriples(f, k, counts, fail);
-  const gapCounts = checkGapCounts(f, k, fail);
-  return { states, impossible, counts, sites, transitions, gapCounts };
+  const gapCounts = checkGapCounts(f, states, impossible, fail);
+  const pairsByGap = checkPairsByGap(f, transitions, gapCounts, fail);
+  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {
@@ -175,8 +179,13 @@ function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
   });
 }
 
-/** Pairs by gap: indices in range, gaps of two or more steps, each cell once, in (gap, from, to) order. */
-function checkGapCounts(f: FitFile, k: number, fail: Fail): GapCell[] {
+/**
+ * Pairs by gap: indices in range, gaps of two or more steps, each cell once, in (gap, from, to)
+ * order, and each possible in that many steps under the structural zeros (else no matrix the fit
+ * may return explains it, and EM would divide by zero).
+ */
+function checkGapCounts(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail): GapCell[] {
+  const k = states.length;
   const cells = f.data.gap_counts ?? [];
   let previous = -1;
   cells.forEach(([i, j, g, n], c) => {
@@ -187,5 +196,24 @@ function checkGapCounts(f: FitFile, k: number, fail: Fail): GapCell[] {
     if (order <= previous) fail('cells are listed twice or out of (gap, from, to) order', ['data', 'gap_counts', c]);
     previous = order;
   });
+  const mask = new Uint8Array(k * k);
+  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
+  const reach = reachableInSteps(mask, k, cells.reduce((g, c) => Math.max(g, c[2]), 0));
+  cells.forEach(([i, j, g], c) => {
+    if (!reach[g]![i * k + j]) {
+      fail(`pairs ${g} steps apart from ${quote(states[i]!)} to ${quote(states[j]!)} are impossible under the impossible list`, ['data', 'gap_counts', c]);
+    }
+  });
   return cells.map(([i, j, g, n]) => [i, j, g, n] as const);
+}
+
+function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly GapCell[], fail: Fail): PairsByGap[] {
+  const byGap = new Map<number, number>([[1, transitions]]);
+  for (const [, , g, n] of gapCounts) byGap.set(g, (byGap.get(g) ?? 0) + n);
+  const pairs = [...byGap].sort((a, b) => a[0] - b[0]).map(([gap, n]) => ({ gap, pairs: n }));
+  const given = f.data.pairs_by_gap;
+  if (given !== undefined && JSON.stringify(given.map(({ gap, pairs: n }) => ({ gap, pairs: n }))) !== JSON.stringify(pairs)) {
+    fail('pairs_by_gap does not agree with counts and gap_counts', ['data', 'pairs_by_gap']);
+  }
+  return pairs;
 }

@@ -1,9 +1,11 @@
-import { posteriorSummary, type PointEstimate, type PosteriorSummary } from '../chain/estimates.js';
+import { posteriorSummary, type PosteriorSummary } from '../chain/estimates.js';
+import type { GapEstimate } from '../chain/gap-em.js';
 import { stationaryMix, type StationaryResult } from '../chain/stationary.js';
 import { fitMle, fitPrior, type Fit } from './fit.js';
 
 export interface FitEstimates {
-  readonly mle: PointEstimate;
+  /** The MLE, with how it was found (closed form, or EM with gaps) and the completed counts. */
+  readonly mle: GapEstimate;
   readonly posterior: PosteriorSummary;
   /** Stationary mix of the MLE, or the closed classes when there is more than one. */
   readonly stationary: StationaryResult;

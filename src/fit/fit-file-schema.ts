@@ -23,6 +23,8 @@ export const fitFileSchema = z.object({
     surveys: count,
     skipped_pairs: z.array(z.object({ gap: z.number().int().positive(), pairs: count })),
     gap_counts: z.array(z.tuple([count, count, count, count])).optional(),
+    pairs_by_gap: z.array(z.object({ gap: z.number().int().positive(), pairs: count })).optional(),
+    single_survey_sites: count.nullable().optional(),
     repeated_rows: count,
     first_time: time,
   }),

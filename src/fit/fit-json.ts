@@ -2,7 +2,7 @@ import { toRows } from '../chain/matrix.js';
 import { pseudoCount } from '../chain/prior.js';
 import { TOOL_VERSION } from '../version.js';
 import type { FitEstimates } from './estimate.js';
-import type { Fit } from './fit.js';
+import { hasGaps, type Fit } from './fit.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -24,6 +24,13 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     impossible: fit.impossible,
     counts: toRows(fit.counts, k),
     probabilities: toRows(est.mle.p, k),
+    estimation: {
+      method: hasGaps(fit) ? 'em' : 'closed-form',
+      iterations: est.mle.iterations,
+      converged: est.mle.converged,
+      log_likelihood: est.mle.logLikelihood,
+      expected_counts: toRows(est.mle.expected, k),
+    },
     posterior: {
       level: est.posterior.level,
       mean: toRows(est.posterior.mean, k),
@@ -42,6 +49,8 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       transitions: fit.transitions,
       skipped_pairs: fit.skipped,
       gap_counts: fit.gapCounts ?? [],
+      pairs_by_gap: fit.pairsByGap ?? [{ gap: 1, pairs: fit.transitions }],
+      single_survey_sites: fit.singleSurveySites ?? null,
       repeated_rows: fit.repeatedRows,
       first_time: fit.firstTime,
       last_time: fit.latest.time,

@@ -23,6 +23,8 @@ export function loadFit(file: string): Fit {
     transitions: checked.transitions,
     skipped: f.data.skipped_pairs,
     gapCounts: checked.gapCounts,
+    pairsByGap: checked.pairsByGap,
+    singleSurveySites: f.data.single_survey_sites ?? undefined,
     repeatedRows: f.data.repeated_rows,
     surveys: f.data.surveys,
     firstTime: f.data.first_time,

@@ -8,10 +8,17 @@ import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 
 /** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
-/** What the fit left out or merged: skipped pairs by gap, repeated rows (also printed by sere season). */
+/**
+ * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
+ * survey, repeated rows (also printed by sere season).
+ */
 export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
   const lines = fit.skipped.map(({ gap, pairs }) =>
     style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
+  if ((fit.singleSurveySites ?? 0) > 0) {
+    lines.push(style.yellow(`${count(fit.singleSurveySites!, 'site')} surveyed once only: no pair, so no information about change ` +
+      '(they count in the latest mix when surveyed then)'));
+  }
   if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
   for (const t of fit.typos ?? []) {
     lines.push(style.yellow(`check state '${t.label}' (${count(t.rows, 'row')}, first on line ${t.line}): a slip for '${t.near}' ` +
@@ -35,12 +42,20 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   lines.push(style.bold(`Fit of ${fit.input.file}`));
   lines.push(`${count(fit.sites.length, 'site')} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
     `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
+  const further = (fit.pairsByGap ?? []).filter((p) => p.gap > 1);
+  if (further.length > 0) {
+    lines.push(`pairs further apart, all used: ${further.map((p) => `${count(p.pairs, 'pair')} ${p.gap} steps apart`).join(', ')} · ` +
+      `maximum likelihood by EM (${count(est.mle.iterations, 'iteration')}${est.mle.converged ? '' : ', not converged'})`);
+  }
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
 
   const impossible = new Set(fit.impossible.map(([a, b]) => states.indexOf(a) * k + states.indexOf(b)));
   matrix('Transition counts, from → to', (c) => String(fit.counts[c]));
+  if (further.length > 0) {
+    matrix('Completed counts at the MLE (one-step + expected inside longer gaps), from → to', (c) => est.mle.expected[c]!.toFixed(1));
+  }
   matrix('Maximum-likelihood probabilities, from → to', (c) => impossible.has(c) ? '—' : probability(est.mle.p[c]!));
   const { posterior } = est;
   matrix(`Posterior mean [${levelLabel(posterior.level)}], from → to`, (c) =>
