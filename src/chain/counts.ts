@@ -46,6 +46,11 @@ export interface TransitionCounts {
   readonly gapLines: readonly number[];
   /** Sites surveyed once only: no pair, so no information about change (reported, not an error). */
   readonly singleSurveySites: number;
+  /**
+   * Every site's pairs two or more steps apart, for the site bootstrap: site s (as in `sites`) holds
+   * cells (g − 2)·k² + i·k + j with their counts.
+   */
+  readonly siteGaps: SiteCountTable;
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
   readonly firstLine: Float64Array;
   /** Runs of three surveys each one step apart, as sparse `[i, j, l, n]`: the data of the order tests. */
@@ -86,6 +91,8 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
   const periods = new Map<number, Float64Array>();
   const siteCells = new Int32Array(k * k);
   const touched: number[] = [];
+  const siteGaps = new SiteCountBuilder(k, false);
+  const siteGapCells = new Map<number, number>();
   let transitions = 0;
   for (let a = 0; a < rows.count;) {
     let b = a + 1;
@@ -106,6 +113,8 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
         const cell = state[n - 1]! * k + state[n]!;
         dense[cell] += 1;
         if (lines[cell] === 0 || line[n]! < lines[cell]!) lines[cell] = line[n]!;
+        const wide = (gap / step - 2) * k * k + cell;
+        siteGapCells.set(wide, (siteGapCells.get(wide) ?? 0) + 1);
         continue;
       }
       const cell = state[n - 1]! * k + state[n]!;
@@ -125,11 +134,14 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
       siteCells[cell] = 0;
     }
     touched.length = 0;
+    for (const wide of [...siteGapCells.keys()].sort((x, y) => x - y)) siteGaps.cell(wide, siteGapCells.get(wide)!);
+    siteGapCells.clear();
+    siteGaps.endSite(table.sites[site[a]!]!, undefined);
     sites.endSite(table.sites[site[a]!]!, rows.group && table.groups ? table.groups[rows.group[a]!]! : undefined);
     a = b;
   }
   if (badLine > 0) {
-    throw new SereError('GAP_NOT_WHOLE_STEPS', `two surveys of a site are ${badGap} time units apart, not a whole number of ${step}-unit steps`,
+    throw new SereError('GAP_NOT_WHOLE_STEPS', `two surveys of a site are ${badGap} time unit${badGap === 1 ? '' : 's'} apart, not a whole number of ${step}-unit steps`,
       { file: table.file, line: badLine },
       `every gap in the table is a whole number of ${allGaps}-unit steps: try --step ${allGaps}, or check the time on this line`);
   }
@@ -148,7 +160,7 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
     pairsByGap.push({ gap: g, pairs });
   }
   return {
-    k, counts, sites: sites.table(), transitions, pairsByGap, gapCounts, gapLines, singleSurveySites, firstLine, triples: tripleList,
+    k, counts, sites: sites.table(), transitions, pairsByGap, gapCounts, gapLines, singleSurveySites, siteGaps: siteGaps.table(), firstLine, triples: tripleList,
     periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
   };
 }

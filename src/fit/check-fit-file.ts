@@ -3,8 +3,9 @@ import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
 import { addSiteCells, compareCodePoints, type GapCell, type PairsByGap } from '../chain/counts.js';
 import { reachableInSteps } from '../chain/reachable.js';
-import { SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
+import { SiteCountBuilder, SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
+import type { LatentSample } from './latent-sample.js';
 
 /** Report one broken invariant at a key path; never returns. */
 export type Fail = (what: string, path: KeyPath, hint?: string) => never;
@@ -19,6 +20,8 @@ export interface CheckedFitFile {
   readonly gapCounts: readonly GapCell[];
   /** Pairs by gap, worked out from counts and gap_counts (a pairs_by_gap key, when present, must agree). */
   readonly pairsByGap: readonly PairsByGap[];
+  readonly latentSample?: LatentSample;
+  readonly siteGaps?: SiteCountTable;
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -44,7 +47,9 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   checkTriples(f, k, counts, fail);
   const gapCounts = checkGapCounts(f, states, impossible, fail);
   const pairsByGap = checkPairsByGap(f, transitions, gapCounts, fail);
-  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap };
+  const latentSample = checkSampler(f, states, impossible, gapCounts, fail);
+  const siteGaps = checkSiteGaps(f, k, sites, gapCounts, fail);
+  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {
@@ -216,4 +221,63 @@ function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly Ga
     fail('pairs_by_gap does not agree with counts and gap_counts', ['data', 'pairs_by_gap']);
   }
   return pairs;
+}
+
+/**
+ * The sampler's retained latent counts: one k×k table of whole numbers per retained sweep, zero on
+ * structural zeros, each holding exactly g one-step transitions per pair g steps apart (a bridge of g
+ * steps is g transitions). Only a fit with gaps has them.
+ */
+function checkSampler(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[],
+  gapCounts: readonly GapCell[], fail: Fail): LatentSample | undefined {
+  const s = f.posterior_sampler;
+  if (s === undefined || s === null) return undefined;
+  const k = states.length;
+  if (gapCounts.length === 0) fail('posterior_sampler is only for fits with pairs further apart than one step', ['posterior_sampler']);
+  if (s.latent_counts.length !== s.retained) fail(`latent_counts holds ${s.latent_counts.length} sweeps, not retained = ${s.retained}`, ['posterior_sampler', 'latent_counts']);
+  const mask = new Uint8Array(k * k);
+  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
+  const steps = gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
+  const latent = new Float64Array(s.retained * k * k);
+  s.latent_counts.forEach((sweep, r) => {
+    if (sweep.length !== k * k) fail(`a sweep has ${sweep.length} cells, not ${k * k}`, ['posterior_sampler', 'latent_counts', r]);
+    let total = 0;
+    sweep.forEach((x, c) => {
+      if (x > 0 && mask[c]) fail('a latent count falls on a transition declared impossible', ['posterior_sampler', 'latent_counts', r, c]);
+      total += x;
+    });
+    if (total !== steps) fail(`a sweep holds ${total} one-step transitions, not the ${steps} inside the gapped pairs`, ['posterior_sampler', 'latent_counts', r]);
+    latent.set(sweep, r * k * k);
+  });
+  const grid = (rows: (number | null)[][], key: string): Float64Array => {
+    if (rows.length !== k || rows.some((row) => row.length !== k)) fail(`${key} is not ${k}×${k}`, ['posterior_sampler', key]);
+    return Float64Array.from(rows.flat(), (x) => (x === null ? Number.NaN : x));
+  };
+  return { seed: s.seed, chains: s.chains, warmUp: s.warm_up, retained: s.retained, latent, rhat: grid(s.rhat, 'rhat'), ess: grid(s.ess, 'ess') };
+}
+
+/** Each site's gapped pairs: known sites, in range, adding up to gap_counts; a table aligned with the sites. */
+function checkSiteGaps(f: FitFile, k: number, sites: SiteCountTable, gapCounts: readonly GapCell[], fail: Fail): SiteCountTable | undefined {
+  const rows = f.site_gap_counts;
+  if (rows === undefined || (rows.length === 0 && gapCounts.length > 0)) return undefined;
+  const position = new Map(sites.ids.map((id, s) => [id, s] as const));
+  const bySite = sites.ids.map(() => new Map<number, number>());
+  const sum = new Map<string, number>();
+  rows.forEach(([rawSite, i, j, g, n], c) => {
+    const s = position.get(normaliseLabel(rawSite));
+    if (s === undefined) fail(`site ${quote(rawSite)} is not in site_counts`, ['site_gap_counts', c, 0]);
+    if (i >= k || j >= k || g < 2 || n === 0) fail('not [site, from, to, gap ≥ 2, n ≥ 1] within the states', ['site_gap_counts', c]);
+    const wide = (g - 2) * k * k + i * k + j;
+    bySite[s!]!.set(wide, (bySite[s!]!.get(wide) ?? 0) + n);
+    sum.set(`${i},${j},${g}`, (sum.get(`${i},${j},${g}`) ?? 0) + n);
+  });
+  if (sum.size !== gapCounts.length || gapCounts.some(([i, j, g, n]) => sum.get(`${i},${j},${g}`) !== n)) {
+    fail('site_gap_counts do not add up to data.gap_counts', ['site_gap_counts']);
+  }
+  const builder = new SiteCountBuilder(k, false);
+  bySite.forEach((cells, s) => {
+    for (const wide of [...cells.keys()].sort((a, b) => a - b)) builder.cell(wide, cells.get(wide)!);
+    builder.endSite(sites.ids[s]!, undefined);
+  });
+  return builder.table();
 }

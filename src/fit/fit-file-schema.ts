@@ -32,6 +32,16 @@ export const fitFileSchema = z.object({
   group_column: z.string().min(1).nullable().optional(),
   period_counts: z.array(z.object({ time, cells: z.array(cell) })).nullable().optional(),
   order2_counts: z.array(z.tuple([count, count, count, count])).nullable().optional(),
+  posterior_sampler: z.object({
+    seed: z.number().int().positive(),
+    chains: z.number().int().positive(),
+    warm_up: count,
+    retained: z.number().int().positive(),
+    rhat: z.array(z.array(z.number().nullable())),
+    ess: z.array(z.array(z.number().nullable())),
+    latent_counts: z.array(z.array(count)),
+  }).loose().nullable().optional(),
+  site_gap_counts: z.array(z.tuple([label, count, count, count, count])).optional(),
   site_counts: z.array(z.object({
     site: label,
     group: z.string().optional(),

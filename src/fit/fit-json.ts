@@ -3,6 +3,7 @@ import { pseudoCount } from '../chain/prior.js';
 import { TOOL_VERSION } from '../version.js';
 import type { FitEstimates } from './estimate.js';
 import { hasGaps, type Fit } from './fit.js';
+import type { LatentSample } from './latent-sample.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -55,10 +56,46 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       first_time: fit.firstTime,
       last_time: fit.latest.time,
     },
+    posterior_sampler: fit.latentSample ? samplerJson(fit, fit.latentSample) : null,
     latest: fit.latest,
     group_column: fit.groupColumn ?? null,
     site_counts: fit.sites,
+    site_gap_counts: siteGapJson(fit),
     period_counts: fit.periods ?? null,
     order2_counts: fit.triples ?? null,
   };
+}
+
+/** The data-augmentation sampler's settings, diagnostics and retained latent counts (null where a cell never varies). */
+function samplerJson(fit: Fit, s: LatentSample): object {
+  const k = fit.states.length;
+  const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+  const values = (a: Float64Array): number[] => Array.from(a).filter(Number.isFinite);
+  return {
+    method: 'data augmentation (Rao-Blackwellised Dirichlet over retained completed counts)',
+    seed: s.seed,
+    chains: s.chains,
+    warm_up: s.warmUp,
+    retained: s.retained,
+    rhat_max: values(s.rhat).length ? Math.max(...values(s.rhat)) : null,
+    ess_min: values(s.ess).length ? Math.min(...values(s.ess)) : null,
+    rhat: toRows(Array.from(s.rhat, finite), k),
+    ess: toRows(Array.from(s.ess, finite), k),
+    latent_counts: Array.from({ length: s.retained }, (_, r) => Array.from(s.latent.subarray(r * k * k, (r + 1) * k * k))),
+  };
+}
+
+/** Each site's pairs two or more steps apart, `[site, from, to, gap, n]`: what the site bootstrap resamples with gaps. */
+function siteGapJson(fit: Fit): (readonly [string, number, number, number, number])[] {
+  const table = fit.siteGaps;
+  if (!table) return [];
+  const k = fit.states.length;
+  const out: (readonly [string, number, number, number, number])[] = [];
+  for (let s = 0; s < table.length; s++) {
+    for (let c = table.offsets[s]!; c < table.offsets[s + 1]!; c++) {
+      const wide = table.cells[c]!;
+      out.push([table.ids[s]!, Math.floor((wide % (k * k)) / k), wide % k, Math.floor(wide / (k * k)) + 2, table.counts[c]!]);
+    }
+  }
+  return out;
 }

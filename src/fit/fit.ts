@@ -8,6 +8,7 @@ import { priorMatrix, type PriorSpec } from '../chain/prior.js';
 import { gapMaximumLikelihood, type GapEstimate } from '../chain/gap-em.js';
 import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
+import type { LatentSample } from './latent-sample.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -33,6 +34,11 @@ export interface Fit {
   readonly pairsByGap?: readonly PairsByGap[];
   /** Sites surveyed once only, which say nothing about change (absent in old fit files). */
   readonly singleSurveySites?: number;
+  /**
+   * Each site's pairs two or more steps apart, aligned with `sites` (cells (g − 2)·k² + i·k + j;
+   * chain/counts.ts), for the site bootstrap of a fit with gaps (absent in old fit files).
+   */
+  readonly siteGaps?: SiteCountTable;
   readonly repeatedRows: number;
   /** Rare labels that look like slips for common ones (a warning; not kept in fit files). */
   readonly typos?: readonly LikelyTypo[];
@@ -45,6 +51,12 @@ export interface Fit {
   readonly periods?: readonly PeriodCounts[];
   /** The group column's name, when the survey table had one. */
   readonly groupColumn?: string;
+  /**
+   * The data-augmentation sampler's retained latent counts, when the fit has pairs further apart
+   * than one step and was sampled at fit time (`sere fit`) or read from a fit file that holds them.
+   * Without it, the posterior runs the sampler on the run's own random stream.
+   */
+  readonly latentSample?: LatentSample;
   /** The surveyed mix at every survey time, for charts (absent when fitted from a fit file). */
   readonly history?: readonly MixAtTime[];
 }
@@ -96,6 +108,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     gapCounts: counted.gapCounts,
     pairsByGap: counted.pairsByGap,
     singleSurveySites: counted.singleSurveySites,
+    siteGaps: counted.siteGaps,
     repeatedRows: table.repeatedRows,
     typos: likelyTypos(table),
     surveys: table.rows.count,

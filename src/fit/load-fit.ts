@@ -24,6 +24,8 @@ export function loadFit(file: string): Fit {
     skipped: f.data.skipped_pairs,
     gapCounts: checked.gapCounts,
     pairsByGap: checked.pairsByGap,
+    latentSample: checked.latentSample,
+    siteGaps: checked.siteGaps,
     singleSurveySites: f.data.single_survey_sites ?? undefined,
     repeatedRows: f.data.repeated_rows,
     surveys: f.data.surveys,

@@ -58,6 +58,13 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   }
   matrix('Maximum-likelihood probabilities, from → to', (c) => impossible.has(c) ? '—' : probability(est.mle.p[c]!));
   const { posterior } = est;
+  const sample = fit.latentSample;
+  if (sample) {
+    const finite = (a: Float64Array): number[] => Array.from(a).filter(Number.isFinite);
+    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${sample.chains} chains × ${sample.retained / sample.chains} sweeps kept ` +
+      `after ${sample.warmUp} warm-up (seed ${sample.seed}) · largest R̂ ${Math.max(...finite(sample.rhat)).toFixed(3)} · ` +
+      `smallest effective sample size ${Math.round(Math.min(...finite(sample.ess)))}`);
+  }
   matrix(`Posterior mean [${levelLabel(posterior.level)}], from → to`, (c) =>
     impossible.has(c) ? '—' : probabilityBand(posterior.mean[c]!, posterior.low[c]!, posterior.high[c]!));
   if (impossible.size > 0) lines.push(style.dim('— declared impossible: zero in every draw'));
