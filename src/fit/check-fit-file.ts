@@ -130,6 +130,7 @@ function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
   const total = latest.counts.reduce((a, b) => a + b, 0);
   // The start shares are counts / sites: any other total would make shares that do not sum to 1.
   if (total !== latest.sites) fail(`latest.counts add up to ${total} sites, but latest.sites is ${latest.sites}`, ['latest', 'sites']);
+  (latest.carried ?? []).forEach(({ state }, n) => { if (state >= k) fail(`state index out of range (${k} states)`, ['latest', 'carried', n, 'state']); });
 }
 
 function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable {

@@ -28,7 +28,11 @@ export const fitFileSchema = z.object({
     repeated_rows: count,
     first_time: time,
   }),
-  latest: z.object({ time, counts: z.array(count), sites: count.min(1) }),
+  latest: z.object({
+    time, counts: z.array(count), sites: count.min(1),
+    carried: z.array(z.object({ state: count, steps: count.min(1), sites: count.min(1) })).optional(),
+    not_carried: count.optional(),
+  }),
   group_column: z.string().min(1).nullable().optional(),
   period_counts: z.array(z.object({ time, cells: z.array(cell) })).nullable().optional(),
   order2_counts: z.array(z.tuple([count, count, count, count])).nullable().optional(),

@@ -57,7 +57,10 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       last_time: fit.latest.time,
     },
     posterior_sampler: fit.latentSample ? samplerJson(fit, fit.latentSample) : null,
-    latest: fit.latest,
+    latest: {
+      time: fit.latest.time, counts: fit.latest.counts, shares: fit.latest.shares, sites: fit.latest.sites,
+      carried: fit.latest.carried ?? [], not_carried: fit.latest.notCarried ?? 0,
+    },
     group_column: fit.groupColumn ?? null,
     site_counts: fit.sites,
     site_gap_counts: siteGapJson(fit),

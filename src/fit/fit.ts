@@ -113,7 +113,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     typos: likelyTypos(table),
     surveys: table.rows.count,
     firstTime,
-    latest: latestSurveyedMix(table.rows, k),
+    latest: latestSurveyedMix(table.rows, k, settings.step),
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,

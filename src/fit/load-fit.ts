@@ -30,7 +30,10 @@ export function loadFit(file: string): Fit {
     repeatedRows: f.data.repeated_rows,
     surveys: f.data.surveys,
     firstTime: f.data.first_time,
-    latest: { ...f.latest, shares: f.latest.counts.map((c) => c / f.latest.sites) },
+    latest: {
+      time: f.latest.time, counts: f.latest.counts, sites: f.latest.sites, shares: f.latest.counts.map((c) => c / f.latest.sites),
+      carried: f.latest.carried, notCarried: f.latest.not_carried,
+    },
     triples: f.order2_counts ?? undefined,
     periods: f.period_counts ?? undefined,
     groupColumn: f.group_column ?? undefined,

@@ -4,6 +4,7 @@ import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
 import { count, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
 import { makeTable } from './style.js';
+import { carriedWords } from './forecast-table.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 
@@ -89,6 +90,8 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
       ['long-run share'], style));
   }
   lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, fit.sites.length)})`));
+  if (fit.latest.carried?.length) lines.push(`forecasts start from these ${count(fit.latest.sites, 'site')} ${carriedWords(fit.latest.carried)}`);
+  if (fit.latest.notCarried) lines.push(style.yellow(`${count(fit.latest.notCarried, 'site')} last surveyed a time that is not whole steps before ${fit.latest.time}: left out of the start`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
 }

@@ -1,3 +1,4 @@
+import type { CarriedSites } from '../chain/latest-mix.js';
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
 import { count, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
@@ -14,10 +15,14 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const band = levelLabel(sc.level);
   const lines: string[] = [];
   lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
-  lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
+  const further = (fit.pairsByGap ?? []).reduce((s, p) => s + (p.gap > 1 ? p.pairs : 0), 0);
+  lines.push(`data: ${fit.input.file} · ${count(fit.sites.length, 'site')} · ${count(fit.transitions, 'transition')}` +
+    `${further > 0 ? ` + ${count(further, 'pair')} further apart` : ''} · ${fit.step}-year steps`);
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
-    ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`
+    ? sc.start.carried?.length
+      ? `start: ${sc.start.year}, the ${count(fit.latest.sites, 'site')} surveyed then ${carriedWords(sc.start.carried)}`
+      : `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, fit.sites.length)})`
     : `start: ${sc.start.year}, shares given in the scenario`);
   for (const t of sc.treatments) lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the area` : ''})`);
   for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope)`);
@@ -113,4 +118,14 @@ function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
 
 function points(x: number): string {
   return (x * 100).toFixed(1);
+}
+
+/** "plus N sites carried forward from their last survey through each draw (1–3 steps back)"; empty when none were. */
+export function carriedWords(carried: readonly CarriedSites[] | undefined): string {
+  if (!carried?.length) return '';
+  const sites = carried.reduce((s, c) => s + c.sites, 0);
+  const near = Math.min(...carried.map((c) => c.steps));
+  const far = Math.max(...carried.map((c) => c.steps));
+  return `plus ${count(sites, 'site')} carried forward from their last survey through each draw ` +
+    `(${near === far ? near : `${near}–${far}`} step${far === 1 ? '' : 's'} back)`;
 }
