@@ -41,9 +41,14 @@ function pick(random: RandomStream, probabilities: readonly number[]): number {
   return probabilities.length - 1;
 }
 
-/** The survey table as CSV text (site,time,state), plots in order, each plot's surveys in time order. */
-export function heathSurveys(seed = SEED): string {
+/**
+ * The survey table as CSV text (site,time,state), plots in order, each plot's surveys in time order.
+ * With `dated`, the same surveys with the day of each visit (25 July – 3 October, from a stream of
+ * its own, so the states are the same) for `--step 1y`.
+ */
+export function heathSurveys(seed = SEED, dated = false): string {
   const random = randomStreams(seed).stream('quillanmoor');
+  const days = randomStreams(seed).stream('visit-days');
   const lines = ['site,time,state'];
   for (let n = 1; n <= 150; n++) {
     const site = `Q${String(n).padStart(3, '0')}`;
@@ -53,13 +58,20 @@ export function heathSurveys(seed = SEED): string {
     for (let year = first; year <= LAST_YEAR; year++) {
       if (year > first) state = pick(random, TRUE_MATRIX[state]!);
       const visited = year === first || (biennial ? year % 2 === 0 : random.uniform() >= MISSED_VISIT_CHANCE);
-      if (visited) lines.push(`${site},${year},${STATES[state]}`);
+      if (visited) lines.push(`${site},${dated ? visitDate(year, days) : year},${STATES[state]}`);
     }
   }
   return lines.join('\n') + '\n';
 }
 
+/** A late-summer visit day: 25 July plus 0–70 days. */
+function visitDate(year: number, random: RandomStream): string {
+  const date = new Date(Date.UTC(year, 6, 25) + random.integer(71) * 86_400_000);
+  return date.toISOString().slice(0, 10);
+}
+
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   writeFileSync('test/fixtures/heath/surveys.csv', heathSurveys());
-  console.log('wrote test/fixtures/heath/surveys.csv');
+  writeFileSync('test/fixtures/heath/surveys-dated.csv', heathSurveys(SEED, true));
+  console.log('wrote test/fixtures/heath/surveys.csv and surveys-dated.csv');
 }

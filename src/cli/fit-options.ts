@@ -1,11 +1,22 @@
 import type { Command } from 'commander';
 import { parsePrior } from '../chain/prior.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
-import { commaList, yearsFlag } from './parse-options.js';
+import { parseImpossible, parseStep, type FitSettings } from '../fit/settings.js';
+import { InvalidArgumentError } from 'commander';
+import { LIMITS } from '../limits.js';
+import { commaList } from './parse-options.js';
+
+/** `--step 5` (time units) or `--step 1y` (years, with dates in the time column). */
+function stepFlag(value: string): { step: number; dates: boolean } {
+  const step = parseStep(value);
+  if (!step || step.step > LIMITS.horizonSteps) {
+    throw new InvalidArgumentError(`expected a whole number from 1 to ${LIMITS.horizonSteps}, or years of dated surveys such as 1y.`);
+  }
+  return step;
+}
 
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
-  step: number;
+  step: { step: number; dates: boolean };
   states?: string[];
   prior: string;
   impossible?: string[];
@@ -20,7 +31,7 @@ export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColu
 
 export function withFitOptions(command: Command): Command {
   return command
-    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5)', yearsFlag, 1)
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5); 1y, 2y …: the time column holds dates YYYY-MM-DD, steps of years', stepFlag, { step: 1, dates: false })
     .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
     .option('--prior <p>', 'prior pseudo-count per cell: jeffreys (0.5), uniform (1) or a number', 'jeffreys')
     .option('--impossible <from>to,...>', 'transitions that cannot happen (structural zeros)', commaList)
@@ -32,7 +43,8 @@ export function withFitOptions(command: Command): Command {
 
 export function fitSettingsFrom(opts: FitFlags): FitSettings {
   return {
-    step: opts.step,
+    step: opts.step.step,
+    dates: opts.step.dates,
     prior: parsePrior(opts.prior, { path: '--prior' }),
     states: opts.states,
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),

@@ -36,7 +36,7 @@ export function registerHindcast(program: Command, io: Io): void {
         if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);
       }
       const seed = flagSeed(opts.seed, io);
-      const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states });
+      const table = readSurveyCsv(file, { columns: settings.columns, states: opts.states, dates: settings.dates });
       const { cases, summary, originsLeftOut } = hindcast(table, settings, {
         horizons: opts.years.map((y) => y / settings.step), draws: opts.draws, level: opts.level, random: randomStreams(seed),
       });

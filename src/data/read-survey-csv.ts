@@ -14,6 +14,8 @@ export interface ReadSurveyOptions {
   readonly statesPlace?: Place;
   /** One of several tables read as one (see read-survey-tables.ts): it may hold a single state. */
   readonly partOfSeveral?: boolean;
+  /** The time column holds ISO dates (YYYY-MM-DD), rounded to yearly seasons (seasons.ts); otherwise whole numbers. */
+  readonly dates?: boolean;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
   readonly blockSize?: number;
 }

@@ -8,7 +8,8 @@ import { StateLabels } from './states.js';
 import { columnIndex, type ColumnIndex } from './survey-header.js';
 import type { ReadSurveyOptions } from './read-survey-csv.js';
 import type { SurveyTable } from './survey.js';
-import { parseTime, TIME_EMPTY, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
+import { parseDate, parseTime, TIME_EMPTY, TIME_NOT_DATE, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
+import { roundToSeasons } from './seasons.js';
 
 /**
  * The order in which problems are reported: the order of the checks when each ran over the whole
@@ -87,7 +88,7 @@ export class SurveyCollector implements RowSink {
     }
     if (this.stage <= VALUE) return;
 
-    const time = parseTime(bytes, starts[index.time]!, ends[index.time]!, this.trim);
+    const time = (this.options.dates ? parseDate : parseTime)(bytes, starts[index.time]!, ends[index.time]!, this.trim);
     const empty = this.sites.labels[site] === '' ? 'site' : time.status === TIME_EMPTY ? 'time'
       : this.stateLabels.labels[state] === '' ? 'state' : undefined;
     if (empty !== undefined) {
@@ -96,9 +97,16 @@ export class SurveyCollector implements RowSink {
         { file: this.file, line, column: at + 1 }, `fill in the ${empty} or remove the row`));
       return;
     }
+    if (time.status === TIME_NOT_DATE) {
+      this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a date written YYYY-MM-DD`,
+        { file: this.file, line, column: index.time + 1 }, 'write survey dates as 2024-08-15, or give --step as a number of time units for whole-number times'));
+      return;
+    }
     if (time.status === TIME_NOT_WHOLE) {
       this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a whole number`,
-        { file: this.file, line, column: index.time + 1 }, 'write survey times as integers such as 2024'));
+        { file: this.file, line, column: index.time + 1 }, /^\d{4}-\d{2}-\d{2}$/.test(time.text)
+          ? 'for survey dates give the step in years: --step 1y (fit: { step: 1y } in a scenario)'
+          : 'write survey times as integers such as 2024'));
       return;
     }
     if (time.status === TIME_UNSAFE) {
@@ -149,6 +157,7 @@ export class SurveyCollector implements RowSink {
       store.site[n] = rank[store.site[n]!]!;
       store.state[n] = stateIndex[store.state[n]!]!;
     }
+    const seasons = this.options.dates ? roundToSeasons(store.time, store.line, store.count) : undefined;
     const ordered = orderRows(store, sites.length);
     if (ordered.conflict) {
       // A site surveyed twice at one time must agree with itself; an exact repeat is used once.
@@ -160,6 +169,7 @@ export class SurveyCollector implements RowSink {
     return {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
       ...(this.index?.group !== undefined ? { groups: this.groups.labels } : {}),
+      ...(seasons ? { seasons } : {}),
     };
   }
 

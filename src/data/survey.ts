@@ -1,3 +1,4 @@
+import type { SeasonRounding } from './seasons.js';
 /**
  * The surveys of a table, one column per field in typed arrays — not one object per row: 10⁷ rows
  * as objects took 4.8 GB and most of the time in the garbage collector; as columns they take 21
@@ -43,6 +44,8 @@ export interface SurveyTable {
   readonly repeatedRows: number;
   /** SHA-256 of the file's bytes, so a record can prove which data it came from. */
   readonly sha256: string;
+  /** When the time column held dates: how they were rounded to season years (the times in `rows`). */
+  readonly seasons?: SeasonRounding;
 }
 
 /** Which CSV columns hold what. */

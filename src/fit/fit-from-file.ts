@@ -13,7 +13,7 @@ export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, prior: 'jeffreys', i
 /** A fit from either a fit file (.json, written by `sere fit --out`) or a survey table, fitted now. */
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
-  const table = readSurveyCsv(file, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  const table = readSurveyCsv(file, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states, dates: settings.dates });
   return fitSurvey(settings.group === undefined ? table : groupOf(table, settings.group, settings.columns.group), settings);
 }
 

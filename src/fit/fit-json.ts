@@ -21,6 +21,10 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     orientation: 'rows are from-states, columns are to-states',
     states: fit.states,
     step: fit.step,
+    seasons: fit.seasons ? {
+      centre: fit.seasons.centre, dates: fit.seasons.dates, other_year: fit.seasons.otherYear,
+      largest_shift_days: fit.seasons.largestShiftDays, largest_shift_line: fit.seasons.largestShiftLine,
+    } : null,
     prior: { name: typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior, pseudo_count: pseudoCount(fit.prior) },
     impossible: fit.impossible,
     counts: toRows(fit.counts, k),

@@ -1,5 +1,8 @@
 import { SereError, quote } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
+import type { SeasonRounding } from '../data/seasons.js';
+
+export type { SeasonRounding };
 import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
 import { countTransitions, likelyStep, type GapCell, type PairsByGap, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
 import type { SiteCountTable } from '../chain/site-counts.js';
@@ -49,6 +52,8 @@ export interface Fit {
   readonly triples?: readonly (readonly [number, number, number, number])[];
   /** Transitions by the survey time they started: for time-homogeneity tests (absent in old fit files). */
   readonly periods?: readonly PeriodCounts[];
+  /** When the time column held dates: how they were rounded to yearly seasons (data/seasons.ts). */
+  readonly seasons?: SeasonRounding;
   /** The group column's name, when the survey table had one. */
   readonly groupColumn?: string;
   /**
@@ -117,6 +122,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,
+    ...(table.seasons ? { seasons: table.seasons } : {}),
     history: surveyedMixes(table.rows, k),
   };
 }

@@ -1,4 +1,5 @@
 import type { ChalkInstance } from 'chalk';
+import type { SeasonRounding } from '../fit/fit.js';
 import type { Fit } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
@@ -48,6 +49,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
     lines.push(`pairs further apart, all used: ${further.map((p) => `${count(p.pairs, 'pair')} ${p.gap} steps apart`).join(', ')} · ` +
       `maximum likelihood by EM (${count(est.mle.iterations, 'iteration')}${est.mle.converged ? '' : ', not converged'})`);
   }
+  if (fit.seasons) lines.push(seasonLine(fit.seasons));
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
@@ -94,4 +96,10 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   if (fit.latest.notCarried) lines.push(style.yellow(`${count(fit.latest.notCarried, 'site')} last surveyed a time that is not whole steps before ${fit.latest.time}: left out of the start`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
+}
+
+/** How dated surveys were rounded to yearly seasons, in one line. */
+export function seasonLine(s: SeasonRounding): string {
+  return `dates rounded to yearly seasons centred on ${s.centre} (month-day): the largest shift ${s.largestShiftDays} days (line ${s.largestShiftLine}); ` +
+    `${count(s.otherYear, 'survey')} of ${s.dates} counted in the season of a neighbouring calendar year`;
 }

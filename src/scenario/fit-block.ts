@@ -3,7 +3,7 @@ import type { Place } from '../errors.js';
 import type { KeyPath } from '../data/read-structured.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { parseImpossible, parseStep, type FitSettings } from '../fit/settings.js';
 import type { fitSettingsSchema } from './schema.js';
 
 /**
@@ -15,11 +15,18 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
     places: { states: locate(['fit', 'states']), impossible: impossiblePlace },
-    step: block.step ?? DEFAULT_FIT_SETTINGS.step,
+    ...stepOf(block.step),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
     states: block.states,
     impossible: parseImpossible(block.impossible ?? [], impossiblePlace),
     columns: { ...DEFAULT_COLUMNS, ...block.columns },
     group: block.group,
   };
+}
+
+/** `step: 5` or `step: 1y` (dated surveys); the schema has checked the form. */
+function stepOf(step: number | string | undefined): { step: number; dates?: boolean } {
+  if (step === undefined) return { step: DEFAULT_FIT_SETTINGS.step };
+  const parsed = parseStep(step)!;
+  return parsed.dates ? parsed : { step: parsed.step };
 }

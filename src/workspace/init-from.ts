@@ -19,14 +19,14 @@ export const INIT_HORIZON_YEARS = 20;
  */
 export function initWorkspaceFrom(dir: string, survey: string, settings: FitSettings, seed: number): string[] {
   refuseUsedFolder(dir);
-  const table = readSurveyTables([survey], { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  const table = readSurveyTables([survey], { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states, dates: settings.dates });
   const fit = fitSurvey(table, settings);
   const name = basename(resolve(dir));
   const tableName = `surveys/${basename(survey)}`;
   const columns = Object.fromEntries(Object.entries(settings.columns)
     .filter(([key, value]) => value !== undefined && value !== (DEFAULT_COLUMNS as unknown as Record<string, string>)[key]));
   const fitBlock: Record<string, unknown> = {
-    step: settings.step,
+    step: settings.dates ? `${settings.step}y` : settings.step,
     prior: settings.prior,
     states: [...fit.states],
     ...(settings.impossible.length > 0 ? { impossible: settings.impossible.map(([from, to]) => `${from}>${to}`) } : {}),

@@ -64,7 +64,7 @@ export interface SeasonRun {
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
-  let table = readSurveyTables(surveyPaths, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states });
+  let table = readSurveyTables(surveyPaths, { columns: settings.columns, states: settings.states, statesPlace: settings.places?.states, dates: settings.dates });
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
   const fitted = fitSurvey(table, settings);
   const unsampled: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 } };

@@ -32,7 +32,7 @@ describe('counting a hand-countable survey table', () => {
     expect(fit.transitions).toBe(8);
     const { p } = maximumLikelihood(fit.counts, fitPrior(fit), 3);
     expect(Array.from(p)).toEqual([1 / 3, 2 / 3, 0, 1 / 3, 1 / 3, 1 / 3, 0, 1 / 2, 1 / 2]);
-    expect(fit.latest).toEqual({ time: 7, counts: [0, 0, 1], shares: [0, 0, 1], sites: 1 });
+    expect(fit.latest).toEqual({ time: 7, counts: [0, 0, 1], shares: [0, 0, 1], sites: 1, carried: [{ state: 1, steps: 2, sites: 1 }], notCarried: 0 });
     expect(fit.sites.ids).toEqual(['A', 'B']);
   });
 
