@@ -15,6 +15,8 @@
  * 8. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
  *    10 years × 8 states), alternating, best of 3, with CPU time and peak memory of each.
  * 9. Fit file: reading a fit of 10,000 sites × 10 states through the yaml library and with JSON.parse.
+ * 10. Gaps (scripts/bench/gaps.ts): 10,000 sites × 12 surveys × 8 states with 30% of visits missed —
+ *    count, EM, the data-augmentation sampler (1,000 retained sweeps) and 1,000 matrix draws.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -36,6 +38,7 @@ import { randomStreams } from '../src/uncertainty/random.js';
 import { existsSync } from 'node:fs';
 import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
+import { benchGaps } from './bench/gaps.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -316,3 +319,5 @@ if (only === 'numpy') {
     }
   }
 }
+
+if (want('gaps')) benchGaps();

@@ -12,6 +12,7 @@ export interface SamplerFlags {
   chains: number;
   warmUp: number;
   retained: number;
+  thin: number;
 }
 
 /** The flags of the data-augmentation sampler that `sere fit` runs when pairs are further apart than one step. */
@@ -20,7 +21,8 @@ export function withSamplerOptions(command: Command): Command {
     .option('--seed <n>', 'seed of the posterior sampler, used only when pairs are further apart than one step (printed when not given)', seedFlag)
     .option('--chains <n>', 'posterior sampler: independent chains (for R̂)', wholeNumber(64), DEFAULT_AUGMENT.chains)
     .option('--warm-up <n>', 'posterior sampler: sweeps dropped per chain', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.warmUp)
-    .option('--retained <n>', 'posterior sampler: sweeps kept in all (shared between chains)', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.retained);
+    .option('--retained <n>', 'posterior sampler: sweeps kept in all (shared between chains)', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.retained)
+    .option('--thin <n>', 'posterior sampler: keep every n-th sweep after the warm-up', wholeNumber(1000), DEFAULT_AUGMENT.thin);
 }
 
 /**
@@ -32,7 +34,7 @@ export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
   if (!hasGaps(fit)) return fit;
   // Picked once: with --by, every group's sampler uses the seed announced, so the run repeats.
   const seed = flags.seed ??= flagSeed(undefined, io);
-  const latentSample = augment(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained }, randomStreams(seed).stream('augment'));
+  const latentSample = augment(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
   for (const line of augmentationWarnings(latentSample, fit.states)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }

@@ -254,7 +254,7 @@ function checkSampler(f: FitFile, states: readonly string[], impossible: readonl
     if (rows.length !== k || rows.some((row) => row.length !== k)) fail(`${key} is not ${k}×${k}`, ['posterior_sampler', key]);
     return Float64Array.from(rows.flat(), (x) => (x === null ? Number.NaN : x));
   };
-  return { seed: s.seed, chains: s.chains, warmUp: s.warm_up, retained: s.retained, latent, rhat: grid(s.rhat, 'rhat'), ess: grid(s.ess, 'ess') };
+  return { seed: s.seed, chains: s.chains, warmUp: s.warm_up, thin: s.thin ?? 1, retained: s.retained, latent, rhat: grid(s.rhat, 'rhat'), ess: grid(s.ess, 'ess') };
 }
 
 /** Each site's gapped pairs: known sites, in range, adding up to gap_counts; a table aligned with the sites. */

@@ -40,6 +40,7 @@ export const fitFileSchema = z.object({
     seed: z.number().int().positive(),
     chains: z.number().int().positive(),
     warm_up: count,
+    thin: z.number().int().positive().optional(),
     retained: z.number().int().positive(),
     rhat: z.array(z.array(z.number().nullable())),
     ess: z.array(z.array(z.number().nullable())),

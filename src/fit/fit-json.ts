@@ -83,6 +83,7 @@ function samplerJson(fit: Fit, s: LatentSample): object {
     seed: s.seed,
     chains: s.chains,
     warm_up: s.warmUp,
+    thin: s.thin,
     retained: s.retained,
     rhat_max: values(s.rhat).length ? Math.max(...values(s.rhat)) : null,
     ess_min: values(s.ess).length ? Math.min(...values(s.ess)) : null,

@@ -8,6 +8,8 @@ export interface LatentSample {
   readonly seed: number;
   readonly chains: number;
   readonly warmUp: number;
+  /** Every how many sweeps after the warm-up one was kept. */
+  readonly thin: number;
   /** Retained sweeps in all, chain after chain (chains × per chain). */
   readonly retained: number;
   /** retained × k × k: latent one-step counts of each retained sweep, row = from. */

@@ -64,7 +64,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   const sample = fit.latentSample;
   if (sample) {
     const finite = (a: Float64Array): number[] => Array.from(a).filter(Number.isFinite);
-    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${sample.chains} chains × ${sample.retained / sample.chains} sweeps kept ` +
+    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${sample.chains} chains × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
       `after ${sample.warmUp} warm-up (seed ${sample.seed}) · largest R̂ ${Math.max(...finite(sample.rhat)).toFixed(3)} · ` +
       `smallest effective sample size ${Math.round(Math.min(...finite(sample.ess)))}`);
   }

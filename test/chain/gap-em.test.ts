@@ -110,7 +110,7 @@ describe('maximum likelihood with gaps, by EM', () => {
   });
 
   it('never lowers the likelihood from one iteration to the next (Dempster, Laird & Rubin 1977)', () => {
-    let p = Float64Array.from([1 / 3, 1 / 3, 1 / 3, 1 / 3, 1 / 3, 1 / 3, 0, 0.5, 0.5]);
+    let p: Float64Array = Float64Array.from([1 / 3, 1 / 3, 1 / 3, 1 / 3, 1 / 3, 1 / 3, 0, 0.5, 0.5]);
     let last = -Infinity;
     for (let n = 0; n < 30; n++) {
       const step = gapMaximumLikelihood(counts, gaps, alpha, 3, p, 1);

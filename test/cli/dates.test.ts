@@ -9,7 +9,7 @@ describe('dated surveys (built binary)', () => {
     expect(json.step).toBe(1);
     expect(json.seasons).toMatchObject({ dates: 1320, other_year: 0 });
     expect(json.data.pairs_by_gap.map((p: { gap: number }) => p.gap)).toEqual([1, 2, 3, 5]);
-    expect(json.posterior_sampler).toMatchObject({ seed: 2, chains: 4, warm_up: 250, retained: 1000 });
+    expect(json.posterior_sampler).toMatchObject({ seed: 2, chains: 4, warm_up: 500, thin: 2, retained: 1000 });
   });
 
   it('a scenario with fit: { step: 1y } forecasts from the dated table, carrying forward the sites missed in the last season', () => {

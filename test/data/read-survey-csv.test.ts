@@ -73,7 +73,7 @@ describe('counting a hand-countable survey table', () => {
 
   it('counts sites surveyed once only', () => {
     const table = tableFromRecords('t.csv', ['a', 'b'], [
-      { site: 'A', time: 1, state: 'a', line: 2 }, { site: 'A', time: 2, state: 'b', line: 3 }, { site: 'B', time: 2, state: 'a', line: 4 },
+      { site: 'A', time: 1, state: 0, line: 2 }, { site: 'A', time: 2, state: 1, line: 3 }, { site: 'B', time: 2, state: 0, line: 4 },
     ]);
     expect(fitSurvey(table, DEFAULT_FIT_SETTINGS).singleSurveySites).toBe(1);
   });

@@ -42,7 +42,7 @@ function history(p: Float64Array, sites: number, years: number, missed: number, 
     last[state] += 1 / sites;
   }
   const fit = fitSurvey(tableFromRecords('sim.csv', STATES, records), DEFAULT_FIT_SETTINGS);
-  return { fit: { ...fit, latentSample: augment(fit, { chains: 2, warmUp: 100, retained: 400 }, random.stream('augment')) }, last };
+  return { fit: { ...fit, latentSample: augment(fit, { chains: 2, warmUp: 100, retained: 400, thin: 1 }, random.stream('augment')) }, last };
 }
 
 describe('simulation-based calibration of the gap posterior (Talts et al. 2018)', () => {

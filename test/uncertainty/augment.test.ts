@@ -49,7 +49,7 @@ describe('latent bridge paths drawn given P (forward filtering, backward samplin
 describe('the data-augmentation sampler', () => {
   const fit = { ...fitWithCounts(['a', 'b', 'c'], [[20, 5, 2], [3, 15, 6], [0, 4, 18]], 'jeffreys', [['c', 'a']]),
     gapCounts: [[0, 1, 2, 6], [0, 2, 2, 4], [1, 0, 2, 3], [2, 2, 2, 9], [0, 0, 3, 5], [2, 1, 3, 2], [1, 2, 4, 3]] as GapCell[] };
-  const settings = { chains: 4, warmUp: 100, retained: 800 };
+  const settings = { chains: 4, warmUp: 100, retained: 800, thin: 1 };
 
   it('gives identical retained sweeps for the same seed, and other ones for another seed', () => {
     const a = augment(fit, settings, randomStreams(11).stream('augment'));
@@ -74,7 +74,7 @@ describe('the data-augmentation sampler', () => {
 
   it('centres the posterior near the EM answer: posterior means within 0.05 of the MLE (test/reference/gap-mle.py) in every cell', () => {
     // A loose check of location only (prior 0.5, 91 pairs): the calibration is tested in test/slow/gap-sbc.test.ts.
-    const a = augment(fit, { chains: 2, warmUp: 200, retained: 2000 }, randomStreams(2).stream('augment'));
+    const a = augment(fit, { chains: 2, warmUp: 200, retained: 2000, thin: 1 }, randomStreams(2).stream('augment'));
     const summary = mixturePosteriorSummary(fit.counts, Float64Array.from([0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0, 0.5, 0.5]), 3, 0.9, a.latent, a.retained);
     const mle = [0.67574482691, 0.228393161662, 0.0958620114285, 0.184792360018, 0.563978094707, 0.251229545275, 0, 0.134012094953, 0.865987905047];
     summary.mean.forEach((m, c) => expect(Math.abs(m - mle[c]!)).toBeLessThan(0.05));
