@@ -63,10 +63,11 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   const { posterior } = est;
   const sample = fit.latentSample;
   if (sample) {
-    const finite = (a: Float64Array): number[] => Array.from(a).filter(Number.isFinite);
-    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${sample.chains} chains × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
-      `after ${sample.warmUp} warm-up (seed ${sample.seed}) · largest R̂ ${Math.max(...finite(sample.rhat)).toFixed(3)} · ` +
-      `smallest effective sample size ${Math.round(Math.min(...finite(sample.ess)))}`);
+    const rhat = Array.from(sample.rhat).filter(Number.isFinite);
+    const ess = Array.from(sample.ess).filter(Number.isFinite);
+    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${count(sample.chains, 'chain')} × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
+      `after ${sample.warmUp} warm-up (seed ${sample.seed}) · ` +
+      (rhat.length ? `largest R̂ ${Math.max(...rhat).toFixed(3)} · smallest effective sample size ${Math.round(Math.min(...ess))}` : 'no diagnostics (they need two chains or more)'));
   }
   matrix(`Posterior mean [${levelLabel(posterior.level)}], from → to`, (c) =>
     impossible.has(c) ? '—' : probabilityBand(posterior.mean[c]!, posterior.low[c]!, posterior.high[c]!));
