@@ -22,6 +22,8 @@
  * 10. Rasters (`npm run bench -- raster`, only when named): scripts/bench/raster.ts.
  * 11. Count (`npm run bench -- count`, only when named): `sere count` on 10⁷ CSV rows in-process and on
  *    DuckDB beside numpy-count.py, and on 10⁸ Parquet rows through DuckDB (scripts/bench/count-bench.ts).
+ * 12. Gaps (scripts/bench/gaps.ts): 10,000 sites × 12 surveys × 8 states with 30% of visits missed —
+ *    count, EM, the data-augmentation sampler (1,000 retained sweeps) and 1,000 matrix draws.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -46,6 +48,7 @@ import type { MatrixDraws } from '../src/uncertainty/draws.js';
 import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 import { benchRaster } from './bench/raster.js';
 import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
+import { benchGaps } from './bench/gaps.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -355,3 +358,5 @@ if (only === 'numpy') {
     }
   }
 }
+
+if (want('gaps')) benchGaps();

@@ -35,6 +35,7 @@ export type ErrorCode =
   | 'NO_TRANSITIONS'
   | 'TOO_FEW_STATES'
   | 'IMPOSSIBLE_OBSERVED'
+  | 'GAP_NOT_WHOLE_STEPS'
   | 'ROW_ALL_IMPOSSIBLE'
   | 'BAD_PRIOR'
   | 'BAD_OPTION'

@@ -1,8 +1,19 @@
+import { SereError } from '../errors.js';
 import type { SurveyTable } from '../data/survey.js';
+import { gcd } from './structure.js';
 import { SiteCountBuilder, type SiteCountTable } from './site-counts.js';
 
-/** Pairs of consecutive surveys that were not exactly one step apart, by their gap in time units. */
+/**
+ * Pairs of consecutive surveys that were not used, by their gap in time units. Fit files written
+ * before gaps were modelled list them; every pair is now used or refused, so new fits have none.
+ */
 export interface SkippedPairs {
+  readonly gap: number;
+  readonly pairs: number;
+}
+
+/** Pairs of consecutive surveys of one site, by their gap in steps (1 = the one-step transitions). */
+export interface PairsByGap {
   readonly gap: number;
   readonly pairs: number;
 }
@@ -27,9 +38,19 @@ export interface TransitionCounts {
   readonly counts: Float64Array;
   readonly sites: SiteCountTable;
   readonly transitions: number;
-  readonly skipped: readonly SkippedPairs[];
-  /** Pairs two or more whole steps apart (also tallied in `skipped` until the gap model uses them). */
+  /** Every pair used, by gap in steps: one-step transitions first, then the pairs in `gapCounts`. */
+  readonly pairsByGap: readonly PairsByGap[];
+  /** Pairs two or more whole steps apart, pooled by (from, to, gap). */
   readonly gapCounts: readonly GapCell[];
+  /** For each cell of `gapCounts`, the CSV line of the later survey of its first pair: for messages. */
+  readonly gapLines: readonly number[];
+  /** Sites surveyed once only: no pair, so no information about change (reported, not an error). */
+  readonly singleSurveySites: number;
+  /**
+   * Every site's pairs two or more steps apart, for the site bootstrap: site s (as in `sites`) holds
+   * cells (g − 2)·k² + i·k + j with their counts.
+   */
+  readonly siteGaps: SiteCountTable;
   /** For each cell, the CSV line of the later survey of its first transition (0 if none): for messages. */
   readonly firstLine: Float64Array;
   /** Runs of three surveys each one step apart, as sparse `[i, j, l, n]`: the data of the order tests. */
@@ -41,9 +62,13 @@ export interface TransitionCounts {
 /**
  * Count transitions between consecutive surveys of the same site that are exactly `step` time units
  * apart, pooled over sites (Anderson & Goodman 1957: the pooled counts are the sufficient
- * statistic of a stationary first-order chain observed on independent sites).
+ * statistic of a stationary first-order chain observed on independent sites), and pairs a whole
+ * number g ≥ 2 of steps apart by (from, to, g): with them, the sufficient statistics of the gap
+ * likelihood, which the fit uses (chain/gap-em.ts).
  *
- * Pairs with any other gap are not silently dropped: they are tallied by gap in `skipped`.
+ * A pair whose gap is not a whole number of steps cannot be placed on the chain's clock: it is an
+ * error (GAP_NOT_WHOLE_STEPS) at the later survey's line — the earliest such line in the file —
+ * suggesting the step that divides every gap.
  *
  * One pass over the table's rows, which come ordered by site (code-point order of the ids, so the
  * site bootstrap draws the same sites whatever the order of rows in the file) and then time. Per
@@ -56,25 +81,40 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
   const counts = new Float64Array(k * k);
   const firstLine = new Float64Array(k * k);
   const sites = new SiteCountBuilder(k, rows.group !== undefined && table.groups !== undefined);
-  const skipped = new Map<number, number>();
   const byGap = new Map<number, Float64Array>();
+  const gapLine = new Map<number, Float64Array>();
+  let allGaps = 0;
+  let badLine = 0;
+  let badGap = 0;
+  let singleSurveySites = 0;
   const triples = new Float64Array(k * k * k);
   const periods = new Map<number, Float64Array>();
   const siteCells = new Int32Array(k * k);
   const touched: number[] = [];
+  const siteGaps = new SiteCountBuilder(k, false);
+  const siteGapCells = new Map<number, number>();
   let transitions = 0;
   for (let a = 0; a < rows.count;) {
     let b = a + 1;
     while (b < rows.count && site[b] === site[a]) b += 1;
+    if (b - a === 1) singleSurveySites += 1;
     for (let n = a + 1; n < b; n++) {
       const gap = time[n]! - time[n - 1]!;
+      allGaps = gcd(allGaps, gap);
+      if (gap % step !== 0) {
+        if (badLine === 0 || line[n]! < badLine) { badLine = line[n]!; badGap = gap; }
+        continue;
+      }
       if (gap !== step) {
-        skipped.set(gap, (skipped.get(gap) ?? 0) + 1);
-        if (gap > step && gap % step === 0) {
-          let dense = byGap.get(gap / step);
-          if (dense === undefined) byGap.set(gap / step, dense = new Float64Array(k * k));
-          dense[state[n - 1]! * k + state[n]!] += 1;
-        }
+        let dense = byGap.get(gap / step);
+        let lines = gapLine.get(gap / step);
+        if (dense === undefined) byGap.set(gap / step, dense = new Float64Array(k * k));
+        if (lines === undefined) gapLine.set(gap / step, lines = new Float64Array(k * k));
+        const cell = state[n - 1]! * k + state[n]!;
+        dense[cell] += 1;
+        if (lines[cell] === 0 || line[n]! < lines[cell]!) lines[cell] = line[n]!;
+        const wide = (gap / step - 2) * k * k + cell;
+        siteGapCells.set(wide, (siteGapCells.get(wide) ?? 0) + 1);
         continue;
       }
       const cell = state[n - 1]! * k + state[n]!;
@@ -94,18 +134,29 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
       siteCells[cell] = 0;
     }
     touched.length = 0;
+    for (const wide of [...siteGapCells.keys()].sort((x, y) => x - y)) siteGaps.cell(wide, siteGapCells.get(wide)!);
+    siteGapCells.clear();
+    siteGaps.endSite(table.sites[site[a]!]!, undefined);
     sites.endSite(table.sites[site[a]!]!, rows.group && table.groups ? table.groups[rows.group[a]!]! : undefined);
     a = b;
   }
-  const skippedList = [...skipped.entries()].sort((x, y) => x[0] - y[0]).map(([gap, pairs]) => ({ gap, pairs }));
+  if (badLine > 0) throw gapNotWholeSteps(table.file, badLine, badGap, step, allGaps);
   const tripleList: (readonly [number, number, number, number])[] = [];
   triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
   const gapCounts: GapCell[] = [];
+  const gapLines: number[] = [];
+  const pairsByGap: PairsByGap[] = transitions > 0 ? [{ gap: 1, pairs: transitions }] : [];
   for (const g of [...byGap.keys()].sort((x, y) => x - y)) {
-    for (const [i, j, n] of sparseCells(byGap.get(g)!, k)) gapCounts.push([i, j, g, n]);
+    let pairs = 0;
+    for (const [i, j, n] of sparseCells(byGap.get(g)!, k)) {
+      gapCounts.push([i, j, g, n]);
+      gapLines.push(gapLine.get(g)![i * k + j]!);
+      pairs += n;
+    }
+    pairsByGap.push({ gap: g, pairs });
   }
   return {
-    k, counts, sites: sites.table(), transitions, skipped: skippedList, gapCounts, firstLine, triples: tripleList,
+    k, counts, sites: sites.table(), transitions, pairsByGap, gapCounts, gapLines, singleSurveySites, siteGaps: siteGaps.table(), firstLine, triples: tripleList,
     periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
   };
 }
@@ -123,9 +174,32 @@ export function addSiteCells(target: Float64Array, k: number, cells: readonly (r
   for (const [i, j, n] of cells) target[i * k + j] += weight * n;
 }
 
-/** The most common gap among skipped pairs: what `--step` should probably be. */
-export function likelyStep(skipped: readonly SkippedPairs[]): number | undefined {
-  let best: SkippedPairs | undefined;
-  for (const s of skipped) if (s.gap > 0 && (!best || s.pairs > best.pairs)) best = s;
+/** The most common gap among pairs (in whatever unit they are given): what `--step` should probably be. */
+export function likelyStep(pairs: readonly PairsByGap[]): number | undefined {
+  let best: PairsByGap | undefined;
+  for (const s of pairs) if (s.gap > 0 && (!best || s.pairs > best.pairs)) best = s;
   return best?.gap;
+}
+
+
+/**
+ * A pair whose gap is not a whole number of steps cannot be placed on the chain's clock: the one
+ * error for survey tables, counts tables and raster stacks, suggesting the step (`divisor`, in time
+ * units) that divides every gap.
+ */
+export function gapNotWholeSteps(file: string, line: number, gap: number, step: number, divisor: number): SereError {
+  return new SereError('GAP_NOT_WHOLE_STEPS', `two surveys of a site are ${gap} time unit${gap === 1 ? '' : 's'} apart, not a whole number of ${step}-unit steps`,
+    { file, ...(line > 0 ? { line } : {}) },
+    `every gap is a whole number of ${divisor}-unit steps: try --step ${divisor}, or check the survey times`);
+}
+
+/** Pairs by gap in steps — the one-step transitions, then each gap of `gapCounts` — as a fit reports them. */
+export function pairsByGapOf(transitions: number, gapCounts: readonly GapCell[]): PairsByGap[] {
+  const out: PairsByGap[] = transitions > 0 ? [{ gap: 1, pairs: transitions }] : [];
+  for (const [, , g, n] of gapCounts) {
+    const last = out[out.length - 1];
+    if (last && last.gap === g) out[out.length - 1] = { gap: g, pairs: last.pairs + n };
+    else out.push({ gap: g, pairs: n });
+  }
+  return out;
 }

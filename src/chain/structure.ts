@@ -49,7 +49,8 @@ function classPeriod(p: ArrayLike<number>, k: number, offset: number, members: r
   return g;
 }
 
-function gcd(a: number, b: number): number {
+/** Greatest common divisor of two whole numbers (Euclid). */
+export function gcd(a: number, b: number): number {
   while (b !== 0) [a, b] = [b, a % b];
   return a;
 }

@@ -1,12 +1,23 @@
 import type { Command } from 'commander';
 import { parsePrior } from '../chain/prior.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
-import { commaList, yearsFlag } from './parse-options.js';
+import { parseImpossible, parseStep, type FitSettings } from '../fit/settings.js';
+import { InvalidArgumentError } from 'commander';
+import { LIMITS } from '../limits.js';
+import { commaList } from './parse-options.js';
+
+/** `--step 5` (time units) or `--step 1y` (years, with dates in the time column). */
+function stepFlag(value: string): { step: number; dates: boolean } {
+  const step = parseStep(value);
+  if (!step || step.step > LIMITS.horizonSteps) {
+    throw new InvalidArgumentError(`expected a whole number from 1 to ${LIMITS.horizonSteps}, or years of dated surveys such as 1y.`);
+  }
+  return step;
+}
 
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
   /** Absent when not given: fitSettingsFrom applies the default (DEFAULT_STEP), so a counts table's own step can apply. */
-  step?: number;
+  step?: { step: number; dates: boolean };
   states?: string[];
   prior: string;
   impossible?: string[];
@@ -27,7 +38,7 @@ export const DEFAULT_STEP = 1;
 
 export function withFitOptions(command: Command): Command {
   return command
-    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5; default 1, or a counts table\'s own)', yearsFlag)
+    .option('--step <n>', 'time units one step spans (surveys every 5 years: 5; default 1, or a counts table\'s own); 1y, 2y …: the time column holds dates YYYY-MM-DD, steps of years', stepFlag)
     .option('--states <a,b,c>', 'the states, in the order to report them; other labels are errors', commaList)
     .option('--prior <p>', 'prior pseudo-count per cell: jeffreys (0.5), uniform (1) or a number', 'jeffreys')
     .option('--impossible <from>to,...>', 'transitions that cannot happen (structural zeros)', commaList)
@@ -42,7 +53,8 @@ export function withFitOptions(command: Command): Command {
 
 export function fitSettingsFrom(opts: FitFlags): FitSettings {
   return {
-    step: opts.step ?? DEFAULT_STEP,
+    step: opts.step?.step ?? DEFAULT_STEP,
+    dates: opts.step?.dates ?? false,
     ...(opts.step === undefined ? { stepDefaulted: true } : {}),
     prior: parsePrior(opts.prior, { path: '--prior' }),
     states: opts.states,

@@ -2,6 +2,7 @@ export const TIME_OK = 0;
 export const TIME_EMPTY = 1;
 export const TIME_NOT_WHOLE = 2;
 export const TIME_UNSAFE = 3;
+export const TIME_NOT_DATE = 4;
 
 export interface ParsedTime {
   status: number;
@@ -58,4 +59,30 @@ export function parseTime(bytes: Uint8Array, start: number, end: number, trim: b
 /** Whitespace as String.prototype.trim sees it, among ASCII bytes: tab, LF, VT, FF, CR, space. */
 function isSpace(b: number): boolean {
   return b === 0x20 || (b >= 0x09 && b <= 0x0d);
+}
+
+const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+/**
+ * A survey date YYYY-MM-DD (ISO 8601 calendar date, the only form accepted: no times, no other
+ * orders, so 03-04 is never read as either month) as days since 1970-01-01, proleptic Gregorian,
+ * UTC. A date that does not exist (2023-02-29) is TIME_NOT_DATE. Returns one reused object.
+ */
+export function parseDate(bytes: Uint8Array, start: number, end: number, trim: boolean): ParsedTime {
+  const raw = Buffer.from(bytes.buffer, bytes.byteOffset + start, end - start).toString('utf8');
+  const text = trim ? raw.trim() : raw;
+  parsed.text = text;
+  parsed.value = Number.NaN;
+  if (text === '') { parsed.status = TIME_EMPTY; return parsed; }
+  const m = ISO_DATE.exec(text);
+  const [y, mo, d] = m ? [Number(m[1]), Number(m[2]), Number(m[3])] : [0, 0, 0];
+  const days = Date.UTC(y, mo - 1, d) / 86_400_000;
+  const back = new Date(days * 86_400_000);
+  if (!m || back.getUTCFullYear() !== y || back.getUTCMonth() !== mo - 1 || back.getUTCDate() !== d) {
+    parsed.status = TIME_NOT_DATE;
+    return parsed;
+  }
+  parsed.status = TIME_OK;
+  parsed.value = days;
+  return parsed;
 }

@@ -24,6 +24,8 @@ export interface ReadSurveyOptions {
   readonly sheetPlace?: Place;
   /** Recorded labels → states, applied once per distinct label (label-map.ts). */
   readonly labels?: LabelMap;
+  /** The time column holds ISO dates (YYYY-MM-DD), rounded to yearly seasons (seasons.ts); otherwise whole numbers. */
+  readonly dates?: boolean;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
   readonly blockSize?: number;
 }

@@ -9,7 +9,8 @@ import type { ColumnIndex } from './survey-header.js';
 import { headerIndex, type HeaderIndex, type WideIndex } from './survey-layout.js';
 import type { ReadSurveyOptions } from './read-survey-csv.js';
 import type { SurveyTable } from './survey.js';
-import { parseTime, TIME_EMPTY, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
+import { parseDate, parseTime, TIME_EMPTY, TIME_NOT_DATE, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
+import { roundToSeasons } from './seasons.js';
 
 /**
  * The order in which problems are reported: the order of the checks when each ran over the whole
@@ -33,8 +34,8 @@ const FAILED = -4;
 /** Unmapped labels listed in one message. */
 const MAX_LISTED = 10;
 
-/** A time written as a date (2024-05-17, 17/05/2024, 17.05.2024): the hint says what to write instead. */
-const DATE = /^\d{1,4}[-/.]\d{1,2}[-/.]\d{1,4}/;
+/** A time written as an ISO date (2024-05-17): the hint points to --step 1y, which reads them. */
+const DATE = /^\d{4}-\d{2}-\d{2}$/;
 
 function setGrown(a: Float64Array, at: number, value: number): Float64Array {
   let b = a;
@@ -98,6 +99,10 @@ export class SurveyCollector implements RowSink {
       this.headerLine = line;
       try {
         this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout);
+        if (this.layout.layout === 'wide' && this.options.dates) {
+          throw new SereError('BAD_OPTION', 'a wide table is headed by survey times, not dates: --step 1y reads dates in a long table\'s time column',
+            { file: this.file, line }, 'head the columns by survey year and give --step as a number (--step 1)');
+        }
       } catch (err) {
         if (!(err instanceof SereError)) throw err;
         this.fail(HEADER, err);
@@ -120,17 +125,22 @@ export class SurveyCollector implements RowSink {
     const group = this.groupOf(bytes, starts, ends, line, index.group);
     if (this.stage <= VALUE) return;
 
-    const time = parseTime(bytes, starts[index.time]!, ends[index.time]!, this.trim);
+    const time = (this.options.dates ? parseDate : parseTime)(bytes, starts[index.time]!, ends[index.time]!, this.trim);
     const empty = this.sites.labels[site] === '' ? 'site' : time.status === TIME_EMPTY ? 'time'
       : this.stateLabels.labels[state] === '' ? 'state' : undefined;
     if (empty !== undefined) {
       this.emptyValue(empty, index[empty], line);
       return;
     }
+    if (time.status === TIME_NOT_DATE) {
+      this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a date written YYYY-MM-DD`,
+        { file: this.file, line, column: index.time + 1 }, 'write survey dates as 2024-08-15, or give --step as a number of time units for whole-number times'));
+      return;
+    }
     if (time.status === TIME_NOT_WHOLE) {
       this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a whole number`,
-        { file: this.file, line, column: index.time + 1 },
-        DATE.test(time.text) ? 'a date: write the survey year (e.g. 2024), or whole days from an origin of your choice'
+        { file: this.file, line, column: index.time + 1 }, DATE.test(time.text)
+          ? 'for survey dates give the step in years: --step 1y (fit: { step: 1y } in a scenario)'
           : 'write survey times as integers such as 2024'));
       return;
     }
@@ -285,6 +295,7 @@ export class SurveyCollector implements RowSink {
       store.site[n] = rank[store.site[n]!]!;
       store.state[n] = stateIndex[store.state[n]!]!;
     }
+    const seasons = this.options.dates ? roundToSeasons(store.time, store.line, store.count) : undefined;
     const ordered = orderRows(store, sites.length);
     if (ordered.conflict) {
       // A site surveyed twice at one time must agree with itself; an exact repeat is used once.
@@ -297,6 +308,7 @@ export class SurveyCollector implements RowSink {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
       ...(this.layout?.index.group !== undefined ? { groups: this.groups.labels } : {}),
       ...(this.options.labels ? { labels: { file: this.options.labels.file, sha256: this.options.labels.sha256, droppedRows: this.dropped } } : {}),
+      ...(seasons ? { seasons } : {}),
     };
   }
 

@@ -1,3 +1,4 @@
+import type { SeasonRounding } from './seasons.js';
 /**
  * The surveys of a table, one column per field in typed arrays — not one object per row: 10⁷ rows
  * as objects took 4.8 GB and most of the time in the garbage collector; as columns they take 21
@@ -45,6 +46,8 @@ export interface SurveyTable {
   readonly sha256: string;
   /** The label map the labels went through, and how many surveys it left out (labels mapped to skip). */
   readonly labels?: LabelMapUse;
+  /** When the time column held dates: how they were rounded to season years (the times in `rows`). */
+  readonly seasons?: SeasonRounding;
 }
 
 export interface LabelMapUse {

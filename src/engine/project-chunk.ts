@@ -56,6 +56,8 @@ export interface ProjectionInputs {
   readonly draws: number;
   readonly horizon: number;
   readonly start: ArrayLike<number>;
+  /** When true, `start` holds one mix per draw (draw d at `d*k`; carried-start.ts); else one mix for all. */
+  readonly startByDraw?: boolean;
   /** Treatments, sub-populations and events; absent: the drawn matrix every step. */
   readonly plan?: RunPlan;
   /** For each of `plan.landscapeEvents`, `hits[e][d*(horizon+1) + t]` = 1 when it strikes in step t. */
@@ -87,7 +89,7 @@ export interface ProjectionInputs {
  */
 export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
-  const { P, k, draws: D, horizon, start, plan, hits, target, onOutcome } = inputs;
+  const { P, k, draws: D, horizon, start, startByDraw, plan, hits, target, onOutcome } = inputs;
   const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
   const k2 = k * k;
   const steps = horizon + 1;
@@ -132,8 +134,9 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
     for (let t = from; t < to; t++) {
       if (t === 0) {
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[s]!;
-        for (let s = 0; s < k; s++) total[s] = start[s]!;
+        const so = startByDraw ? d * k : 0;
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + s]!;
+        for (let s = 0; s < k; s++) total[s] = start[so + s]!;
       } else {
         if (variation) sampleYearMatrix(P, d * k2, k, variation.concentration, d * k, streams[t - from]!, alpha, year!);
         for (let g = 0; g < G; g++) {

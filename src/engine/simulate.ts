@@ -4,6 +4,7 @@ import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
 import { buildPlan, type RunPlan } from './plan.js';
+import { carriedStarts } from './carried-start.js';
 import { simulatePlots, type PlotCounts } from './plot-counts.js';
 import { projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import type { SharedRun } from './engine-tasks.js';
@@ -185,7 +186,9 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
   const D = matrices.count;
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
-  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: Array.from(scenario.start.shares), plan, hits, target: scenario.target, variation };
+  const byDraw = carriedStarts(scenario, matrices);
+  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: byDraw ?? Array.from(scenario.start.shares), startByDraw: byDraw !== undefined,
+    plan, hits, target: scenario.target, variation };
   const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
   return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
 }

@@ -1,5 +1,5 @@
 import type { Scenario } from '../scenario/scenario.js';
-import { posteriorDraws } from '../uncertainty/posterior.js';
+import { latentSampleOf, posteriorDraws } from '../uncertainty/posterior.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { checkScenarios } from '../engine/check-treatments.js';
@@ -43,9 +43,13 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
   checkScenarios([scenario]);
   const { fit } = scenario;
   const k = fit.states.length;
+  // With gaps: one sampler run for the fit, reused with the added one-step surveys (an approximation:
+  // new surveys would move the latent paths a little; rerunning the sampler per cell and replicate
+  // would multiply the cost by their number).
+  const latent = latentSampleOf(fit, options.random);
   const widthsOf = (counts: Float64Array, random: RandomStream): number[] => {
     const updated = { ...fit, counts };
-    const matrices = posteriorDraws(updated, options.draws, random.stream('matrices'));
+    const matrices = posteriorDraws(updated, options.draws, random.stream('matrices'), latent);
     const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, random, { record: [scenario.horizonSteps] });
     return sim.shares.map((band) => band.high[0]! - band.low[0]!);
   };
@@ -59,7 +63,7 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
   for (const sites of grid.sites) {
     for (const seasons of grid.seasons) {
       const widths = meanOverReplicates((r) => {
-        const truth = posteriorDraws(fit, 1, options.random.stream(`truth:${r}`)).data;
+        const truth = posteriorDraws(fit, 1, options.random.stream(`truth:${r}`), latent).data;
         const random = options.random.stream(`surveys:${sites}:${seasons}:${r}`);
         const counts = Float64Array.from(fit.counts);
         simulateSurveys(truth, k, resurveyedStates(fit.latest.counts, sites, random), seasons, counts, random);

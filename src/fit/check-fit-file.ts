@@ -1,9 +1,11 @@
 import { quote } from '../errors.js';
 import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
-import { addSiteCells, compareCodePoints, type GapCell } from '../chain/counts.js';
-import { SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
+import { addSiteCells, compareCodePoints, type GapCell, type PairsByGap } from '../chain/counts.js';
+import { reachableInSteps } from '../chain/reachable.js';
+import { SiteCountBuilder, SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
+import type { LatentSample } from './latent-sample.js';
 
 /** Report one broken invariant at a key path; never returns. */
 export type Fail = (what: string, path: KeyPath, hint?: string) => never;
@@ -17,6 +19,10 @@ export interface CheckedFitFile {
   readonly sites: SiteCountTable | number;
   readonly transitions: number;
   readonly gapCounts: readonly GapCell[];
+  /** Pairs by gap, worked out from counts and gap_counts (a pairs_by_gap key, when present, must agree). */
+  readonly pairsByGap: readonly PairsByGap[];
+  readonly latentSample?: LatentSample;
+  readonly siteGaps?: SiteCountTable;
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -40,8 +46,12 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   const sites = checkSites(f, k, counts, fail);
   checkPeriods(f, k, counts, fail);
   checkTriples(f, k, counts, fail);
-  const gapCounts = checkGapCounts(f, k, fail);
-  return { states, impossible, counts, sites, transitions, gapCounts };
+  const gapCounts = checkGapCounts(f, states, impossible, fail);
+  const pairsByGap = checkPairsByGap(f, transitions, gapCounts, fail);
+  const latentSample = checkSampler(f, states, impossible, gapCounts, fail);
+  // Pooled counts (a number of sites) have no per-site gaps: the site bootstrap refuses them anyway.
+  const siteGaps = typeof sites === 'number' ? undefined : checkSiteGaps(f, k, sites, gapCounts, fail);
+  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {
@@ -122,6 +132,7 @@ function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
   const total = latest.counts.reduce((a, b) => a + b, 0);
   // The start shares are counts / sites: any other total would make shares that do not sum to 1.
   if (total !== latest.sites) fail(`latest.counts add up to ${total} sites, but latest.sites is ${latest.sites}`, ['latest', 'sites']);
+  (latest.carried ?? []).forEach(({ state }, n) => { if (state >= k) fail(`state index out of range (${k} states)`, ['latest', 'carried', n, 'state']); });
 }
 
 function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable | number {
@@ -181,8 +192,13 @@ function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
   });
 }
 
-/** Pairs by gap: indices in range, gaps of two or more steps, each cell once, in (gap, from, to) order. */
-function checkGapCounts(f: FitFile, k: number, fail: Fail): GapCell[] {
+/**
+ * Pairs by gap: indices in range, gaps of two or more steps, each cell once, in (gap, from, to)
+ * order, and each possible in that many steps under the structural zeros (else no matrix the fit
+ * may return explains it, and EM would divide by zero).
+ */
+function checkGapCounts(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail): GapCell[] {
+  const k = states.length;
   const cells = f.data.gap_counts ?? [];
   let previous = -1;
   cells.forEach(([i, j, g, n], c) => {
@@ -193,5 +209,83 @@ function checkGapCounts(f: FitFile, k: number, fail: Fail): GapCell[] {
     if (order <= previous) fail('cells are listed twice or out of (gap, from, to) order', ['data', 'gap_counts', c]);
     previous = order;
   });
+  const mask = new Uint8Array(k * k);
+  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
+  const reach = reachableInSteps(mask, k, cells.reduce((g, c) => Math.max(g, c[2]), 0));
+  cells.forEach(([i, j, g], c) => {
+    if (!reach[g]![i * k + j]) {
+      fail(`pairs ${g} steps apart from ${quote(states[i]!)} to ${quote(states[j]!)} are impossible under the impossible list`, ['data', 'gap_counts', c]);
+    }
+  });
   return cells.map(([i, j, g, n]) => [i, j, g, n] as const);
+}
+
+function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly GapCell[], fail: Fail): PairsByGap[] {
+  const byGap = new Map<number, number>([[1, transitions]]);
+  for (const [, , g, n] of gapCounts) byGap.set(g, (byGap.get(g) ?? 0) + n);
+  const pairs = [...byGap].sort((a, b) => a[0] - b[0]).map(([gap, n]) => ({ gap, pairs: n }));
+  const given = f.data.pairs_by_gap;
+  if (given !== undefined && JSON.stringify(given.map(({ gap, pairs: n }) => ({ gap, pairs: n }))) !== JSON.stringify(pairs)) {
+    fail('pairs_by_gap does not agree with counts and gap_counts', ['data', 'pairs_by_gap']);
+  }
+  return pairs;
+}
+
+/**
+ * The sampler's retained latent counts: one k×k table of whole numbers per retained sweep, zero on
+ * structural zeros, each holding exactly g one-step transitions per pair g steps apart (a bridge of g
+ * steps is g transitions). Only a fit with gaps has them.
+ */
+function checkSampler(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[],
+  gapCounts: readonly GapCell[], fail: Fail): LatentSample | undefined {
+  const s = f.posterior_sampler;
+  if (s === undefined || s === null) return undefined;
+  const k = states.length;
+  if (gapCounts.length === 0) fail('posterior_sampler is only for fits with pairs further apart than one step', ['posterior_sampler']);
+  if (s.latent_counts.length !== s.retained) fail(`latent_counts holds ${s.latent_counts.length} sweeps, not retained = ${s.retained}`, ['posterior_sampler', 'latent_counts']);
+  const mask = new Uint8Array(k * k);
+  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
+  const steps = gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
+  const latent = new Float64Array(s.retained * k * k);
+  s.latent_counts.forEach((sweep, r) => {
+    if (sweep.length !== k * k) fail(`a sweep has ${sweep.length} cells, not ${k * k}`, ['posterior_sampler', 'latent_counts', r]);
+    let total = 0;
+    sweep.forEach((x, c) => {
+      if (x > 0 && mask[c]) fail('a latent count falls on a transition declared impossible', ['posterior_sampler', 'latent_counts', r, c]);
+      total += x;
+    });
+    if (total !== steps) fail(`a sweep holds ${total} one-step transitions, not the ${steps} inside the gapped pairs`, ['posterior_sampler', 'latent_counts', r]);
+    latent.set(sweep, r * k * k);
+  });
+  const grid = (rows: (number | null)[][], key: string): Float64Array => {
+    if (rows.length !== k || rows.some((row) => row.length !== k)) fail(`${key} is not ${k}×${k}`, ['posterior_sampler', key]);
+    return Float64Array.from(rows.flat(), (x) => (x === null ? Number.NaN : x));
+  };
+  return { seed: s.seed, chains: s.chains, warmUp: s.warm_up, thin: s.thin ?? 1, retained: s.retained, latent, rhat: grid(s.rhat, 'rhat'), ess: grid(s.ess, 'ess') };
+}
+
+/** Each site's gapped pairs: known sites, in range, adding up to gap_counts; a table aligned with the sites. */
+function checkSiteGaps(f: FitFile, k: number, sites: SiteCountTable, gapCounts: readonly GapCell[], fail: Fail): SiteCountTable | undefined {
+  const rows = f.site_gap_counts;
+  if (rows === undefined || (rows.length === 0 && gapCounts.length > 0)) return undefined;
+  const position = new Map(sites.ids.map((id, s) => [id, s] as const));
+  const bySite = sites.ids.map(() => new Map<number, number>());
+  const sum = new Map<string, number>();
+  rows.forEach(([rawSite, i, j, g, n], c) => {
+    const s = position.get(normaliseLabel(rawSite));
+    if (s === undefined) fail(`site ${quote(rawSite)} is not in site_counts`, ['site_gap_counts', c, 0]);
+    if (i >= k || j >= k || g < 2 || n === 0) fail('not [site, from, to, gap ≥ 2, n ≥ 1] within the states', ['site_gap_counts', c]);
+    const wide = (g - 2) * k * k + i * k + j;
+    bySite[s!]!.set(wide, (bySite[s!]!.get(wide) ?? 0) + n);
+    sum.set(`${i},${j},${g}`, (sum.get(`${i},${j},${g}`) ?? 0) + n);
+  });
+  if (sum.size !== gapCounts.length || gapCounts.some(([i, j, g, n]) => sum.get(`${i},${j},${g}`) !== n)) {
+    fail('site_gap_counts do not add up to data.gap_counts', ['site_gap_counts']);
+  }
+  const builder = new SiteCountBuilder(k, false);
+  bySite.forEach((cells, s) => {
+    for (const wide of [...cells.keys()].sort((a, b) => a - b)) builder.cell(wide, cells.get(wide)!);
+    builder.endSite(sites.ids[s]!, undefined);
+  });
+  return builder.table();
 }

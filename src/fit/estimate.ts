@@ -1,9 +1,12 @@
-import { posteriorSummary, type PointEstimate, type PosteriorSummary } from '../chain/estimates.js';
+import { posteriorSummary, type PosteriorSummary } from '../chain/estimates.js';
+import type { GapEstimate } from '../chain/gap-em.js';
+import { mixturePosteriorSummary } from '../chain/mixture-summary.js';
 import { stationaryMix, type StationaryResult } from '../chain/stationary.js';
 import { fitMle, fitPrior, type Fit } from './fit.js';
 
 export interface FitEstimates {
-  readonly mle: PointEstimate;
+  /** The MLE, with how it was found (closed form, or EM with gaps) and the completed counts. */
+  readonly mle: GapEstimate;
   readonly posterior: PosteriorSummary;
   /** Stationary mix of the MLE, or the closed classes when there is more than one. */
   readonly stationary: StationaryResult;
@@ -15,7 +18,10 @@ export function estimateFit(fit: Fit, level: number): FitEstimates {
   const mle = fitMle(fit);
   return {
     mle,
-    posterior: posteriorSummary(fit.counts, alpha, k, level),
+    // With gaps and the sampler's sweeps at hand: the exact mixture; otherwise the closed form of the one-step counts.
+    posterior: fit.latentSample
+      ? mixturePosteriorSummary(fit.counts, alpha, k, level, fit.latentSample.latent, fit.latentSample.retained)
+      : posteriorSummary(fit.counts, alpha, k, level),
     stationary: stationaryMix(mle.p, k),
   };
 }

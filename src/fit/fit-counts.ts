@@ -1,7 +1,8 @@
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
 import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
-import type { GapCell, PeriodCounts, SkippedPairs } from '../chain/counts.js';
+import { gapNotWholeSteps, pairsByGapOf, type GapCell, type PeriodCounts } from '../chain/counts.js';
+import { gcd } from '../chain/structure.js';
 import type { MixAtTime } from '../chain/latest-mix.js';
 import { SiteCountBuilder, type SiteCountTable } from '../chain/site-counts.js';
 import { impossibleMask, type FitSettings } from './settings.js';
@@ -30,7 +31,7 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
   const mask = impossibleMask(settings.impossible, states, settings.places?.impossible ?? { path: '--impossible' });
   const counts = new Float64Array(k * k);
   const firstLine = new Float64Array(k * k);
-  const skipped = new Map<number, number>();
+  let notWhole: { dt: number; line: number } | undefined;
   const byGap = new Map<string, number>();
   const periods = new Map<number, Float64Array>();
   const history = new Map<number, number[]>();
@@ -47,13 +48,13 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
       continue;
     }
     if (c.gap !== 1) {
-      // Back to time units, as a survey-table fit reports them (the gap may be a rounded fraction).
-      const dt = Math.round(c.gap * step);
-      skipped.set(dt, (skipped.get(dt) ?? 0) + c.n);
-      if (Number.isInteger(c.gap) && c.gap >= 2) {
-        const key = `${c.gap} ${c.from} ${c.to}`;
-        byGap.set(key, (byGap.get(key) ?? 0) + c.n);
+      if (!Number.isInteger(c.gap)) {
+        // Back to time units, as the survey table had them (the gap may be a rounded fraction).
+        notWhole ??= { dt: Math.round(c.gap * step), line: c.line };
+        continue;
       }
+      const key = `${c.gap} ${c.from} ${c.to}`;
+      byGap.set(key, (byGap.get(key) ?? 0) + c.n);
       continue;
     }
     const cell = c.from * k + c.to;
@@ -64,8 +65,7 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
     if (period === undefined) periods.set(c.time - step, period = new Float64Array(k * k));
     period[cell] += c.n;
   }
-  const skippedList: SkippedPairs[] = [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
-  checkTransitions({ file: table.file, states, step, mask, counts, transitions, skipped: skippedList, firstLine });
+  if (notWhole) throw gapNotWholeSteps(table.file, notWhole.line, notWhole.dt, step, gapDivisor(cells, step));
   const mixes: MixAtTime[] = [...history].sort((a, b) => a[0] - b[0])
     .map(([time, c]) => ({ time, counts: c, sites: c.reduce((a, b) => a + b, 0) }));
   const latest = mixes[mixes.length - 1]!;
@@ -73,12 +73,15 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
     const [gap, from, to] = key.split(' ').map(Number) as [number, number, number];
     return [from, to, gap, n] as const;
   }).sort((a, b) => a[2] - b[2] || a[0] - b[0] || a[1] - b[1]);
+  const pairsByGap = pairsByGapOf(transitions, gapCounts);
+  checkTransitions({ file: table.file, states, step, mask, counts, transitions, pairsByGap, gapCounts, firstLine });
   const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => {
     const list: [number, number, number][] = [];
     dense.forEach((n, cell) => { if (n > 0) list.push([Math.floor(cell / k), cell % k, n]); });
     return { time, cells: list };
   });
-  const sites = siteCells ? siteTable(siteCells, k, table, counts) : new SiteCountBuilder(k, false).table();
+  const perSite = siteCells ? siteTable(siteCells, k, table, counts) : undefined;
+  const sites = perSite?.sites ?? new SiteCountBuilder(k, false).table();
   return {
     input: { file: table.file, sha256: table.sha256 },
     states,
@@ -87,10 +90,11 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
     impossible: settings.impossible,
     counts,
     sites,
-    ...(siteCells ? {} : { pooledSites }),
+    ...(perSite ? { siteGaps: perSite.siteGaps } : { pooledSites }),
     transitions,
-    skipped: skippedList,
+    skipped: [],
     gapCounts,
+    pairsByGap,
     repeatedRows: table.repeatedRows,
     surveys,
     firstTime: mixes[0]!.time,
@@ -119,20 +123,36 @@ function groupCells(cells: readonly CountCell[], table: CountsTable, group: stri
  * code-point order, with its one-step cells in cell order. The per-site counts must add up to the
  * pooled ones — a hand-edited file that breaks this is refused rather than bootstrapped.
  */
-function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable, counts: Float64Array): SiteCountTable {
+/**
+ * Each site's one-step counts (what the site bootstrap resamples) and, aligned with them, its pairs
+ * further apart (cell (g − 2)·k² + i·k + j, as chain/counts.ts keeps them), which the bootstrap
+ * with gaps refits.
+ */
+function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable, counts: Float64Array): { sites: SiteCountTable; siteGaps: SiteCountTable } {
   const bySite = new Map<string, SiteCell[]>();
   for (const c of siteCells) {
     const list = bySite.get(c.site);
     if (list) list.push(c); else bySite.set(c.site, [c]);
   }
   const builder = new SiteCountBuilder(k, table.grouped);
+  const gapBuilder = new SiteCountBuilder(k, false);
   const total = new Float64Array(k * k);
   for (const id of [...bySite.keys()].sort(compareCodePoints)) {
     const dense = new Map<number, number>();
+    const gapped = new Map<number, number>();
     for (const c of bySite.get(id)!) {
-      if (c.from === FIRST_SURVEY || c.gap !== 1) continue;
+      if (c.from === FIRST_SURVEY) continue;
+      if (c.gap !== 1) {
+        if (Number.isInteger(c.gap) && c.gap >= 2) {
+          const wide = (c.gap - 2) * k * k + c.from * k + c.to;
+          gapped.set(wide, (gapped.get(wide) ?? 0) + c.n);
+        }
+        continue;
+      }
       dense.set(c.from * k + c.to, (dense.get(c.from * k + c.to) ?? 0) + c.n);
     }
+    for (const wide of [...gapped.keys()].sort((a, b) => a - b)) gapBuilder.cell(wide, gapped.get(wide)!);
+    gapBuilder.endSite(id, undefined);
     for (const cell of [...dense.keys()].sort((a, b) => a - b)) {
       builder.cell(cell, dense.get(cell)!);
       total[cell] += dense.get(cell)!;
@@ -143,9 +163,16 @@ function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable
     throw new SereError('BAD_COUNTS', 'the per-site counts do not add up to the pooled counts', { file: table.file },
       'count the survey table again with sere count --per-site (do not edit a counts table by hand)');
   }
-  return builder.table();
+  return { sites: builder.table(), siteGaps: gapBuilder.table() };
 }
 
 function unitsOf(step: number): string {
   return `${step} time unit${step === 1 ? '' : 's'}`;
+}
+
+/** The largest step (in time units) that divides every gap of the table: what --step should be. */
+function gapDivisor(cells: readonly CountCell[], step: number): number {
+  let d = 0;
+  for (const c of cells) if (c.from !== FIRST_SURVEY && c.gap > 0) d = gcd(d, Math.round(c.gap * step));
+  return d;
 }

@@ -1,7 +1,8 @@
 import { SereError, quote, type Place } from '../errors.js';
 import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
 import { SiteCountBuilder } from '../chain/site-counts.js';
-import type { GapCell, PeriodCounts, SkippedPairs } from '../chain/counts.js';
+import { gapNotWholeSteps, pairsByGapOf, type GapCell, type PeriodCounts } from '../chain/counts.js';
+import { gcd } from '../chain/structure.js';
 import type { MixAtTime } from '../chain/latest-mix.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import { checkTransitions, type Fit } from './fit.js';
@@ -63,7 +64,6 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
   const mask = impossibleMask(settings.impossible, states, settings.places?.impossible ?? { path: '--impossible' });
   const step = settings.step;
   const counts = new Float64Array(k * k);
-  const skipped = new Map<number, number>();
   const byGap = new Map<number, Float64Array>();
   const periods = new Map<number, Float64Array>();
   const triples = new Float64Array(k * k * k);
@@ -80,13 +80,12 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
         if (!period) periods.set(years[u]!, period = new Float64Array(k * k));
         addMapped(period, pair, index, kc, k);
       } else {
-        let n = 0;
-        for (const x of pair) n += x;
-        skipped.set(gap, (skipped.get(gap) ?? 0) + n);
-        if (gap > step && gap % step === 0) {
-          into = byGap.get(gap / step);
-          if (!into) byGap.set(gap / step, into = new Float64Array(k * k));
+        if (gap % step !== 0) {
+          const divisor = years.slice(1).reduce((d, y, n) => gcd(d, y - years[n]!), 0);
+          throw gapNotWholeSteps(counted.stack.file, 0, gap, step, divisor);
         }
+        into = byGap.get(gap / step);
+        if (!into) byGap.set(gap / step, into = new Float64Array(k * k));
       }
       if (into) addMapped(into, pair, index, kc, k);
       if (gap === step) for (const x of pair) transitions += x;
@@ -99,9 +98,14 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
       }
     }
   }
-  // The checks every fit's one-step counts pass (fit.ts); a zone's fit for maps may have none.
+  const gapCounts: GapCell[] = [];
+  for (const g of [...byGap.keys()].sort((a, b) => a - b)) {
+    byGap.get(g)!.forEach((n, c) => { if (n > 0) gapCounts.push([Math.floor(c / k), c % k, g, n]); });
+  }
+  const pairsByGap = pairsByGapOf(transitions, gapCounts);
+  // The checks every fit's counts pass (fit.ts); a zone's fit for maps may have none.
   if (!zoneFit || transitions > 0) {
-    checkTransitions({ file: counted.stack.file, states, step, mask, counts, transitions, skipped: skippedOf(skipped), firstLine: new Float64Array(k * k) });
+    checkTransitions({ file: counted.stack.file, states, step, mask, counts, transitions, pairsByGap, gapCounts, firstLine: new Float64Array(k * k) });
   }
   const history: MixAtTime[] = [];
   let surveys = 0;
@@ -120,11 +124,6 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     throw new SereError('NO_TRANSITIONS', 'every pixel is nodata or skipped', { file: counted.stack.file }, 'check the nodata value and the labels');
   }
   const last = history[history.length - 1]!;
-  const gapCounts: GapCell[] = [];
-  for (const g of [...byGap.keys()].sort((a, b) => a - b)) {
-    byGap.get(g)!.forEach((n, c) => { if (n > 0) gapCounts.push([Math.floor(c / k), c % k, g, n]); });
-  }
-  const skippedList = skippedOf(skipped);
   const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => ({ time, cells: sparse(dense, k) }));
   const tripleList: (readonly [number, number, number, number])[] = [];
   triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
@@ -139,8 +138,9 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     // Every pixel surveyed at least once is a site: each adds its surveys less one consecutive pair.
     pooledSites: surveys - pairsTotal(tally),
     transitions,
-    skipped: skippedList,
+    skipped: [],
     gapCounts,
+    pairsByGap,
     repeatedRows: 0,
     surveys,
     firstTime: history[0]!.time,
@@ -192,10 +192,6 @@ function zoneTally(counted: RasterCounts, group: string, place: Place): RasterTa
     throw new SereError('BAD_OPTION', `no zone ${quote(group)} in the zone raster`, place, `use one of: ${counted.zones.join(', ')}`);
   }
   return counted.tallies[z]!;
-}
-
-function skippedOf(skipped: ReadonlyMap<number, number>): SkippedPairs[] {
-  return [...skipped].sort((a, b) => a[0] - b[0]).map(([gap, pairs]) => ({ gap, pairs }));
 }
 
 function pairsTotal(tally: RasterTally): number {

@@ -1,12 +1,17 @@
 import { SereError, quote, type Place } from '../errors.js';
 import type { LabelMapUse, SurveyTable } from '../data/survey.js';
+import type { SeasonRounding } from '../data/seasons.js';
+
+export type { SeasonRounding };
 import { likelyTypos, type LikelyTypo } from '../data/label-typos.js';
-import { countTransitions, likelyStep, type GapCell, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
+import { countTransitions, likelyStep, type GapCell, type PairsByGap, type PeriodCounts, type SkippedPairs } from '../chain/counts.js';
 import type { SiteCountTable } from '../chain/site-counts.js';
 import { latestSurveyedMix, surveyedMixes, type MixAtTime, type SurveyedMix } from '../chain/latest-mix.js';
 import { priorMatrix, type PriorSpec } from '../chain/prior.js';
-import { maximumLikelihood, type PointEstimate } from '../chain/estimates.js';
+import { gapMaximumLikelihood, type GapEstimate } from '../chain/gap-em.js';
+import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
+import type { LatentSample } from './latent-sample.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -30,9 +35,19 @@ export interface Fit {
    */
   readonly pooledSites?: number;
   readonly transitions: number;
+  /** Pairs not used, by gap in time units: only in fit files written before gaps were modelled (new fits use every pair). */
   readonly skipped: readonly SkippedPairs[];
   /** Pairs two or more whole steps apart, by gap in steps (chain/counts.ts GapCell; absent in old fit files). */
   readonly gapCounts?: readonly GapCell[];
+  /** Every pair used, by gap in steps (absent in old fit files: then the one-step transitions only). */
+  readonly pairsByGap?: readonly PairsByGap[];
+  /** Sites surveyed once only, which say nothing about change (absent in old fit files). */
+  readonly singleSurveySites?: number;
+  /**
+   * Each site's pairs two or more steps apart, aligned with `sites` (cells (g − 2)·k² + i·k + j;
+   * chain/counts.ts), for the site bootstrap of a fit with gaps (absent in old fit files).
+   */
+  readonly siteGaps?: SiteCountTable;
   readonly repeatedRows: number;
   /** The label map the survey labels went through, and the surveys it left out (absent without one). */
   readonly labels?: LabelMapUse;
@@ -45,13 +60,21 @@ export interface Fit {
   readonly triples?: readonly (readonly [number, number, number, number])[];
   /** Transitions by the survey time they started: for time-homogeneity tests (absent in old fit files). */
   readonly periods?: readonly PeriodCounts[];
+  /** When the time column held dates: how they were rounded to yearly seasons (data/seasons.ts). */
+  readonly seasons?: SeasonRounding;
   /** The group column's name, when the survey table had one. */
   readonly groupColumn?: string;
+  /**
+   * The data-augmentation sampler's retained latent counts, when the fit has pairs further apart
+   * than one step and was sampled at fit time (`sere fit`) or read from a fit file that holds them.
+   * Without it, the posterior runs the sampler on the run's own random stream.
+   */
+  readonly latentSample?: LatentSample;
   /** The surveyed mix at every survey time, for charts (absent when fitted from a fit file). */
   readonly history?: readonly MixAtTime[];
 }
 
-/** What the checks of a fit's transitions need, from a survey table or a counts table. */
+/** What the checks of a fit's transitions need, from a survey table, a counts table or a raster stack. */
 export interface CountedTransitions {
   readonly file: string;
   readonly states: readonly string[];
@@ -59,24 +82,30 @@ export interface CountedTransitions {
   readonly mask: Uint8Array;
   readonly counts: Float64Array;
   readonly transitions: number;
-  readonly skipped: readonly SkippedPairs[];
+  /** Pairs by gap in steps (gap 1: the one-step transitions): what --step should probably be. */
+  readonly pairsByGap: readonly PairsByGap[];
+  readonly gapCounts: readonly GapCell[];
   /** For each cell, the line of its first transition in `file` (0 when unknown). */
   readonly firstLine: Float64Array;
+  /** For each cell of `gapCounts`, the line of the later survey of its first pair (absent: unknown). */
+  readonly gapLines?: readonly number[];
 }
 
 /**
- * The checks every fit's one-step counts pass, whatever they were counted from: some transitions
- * one step apart, none declared impossible, and every state free to go somewhere.
+ * The checks every fit's counts pass, whatever they were counted from: some transitions one step
+ * apart, none declared impossible, every pair further apart explainable by allowed steps, and
+ * every state free to go somewhere.
  */
 export function checkTransitions(c: CountedTransitions): void {
   const k = c.states.length;
   if (c.transitions === 0) {
-    const guess = likelyStep(c.skipped);
+    // Pairs further apart alone speak of Pᵍ, whose g-th roots are many: the one-step chain is not identified.
+    const guess = likelyStep(c.pairsByGap);
     throw new SereError('NO_TRANSITIONS',
       `no two surveys of the same site are ${c.step} time unit${c.step === 1 ? '' : 's'} apart`,
       { file: c.file },
-      guess !== undefined && guess !== c.step
-        ? `most surveys are ${guess} apart: try --step ${guess}`
+      guess !== undefined
+        ? `most surveys are ${guess * c.step} apart: try --step ${guess * c.step}`
         : 'each site needs at least two surveys one step apart');
   }
   for (let cell = 0; cell < k * k; cell++) {
@@ -89,6 +118,7 @@ export function checkTransitions(c: CountedTransitions): void {
         `check these surveys, or drop ${quote(`${from}>${to}`)} from the impossible list`);
     }
   }
+  checkGapPairsPossible(c);
   for (let i = 0; i < k; i++) {
     let allowed = 0;
     for (let j = 0; j < k; j++) allowed += c.mask[i * k + j] ? 0 : 1;
@@ -115,17 +145,21 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     counts: counted.counts,
     sites: counted.sites,
     transitions: counted.transitions,
-    skipped: counted.skipped,
+    skipped: [],
     gapCounts: counted.gapCounts,
+    pairsByGap: counted.pairsByGap,
+    singleSurveySites: counted.singleSurveySites,
+    siteGaps: counted.siteGaps,
     repeatedRows: table.repeatedRows,
     ...(table.labels ? { labels: table.labels } : {}),
     typos: likelyTypos(table),
     surveys: table.rows.count,
     firstTime,
-    latest: latestSurveyedMix(table.rows, k),
+    latest: latestSurveyedMix(table.rows, k, settings.step),
     triples: counted.triples,
     periods: counted.periods,
     groupColumn: settings.columns.group,
+    ...(table.seasons ? { seasons: table.seasons } : {}),
     history: surveyedMixes(table.rows, k),
   };
 }
@@ -147,12 +181,36 @@ export function needPerSite(fit: Fit, feature: string, place: Place = { file: fi
 }
 
 /**
+ * A pair g steps apart from i to j needs some path of g allowed steps from i to j; under the
+ * structural zeros there may be none, and then no matrix the fit may return explains the pair.
+ * Reported like a one-step transition declared impossible, at the later survey's line.
+ */
+function checkGapPairsPossible({ gapCounts, gapLines, mask, states, file }: CountedTransitions): void {
+  if (gapCounts.length === 0 || !mask.some((m) => m === 1)) return;
+  const k = states.length;
+  const lineOf = (c: number): number => gapLines?.[c] ?? 0;
+  const reach = reachableInSteps(mask, k, gapCounts.reduce((g, c) => Math.max(g, c[2]), 0));
+  let worst = -1;
+  gapCounts.forEach(([i, j, g], c) => {
+    if (!reach[g]![i * k + j] && (worst < 0 || lineOf(c) < lineOf(worst))) worst = c;
+  });
+  if (worst < 0) return;
+  const [i, j, g, n] = gapCounts[worst]!;
+  const from = states[i]!;
+  const to = states[j]!;
+  throw new SereError('IMPOSSIBLE_OBSERVED',
+    `${n} pair${n === 1 ? '' : 's'} of surveys ${g} steps apart go${n === 1 ? 'es' : ''} from ${quote(from)} to ${quote(to)}, ` +
+    'which no path of allowed transitions does in that many steps (first ending here)',
+    { file, ...(lineOf(worst) ? { line: lineOf(worst) } : {}) }, 'check these surveys, or shorten the impossible list');
+}
+
+/**
  * What every stage asks of a fit — its structural zeros, prior and maximum-likelihood matrix —
  * worked out once per fit and kept (a fit is never changed after it is made; a changed copy is a
  * new object and gets its own). One owner, so the mask and the MLE cannot be built two ways.
  */
-const derived = new WeakMap<Fit, { mask?: Uint8Array; prior?: Float64Array; mle?: PointEstimate }>();
-function cacheOf(fit: Fit): { mask?: Uint8Array; prior?: Float64Array; mle?: PointEstimate } {
+const derived = new WeakMap<Fit, { mask?: Uint8Array; prior?: Float64Array; mle?: GapEstimate }>();
+function cacheOf(fit: Fit): { mask?: Uint8Array; prior?: Float64Array; mle?: GapEstimate } {
   let entry = derived.get(fit);
   if (!entry) derived.set(fit, entry = {});
   return entry;
@@ -173,8 +231,17 @@ export function fitPrior(fit: Fit): Float64Array {
   return Float64Array.from(cache.prior ??= priorMatrix(fit.states.length, fit.prior, fitMask(fit)));
 }
 
-/** Read-only (shared by every caller): the maximum-likelihood matrix of a fit (a row never observed takes the prior mean; see estimates.ts). */
-export function fitMle(fit: Fit): PointEstimate {
+/**
+ * Read-only (shared by every caller): the maximum-likelihood matrix of a fit (a row never observed
+ * takes the prior mean; see estimates.ts). From one-step counts alone it is the closed form; with
+ * pairs further apart, EM over the bridges between surveys (chain/gap-em.ts).
+ */
+export function fitMle(fit: Fit): GapEstimate {
   const cache = cacheOf(fit);
-  return cache.mle ??= maximumLikelihood(fit.counts, fitPrior(fit), fit.states.length);
+  return cache.mle ??= gapMaximumLikelihood(fit.counts, fit.gapCounts ?? [], fitPrior(fit), fit.states.length);
+}
+
+/** Whether the fit has pairs further apart than one step (then EM and data augmentation, not the closed form). */
+export function hasGaps(fit: Fit): boolean {
+  return (fit.gapCounts?.length ?? 0) > 0;
 }

@@ -7,12 +7,15 @@ import type { PriorSpec } from '../chain/prior.js';
 
 /** Everything that decides a fit besides the survey table itself. */
 export interface FitSettings {
+  /** Time units one step spans; with `dates`, years. */
   readonly step: number;
   /**
    * The step was not given (a flag's or scenario's default): a counts table's own step is used
    * then, while a step that was given must match it.
    */
   readonly stepDefaulted?: boolean;
+  /** The time column holds ISO dates, rounded to yearly seasons (`--step 1y`, `fit: { step: 1y }`). */
+  readonly dates?: boolean;
   readonly prior: PriorSpec;
   readonly states?: readonly string[];
   /** Transitions declared impossible (structural zeros), as [from, to] labels. */
@@ -36,6 +39,7 @@ export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
     columns: settings.columns,
     states: settings.states,
     statesPlace: settings.places?.states,
+    ...(settings.dates ? { dates: true } : {}),
     ...(settings.layout ? { layout: settings.layout } : {}),
     ...(settings.sheet !== undefined ? { sheet: settings.sheet, sheetPlace: settings.places?.sheet ?? { path: '--sheet' } } : {}),
     ...(settings.labels !== undefined ? { labels: labelMapAt(settings.labels, settings.places?.labels ?? { path: '--labels' }) } : {}),
@@ -82,4 +86,15 @@ export function impossibleMask(pairs: FitSettings['impossible'], states: readonl
     mask[i * k + j] = 1;
   }
   return mask;
+}
+
+/**
+ * A step as typed: a whole number of time units (`5`), or years of dated surveys (`1y`, `2y`), which
+ * makes the time column hold ISO dates. Undefined when it is neither (the caller reports where).
+ */
+export function parseStep(text: string | number): { step: number; dates: boolean } | undefined {
+  const m = /^\s*(\d+)(y?)\s*$/.exec(String(text));
+  const n = m ? Number(m[1]) : Number.NaN;
+  if (!m || !(n > 0) || !Number.isSafeInteger(n)) return undefined;
+  return { step: n, dates: m[2] === 'y' };
 }

@@ -1,17 +1,25 @@
 import type { ChalkInstance } from 'chalk';
-import { siteCount, type Fit } from '../fit/fit.js';
+import { siteCount, type Fit, type SeasonRounding } from '../fit/fit.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import { pseudoCount } from '../chain/prior.js';
 import { count, fitSites, latestCoverage, levelLabel, percent, probability, probabilityBand } from './numbers.js';
 import { makeTable } from './style.js';
+import { carriedWords } from './forecast-table.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 
 /** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
-/** What the fit left out or merged: skipped pairs by gap, repeated rows (also printed by sere season). */
+/**
+ * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
+ * survey, repeated rows (also printed by sere season).
+ */
 export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
   const lines = fit.skipped.map(({ gap, pairs }) =>
     style.yellow(`skipped: ${count(pairs, 'pair')} of consecutive surveys ${gap} years apart (not one step)`));
+  if ((fit.singleSurveySites ?? 0) > 0) {
+    lines.push(style.yellow(`${count(fit.singleSurveySites!, 'site')} surveyed once only: no pair, so no information about change ` +
+      '(they count in the latest mix when surveyed then)'));
+  }
   if (fit.repeatedRows > 0) lines.push(style.yellow(`repeated rows: ${fit.repeatedRows} exact duplicates, each used once`));
   if (fit.labels && fit.labels.droppedRows > 0) {
     lines.push(style.yellow(`label map ${fit.labels.file}: ${count(fit.labels.droppedRows, 'survey')} left out (labels mapped to skip)`));
@@ -40,14 +48,31 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   lines.push(style.bold(`Fit of ${fit.input.file}`));
   lines.push(`${fitSites(fit)} · ${count(fit.surveys, 'survey')} (${fit.firstTime}–${fit.latest.time}) · ` +
     `${count(fit.transitions, 'transition')} of one ${fit.step}-year step`);
+  const further = (fit.pairsByGap ?? []).filter((p) => p.gap > 1);
+  if (further.length > 0) {
+    lines.push(`pairs further apart, all used: ${further.map((p) => `${count(p.pairs, 'pair')} ${p.gap} steps apart`).join(', ')} · ` +
+      `maximum likelihood by EM (${count(est.mle.iterations, 'iteration')}${est.mle.converged ? '' : ', not converged'})`);
+  }
+  if (fit.seasons) lines.push(seasonLine(fit.seasons));
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
 
   const impossible = new Set(fit.impossible.map(([a, b]) => states.indexOf(a) * k + states.indexOf(b)));
   matrix('Transition counts, from → to', (c) => String(fit.counts[c]));
+  if (further.length > 0) {
+    matrix('Completed counts at the MLE (one-step + expected inside longer gaps), from → to', (c) => est.mle.expected[c]!.toFixed(1));
+  }
   matrix('Maximum-likelihood probabilities, from → to', (c) => impossible.has(c) ? '—' : probability(est.mle.p[c]!));
   const { posterior } = est;
+  const sample = fit.latentSample;
+  if (sample) {
+    const rhat = Array.from(sample.rhat).filter(Number.isFinite);
+    const ess = Array.from(sample.ess).filter(Number.isFinite);
+    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${count(sample.chains, 'chain')} × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
+      `after ${sample.warmUp} warm-up (seed ${sample.seed}) · ` +
+      (rhat.length ? `largest R̂ ${Math.max(...rhat).toFixed(3)} · smallest effective sample size ${Math.round(Math.min(...ess))}` : 'no diagnostics (they need two chains or more)'));
+  }
   matrix(`Posterior mean [${levelLabel(posterior.level)}], from → to`, (c) =>
     impossible.has(c) ? '—' : probabilityBand(posterior.mean[c]!, posterior.low[c]!, posterior.high[c]!));
   if (impossible.size > 0) lines.push(style.dim('— declared impossible: zero in every draw'));
@@ -72,6 +97,18 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
       ['long-run share'], style));
   }
   lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
+  if (fit.latest.carried?.length) lines.push(`forecasts start from these ${count(fit.latest.sites, 'site')} ${carriedWords(fit.latest.carried)}`);
+  const uncarried = fit.pooledSites === undefined ? 0 : fit.pooledSites - fit.latest.sites;
+  if (uncarried > 0) {
+    lines.push(style.yellow(`${count(uncarried, 'site')} not surveyed in ${fit.latest.time} left out of the start: pooled counts keep no site's last survey to carry forward`));
+  }
+  if (fit.latest.notCarried) lines.push(style.yellow(`${count(fit.latest.notCarried, 'site')} last surveyed a time that is not whole steps before ${fit.latest.time}: left out of the start`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));
   return lines.join('\n') + '\n';
+}
+
+/** How dated surveys were rounded to yearly seasons, in one line. */
+export function seasonLine(s: SeasonRounding): string {
+  return `dates rounded to yearly seasons centred on ${s.centre} (month-day): the largest shift ${s.largestShiftDays} days (line ${s.largestShiftLine}); ` +
+    `${count(s.otherYear, 'survey')} of ${s.dates} counted in the season of a neighbouring calendar year`;
 }

@@ -27,7 +27,11 @@ export function scenarioJson(r: ForecastResult): object {
     step: fit.step,
     uncertainty: { source: sc.source, draws: r.draws, seed: r.seed },
     level: sc.level,
-    start: { year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!) },
+    start: {
+      year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!),
+      // Only when some sites were carried forward, so that outputs without them keep their bytes.
+      ...(sc.start.carried?.length ? { carried: sc.start.carried.map((c) => ({ state: fit.states[c.state]!, steps: c.steps, sites: c.sites })) } : {}),
+    },
     years: r.years,
     shares: byState((s) => r.shares[s]),
     plots: r.plots && sc.plots ? { total: sc.plots.total, start: byState((s) => sc.plots!.start[s]!), ...byState((s) => r.plots![s]) } : null,

@@ -1,4 +1,5 @@
 import { siteCount } from '../fit/fit.js';
+import type { CarriedSites } from '../chain/latest-mix.js';
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
 import { concentration, count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
@@ -15,11 +16,15 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const band = levelLabel(sc.level);
   const lines: string[] = [];
   lines.push(style.bold(`${sc.name}`) + style.dim(`  (${sc.file})`));
-  lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')} · ${fit.step}-year steps`);
+  const further = (fit.pairsByGap ?? []).reduce((s, p) => s + (p.gap > 1 ? p.pairs : 0), 0);
+  lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')}` +
+    `${further > 0 ? ` + ${count(further, 'pair')} further apart` : ''} · ${fit.step}-year steps`);
   const varying = r.variation ? ` · year-to-year variation ${sc.variation.kind === 'given' ? 'given' : 'estimated'}` : '';
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed}${varying} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
-    ? `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
+    ? sc.start.carried?.length
+      ? `start: ${sc.start.year}, the ${count(fit.latest.sites, 'site')} surveyed then ${carriedWords(sc.start.carried)}`
+      : `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
     : `start: ${sc.start.year}, shares given in the scenario`);
   for (const t of sc.treatments) lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the area` : ''})`);
   for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope)`);
@@ -136,4 +141,14 @@ function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
 
 function points(x: number): string {
   return (x * 100).toFixed(1);
+}
+
+/** "plus N sites carried forward from their last survey through each draw (1–3 steps back)"; empty when none were. */
+export function carriedWords(carried: readonly CarriedSites[] | undefined): string {
+  if (!carried?.length) return '';
+  const sites = carried.reduce((s, c) => s + c.sites, 0);
+  const near = Math.min(...carried.map((c) => c.steps));
+  const far = Math.max(...carried.map((c) => c.steps));
+  return `plus ${count(sites, 'site')} carried forward from their last survey through each draw ` +
+    `(${near === far ? near : `${near}–${far}`} step${far === 1 ? '' : 's'} back)`;
 }

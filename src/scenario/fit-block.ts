@@ -4,7 +4,7 @@ import type { Place } from '../errors.js';
 import type { KeyPath } from '../data/read-structured.js';
 import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { DEFAULT_FIT_SETTINGS } from '../fit/fit-from-file.js';
-import { parseImpossible, type FitSettings } from '../fit/settings.js';
+import { parseImpossible, parseStep, type FitSettings } from '../fit/settings.js';
 import type { fitSettingsSchema } from './schema.js';
 
 /**
@@ -17,7 +17,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
     places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
-    step: block.step ?? DEFAULT_FIT_SETTINGS.step,
+    ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
     states: block.states,
@@ -29,4 +29,11 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
     // Relative to the file that names it; kept relative to the working folder, as data is.
     ...(block.labels !== undefined ? { labels: relative(process.cwd(), resolve(dir, block.labels)) } : {}),
   };
+}
+
+/** `step: 5` or `step: 1y` (dated surveys); the schema has checked the form. */
+function stepOf(step: number | string | undefined): { step: number; dates?: boolean } {
+  if (step === undefined) return { step: DEFAULT_FIT_SETTINGS.step };
+  const parsed = parseStep(step)!;
+  return parsed.dates ? parsed : { step: parsed.step };
 }

@@ -4,7 +4,8 @@ import { fitSettingsOf } from './fit-block.js';
 import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
-import { fitMask, needPerSite, type Fit } from '../fit/fit.js';
+import { carriedMix } from '../chain/latest-mix.js';
+import { fitMle, fitMask, needPerSite, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -56,8 +57,14 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     return i;
   };
 
+  const carried = fit.latest.carried ?? [];
+  // Sites not surveyed at the latest time are carried forward (engine/carried-start.ts); the shares
+  // reported as the start are theirs under the MLE.
   const start = s.start === 'latest'
-    ? { year: fit.latest.time, shares: Float64Array.from(fit.latest.shares), from: 'latest' as const }
+    ? carried.length === 0
+      ? { year: fit.latest.time, shares: Float64Array.from(fit.latest.shares), from: 'latest' as const }
+      : { year: fit.latest.time, shares: carriedMix(fit.latest, fitMle(fit).p, fit.states.length, 0, new Float64Array(fit.states.length)),
+        from: 'latest' as const, carried }
     : { year: s.start.year, shares: givenShares(s.start.shares, states.length, stateIndex, fail), from: 'given' as const };
 
   const stepsOf = (years: number, path: KeyPath): number => {

@@ -1,4 +1,5 @@
 import type { Place } from '../errors.js';
+import type { CarriedSites } from '../chain/latest-mix.js';
 import type { Fit } from '../fit/fit.js';
 import type { RowChange } from '../chain/row-change.js';
 import type { VariationSpec } from '../uncertainty/variation.js';
@@ -17,7 +18,12 @@ export interface Scenario {
   readonly draws: number;
   /** Absent when the scenario names none; the CLI then picks one and prints it. */
   readonly seed?: number;
-  readonly start: { readonly year: number; readonly shares: Float64Array; readonly from: 'latest' | 'given' };
+  /**
+   * `shares` is the start for every draw, unless `carried` lists sites not surveyed at the latest
+   * time: then each draw starts from the surveyed sites plus those carried forward through its own
+   * matrix (engine/carried-start.ts), and `shares` is that start under the MLE, for reports.
+   */
+  readonly start: { readonly year: number; readonly shares: Float64Array; readonly from: 'latest' | 'given'; readonly carried?: readonly CarriedSites[] };
   readonly horizonSteps: number;
   /** Steps after the start shown in the terminal table. */
   readonly showSteps: readonly number[];

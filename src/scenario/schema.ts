@@ -12,7 +12,10 @@ const stateName = z.string({ error: 'a state name is required' }).min(1, { error
 
 /** How to fit a survey table named by `data` (the same settings as `sere fit`'s flags). */
 export const fitSettingsSchema = z.strictObject({
-  step: positiveInt('fit.step').optional(),
+  step: z.union([positiveInt('fit.step'), z.string().regex(/^\d+y$/, { error: 'fit.step must be a whole number, or years of dated surveys such as 1y' })],
+    { error: 'fit.step must be a whole number, or years of dated surveys such as 1y' })
+    .describe('Time units one step spans (5: surveys every 5 time units), or years of dated surveys (1y: the time column holds dates YYYY-MM-DD, each rounded to its yearly season).')
+    .optional(),
   prior: z.union([z.enum(['jeffreys', 'uniform']), z.number().positive()],
     { error: 'prior must be jeffreys, uniform or a positive number' }).optional(),
   states: z.array(stateName).min(2, { error: 'list at least two states' }).optional(),

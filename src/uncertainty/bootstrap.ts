@@ -1,4 +1,7 @@
-import { fitMle, needPerSite, type Fit } from '../fit/fit.js';
+import { SereError } from '../errors.js';
+import type { GapCell } from '../chain/counts.js';
+import { gapMaximumLikelihood } from '../chain/gap-em.js';
+import { fitMle, fitPrior, hasGaps, needPerSite, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
 
@@ -29,17 +32,30 @@ export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): M
   return { k, count, data, source: 'bootstrap', notes: bootstrapNotes(fit, emptyRows) };
 }
 
-/** `count` bootstrap matrices into `data` from `offset` (in numbers); returns how many resampled rows were empty. */
+/**
+ * `count` bootstrap matrices into `data` from `offset` (in numbers); returns how many resampled rows were empty.
+ *
+ * With pairs further apart than one step, each resample is refitted by EM (chain/gap-em.ts) from
+ * its sites' one-step and gapped pairs, started at the full-data MLE (a resample is close to the
+ * data, so EM starts near its answer). Without gaps the draws are the closed form's, unchanged.
+ */
 export function bootstrapInto(fit: Fit, count: number, random: RandomStream, data: Float64Array, offset: number): number {
   needPerSite(fit, 'the site bootstrap');
   const k = fit.states.length;
   const full = fitMle(fit).p;
   const resampled = new Float64Array(k * k);
   const n = fit.sites.length;
+  const gaps = hasGaps(fit) ? gapResampler(fit) : undefined;
   let emptyRows = 0;
   for (let d = 0; d < count; d++) {
     resampled.fill(0);
-    for (let s = 0; s < n; s++) fit.sites.addTo(resampled, random.integer(n));
+    gaps?.clear();
+    for (let s = 0; s < n; s++) {
+      const site = random.integer(n);
+      fit.sites.addTo(resampled, site);
+      gaps?.add(site);
+    }
+    if (gaps) resampled.set(gapMaximumLikelihood(resampled, gaps.cells(), gaps.alpha, k, full).expected);
     const base = offset + d * k * k;
     for (let i = 0; i < k; i++) {
       let total = 0;
@@ -51,6 +67,28 @@ export function bootstrapInto(fit: Fit, count: number, random: RandomStream, dat
     }
   }
   return emptyRows;
+}
+
+/** Resampled pairs by gap: each drawn site's gapped pairs summed, then listed as GapCells. */
+function gapResampler(fit: Fit): { alpha: Float64Array; clear(): void; add(site: number): void; cells(): GapCell[] } {
+  const k = fit.states.length;
+  const table = fit.siteGaps;
+  if (table === undefined || table.length !== fit.sites.length) {
+    throw new SereError('BAD_OPTION', 'this fit has pairs further apart than one step but not which site each belongs to, so its sites cannot be resampled',
+      { path: 'uncertainty.source' }, 'use source: posterior, or refit from the survey table with this version of sere');
+  }
+  const longest = (fit.gapCounts ?? []).reduce((g, c) => Math.max(g, c[2]), 2);
+  const dense = new Float64Array((longest - 1) * k * k);
+  return {
+    alpha: fitPrior(fit),
+    clear: () => dense.fill(0),
+    add: (site) => table.addTo(dense, site),
+    cells: () => {
+      const out: GapCell[] = [];
+      dense.forEach((x, wide) => { if (x > 0) out.push([Math.floor((wide % (k * k)) / k), wide % k, Math.floor(wide / (k * k)) + 2, x]); });
+      return out;
+    },
+  };
 }
 
 /** What the user should hear about a set of bootstrap draws. */

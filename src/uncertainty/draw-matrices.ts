@@ -1,8 +1,8 @@
-import type { Fit } from '../fit/fit.js';
+import { hasGaps, type Fit } from '../fit/fit.js';
 import { bootstrapInto, bootstrapNotes } from './bootstrap.js';
 import type { MatrixDraws } from './draws.js';
 import { pointDraws } from './point.js';
-import { posteriorDraws } from './posterior.js';
+import { latentSampleOf, posteriorDraws } from './posterior.js';
 import type { RandomStream } from './random.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
 import { estimateVariation, VARIATION_SAMPLES, type RowVariation, type VariationSpec } from './variation.js';
@@ -27,12 +27,14 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
     return { k, count, data, source, notes: [] };
   }
   let emptyRows = 0;
+  // With gaps, one sampler run (or the fit's stored one) serves every block.
+  const latent = source === 'posterior' ? latentSampleOf(fit, random) : undefined;
   for (let b = 0; b < blockCount(count); b++) {
     const first = b * DRAW_BLOCK;
     const n = Math.min(DRAW_BLOCK, count - first);
     const stream = random.stream(blockName(b));
     if (source === 'bootstrap') emptyRows += bootstrapInto(fit, n, stream, data, first * k * k);
-    else data.set(posteriorDraws(fit, n, stream).data, first * k * k);
+    else data.set(posteriorDraws(fit, n, stream, latent).data, first * k * k);
   }
   return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [] };
 }
@@ -56,6 +58,10 @@ function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random
     for (let d = 0; d < count; d++) concentration.set(spec.concentration, d * k);
   } else {
     rows = estimateVariation(fit, random.stream('variation'));
+    // The hierarchical mean rows rest on one-step periods only; with pairs further apart, the gap
+    // model's posterior rows use every pair, so they are kept and only κ is taken (the mean rows'
+    // extra width under year-to-year variation is then left out: README, year-to-year variation).
+    const meanRows = draws.source === 'posterior' && !hasGaps(fit);
     for (const row of rows) {
       if (row.status !== 'estimated') continue;
       const i = row.state;
@@ -63,7 +69,7 @@ function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random
       for (let d = 0; d < count; d++) {
         const s = d % VARIATION_SAMPLES;
         concentration[d * k + i] = draws.source === 'point' ? median : row.kappa[s]!;
-        if (draws.source === 'posterior') draws.data.set(row.mean.subarray(s * k, (s + 1) * k), d * k * k + i * k);
+        if (meanRows) draws.data.set(row.mean.subarray(s * k, (s + 1) * k), d * k * k + i * k);
       }
     }
   }

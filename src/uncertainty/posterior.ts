@@ -1,5 +1,7 @@
 import type { Fit } from '../fit/fit.js';
-import { fitPrior } from '../fit/fit.js';
+import { fitPrior, hasGaps } from '../fit/fit.js';
+import type { LatentSample } from '../fit/latent-sample.js';
+import { augment, DEFAULT_AUGMENT } from './augment.js';
 import { sampleDirichlet } from './dirichlet.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
@@ -9,14 +11,44 @@ import type { RandomStream } from './random.js';
  * Dirichlet(nᵢ + αᵢ), the conjugate update of a Dirichlet prior by multinomial counts (Gelman et
  * al. 2013, BDA3 sec. 3.4; for transition matrices, e.g. Lee, Judge & Zellner 1970). A row with
  * no data is drawn from the prior alone; structural zeros stay zero in every draw.
+ *
+ * With pairs further apart than one step, the counts are completed: each draw picks one retained
+ * sweep of the data-augmentation sampler (augment.ts) at random and draws every row from
+ * Dirichlet(αᵢ + observed nᵢ + latent nᵢ of that sweep). Drawing P given the completed counts
+ * exactly, rather than keeping the sampler's own P, is the Rao–Blackwellised form (Gelfand & Smith
+ * 1990): the draws follow the posterior mixture over the retained sweeps. Without gaps no sweep is
+ * picked and no random number is spent on it: the draws are those of the closed form, unchanged.
  */
-export function posteriorDraws(fit: Fit, count: number, random: RandomStream): MatrixDraws {
+export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
+  latent: LatentSample | undefined = latentSampleOf(fit, random)): MatrixDraws {
   const k = fit.states.length;
   const alpha = fitPrior(fit);
   for (let c = 0; c < k * k; c++) if (alpha[c]! > 0) alpha[c] += fit.counts[c]!;
   const data = new Float64Array(count * k * k);
+  const completed = latent ? new Float64Array(k * k) : alpha;
   for (let d = 0; d < count; d++) {
-    for (let i = 0; i < k; i++) sampleDirichlet(random, alpha, i * k, k, data, d * k * k + i * k);
+    if (latent) {
+      const r = random.integer(latent.retained);
+      for (let c = 0; c < k * k; c++) completed[c] = alpha[c]! > 0 ? alpha[c]! + latent.latent[r * k * k + c]! : 0;
+    }
+    for (let i = 0; i < k; i++) sampleDirichlet(random, completed, i * k, k, data, d * k * k + i * k);
   }
   return { k, count, data, source: 'posterior', notes: [] };
+}
+
+const sampled = new WeakMap<Fit, Map<string, LatentSample>>();
+
+/**
+ * The retained latent counts of a fit with gaps: those it carries (made at fit time), else a run
+ * of the sampler on `random.stream('augment')`, made once per fit and stream. Undefined without gaps.
+ */
+export function latentSampleOf(fit: Fit, random: RandomStream): LatentSample | undefined {
+  if (!hasGaps(fit)) return undefined;
+  if (fit.latentSample) return fit.latentSample;
+  let bySeed = sampled.get(fit);
+  if (!bySeed) sampled.set(fit, bySeed = new Map());
+  const key = `${random.seed}:${random.name}`;
+  let sample = bySeed.get(key);
+  if (!sample) bySeed.set(key, sample = augment(fit, DEFAULT_AUGMENT, random.stream('augment')));
+  return sample;
 }

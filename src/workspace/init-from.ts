@@ -32,7 +32,7 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
   const columns = Object.fromEntries(Object.entries(settings.columns)
     .filter(([key, value]) => value !== undefined && value !== (DEFAULT_COLUMNS as unknown as Record<string, string>)[key]));
   const fitBlock: Record<string, unknown> = {
-    step: settings.step,
+    step: settings.dates ? `${settings.step}y` : settings.step,
     prior: settings.prior,
     states: [...fit.states],
     ...(settings.impossible.length > 0 ? { impossible: settings.impossible.map(([from, to]) => `${from}>${to}`) } : {}),

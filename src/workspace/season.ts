@@ -4,7 +4,8 @@ import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
 import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
-import { fitSurvey, type Fit } from '../fit/fit.js';
+import { fitSurvey, hasGaps, type Fit } from '../fit/fit.js';
+import { augment, DEFAULT_AUGMENT } from '../uncertainty/augment.js';
 import { groupOf } from '../fit/fit-from-file.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
@@ -69,13 +70,12 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
   const fitted = fitSurvey(table, settings);
   // Paths as the workspace names them, so a record replayed from its own inputs/ writes the same fit.
-  const fit: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 },
+  const unsampled: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 },
     ...(fitted.labels && ws.labels !== undefined ? { labels: { ...fitted.labels, file: ws.labels } } : {}) };
-  const estimates = estimateFit(fit, 0.9);
 
   const seeds: Record<string, number> = {};
   const byFile = ws.scenarios.map((rel) => {
-    const scenarios = loadScenarios(join(ws.root, rel), { fit }).map((s): Scenario => ({ ...s, file: rel }));
+    const scenarios = loadScenarios(join(ws.root, rel), { fit: unsampled }).map((s): Scenario => ({ ...s, file: rel }));
     const seed = options.seeds?.[rel] ?? scenarios[0]!.seed ?? ws.seed ?? options.fallbackSeed;
     if (seed === undefined) {
       throw new SereError('BAD_RECORD', `no seed is recorded for scenario ${rel}`, { file: 'manifest.json', path: 'scenarios' }, 'rerun the season instead of replaying it');
@@ -83,6 +83,13 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     seeds[rel] = seed;
     return { file: rel, scenarios };
   });
+  // With pairs further apart than one step, one run of the posterior sampler (on the first scenario
+  // file's seed, so a replay repeats it) serves the record's fit summary and every scenario.
+  const fit: Fit = hasGaps(unsampled) && byFile.length > 0
+    ? { ...unsampled, latentSample: augment(unsampled, DEFAULT_AUGMENT, randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler')) }
+    : unsampled;
+  for (const b of byFile) b.scenarios = b.scenarios.map((s) => ({ ...s, fit }));
+  const estimates = estimateFit(fit, 0.9);
   for (const { scenarios } of byFile) {
     checkScenarios(scenarios);
     if (scenarios.length > 1) checkComparable(scenarios);

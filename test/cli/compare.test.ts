@@ -17,9 +17,13 @@ describe('sere compare (built binary)', () => {
       expect(alt.odds[state].tie.every((x: number) => x === 1)).toBe(true);
       expect(alt.odds[state].more.every((x: number) => x === 0)).toBe(true);
     }
-    // The target is reached in every draw by both (identical) alternatives: all 'both reach it, same year'.
+    // Identical alternatives reach the target in the same year in every draw where either reaches it
+    // (hand.csv's site B, last surveyed two steps before the start, is carried forward through each
+    // draw, so in some draws neither does).
     expect(json.format_version).toBe(3);
-    expect(alt.dominance_difference).toMatchObject({ probability: 0, both: { sooner: 0, same: 1, later: 0 }, only_alternative: 0, only_baseline: 0, neither: 0, both_draws: 300 });
+    expect(alt.dominance_difference).toMatchObject({ probability: 0, both: { sooner: 0, later: 0 }, only_alternative: 0, only_baseline: 0 });
+    expect(alt.dominance_difference.both.same + alt.dominance_difference.neither).toBeCloseTo(1, 12);
+    expect(alt.dominance_difference.both_draws).toBe(Math.round(300 * alt.dominance_difference.both.same));
     expect(json.baseline.plots.c).toEqual(alt.plots.c);
     // The half-area treatment lasts to the horizon: the same treated long-run mix in both, labelled by year and treatment.
     expect(Object.keys(alt.stationary_treated)).toEqual(['year', 'treatments', 'definition', 'stationary', 'unique', 'not_unique']);
@@ -76,6 +80,7 @@ describe('sere forecast with management (built binary)', () => {
     const json = JSON.parse(sere(['forecast', sc('managed.yaml'), '--json']).stdout).scenarios[0];
     expect(json.uncertainty_split.sources.map((s: { source: string }) => s.source)).toEqual(['matrix', 'events', 'plots']);
     expect(json.plots.total).toBe(20);
-    expect(json.plots.c.median[0]).toBe(20);
+    // 20 plots split by the start shares (1/9, 1/4, 23/36: site B carried forward, test/scenario/load-scenario.test.ts) by largest remainder.
+    expect(json.plots.c.median[0]).toBe(13);
   });
 });

@@ -95,9 +95,14 @@ describe('sere count', () => {
 describe('fitting from counts', () => {
   it('sere fit reads a counts table by its header and gives the survey fit', async () => {
     await sereInProcess(['count', DEMO, '--out', at('fc.csv')]);
-    const direct = JSON.parse((await sereInProcess(['fit', DEMO, '--states', STATES, '--json'])).stdout);
-    const counted = JSON.parse((await sereInProcess(['fit', at('fc.csv'), '--states', STATES, '--json'])).stdout);
-    for (const key of ['counts', 'probabilities', 'posterior', 'stationary', 'latest', 'data', 'period_counts']) expect(counted[key]).toEqual(direct[key]);
+    // One seed for the gap sampler both fits run (the demo has pairs further apart than one step).
+    const direct = JSON.parse((await sereInProcess(['fit', DEMO, '--states', STATES, '--seed', '7', '--json'])).stdout);
+    const counted = JSON.parse((await sereInProcess(['fit', at('fc.csv'), '--states', STATES, '--seed', '7', '--json'])).stdout);
+    for (const key of ['counts', 'probabilities', 'posterior', 'stationary', 'period_counts', 'posterior_sampler']) expect(counted[key]).toEqual(direct[key]);
+    // Every demo site was surveyed at the latest time, so nothing is carried forward by either.
+    expect(counted.latest).toEqual(direct.latest);
+    // A counts table does not keep which sites were surveyed once.
+    expect({ ...counted.data, single_survey_sites: 0 }).toEqual({ ...direct.data, single_survey_sites: 0 });
     expect(counted.site_counts).toBeNull();
     // Its fit file reads back (pooled: no site_counts, data.sites kept) and says it is pooled.
     writeFileSync(at('fc.json'), JSON.stringify(counted));
@@ -107,12 +112,16 @@ describe('fitting from counts', () => {
   });
 
   it("takes the counts table's own step unless --step is given, which must then match", async () => {
-    await sereInProcess(['count', DEMO, '--step', '2', '--out', at('step2.csv')]);
-    const direct = JSON.parse((await sereInProcess(['fit', DEMO, '--step', '2', '--json'])).stdout);
-    const counted = JSON.parse((await sereInProcess(['fit', at('step2.csv'), '--json'])).stdout);
+    // Surveys every other year (the demo's gaps of one year are not whole 2-year steps).
+    const biennial = at('biennial.csv');
+    writeFileSync(biennial, 'site,time,state\nA,2000,a\nA,2002,b\nA,2004,b\nB,2000,b\nB,2002,b\nB,2006,a\n');
+    await sereInProcess(['count', biennial, '--step', '2', '--out', at('step2.csv')]);
+    const direct = JSON.parse((await sereInProcess(['fit', biennial, '--step', '2', '--seed', '3', '--json'])).stdout);
+    const counted = JSON.parse((await sereInProcess(['fit', at('step2.csv'), '--seed', '3', '--json'])).stdout);
     expect(counted.step).toBe(2);
     expect(counted.counts).toEqual(direct.counts);
-    expect(counted.data.skipped_pairs).toEqual(direct.data.skipped_pairs);
+    expect(counted.data.gap_counts).toEqual(direct.data.gap_counts);
+    expect(counted.data.pairs_by_gap).toEqual([{ gap: 1, pairs: 3 }, { gap: 2, pairs: 1 }]);
     const wrong = await sereInProcess(['fit', at('step2.csv'), '--step', '1', '--debug']);
     expect(wrong.code).toBe(1);
     expect(code(wrong.stderr)).toBe('BAD_OPTION');

@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { CsvParseScanner } from '../../src/data/scan-csv-parse.js';
 import { PlainCsvScanner } from '../../src/data/scan-plain-csv.js';
 import type { RowSink } from '../../src/data/row-sink.js';
-import { recordAt } from '../../src/data/survey-rows.js';
+import { recordAt, tableFromRecords } from '../../src/data/survey-rows.js';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { fitSurvey } from '../../src/fit/fit.js';
@@ -32,7 +32,7 @@ describe('counting a hand-countable survey table', () => {
     expect(fit.transitions).toBe(8);
     const { p } = maximumLikelihood(fit.counts, fitPrior(fit), 3);
     expect(Array.from(p)).toEqual([1 / 3, 2 / 3, 0, 1 / 3, 1 / 3, 1 / 3, 0, 1 / 2, 1 / 2]);
-    expect(fit.latest).toEqual({ time: 7, counts: [0, 0, 1], shares: [0, 0, 1], sites: 1 });
+    expect(fit.latest).toEqual({ time: 7, counts: [0, 0, 1], shares: [0, 0, 1], sites: 1, carried: [{ state: 1, steps: 2, sites: 1 }], notCarried: 0 });
     expect(fit.sites.ids).toEqual(['A', 'B']);
   });
 
@@ -41,7 +41,7 @@ describe('counting a hand-countable survey table', () => {
     expect(Array.from(fit.counts)).toEqual([1, 1, 0, 1, 1, 1, 0, 2, 1]);
   });
 
-  it('counts pairs further apart than one step as skipped, and fits 5-year steps with step 5', () => {
+  it('counts pairs further apart than one step by gap (none skipped), and fits 5-year steps with step 5', () => {
     const table = read('five-year.csv');
     const err = errorOf(() => fitSurvey(table, DEFAULT_FIT_SETTINGS));
     expect(err.code).toBe('NO_TRANSITIONS');
@@ -50,7 +50,32 @@ describe('counting a hand-countable survey table', () => {
     expect(Array.from(fit.counts)).toEqual([0, 1, 0, 1]);
     const gaps = fitSurvey(read('gap.csv'), DEFAULT_FIT_SETTINGS);
     expect(Array.from(gaps.counts)).toEqual([0, 1, 0, 0]);
-    expect(gaps.skipped).toEqual([{ gap: 2, pairs: 1 }, { gap: 3, pairs: 1 }]);
+    expect(gaps.skipped).toEqual([]);
+    expect(gaps.gapCounts).toEqual([[1, 1, 2, 1], [1, 0, 3, 1]]);
+    expect(gaps.pairsByGap).toEqual([{ gap: 1, pairs: 1 }, { gap: 2, pairs: 1 }, { gap: 3, pairs: 1 }]);
+    expect(gaps.singleSurveySites).toBe(0);
+  });
+
+  it('refuses a gap that is not a whole number of steps, at the later survey, suggesting the step that divides every gap', () => {
+    // gap.csv: site A at 1, 2, 4, 7. With --step 2 the first pair (1 → 2, ending on line 3) is half a step.
+    const err = errorOf(() => fitSurvey(read('gap.csv'), { ...DEFAULT_FIT_SETTINGS, step: 2 }));
+    expect(err.code).toBe('GAP_NOT_WHOLE_STEPS');
+    expect(err.place).toEqual({ file: fixture('gap.csv'), line: 3 });
+    expect(err.hint).toContain('--step 1');
+  });
+
+  it('refuses pairs that no path of allowed transitions explains in their gap, at the later survey', () => {
+    // gap.csv with b>a and a>a impossible: b reaches only b, so the 3-step pair b → a (line 5) cannot happen.
+    const err = errorOf(() => fitSurvey(read('gap.csv'), { ...DEFAULT_FIT_SETTINGS, impossible: [['b', 'a'], ['a', 'a']] }));
+    expect(err.code).toBe('IMPOSSIBLE_OBSERVED');
+    expect(err.place.line).toBe(5);
+  });
+
+  it('counts sites surveyed once only', () => {
+    const table = tableFromRecords('t.csv', ['a', 'b'], [
+      { site: 'A', time: 1, state: 0, line: 2 }, { site: 'A', time: 2, state: 1, line: 3 }, { site: 'B', time: 2, state: 0, line: 4 },
+    ]);
+    expect(fitSurvey(table, DEFAULT_FIT_SETTINGS).singleSurveySites).toBe(1);
   });
 });
 

@@ -89,9 +89,10 @@ describe('wide survey tables (one row per site, one column per survey time)', ()
     const fit = fitSurvey(read(file), DEFAULT_FIT_SETTINGS);
     expect(fit.states).toEqual(['a', 'b']);
     expect(Array.from(fit.counts)).toEqual([1, 1, 0, 1]);
-    expect(fit.skipped).toEqual([{ gap: 2, pairs: 1 }]);
+    expect(fit.pairsByGap).toEqual([{ gap: 1, pairs: 3 }, { gap: 2, pairs: 1 }]);
     expect(fit.sites.ids).toEqual(['A', 'B']);
-    expect(fit.latest).toEqual({ time: 2004, counts: [0, 1], shares: [0, 1], sites: 1 });
+    // A, last surveyed in 2003 as b, is carried forward one step into the start.
+    expect(fit.latest).toEqual({ time: 2004, counts: [0, 1], shares: [0, 1], sites: 1, carried: [{ state: 1, steps: 1, sites: 1 }], notCarried: 0 });
   });
 
   it('refuses a site given two rows, naming both lines', () => {

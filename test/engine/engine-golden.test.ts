@@ -45,7 +45,8 @@ function check(name: string, text: string): void {
 
 /**
  * `--variation none` is the fixed-matrix chain of before year-to-year variation: these goldens were
- * recorded by that engine (test/fixtures/engine-golden/no-variation/, never re-recorded) and must
+ * recorded by that engine (test/fixtures/engine-golden/no-variation/; re-recorded only with a
+ * value-breaking change to the fixed-matrix path — last when every survey pair came into the fit) and must
  * come out byte for byte — the posterior, a partial-area treatment, events with plot counts and
  * the uncertainty split, and a comparison.
  */

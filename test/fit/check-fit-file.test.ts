@@ -11,6 +11,10 @@ import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { SereError } from '../../src/errors.js';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
+import { augment } from '../../src/uncertainty/augment.js';
+import { bootstrapDraws } from '../../src/uncertainty/bootstrap.js';
+import { posteriorDraws } from '../../src/uncertainty/posterior.js';
+import { randomStreams } from '../../src/uncertainty/random.js';
 
 function errorOf(fn: () => unknown): SereError {
   try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
@@ -106,6 +110,40 @@ describe('fit files edited by hand', () => {
     expect(fit.gapCounts).toEqual([[0, 1, 2, 1], [1, 0, 3, 1], [1, 0, 4, 1]]);
     const back = loadFit(write(JSON.parse(JSON.stringify(fitToJson(fit, estimateFit(fit, 0.9)))) as Json));
     expect(back.gapCounts).toEqual(fit.gapCounts);
+  });
+
+  describe('a fit with gaps, sampled at fit time', () => {
+    const rows: [string, number, number][] = [['A', 0, 0], ['A', 2, 1], ['A', 3, 1], ['A', 7, 0], ['B', 0, 1], ['B', 3, 0], ['C', 0, 0], ['C', 1, 0], ['C', 2, 1]];
+    const table = tableFromRecords('gaps.csv', ['a', 'b'], rows.map(([site, time, state], n) => ({ site, time, state, line: n + 2 })));
+    const plain = fitSurvey(table, DEFAULT_FIT_SETTINGS);
+    const fit = { ...plain, latentSample: augment(plain, { chains: 2, warmUp: 20, retained: 40, thin: 1 }, randomStreams(9).stream('augment')) };
+    const json = (): Json => JSON.parse(JSON.stringify(fitToJson(fit, estimateFit(fit, 0.9)))) as Json;
+
+    it('keeps its sampler sweeps and per-site gaps through the file, and draws the same posterior from it', () => {
+      const back = loadFit(write(json()));
+      expect(Array.from(back.latentSample!.latent)).toEqual(Array.from(fit.latentSample.latent));
+      expect(back.latentSample!.seed).toBe(9);
+      expect(back.siteGaps).toEqual(plain.siteGaps);
+      expect(Array.from(posteriorDraws(back, 50, randomStreams(3)).data)).toEqual(Array.from(posteriorDraws(fit, 50, randomStreams(3)).data));
+      expect(Array.from(bootstrapDraws(back, 20, randomStreams(3)).data)).toEqual(Array.from(bootstrapDraws(plain, 20, randomStreams(3)).data));
+    });
+
+    const edits: [string, (f: Json) => void, string][] = [
+      ['a sweep with a transition too many', (f) => { f.posterior_sampler.latent_counts[3][0] += 1; }, 'posterior_sampler.latent_counts[3]'],
+      ['fewer sweeps than retained', (f) => { f.posterior_sampler.latent_counts.pop(); }, 'posterior_sampler.latent_counts'],
+      ['site gaps that do not add up', (f) => { f.site_gap_counts[0][4] += 1; }, 'site_gap_counts'],
+      ['a site gap on an unknown site', (f) => { f.site_gap_counts[0][0] = 'Z'; }, 'site_gap_counts[0][0]'],
+      ['a sampler on a fit without gaps', (f) => { f.data.gap_counts = []; f.data.pairs_by_gap = [f.data.pairs_by_gap[0]]; f.site_gap_counts = []; }, 'posterior_sampler'],
+    ];
+    for (const [what, edit, path] of edits) {
+      it(`${what} → BAD_FIT_FILE at ${path}`, () => {
+        const f = json();
+        edit(f);
+        const err = errorOf(() => loadFit(write(f)));
+        expect(err.code).toBe('BAD_FIT_FILE');
+        expect(err.place.path).toBe(path);
+      });
+    }
   });
 
   it('a site without its group, when the fit has a group column → BAD_FIT_FILE at that site', () => {

@@ -69,7 +69,11 @@ function expectSameFit(a: Fit, b: Fit, perSite: boolean): void {
   expect(b.skipped).toEqual(a.skipped);
   expect(b.gapCounts).toEqual(a.gapCounts);
   expect(b.periods).toEqual(a.periods);
-  expect(b.latest).toEqual(a.latest);
+  expect(b.pairsByGap).toEqual(a.pairsByGap);
+  // A counts table keeps no site's last survey, so sites not surveyed at the latest time are not
+  // carried into the start (fit-table says so); the surveyed mix itself is the same.
+  const { carried: _carried, notCarried: _notCarried, ...surveyed } = a.latest;
+  expect(b.latest).toEqual(surveyed);
   expect(b.history).toEqual(a.history);
   expect(b.surveys).toBe(a.surveys);
   expect(b.firstTime).toBe(a.firstTime);

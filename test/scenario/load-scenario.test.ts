@@ -17,7 +17,10 @@ describe('loadScenario', () => {
     expect(s).toMatchObject({ name: 'hand-made', source: 'posterior', draws: 200, seed: 11, horizonSteps: 5,
       showSteps: [0, 5], level: 0.9, target: { states: [2], bound: 'at-least', threshold: 0.5, staysMet: 1 } });
     expect(s.start.year).toBe(7);
-    expect(Array.from(s.start.shares)).toEqual([0, 0, 1]);
+    // Site A surveyed at 7 in c; site B last surveyed at 5 in b, carried forward two steps through the
+    // MLE [[1/3, 2/3, 0], [1/3, 1/3, 1/3], [0, 1/2, 1/2]]: e_b·P² = (2/9, 1/2, 5/18), averaged with (0, 0, 1).
+    expect(Array.from(s.start.shares).map((x) => x.toFixed(12))).toEqual([1 / 9, 1 / 4, 23 / 36].map((x) => x.toFixed(12)));
+    expect(s.start.carried).toEqual([{ state: 1, steps: 2, sites: 1 }]);
   });
 
   const cases: [string, string, { file?: string; line?: number; column?: number; path?: string }][] = [

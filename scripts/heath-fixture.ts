@@ -1,0 +1,77 @@
+/**
+ * Invented test data — nothing here is a real place, person or survey.
+ *
+ * Quillanmoor is a fictional upland heath under restoration. 150 permanent plots are surveyed in
+ * late summer from 2013 to 2024, the dominant cover recorded as one of five states. The record is
+ * as untidy as real monitoring: plots Q101–Q150 were only added in 2017; plots Q071–Q100 are
+ * surveyed every other year (even years); and 12% of the other visits after a plot's first were
+ * missed. Pairs of consecutive surveys are therefore 1, 2, 3 … years apart, and `sere fit` must
+ * use every one of them (test/fit/heath.test.ts). Simulated from TRUE_MATRIX with a fixed seed on
+ * sere's own random streams; run `node dist/scripts/heath-fixture.js` (after `npm run build`) to
+ * regenerate `test/fixtures/heath/surveys.csv` byte for byte.
+ */
+import { writeFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { randomStreams, type RandomStream } from '../src/uncertainty/random.js';
+
+export const STATES = ['bare-peat', 'young-heath', 'mature-heath', 'grassland', 'bracken'] as const;
+
+/** The "true" annual matrix, row = from, column = to. Mature heath cannot turn straight to bare peat (a structural zero). */
+export const TRUE_MATRIX: readonly (readonly number[])[] = [
+  // bare-peat young-heath mature-heath grassland bracken
+  [0.55, 0.25, 0.00, 0.15, 0.05], // bare-peat: seeded heather takes, or grasses get there first
+  [0.03, 0.62, 0.25, 0.08, 0.02], // young-heath: matures, or is grazed back to grass
+  [0.00, 0.04, 0.88, 0.04, 0.04], // mature-heath: old stands collapse and regenerate
+  [0.02, 0.10, 0.03, 0.80, 0.05], // grassland: slowly reverts under lighter grazing
+  [0.01, 0.02, 0.02, 0.05, 0.90], // bracken: persistent
+];
+export const FIRST_MIX = [0.35, 0.2, 0.1, 0.25, 0.1];
+export const FIRST_YEAR = 2013;
+export const LAST_YEAR = 2024;
+export const ADDED_YEAR = 2017;
+export const MISSED_VISIT_CHANCE = 0.12;
+export const SEED = 20130901;
+
+function pick(random: RandomStream, probabilities: readonly number[]): number {
+  let u = random.uniform();
+  for (let s = 0; s < probabilities.length - 1; s++) {
+    if (u < probabilities[s]!) return s;
+    u -= probabilities[s]!;
+  }
+  return probabilities.length - 1;
+}
+
+/**
+ * The survey table as CSV text (site,time,state), plots in order, each plot's surveys in time order.
+ * With `dated`, the same surveys with the day of each visit (25 July – 3 October, from a stream of
+ * its own, so the states are the same) for `--step 1y`.
+ */
+export function heathSurveys(seed = SEED, dated = false): string {
+  const random = randomStreams(seed).stream('quillanmoor');
+  const days = randomStreams(seed).stream('visit-days');
+  const lines = ['site,time,state'];
+  for (let n = 1; n <= 150; n++) {
+    const site = `Q${String(n).padStart(3, '0')}`;
+    const first = n > 100 ? ADDED_YEAR : FIRST_YEAR;
+    const biennial = n > 70 && n <= 100;
+    let state = pick(random, FIRST_MIX);
+    for (let year = first; year <= LAST_YEAR; year++) {
+      if (year > first) state = pick(random, TRUE_MATRIX[state]!);
+      const visited = year === first || (biennial ? year % 2 === 0 : random.uniform() >= MISSED_VISIT_CHANCE);
+      if (visited) lines.push(`${site},${dated ? visitDate(year, days) : year},${STATES[state]}`);
+    }
+  }
+  return lines.join('\n') + '\n';
+}
+
+/** A late-summer visit day: 25 July plus 0–70 days. */
+function visitDate(year: number, random: RandomStream): string {
+  const date = new Date(Date.UTC(year, 6, 25) + random.integer(71) * 86_400_000);
+  return date.toISOString().slice(0, 10);
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  writeFileSync('test/fixtures/heath/surveys.csv', heathSurveys());
+  writeFileSync('test/fixtures/heath/surveys-dated.csv', heathSurveys(SEED, true));
+  console.log('wrote test/fixtures/heath/surveys.csv and surveys-dated.csv');
+}

@@ -1,0 +1,21 @@
+import { carriedMix } from '../chain/latest-mix.js';
+import type { Scenario } from '../scenario/scenario.js';
+import type { MatrixDraws } from '../uncertainty/draws.js';
+import { sharedFloat64 } from '../uncertainty/draw-blocks.js';
+
+/**
+ * Each draw's starting mix when some sites were not surveyed at the latest time: the surveyed sites
+ * as found plus every other site carried forward from its last survey through that draw's matrix
+ * (chain/latest-mix.ts `carriedMix`: e_s·P_dᵍ, the forward filter with no survey since). So no
+ * site is left out, and where the unsurveyed sites are now stays as uncertain as the matrix. The
+ * years before the start carry no scenario treatment or event. Undefined when every site was
+ * surveyed at the start: the scenario's one start is then exact, and the engine uses it.
+ */
+export function carriedStarts(scenario: Pick<Scenario, 'start' | 'fit'>, matrices: MatrixDraws): Float64Array | undefined {
+  if (!scenario.start.carried?.length) return undefined;
+  const { k, count: D, data } = matrices;
+  const starts = sharedFloat64(D * k);
+  const latest = { ...scenario.fit.latest, carried: scenario.start.carried };
+  for (let d = 0; d < D; d++) carriedMix(latest, data, k, d * k * k, starts.subarray(d * k, (d + 1) * k));
+  return starts;
+}
