@@ -1,3 +1,7 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { SereError } from '../src/errors.js';
 import { tableFromRecords } from '../src/data/survey-rows.js';
 import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
@@ -95,4 +99,16 @@ export function simulatedSurveys(random: import('../src/uncertainty/random.js').
 /** The single-state target `{ state, share }` of a scenario file, resolved. */
 export function atLeast(state: number, share: number, staysMet = 1): LandscapeTarget {
   return { states: [state], bound: 'at-least', threshold: share, staysMet };
+}
+
+/** The SereError `fn` throws (a test of a refusal asserts its code and place, not its wording). */
+export function errorOf(fn: () => unknown): SereError {
+  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
+  throw new Error('expected a SereError');
+}
+
+/** A fresh temporary folder and a writer of text files into it. */
+export function tempFiles(prefix: string): { dir: string; write: (name: string, text: string) => string } {
+  const dir = mkdtempSync(join(tmpdir(), prefix));
+  return { dir, write: (name, text) => { const file = join(dir, name); writeFileSync(file, text); return file; } };
 }

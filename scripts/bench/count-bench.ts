@@ -12,26 +12,14 @@
  *
  * Run alone: `node dist/scripts/bench/count-bench.js [CSV_SITES] [PARQUET_SITES] [RUNS]`.
  */
-import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { benchChain, writeSurveyTable } from './survey-table.js';
+import { measure, numpyAvailable, type Run } from './measure-process.js';
 
-interface Run { readonly seconds: number; readonly cpu: number; readonly peakMb: number; readonly stdout: string }
-
-function measure(command: string, args: readonly string[]): Run {
-  const start = performance.now();
-  const r = spawnSync('/usr/bin/time', ['-v', command, ...args], { encoding: 'utf8', maxBuffer: 1 << 26 });
-  const seconds = (performance.now() - start) / 1000;
-  if (r.status !== 0) throw new Error(`${command} ${args.join(' ')} failed:\n${r.stderr}`);
-  const field = (name: string): number => Number(new RegExp(`${name}: ([\\d.]+)`).exec(r.stderr)?.[1] ?? Number.NaN);
-  return { seconds, cpu: field('User time \\(seconds\\)') + field('System time \\(seconds\\)'), peakMb: field('Maximum resident set size \\(kbytes\\)') / 1024, stdout: r.stdout };
-}
-
-const numpyAvailable = (): boolean => spawnSync('python3', ['-c', 'import numpy'], { encoding: 'utf8' }).status === 0;
 const bestOf = (list: Run[]): Run => list.reduce((a, b) => (b.seconds < a.seconds ? b : a));
 const describe = (rows: number, r: Run, all: Run[]): string =>
   `${r.seconds.toFixed(2)} s (${(rows / r.seconds / 1e6).toFixed(2)} M rows/s; CPU ${r.cpu.toFixed(2)} s; peak ${Math.max(...all.map((x) => x.peakMb)).toFixed(0)} MB)`;

@@ -1,26 +1,16 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { readLabelMap, type LabelMap } from '../../src/data/label-map.js';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { readSurveyTables } from '../../src/data/read-survey-tables.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
-import { SereError } from '../../src/errors.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { loadScenario } from '../../src/scenario/load-scenario.js';
+import { errorOf, tempFiles } from '../helpers.js';
 
-const dir = mkdtempSync(join(tmpdir(), 'sere-labels-'));
-function write(name: string, text: string): string {
-  const file = join(dir, name);
-  writeFileSync(file, text);
-  return file;
-}
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
+const { dir, write } = tempFiles('sere-labels-');
 
 // Invented field records: two spellings of bracken, a class code for woodland, a code to leave out.
 const recorded = write('recorded.csv', [

@@ -5,10 +5,11 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { surveysCsv, writeWorkbooks } from '../../scripts/make-workbooks.js';
 import { readLabelMap } from '../../src/data/label-map.js';
 import { readSurveyCsv, type ReadSurveyOptions } from '../../src/data/read-survey-csv.js';
-import { formatPlace, SereError } from '../../src/errors.js';
+import { formatPlace } from '../../src/errors.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { sereInProcess } from '../cli/in-process.js';
+import { errorOf } from '../helpers.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'sere-xlsx-'));
 let books: { surveys: string; faults: string };
@@ -23,10 +24,6 @@ beforeAll(async () => {
 const columns = { site: 'plot', time: 'year', state: 'cover' };
 const options = (extra: Partial<ReadSurveyOptions> = {}): ReadSurveyOptions =>
   ({ columns, states: ['grass', 'heath', 'scrub', 'woodland'], labels: readLabelMap(mapFile), ...extra });
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 const fitOf = (file: string, extra: Partial<ReadSurveyOptions> = {}) => fitSurvey(readSurveyCsv(file, options(extra)), DEFAULT_FIT_SETTINGS);
 
 describe('survey tables in .xlsx workbooks (exceljs)', () => {

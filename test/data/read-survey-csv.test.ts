@@ -13,14 +13,11 @@ import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { SereError } from '../../src/errors.js';
 import { maximumLikelihood } from '../../src/chain/estimates.js';
 import { fitPrior } from '../../src/fit/fit.js';
+import { errorOf } from '../helpers.js';
 
 const fixture = (name: string): string => `test/fixtures/${name}`;
 const read = (name: string, states?: string[]) => readSurveyCsv(fixture(name), { columns: DEFAULT_COLUMNS, states });
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 describe('counting a hand-countable survey table', () => {
   it('counts consecutive one-step pairs per site and divides by row sums (counted by hand)', () => {

@@ -5,12 +5,8 @@ import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { firstInvalidUtf8, readTextFile } from '../../src/data/read-text-file.js';
-import { SereError } from '../../src/errors.js';
+import { errorOf } from '../helpers.js';
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 const dir = (): string => mkdtempSync(join(tmpdir(), 'sere-text-'));
 

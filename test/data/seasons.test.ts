@@ -5,17 +5,13 @@ import { describe, expect, it } from 'vitest';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { roundToSeasons } from '../../src/data/seasons.js';
-import { SereError } from '../../src/errors.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { heathSurveys } from '../../scripts/heath-fixture.js';
+import { errorOf } from '../helpers.js';
 
 const day = (iso: string): number => Date.UTC(Number(iso.slice(0, 4)), Number(iso.slice(5, 7)) - 1, Number(iso.slice(8, 10))) / 86_400_000;
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 function table(text: string, dates: boolean) {
   const file = join(mkdtempSync(join(tmpdir(), 'sere-dates-')), 't.csv');

@@ -7,12 +7,8 @@ import { readSurveyTables } from '../../src/data/read-survey-tables.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
-import { SereError } from '../../src/errors.js';
+import { errorOf } from '../helpers.js';
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 /** A survey table written to a temporary file (invisible characters stay out of the repository's fixtures). */
 function table(text: string, name = 'survey.csv'): string {

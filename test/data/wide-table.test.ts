@@ -1,25 +1,14 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { SereError } from '../../src/errors.js';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { DEFAULT_COLUMNS, type SurveyColumns } from '../../src/data/survey.js';
-import { SereError } from '../../src/errors.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
+import { errorOf, tempFiles } from '../helpers.js';
 
-const dir = mkdtempSync(join(tmpdir(), 'sere-wide-'));
-function write(name: string, text: string): string {
-  const file = join(dir, name);
-  writeFileSync(file, text);
-  return file;
-}
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
+const { write } = tempFiles('sere-wide-');
 const read = (file: string, extra: { layout?: 'long' | 'wide'; columns?: Partial<SurveyColumns>; blockSize?: number } = {}) =>
   readSurveyCsv(file, { columns: { ...DEFAULT_COLUMNS, ...extra.columns }, layout: extra.layout, blockSize: extra.blockSize });
 

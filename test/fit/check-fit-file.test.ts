@@ -9,17 +9,13 @@ import { estimateFit } from '../../src/fit/estimate.js';
 import { fitToJson } from '../../src/fit/fit-json.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
-import { SereError } from '../../src/errors.js';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import { augment } from '../../src/uncertainty/augment.js';
 import { bootstrapDraws } from '../../src/uncertainty/bootstrap.js';
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
+import { errorOf } from '../helpers.js';
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 type Json = Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
 

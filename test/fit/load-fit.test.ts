@@ -10,12 +10,8 @@ import { fitToJson } from '../../src/fit/fit-json.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { writeFileAtomic } from '../../src/cli/write-file.js';
-import { SereError } from '../../src/errors.js';
+import { errorOf } from '../helpers.js';
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 describe('fit files', () => {
   it('round-trip: a written fit loads back with the same counts, sites and latest mix', () => {

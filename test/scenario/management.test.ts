@@ -1,15 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { loadScenario, loadScenarios } from '../../src/scenario/load-scenario.js';
-import { SereError } from '../../src/errors.js';
 import { runForecast } from '../../src/engine/forecast.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
+import { errorOf } from '../helpers.js';
 
 const file = (name: string): string => `test/fixtures/scenarios/${name}`;
 
-function errorOf(fn: () => unknown): SereError {
-  try { fn(); } catch (err) { if (err instanceof SereError) return err; throw err; }
-  throw new Error('expected a SereError');
-}
 
 describe('treatments and events in scenario files', () => {
   it('resolves windows and ramps into strengths per step, areas into parcels', () => {
