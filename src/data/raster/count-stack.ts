@@ -229,11 +229,11 @@ class ZoneIndex {
   }
 }
 
-/** SHA-256 over the stack file's own hash and every raster's bytes (zones last), so any change shows. */
+/** SHA-256 over the stack file's own hash and every raster's bytes (zones, then a label-map file, last), so any change shows. */
 function stackHash(stack: RasterStack): string {
   const hash = createHash('sha256').update(stack.sha256);
   const buffer = Buffer.alloc(4 * 1024 * 1024);
-  for (const file of [...stack.rasters.map((r) => r.file), ...(stack.zones ? [stack.zones] : [])]) {
+  for (const file of [...stack.rasters.map((r) => r.file), ...(stack.zones ? [stack.zones] : []), ...(stack.labelsFile ? [stack.labelsFile] : [])]) {
     const fd = openSync(file, 'r');
     try {
       for (let got = readSync(fd, buffer); got > 0; got = readSync(fd, buffer)) hash.update(buffer.subarray(0, got));

@@ -4,9 +4,10 @@ import { z } from 'zod';
 import { SereError, quote } from '../../errors.js';
 import { readStructured, type KeyPath } from '../read-structured.js';
 import { labelProblem, normaliseLabel } from '../labels.js';
+import { readLabelMap, SKIP_LABEL } from '../label-map.js';
 
-/** What a class code may map to besides a state: left out, like nodata. */
-export const SKIP = 'skip';
+/** What a class code may map to besides a state: left out, like nodata (the label map's word). */
+export const SKIP = SKIP_LABEL;
 
 const wholeYear = /^-?\d{1,9}$/;
 
@@ -25,9 +26,12 @@ const stackSchema = z.strictObject({
   years: z.array(z.number().int({ error: 'years are whole numbers' })).min(2, { error: 'list at least two years' }).optional()
     .describe('With pattern: the years that must be present (a missing one is an error).'),
   zones: z.string().min(1).optional().describe('Optional zone raster (whole-number zone codes) on the same grid: one group per zone.'),
-  labels: z.record(z.string().regex(/^\d{1,10}$/, { error: 'a label key is a class code, a whole number 0 or more' }),
-    z.string().min(1, { error: 'map each class code to a state, or to skip' })).optional()
-    .describe('Class code → state name (or skip). Without it, each code is its own state, named by its number.'),
+  labels: z.union([
+    z.string().min(1),
+    z.record(z.string().regex(/^\d{1,10}$/, { error: 'a label key is a class code, a whole number 0 or more' }),
+      z.string().min(1, { error: 'map each class code to a state, or to skip' })),
+  ], { error: 'labels is a label-map file (labels.yaml) or a map of class codes to states' }).optional()
+    .describe('Class code → state name (or skip), inline or as a label-map file relative to this file (the same format as --labels). Without it, each code is its own state, named by its number.'),
 }).refine((s) => (s.rasters === undefined) !== (s.pattern === undefined), { error: 'give exactly one of rasters or pattern' })
   .refine((s) => s.years === undefined || s.pattern !== undefined, { error: 'years goes with pattern (rasters already names the years)' });
 
@@ -46,6 +50,8 @@ export interface RasterStack {
   readonly zones?: string;
   /** Class code → state name or SKIP; absent: codes are their own states. */
   readonly labels?: ReadonlyMap<number, string>;
+  /** The label-map file the labels came from, when not inline (its bytes are part of the stack's hash). */
+  readonly labelsFile?: string;
   /** Where keys are, for messages. */
   readonly locate: (path: KeyPath) => { file?: string; line?: number; column?: number; path?: string };
 }
@@ -79,6 +85,13 @@ export function readRasterStack(file: string): RasterStack {
   const zones = value.zones === undefined ? undefined : near(value.zones);
   if (zones !== undefined && !existsSync(zones)) {
     throw new SereError('FILE_NOT_FOUND', `the zone raster was not found (${zones})`, place(['zones']), 'check the file name, or remove zones');
+  }
+  if (typeof value.labels === 'string') {
+    const labelsFile = near(value.labels);
+    if (!existsSync(labelsFile)) {
+      throw new SereError('FILE_NOT_FOUND', `the label map was not found (${labelsFile})`, place(['labels']), 'check the file name, or write the labels inline');
+    }
+    return { file, sha256, rasters, zones, labels: classCodes(labelsFile), labelsFile, locate: place };
   }
   return { file, sha256, rasters, zones, labels: value.labels && labelMap(value.labels, place), locate: place };
 }
@@ -123,6 +136,25 @@ function labelMap(labels: Record<string, string>, place: (path: KeyPath) => obje
       throw new SereError('BAD_RASTER', `class code ${value} is listed twice (as ${code})`, place(['labels', Number(code)]), 'list each class code once');
     }
     map.set(value, state);
+  }
+  return map;
+}
+
+/** A label-map file (data/label-map.ts, the one reader) as class codes: every key must be a whole number. */
+function classCodes(file: string): Map<number, string> {
+  const read = readLabelMap(file);
+  const map = new Map<number, string>();
+  for (const [key, state] of read.targets) {
+    const code = /^\d{1,10}$/.test(key) ? Number(key) : Number.NaN;
+    if (Number.isNaN(code) || map.has(code)) {
+      throw new SereError('BAD_RASTER', Number.isNaN(code) ? `label ${quote(key)} is not a class code (a whole number 0 or more)` : `class code ${code} is listed twice`,
+        { file, line: read.lines.get(key) }, 'key a raster\'s label map by its class codes, once each');
+    }
+    if (state !== null) {
+      const problem = labelProblem(state, () => `state ${quote(state)}`);
+      if (problem) throw new SereError(problem.code, problem.what, { file, line: read.lines.get(key) }, problem.hint);
+    }
+    map.set(code, state ?? SKIP);
   }
   return map;
 }

@@ -108,6 +108,25 @@ describe('counting a raster stack', () => {
     expect(err.place).toMatchObject({ line: 2, path: 'years.2' });
   });
 
+  it('reads its labels from a label-map file (the --labels format) as from the same labels inline', async () => {
+    const inline = join(folder, 'inline.yaml');
+    writeFileSync(inline, 'pattern: lc{year}.tif\nlabels: { 1: bare, 2: sward, 3: heath, 4: scrub, 200: skip }\n');
+    writeFileSync(join(folder, 'codes.yaml'), '1: bare\n2: sward\n3: heath\n4: scrub\n200: skip\n');
+    const fromFile = join(folder, 'from-file.yaml');
+    writeFileSync(fromFile, 'pattern: lc{year}.tif\nlabels: codes.yaml\n');
+    const [a, b] = [await countRasterStack(inline), await countRasterStack(fromFile)];
+    expect(comparable(fitRasterCounts(b, settings(1)))).toEqual(comparable(fitRasterCounts(a, settings(1))));
+    // The label map's bytes are part of the stack's hash.
+    expect(b.sha256).not.toBe(a.sha256);
+    writeFileSync(join(folder, 'words.yaml'), '1: bare\nheather: heath\n');
+    const worded = join(folder, 'worded.yaml');
+    writeFileSync(worded, 'pattern: lc{year}.tif\nlabels: words.yaml\n');
+    expect((await expectCode(countRasterStack(worded), 'BAD_RASTER')).place).toMatchObject({ line: 2 });
+    const absent = join(folder, 'absent.yaml');
+    writeFileSync(absent, 'pattern: lc{year}.tif\nlabels: nowhere.yaml\n');
+    expect((await expectCode(countRasterStack(absent), 'FILE_NOT_FOUND')).place).toMatchObject({ line: 2, path: 'labels' });
+  });
+
   it('refuses a missing raster file, a class code not in labels and a label key given twice', async () => {
     const gone = join(folder, 'gone.yaml');
     writeFileSync(gone, 'rasters:\n  2010: lc2010.tif\n  2011: lc2099.tif\n');
