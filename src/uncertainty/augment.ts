@@ -94,7 +94,7 @@ export function augmentationWarnings(a: Augmentation, states: readonly string[])
   const cell = (c: number): string => `${states[Math.floor(c / k)]}→${states[c % k]}`;
   const lines: string[] = [];
   if (a.chains < 2) lines.push('sampler: one chain only, so convergence cannot be checked (R̂ compares chains): refit with --chains 4');
-  if (worstRhat >= 0) lines.push(`sampler: R̂ ${a.rhat[worstRhat]!.toFixed(3)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with more warm-up and retained draws`);
+  if (worstRhat >= 0) lines.push(`sampler: R̂ ${a.rhat[worstRhat]!.toFixed(4)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with more warm-up and retained draws`);
   if (worstEss >= 0) lines.push(`sampler: effective sample size ${Math.round(a.ess[worstEss]!)} for ${cell(worstEss)} (below ${ESS_WARNING}): refit with more retained draws`);
   return lines;
 }
