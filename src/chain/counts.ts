@@ -141,30 +141,40 @@ export function countTransitions(table: SurveyTable, k: number, step: number): T
     a = b;
   }
   if (badLine > 0) throw gapNotWholeSteps(table.file, badLine, badGap, step, allGaps);
-  const tripleList: (readonly [number, number, number, number])[] = [];
-  triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
-  const gapCounts: GapCell[] = [];
-  const gapLines: number[] = [];
-  const pairsByGap: PairsByGap[] = transitions > 0 ? [{ gap: 1, pairs: transitions }] : [];
-  for (const g of [...byGap.keys()].sort((x, y) => x - y)) {
-    let pairs = 0;
-    for (const [i, j, n] of sparseCells(byGap.get(g)!, k)) {
-      gapCounts.push([i, j, g, n]);
-      gapLines.push(gapLine.get(g)![i * k + j]!);
-      pairs += n;
-    }
-    pairsByGap.push({ gap: g, pairs });
-  }
+  const tripleList = sparseTriples(triples, k);
+  const gapCounts = gapCellsOf(byGap, k);
+  const gapLines = gapCounts.map(([i, j, g]) => gapLine.get(g)![i * k + j]!);
+  const pairsByGap = pairsByGapOf(transitions, gapCounts);
   return {
     k, counts, sites: sites.table(), transitions, pairsByGap, gapCounts, gapLines, singleSurveySites, siteGaps: siteGaps.table(), firstLine, triples: tripleList,
-    periods: [...periods.entries()].sort((x, y) => x[0] - y[0]).map(([t, dense]) => ({ time: t, cells: sparseCells(dense, k) })),
+    periods: periodList(periods, k),
   };
 }
 
+/** A dense k×k table as sparse `[from, to, n]` cells in cell order. */
 function sparseCells(dense: Float64Array, k: number): [number, number, number][] {
   const cells: [number, number, number][] = [];
   dense.forEach((n, cell) => { if (n > 0) cells.push([Math.floor(cell / k), cell % k, n]); });
   return cells;
+}
+
+/** Dense per-period tables (keyed by the time the transitions started) as sparse periods in time order. */
+export function periodList(periods: ReadonlyMap<number, Float64Array>, k: number): PeriodCounts[] {
+  return [...periods].sort((x, y) => x[0] - y[0]).map(([time, dense]) => ({ time, cells: sparseCells(dense, k) }));
+}
+
+/** Dense k×k tables by gap (in steps) as GapCells sorted by gap, from, to. */
+export function gapCellsOf(byGap: ReadonlyMap<number, Float64Array>, k: number): GapCell[] {
+  const cells: GapCell[] = [];
+  for (const g of [...byGap.keys()].sort((x, y) => x - y)) for (const [i, j, n] of sparseCells(byGap.get(g)!, k)) cells.push([i, j, g, n]);
+  return cells;
+}
+
+/** A dense k³ table of runs of three as sparse `[i, j, l, n]` in cell order. */
+export function sparseTriples(triples: Float64Array, k: number): (readonly [number, number, number, number])[] {
+  const list: (readonly [number, number, number, number])[] = [];
+  triples.forEach((n, c) => { if (n > 0) list.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
+  return list;
 }
 
 export { compareCodePoints } from '../data/code-points.js';

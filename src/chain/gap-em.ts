@@ -1,7 +1,6 @@
 import type { GapCell } from './counts.js';
-import { addBridgeExpectations, maxGap, oneStepLogLikelihood } from './bridges.js';
+import { addBridgeExpectations, oneStepLogLikelihood } from './bridges.js';
 import { maximumLikelihood, posteriorMean, type PointEstimate } from './estimates.js';
-import { matrixPowers } from './matrix.js';
 
 export interface GapEstimate extends PointEstimate {
   /** Observed one-step counts plus the expected one-step transitions inside every bridge, at p. */
@@ -40,7 +39,6 @@ export function gapMaximumLikelihood(counts: Float64Array, gapCounts: readonly G
     const closed = maximumLikelihood(counts, alpha, k);
     return { ...closed, expected: counts, logLikelihood: oneStepLogLikelihood(closed.p, counts), iterations: 0, converged: true };
   }
-  const g = maxGap(gapCounts);
   let p = start ?? posteriorMean(counts, alpha, k);
   let expected = new Float64Array(k * k);
   let estimate = maximumLikelihood(counts, alpha, k);
@@ -48,7 +46,7 @@ export function gapMaximumLikelihood(counts: Float64Array, gapCounts: readonly G
   let converged = false;
   while (iterations < maxIterations) {
     expected = Float64Array.from(counts);
-    addBridgeExpectations(p, k, gapCounts, expected, matrixPowers(p, k, g));
+    addBridgeExpectations(p, k, gapCounts, expected);
     estimate = maximumLikelihood(expected, alpha, k);
     iterations += 1;
     let change = 0;
@@ -58,7 +56,7 @@ export function gapMaximumLikelihood(counts: Float64Array, gapCounts: readonly G
   }
   // The completed counts and likelihood at the final p, so that they describe the matrix reported.
   expected = Float64Array.from(counts);
-  const gapPart = addBridgeExpectations(p, k, gapCounts, expected, matrixPowers(p, k, g));
+  const gapPart = addBridgeExpectations(p, k, gapCounts, expected);
   const neverLeft = estimate.rowsNeverLeft;
   return {
     p, rowsFromPrior: estimate.rowsFromPrior, rowsNeverLeft: neverLeft, expected,

@@ -60,9 +60,10 @@ export function registerCount(program: Command, io: Io): void {
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
     .action(async (inputs: string[], given: CountOptions) => {
       // Counts tables alone keep their own step unless --step says otherwise (then it must match).
-      const shardStep = given.step === undefined && inputs.length > 0 && inputs.every((f) => isCountsFile(f))
-        ? readCountsCsv(inputs[0]!, { states: given.states }).step : undefined;
-      const opts = { ...given, step: given.step ?? shardStep ?? DEFAULT_STEP };
+      const shards = inputs.filter((f) => isCountsFile(f));
+      const firstShard = given.step === undefined && inputs.length > 0 && shards.length === inputs.length
+        ? readCountsCsv(inputs[0]!, { states: given.states }) : undefined;
+      const opts = { ...given, step: given.step ?? firstShard?.step ?? DEFAULT_STEP };
       if (opts.out !== undefined) refuseExisting([opts.out, sidecarName(opts.out)], Boolean(opts.force));
       const columns: SurveyColumns = { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn };
       if (opts.sql) {
@@ -73,7 +74,6 @@ export function registerCount(program: Command, io: Io): void {
       if (inputs.length === 0) {
         throw new SereError('BAD_OPTION', 'no input to count', { path: 'INPUT' }, 'name one or more survey tables or counts tables, or use --sql');
       }
-      const shards = inputs.filter((f) => isCountsFile(f));
       const surveys = inputs.filter((f) => !shards.includes(f));
       const parquet = surveys.filter((f) => extname(f).toLowerCase() === '.parquet');
       const useDuckDb = opts.engine === 'duckdb' || parquet.length > 0
@@ -109,7 +109,8 @@ export function registerCount(program: Command, io: Io): void {
         tables.push(counted);
       }
       for (const f of shards) {
-        const shard = readCountsCsv(f, { states: opts.states });
+        // The first shard was read already when it gave the step.
+        const shard = f === inputs[0] && firstShard ? firstShard : readCountsCsv(f, { states: opts.states });
         if (shard.step !== opts.step) {
           throw new SereError('BAD_COUNTS', `this shard was counted with steps of ${shard.step} time unit${shard.step === 1 ? '' : 's'}, not ${opts.step}`, { file: f, path: '--step' },
             `count with --step ${shard.step}, or count that shard again with --step ${opts.step}`);

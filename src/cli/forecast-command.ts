@@ -10,7 +10,6 @@ import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } f
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { countScenarioStacks } from './scenario-stacks.js';
-import type { RandomStream } from '../uncertainty/random.js';
 
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
@@ -21,7 +20,6 @@ export function registerForecast(program: Command, io: Io): void {
       const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
       const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
       maps?.checkMapsScenario(scenarios, opts.maps!, Boolean(opts.force));
-      const randoms: RandomStream[] = [];
       // A file's alternatives share one seed, and so the same draws and event years.
       const seeds = new Map<string, number>();
       const results = scenarios.map((scenario) => {
@@ -29,9 +27,7 @@ export function registerForecast(program: Command, io: Io): void {
         seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
-          const random = randomStreams(seed);
-          randoms.push(random);
-          return runForecast(scenario, random, progress.update, { threads: opts.threads });
+          return runForecast(scenario, randomStreams(seed), progress.update, { threads: opts.threads });
         } finally {
           progress.stop();
         }
@@ -41,7 +37,7 @@ export function registerForecast(program: Command, io: Io): void {
         await writeChart(opts.chart, (c) => c.fanChartSpec(results, title), Boolean(opts.force), io);
       }
       if (opts.csv) writeCsv(opts.csv, tidyCsv(results), Boolean(opts.force), io);
-      if (maps) await maps.writeScenarioMaps(scenarios[0]!, opts.maps!, randoms[0]!, io);
+      if (maps) await maps.writeScenarioMaps(scenarios[0]!, opts.maps!, randomStreams(seeds.get(scenarios[0]!.file)!), io);
       if (opts.json) {
         io.stdout(JSON.stringify(forecastJson(results), null, 2) + '\n');
         return;

@@ -1,9 +1,7 @@
-import { readFileSync } from 'node:fs';
-import { createHash } from 'node:crypto';
 import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
 import { columnLetters, SereError, quote, type Place } from '../errors.js';
 import { workerFile } from '../worker-file.js';
-import { cannotRead, checkRegularFile } from './read-text-file.js';
+import { hashFile } from './hash-file.js';
 import type { SheetReply } from './sheet-cells.js';
 import type { RowSink } from './row-sink.js';
 
@@ -27,14 +25,7 @@ export const OTHER_SPREADSHEET = /\.(xls|xlsb|ods|numbers)$/i;
  * 1,048,576 rows; a table of millions of rows belongs in CSV.
  */
 export function readSpreadsheet(file: string, sheet: string | undefined, sink: RowSink, sheetPlace: Place = { path: '--sheet' }): { sha256: string; sheet: string } {
-  checkRegularFile(file, WHAT);
-  let bytes: Buffer;
-  try {
-    bytes = readFileSync(file);
-  } catch {
-    throw cannotRead(file, WHAT);
-  }
-  const sha256 = createHash('sha256').update(bytes).digest('hex');
+  const sha256 = hashFile(file, WHAT);
   const reply = readOnWorker(file, sheet);
   if (reply.kind === 'unreadable') {
     throw new SereError('BAD_SPREADSHEET', `cannot be read as an .xlsx workbook (${reply.message.split('\n')[0]!.slice(0, 200)})`, { file },

@@ -1,4 +1,4 @@
-import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { projectDraws, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandOf } from './quantiles.js';
 
@@ -24,12 +24,9 @@ export type Phase =
   | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
-  return phase.kind === 'project' ? runs.length * blocksOf(runs[0]!) : phase.columns.length / 3;
+  return phase.kind === 'project' ? runs.length * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
 }
 
-function blocksOf(run: SharedRun): number {
-  return Math.ceil(run.inputs.draws / DRAW_BLOCK);
-}
 
 /**
  * Do task `task` of `phase`. Tasks write disjoint parts of shared arrays (a block's draws, a
@@ -38,7 +35,7 @@ function blocksOf(run: SharedRun): number {
  */
 export function runTask(runs: readonly SharedRun[], phase: Phase, task: number): void {
   if (phase.kind === 'project') {
-    const blocks = blocksOf(runs[0]!);
+    const blocks = blockCount(runs[0]!.inputs.draws);
     const run = runs[Math.floor(task / blocks)]!;
     const b = task % blocks;
     const D = run.inputs.draws;

@@ -17,7 +17,6 @@ import type { EngineOptions } from './engine-options.js';
 import { variationSummary, type RowVariationSummary } from './variation-summary.js';
 
 export type { ShareBands } from './year-bands.js';
-export { appendBand } from './year-bands.js';
 
 /** When something first happens in the landscape, over the draws in which it happens at all. */
 export interface FirstTime {

@@ -1,6 +1,7 @@
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
+import { multiplyInto } from '../chain/matrix.js';
 
 /**
  * The posterior mean of Pʰ for each of `steps` (h ≥ 1): row i is the chance that a site in state i
@@ -12,27 +13,9 @@ import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
 export function meanMatrixPowers(draws: MatrixDraws, steps: readonly number[]): Float64Array[] {
   const { k, count, data } = draws;
   const k2 = k * k;
-  const horizon = Math.max(0, ...steps);
   const sums = steps.map(() => new Float64Array(k2));
-  const power = new Float64Array(k2);
-  const next = new Float64Array(k2);
-  for (let d = 0; d < count; d++) {
-    const at = d * k2;
-    power.fill(0);
-    for (let i = 0; i < k; i++) power[i * k + i] = 1;
-    for (let h = 1; h <= horizon; h++) {
-      // next = power · P_d (row = from): the chance of each state h steps on.
-      for (let i = 0; i < k; i++) {
-        for (let j = 0; j < k; j++) {
-          let x = 0;
-          for (let l = 0; l < k; l++) x += power[i * k + l]! * data[at + l * k + j]!;
-          next[i * k + j] = x;
-        }
-      }
-      power.set(next);
-      steps.forEach((s, n) => { if (s === h) for (let c = 0; c < k2; c++) sums[n]![c] += power[c]!; });
-    }
-  }
+  const products = new ProductWalk(k, steps);
+  for (let d = 0; d < count; d++) products.add(data, () => d * k2, 1, sums);
   for (const sum of sums) for (let c = 0; c < k2; c++) sum[c]! /= count;
   return sums;
 }
@@ -49,30 +32,45 @@ export function meanPlannedPowers(plan: RunPlan, draws: MatrixDraws, steps: read
   const { k, count, data } = draws;
   const k2 = k * k;
   const G = plan.subPopulations.length;
-  const horizon = Math.max(0, ...steps);
   const sums = steps.map(() => new Float64Array(k2));
   const ws = planWorkspace(plan);
-  const power = new Float64Array(k2);
-  const next = new Float64Array(k2);
+  const products = new ProductWalk(k, steps);
   for (let d = 0; d < count; d++) {
     fillPlanMatrices(plan, data, d * k2, ws);
-    plan.subPopulations.forEach((part, g) => {
-      power.fill(0);
-      for (let i = 0; i < k; i++) power[i * k + i] = 1;
-      for (let h = 1; h <= horizon; h++) {
-        const at = plan.planOf[h * G + g]! * k2;
-        for (let i = 0; i < k; i++) {
-          for (let j = 0; j < k; j++) {
-            let x = 0;
-            for (let l = 0; l < k; l++) x += power[i * k + l]! * ws.matrices[at + l * k + j]!;
-            next[i * k + j] = x;
-          }
-        }
-        power.set(next);
-        steps.forEach((s, n) => { if (s === h) for (let c = 0; c < k2; c++) sums[n]![c] += part.weight * power[c]!; });
-      }
-    });
+    plan.subPopulations.forEach((part, g) => products.add(ws.matrices, (h) => plan.planOf[h * G + g]! * k2, part.weight, sums));
   }
   for (const sum of sums) for (let c = 0; c < k2; c++) sum[c]! /= count;
   return sums;
+}
+
+/**
+ * The running product of one draw's year matrices, P₁·P₂·…·Pₕ (row = from), added — times a weight —
+ * into the sum for each wanted step h.
+ */
+class ProductWalk {
+  private readonly horizon: number;
+  private readonly power: Float64Array;
+  private readonly next: Float64Array;
+
+  constructor(private readonly k: number, private readonly steps: readonly number[]) {
+    this.horizon = Math.max(0, ...steps);
+    this.power = new Float64Array(k * k);
+    this.next = new Float64Array(k * k);
+  }
+
+  /** Year h's matrix is `matrices` at offset `offsetOf(h)`. */
+  add(matrices: Float64Array, offsetOf: (h: number) => number, weight: number, sums: Float64Array[]): void {
+    const { k, steps } = this;
+    const k2 = k * k;
+    let power = this.power;
+    let next = this.next;
+    power.fill(0);
+    for (let i = 0; i < k; i++) power[i * k + i] = 1;
+    for (let h = 1; h <= this.horizon; h++) {
+      const at = offsetOf(h);
+      multiplyInto(power, matrices.subarray(at, at + k2), k, next);
+      [power, next] = [next, power];
+      steps.forEach((s, n) => { if (s === h) for (let c = 0; c < k2; c++) sums[n]![c] += weight * power[c]!; });
+    }
+  }
 }

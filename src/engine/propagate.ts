@@ -5,7 +5,6 @@ import type { RunPlan } from './plan.js';
 import type { DrawLayout } from './layout.js';
 import { projectDraws, projectionState, type ProjectionInputs } from './project-chunk.js';
 
-export { MOST_COMMON_TOLERANCE } from './project-chunk.js';
 
 export interface Trajectories extends DrawLayout {
   readonly draws: number;

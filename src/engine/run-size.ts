@@ -3,7 +3,7 @@ import { formatBytes, LIMITS } from '../limits.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { CHUNK_BYTES } from './chunk-years.js';
 import { buildPlan } from './plan.js';
-import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { blockCount } from '../uncertainty/draw-blocks.js';
 
 /**
  * Bytes a run of these scenarios (alternatives sharing one set of draws, run side by side) is
@@ -21,7 +21,7 @@ import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
  *   year streams (32 bytes per block of draws and step).
  * An estimate for refusing a run before allocating, not an exact account.
  */
-export function plannedBytes(scenarios: readonly Scenario[]): number {
+function plannedBytes(scenarios: readonly Scenario[]): number {
   const first = scenarios[0]!;
   const k = first.fit.states.length;
   const D = first.draws;
@@ -32,7 +32,7 @@ export function plannedBytes(scenarios: readonly Scenario[]): number {
       + (s.plots ? D * steps * k * 4 : 0);
   });
   const chunk = Math.max(CHUNK_BYTES, D * k * 8 * scenarios.length);
-  const variation = first.variation.kind === 'none' ? 0 : D * k * 8 + Math.ceil(D / DRAW_BLOCK) * steps * 32;
+  const variation = first.variation.kind === 'none' ? 0 : D * k * 8 + blockCount(D) * steps * 32;
   return D * k * k * 8 + 3 * D * k * 8 + perScenario.reduce((a, b) => a + b, 0) + chunk + Math.max(...perScenario) + variation;
 }
 

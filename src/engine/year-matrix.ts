@@ -1,5 +1,5 @@
 import { sampleDirichlet } from '../uncertainty/dirichlet.js';
-import { blockName, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { blockCount, blockName } from '../uncertainty/draw-blocks.js';
 import { generatorOfKey, keyOf, type RandomStream } from '../uncertainty/random.js';
 
 export type YearStream = Pick<RandomStream, 'gamma'>;
@@ -33,7 +33,7 @@ export function sampleYearMatrix(P: Float64Array, offset: number, k: number, con
  */
 export function yearStreamKeys(random: RandomStream, draws: number, horizon: number): Uint32Array {
   const steps = horizon + 1;
-  const blocks = Math.ceil(draws / DRAW_BLOCK);
+  const blocks = blockCount(draws);
   const keys = new Uint32Array(new SharedArrayBuffer(blocks * steps * 8 * 4));
   for (let b = 0; b < blocks; b++) {
     const block = random.stream(blockName(b));

@@ -4,7 +4,7 @@ import type { RandomStream } from '../uncertainty/random.js';
 import { discreteBandOf } from '../engine/quantiles.js';
 import { climatologyForecast, persistenceForecast } from './baselines.js';
 import { checkCoverage, type CoverageCheck } from './binomial-test.js';
-import { skill } from './scores.js';
+import { covered, skill } from './scores.js';
 import { siteCases } from './site-cases.js';
 import { sitePredictive } from './site-predictive.js';
 
@@ -81,7 +81,7 @@ export function scoreSites(matrices: MatrixDraws, records: readonly SurveyRecord
   }
   return {
     sites: cases.length, unscored, chain: mean(sum.chain), persistence: mean(sum.persistence), climatology: mean(sum.climatology),
-    observed, low, high, covered: observed.reduce((a, x, s) => a + (x >= low[s]! && x <= high[s]! ? 1 : 0), 0),
+    observed, low, high, covered: covered(observed, low, high),
   };
 }
 

@@ -1,11 +1,13 @@
 import { quote } from '../errors.js';
 import { labelProblem, MAX_STATES, normaliseLabel } from '../data/labels.js';
 import type { KeyPath } from '../data/read-structured.js';
-import { addSiteCells, compareCodePoints, type GapCell, type PairsByGap } from '../chain/counts.js';
+import { addSiteCells, compareCodePoints, pairsByGapOf, type GapCell, type PairsByGap } from '../chain/counts.js';
 import { reachableInSteps } from '../chain/reachable.js';
 import { SiteCountBuilder, SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
 import type { FitFile } from './fit-file-schema.js';
 import type { LatentSample } from './latent-sample.js';
+import { maxGap } from '../chain/bridges.js';
+import { impossibleMask } from './settings.js';
 
 /** Report one broken invariant at a key path; never returns. */
 export type Fail = (what: string, path: KeyPath, hint?: string) => never;
@@ -209,9 +211,8 @@ function checkGapCounts(f: FitFile, states: readonly string[], impossible: reado
     if (order <= previous) fail('cells are listed twice or out of (gap, from, to) order', ['data', 'gap_counts', c]);
     previous = order;
   });
-  const mask = new Uint8Array(k * k);
-  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
-  const reach = reachableInSteps(mask, k, cells.reduce((g, c) => Math.max(g, c[2]), 0));
+  const mask = impossibleMask(impossible, states, { path: 'impossible' });
+  const reach = reachableInSteps(mask, k, maxGap(cells));
   cells.forEach(([i, j, g], c) => {
     if (!reach[g]![i * k + j]) {
       fail(`pairs ${g} steps apart from ${quote(states[i]!)} to ${quote(states[j]!)} are impossible under the impossible list`, ['data', 'gap_counts', c]);
@@ -221,9 +222,8 @@ function checkGapCounts(f: FitFile, states: readonly string[], impossible: reado
 }
 
 function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly GapCell[], fail: Fail): PairsByGap[] {
-  const byGap = new Map<number, number>([[1, transitions]]);
-  for (const [, , g, n] of gapCounts) byGap.set(g, (byGap.get(g) ?? 0) + n);
-  const pairs = [...byGap].sort((a, b) => a[0] - b[0]).map(([gap, n]) => ({ gap, pairs: n }));
+  // transitions > 0 is checked first, so gap 1 always leads, as the file lists it.
+  const pairs = pairsByGapOf(transitions, gapCounts);
   const given = f.data.pairs_by_gap;
   if (given !== undefined && JSON.stringify(given.map(({ gap, pairs: n }) => ({ gap, pairs: n }))) !== JSON.stringify(pairs)) {
     fail('pairs_by_gap does not agree with counts and gap_counts', ['data', 'pairs_by_gap']);
@@ -243,8 +243,7 @@ function checkSampler(f: FitFile, states: readonly string[], impossible: readonl
   const k = states.length;
   if (gapCounts.length === 0) fail('posterior_sampler is only for fits with pairs further apart than one step', ['posterior_sampler']);
   if (s.latent_counts.length !== s.retained) fail(`latent_counts holds ${s.latent_counts.length} sweeps, not retained = ${s.retained}`, ['posterior_sampler', 'latent_counts']);
-  const mask = new Uint8Array(k * k);
-  for (const [from, to] of impossible) mask[states.indexOf(from) * k + states.indexOf(to)] = 1;
+  const mask = impossibleMask(impossible, states, { path: 'impossible' });
   const steps = gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
   const latent = new Float64Array(s.retained * k * k);
   s.latent_counts.forEach((sweep, r) => {

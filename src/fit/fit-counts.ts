@@ -1,7 +1,7 @@
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
 import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
-import { gapNotWholeSteps, pairsByGapOf, type GapCell, type PeriodCounts } from '../chain/counts.js';
+import { gapCellsOf, gapNotWholeSteps, pairsByGapOf, periodList } from '../chain/counts.js';
 import { gcd } from '../chain/structure.js';
 import type { MixAtTime } from '../chain/latest-mix.js';
 import { SiteCountBuilder, type SiteCountTable } from '../chain/site-counts.js';
@@ -32,7 +32,7 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
   const counts = new Float64Array(k * k);
   const firstLine = new Float64Array(k * k);
   let notWhole: { dt: number; line: number } | undefined;
-  const byGap = new Map<string, number>();
+  const byGap = new Map<number, Float64Array>();
   const periods = new Map<number, Float64Array>();
   const history = new Map<number, number[]>();
   let transitions = 0;
@@ -53,8 +53,9 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
         notWhole ??= { dt: Math.round(c.gap * step), line: c.line };
         continue;
       }
-      const key = `${c.gap} ${c.from} ${c.to}`;
-      byGap.set(key, (byGap.get(key) ?? 0) + c.n);
+      let dense = byGap.get(c.gap);
+      if (dense === undefined) byGap.set(c.gap, dense = new Float64Array(k * k));
+      dense[c.from * k + c.to] += c.n;
       continue;
     }
     const cell = c.from * k + c.to;
@@ -69,17 +70,9 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
   const mixes: MixAtTime[] = [...history].sort((a, b) => a[0] - b[0])
     .map(([time, c]) => ({ time, counts: c, sites: c.reduce((a, b) => a + b, 0) }));
   const latest = mixes[mixes.length - 1]!;
-  const gapCounts: GapCell[] = [...byGap].map(([key, n]) => {
-    const [gap, from, to] = key.split(' ').map(Number) as [number, number, number];
-    return [from, to, gap, n] as const;
-  }).sort((a, b) => a[2] - b[2] || a[0] - b[0] || a[1] - b[1]);
+  const gapCounts = gapCellsOf(byGap, k);
   const pairsByGap = pairsByGapOf(transitions, gapCounts);
   checkTransitions({ file: table.file, states, step, mask, counts, transitions, pairsByGap, gapCounts, firstLine });
-  const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => {
-    const list: [number, number, number][] = [];
-    dense.forEach((n, cell) => { if (n > 0) list.push([Math.floor(cell / k), cell % k, n]); });
-    return { time, cells: list };
-  });
   const perSite = siteCells ? siteTable(siteCells, k, table, counts) : undefined;
   const sites = perSite?.sites ?? new SiteCountBuilder(k, false).table();
   return {
@@ -99,7 +92,7 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
     surveys,
     firstTime: mixes[0]!.time,
     latest: { time: latest.time, counts: latest.counts, shares: latest.counts.map((c) => c / latest.sites), sites: latest.sites },
-    periods: periodList,
+    periods: periodList(periods, k),
     ...(table.grouped ? { groupColumn: settings.columns.group ?? COUNTS_GROUP_COLUMN } : {}),
     history: mixes,
   };
@@ -119,14 +112,11 @@ function groupCells(cells: readonly CountCell[], table: CountsTable, group: stri
 }
 
 /**
- * The site bootstrap's table from per-site cells: every site (each has a first survey), in
- * code-point order, with its one-step cells in cell order. The per-site counts must add up to the
- * pooled ones — a hand-edited file that breaks this is refused rather than bootstrapped.
- */
-/**
- * Each site's one-step counts (what the site bootstrap resamples) and, aligned with them, its pairs
- * further apart (cell (g − 2)·k² + i·k + j, as chain/counts.ts keeps them), which the bootstrap
- * with gaps refits.
+ * The site bootstrap's tables from per-site cells: every site (each has a first survey), in
+ * code-point order, with its one-step cells in cell order, and, aligned with them, its pairs further
+ * apart (cell (g − 2)·k² + i·k + j, as chain/counts.ts keeps them), which the bootstrap with gaps
+ * refits. The per-site counts must add up to the pooled ones — a hand-edited file that breaks this
+ * is refused rather than bootstrapped.
  */
 function siteTable(siteCells: readonly SiteCell[], k: number, table: CountsTable, counts: Float64Array): { sites: SiteCountTable; siteGaps: SiteCountTable } {
   const bySite = new Map<string, SiteCell[]>();

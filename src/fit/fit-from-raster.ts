@@ -1,7 +1,7 @@
 import { SereError, quote, type Place } from '../errors.js';
 import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
 import { SiteCountBuilder } from '../chain/site-counts.js';
-import { gapNotWholeSteps, pairsByGapOf, type GapCell, type PeriodCounts } from '../chain/counts.js';
+import { gapCellsOf, gapNotWholeSteps, pairsByGapOf, periodList, sparseTriples } from '../chain/counts.js';
 import { gcd } from '../chain/structure.js';
 import type { MixAtTime } from '../chain/latest-mix.js';
 import { impossibleMask, type FitSettings } from './settings.js';
@@ -73,9 +73,10 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
       const pair = tally.pairs[u * T + t];
       if (!pair) continue;
       const gap = years[t]! - years[u]!;
-      let into: Float64Array | undefined;
+      let into: Float64Array;
       if (gap === step) {
         into = counts;
+        for (const x of pair) transitions += x;
         let period = periods.get(years[u]!);
         if (!period) periods.set(years[u]!, period = new Float64Array(k * k));
         addMapped(period, pair, index, kc, k);
@@ -84,11 +85,11 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
           const divisor = years.slice(1).reduce((d, y, n) => gcd(d, y - years[n]!), 0);
           throw gapNotWholeSteps(counted.stack.file, 0, gap, step, divisor);
         }
-        into = byGap.get(gap / step);
-        if (!into) byGap.set(gap / step, into = new Float64Array(k * k));
+        let dense = byGap.get(gap / step);
+        if (!dense) byGap.set(gap / step, dense = new Float64Array(k * k));
+        into = dense;
       }
-      if (into) addMapped(into, pair, index, kc, k);
-      if (gap === step) for (const x of pair) transitions += x;
+      addMapped(into, pair, index, kc, k);
       const run = tally.triples[u * T + t];
       if (run && gap === step) {
         for (let a = 0; a < kc; a++) for (let b = 0; b < kc; b++) for (let c = 0; c < kc; c++) {
@@ -98,10 +99,7 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
       }
     }
   }
-  const gapCounts: GapCell[] = [];
-  for (const g of [...byGap.keys()].sort((a, b) => a - b)) {
-    byGap.get(g)!.forEach((n, c) => { if (n > 0) gapCounts.push([Math.floor(c / k), c % k, g, n]); });
-  }
+  const gapCounts = gapCellsOf(byGap, k);
   const pairsByGap = pairsByGapOf(transitions, gapCounts);
   // The checks every fit's counts pass (fit.ts); a zone's fit for maps may have none.
   if (!zoneFit || transitions > 0) {
@@ -124,9 +122,6 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     throw new SereError('NO_TRANSITIONS', 'every pixel is nodata or skipped', { file: counted.stack.file }, 'check the nodata value and the labels');
   }
   const last = history[history.length - 1]!;
-  const periodList: PeriodCounts[] = [...periods].sort((a, b) => a[0] - b[0]).map(([time, dense]) => ({ time, cells: sparse(dense, k) }));
-  const tripleList: (readonly [number, number, number, number])[] = [];
-  triples.forEach((n, c) => { if (n > 0) tripleList.push([Math.floor(c / (k * k)), Math.floor(c / k) % k, c % k, n]); });
   return {
     input: { file: counted.stack.file, sha256: counted.sha256 },
     states,
@@ -145,8 +140,8 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     surveys,
     firstTime: history[0]!.time,
     latest: { time: last.time, counts: last.counts, shares: last.counts.map((c) => c / last.sites), sites: last.sites },
-    triples: tripleList,
-    periods: periodList,
+    triples: sparseTriples(triples, k),
+    periods: periodList(periods, k),
     history,
   };
 }
@@ -158,11 +153,6 @@ function addMapped(into: Float64Array, pair: Float64Array, index: Int32Array, kc
   }
 }
 
-function sparse(dense: Float64Array, k: number): [number, number, number][] {
-  const cells: [number, number, number][] = [];
-  dense.forEach((n, c) => { if (n > 0) cells.push([Math.floor(c / k), c % k, n]); });
-  return cells;
-}
 
 /** Every zone's tally added up (the whole map when there are no zones). */
 function pooled(counted: RasterCounts): RasterTally {

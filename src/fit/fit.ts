@@ -12,6 +12,7 @@ import { gapMaximumLikelihood, type GapEstimate } from '../chain/gap-em.js';
 import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
+import { maxGap } from '../chain/bridges.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -189,7 +190,7 @@ function checkGapPairsPossible({ gapCounts, gapLines, mask, states, file }: Coun
   if (gapCounts.length === 0 || !mask.some((m) => m === 1)) return;
   const k = states.length;
   const lineOf = (c: number): number => gapLines?.[c] ?? 0;
-  const reach = reachableInSteps(mask, k, gapCounts.reduce((g, c) => Math.max(g, c[2]), 0));
+  const reach = reachableInSteps(mask, k, maxGap(gapCounts));
   let worst = -1;
   gapCounts.forEach(([i, j, g], c) => {
     if (!reach[g]![i * k + j] && (worst < 0 || lineOf(c) < lineOf(worst))) worst = c;

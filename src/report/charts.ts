@@ -67,7 +67,6 @@ interface PanelOptions {
   readonly reference?: ForecastResult;
 }
 
-/** The values a share panel draws, to scale its y-axis to them. */
 /**
  * The threshold to draw as a rule in state s's panel: only for a target on that one state — a
  * target on a set of states is about their sum, which no single panel shows.
@@ -77,6 +76,7 @@ function singleStateTarget(r: ForecastResult, s: number): number | null {
   return t && t.states.length === 1 && t.states[0] === s ? t.threshold : null;
 }
 
+/** The values a share panel draws, to scale its y-axis to them. */
 function panelValues(r: ForecastResult, s: number, withTarget: boolean): number[] {
   const rows = bandRows(r, s);
   const state = r.scenario.fit.states[s]!;

@@ -8,7 +8,6 @@ import { carriedWords } from './forecast-table.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 
-/** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
 /**
  * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
  * survey, repeated rows (also printed by sere season).
@@ -33,6 +32,7 @@ export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
   return lines;
 }
 
+/** The terminal report of `sere fit`: the data, the counts, the estimates, flags and the stationary mix. */
 export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   priorSensitivity: readonly { readonly reliance: PriorReliance; readonly longRun: readonly (number | null)[] }[] = []): string {
   const { states } = fit;

@@ -29,9 +29,6 @@ export interface AugmentSettings {
  */
 export const DEFAULT_AUGMENT: AugmentSettings = { chains: 4, warmUp: 500, retained: 1000, thin: 2 };
 
-/** What the sampler keeps (fit/latent-sample.ts): a posterior matrix draw picks one retained sweep and draws Dirichlet(prior + observed + latent) row by row (posterior.ts). */
-export type Augmentation = LatentSample;
-
 /**
  * The posterior of P with pairs further apart than one step, by data augmentation (Tanner & Wong
  * 1987): alternate (latent paths | P), drawn bridge cell by bridge cell (bridge-sampler.ts), and
@@ -41,7 +38,7 @@ export type Augmentation = LatentSample;
  * Each chain c runs on `random.stream('chain:c')` and starts from a draw of the posterior given the
  * one-step counts alone (more spread than the target, as R̂ wants). Same seed → same retained sweeps.
  */
-export function augment(fit: Fit, settings: AugmentSettings, random: RandomStream): Augmentation {
+export function augment(fit: Fit, settings: AugmentSettings, random: RandomStream): LatentSample {
   const k = fit.states.length;
   const gapCounts = fit.gapCounts ?? [];
   const g = maxGap(gapCounts);
@@ -83,7 +80,7 @@ export function augment(fit: Fit, settings: AugmentSettings, random: RandomStrea
 }
 
 /** The warning line(s) the user should read when the sampler may not have converged. */
-export function augmentationWarnings(a: Augmentation, states: readonly string[]): string[] {
+export function augmentationWarnings(a: LatentSample, states: readonly string[]): string[] {
   const k = states.length;
   let worstRhat = -1;
   let worstEss = -1;

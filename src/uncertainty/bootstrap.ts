@@ -4,6 +4,17 @@ import { gapMaximumLikelihood } from '../chain/gap-em.js';
 import { fitMle, fitPrior, hasGaps, needPerSite, type Fit } from '../fit/fit.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
+import { maxGap } from '../chain/bridges.js';
+
+/**
+ * Below this many sites the site bootstrap's bands are too narrow to trust. Measured by simulation
+ * (test/slow/bootstrap-coverage.test.ts; the demo's 5-state true matrix, 10 steps ahead, 4 surveys
+ * per site): 90% bands covered the true expected mix 58% of the time with 12 sites, 75% with 20,
+ * 80% with 30 and 84% with 40, against 86–89% for the posterior bands on the same histories. Few
+ * sites resample to too few distinct histories, and rarely seen transitions vanish from most
+ * resamples (Efron & Tibshirani 1993, ch. 6, on the bootstrap's small-sample bias).
+ */
+export const BOOTSTRAP_FEW_SITES = 40;
 
 /**
  * Site bootstrap: resample whole sites with replacement and refit the MLE, once per draw (Efron &
@@ -15,16 +26,6 @@ import type { RandomStream } from './random.js';
  * (itself the prior mean when the state was never observed) and the number of such rows is
  * reported.
  */
-/**
- * Below this many sites the site bootstrap's bands are too narrow to trust. Measured by simulation
- * (test/slow/bootstrap-coverage.test.ts; the demo's 5-state true matrix, 10 steps ahead, 4 surveys
- * per site): 90% bands covered the true expected mix 58% of the time with 12 sites, 75% with 20,
- * 80% with 30 and 84% with 40, against 86–89% for the posterior bands on the same histories. Few
- * sites resample to too few distinct histories, and rarely seen transitions vanish from most
- * resamples (Efron & Tibshirani 1993, ch. 6, on the bootstrap's small-sample bias).
- */
-export const BOOTSTRAP_FEW_SITES = 40;
-
 export function bootstrapDraws(fit: Fit, count: number, random: RandomStream): MatrixDraws {
   const k = fit.states.length;
   const data = new Float64Array(count * k * k);
@@ -77,7 +78,7 @@ function gapResampler(fit: Fit): { alpha: Float64Array; clear(): void; add(site:
     throw new SereError('BAD_OPTION', 'this fit has pairs further apart than one step but not which site each belongs to, so its sites cannot be resampled',
       { path: 'uncertainty.source' }, 'use source: posterior, or refit from the survey table with this version of sere');
   }
-  const longest = (fit.gapCounts ?? []).reduce((g, c) => Math.max(g, c[2]), 2);
+  const longest = Math.max(2, maxGap(fit.gapCounts ?? []));
   const dense = new Float64Array((longest - 1) * k * k);
   return {
     alpha: fitPrior(fit),

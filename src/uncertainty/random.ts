@@ -53,8 +53,7 @@ export function randomStreams(seed: number): RandomStream {
 }
 
 function makeStream(seed: number, name: string): RandomStream {
-  const uniform = xoshiroUniforms(streamKey(seed, name));
-  const gamma = gammaVariates(uniform, polarNormals(uniform));
+  const { uniform, gamma } = generatorOfKey(streamKey(seed, name));
   return {
     seed,
     name,

@@ -150,10 +150,7 @@ function classCodes(file: string): Map<number, string> {
       throw new SereError('BAD_RASTER', Number.isNaN(code) ? `label ${quote(key)} is not a class code (a whole number 0 or more)` : `class code ${code} is listed twice`,
         { file, line: read.lines.get(key) }, 'key a raster\'s label map by its class codes, once each');
     }
-    if (state !== null) {
-      const problem = labelProblem(state, () => `state ${quote(state)}`);
-      if (problem) throw new SereError(problem.code, problem.what, { file, line: read.lines.get(key) }, problem.hint);
-    }
+    // readLabelMap has checked every state it returns as a label.
     map.set(code, state ?? SKIP);
   }
   return map;
