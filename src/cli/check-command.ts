@@ -6,7 +6,7 @@ import { isRasterStackFile } from '../data/raster/stack-file.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
-import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
+import { FIT_FLAG_KEYS, fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import type { Io } from './io.js';
 import { drawsFlag, level, replicatesFlag, seedFlag, yearsFlag } from './parse-options.js';
 
@@ -31,8 +31,6 @@ function periodRanges(value: string): [number, number][] {
   });
 }
 
-const FIT_FLAGS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn'];
-
 export function registerCheck(program: Command, io: Io): void {
   const command = withFitOptions(program.command('check')
     .description('test the Markov assumptions and describe the chain: structure, passage times, settling, sensitivities')
@@ -53,7 +51,7 @@ export function registerCheck(program: Command, io: Io): void {
     const { checkJson } = await import('../report/check-json.js');
     const { checkTable } = await import('../report/check-table.js');
     const isFitFile = extname(file).toLowerCase() === '.json';
-    const given = FIT_FLAGS.filter((name) => command.getOptionValueSource(name) === 'cli');
+    const given = FIT_FLAG_KEYS.filter((name) => command.getOptionValueSource(name) === 'cli');
     if (isFitFile && given.length > 0) {
       throw new SereError('BAD_OPTION', `fit flags (${given.join(', ')}) apply to a survey table, not to a fit file`, { file, path: `--${given[0]!.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}` },
         'drop them, or check the survey table itself');

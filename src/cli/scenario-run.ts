@@ -3,8 +3,6 @@ import { loadScenarios, type LoadOptions } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { drawsFlag, seedFlag, threadsFlag, variationFlag } from './parse-options.js';
-import { SereError } from '../errors.js';
-import { MIN_VARIATION_PERIODS, periodCount } from '../uncertainty/variation.js';
 import type { TopLevelSpec } from 'vega-lite';
 import type { Io } from './io.js';
 import { refuseExisting, writeFileAtomic } from './write-file.js';
@@ -60,16 +58,9 @@ export function writeCsv(file: string, csv: string, force: boolean, io: Io): voi
  */
 export function loadAndCheck(files: readonly string[], opts: RunOptions, load: LoadOptions = {}): Scenario[] {
   refuseExisting([opts.chart, opts.csv, opts.differenceChart], Boolean(opts.force));
-  const scenarios = files.flatMap((file) => loadScenarios(file, load))
-    .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s))
-    .map((s) => {
-      if (opts.variation === undefined) return s;
-      if (opts.variation === 'estimated' && periodCount(s.fit) < MIN_VARIATION_PERIODS) {
-        throw new SereError('BAD_SCENARIO', `--variation estimated needs at least ${MIN_VARIATION_PERIODS} survey periods; the record has ${periodCount(s.fit)}`,
-          { file: s.file, path: '--variation' }, 'use --variation none, or give a concentration in the scenario file');
-      }
-      return { ...s, variation: { kind: opts.variation } };
-    });
+  // --variation goes in before loading: the draw count of a point scenario depends on it.
+  const scenarios = files.flatMap((file) => loadScenarios(file, opts.variation === undefined ? load : { ...load, variation: opts.variation }))
+    .map((s) => (opts.draws && s.draws > 1 ? { ...s, draws: opts.draws } : s));
   checkScenarios(scenarios);
   return scenarios;
 }

@@ -25,6 +25,8 @@ export interface LoadOptions {
   readonly fit?: Fit;
   /** Raster stacks named as data, counted beforehand (cli/raster-data.ts), by path as `data` resolves. */
   readonly rasters?: ReadonlyMap<string, RasterCounts>;
+  /** `--variation`: replaces the file's `variation` before anything that depends on it (the draw count). */
+  readonly variation?: 'none' | 'estimated';
 }
 
 /** Load a scenario file that describes exactly one scenario (no `alternatives`). */
@@ -97,7 +99,8 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
     impossible: fitMask(fit),
     stateIndex, locate,
   };
-  const variation = resolveVariation(s.variation, fit, stateIndex, locate);
+  const variation = options.variation === undefined ? resolveVariation(s.variation, fit, stateIndex, locate)
+    : flagVariation(options.variation, fit, file);
   const target = s.target && resolveTarget(s.target, { step: fit.step, horizonSteps, stateIndex, locate });
   const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));
   const baseName = s.name ?? basename(file).replace(/\.ya?ml$/i, '');
@@ -139,6 +142,15 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
  * MIN_VARIATION_PERIODS survey periods (fewer cannot show a spread between years), else none. A
  * given concentration is one number for every state, or a map (states not listed do not vary).
  */
+/** `--variation none | estimated`, checked as the file's key is, but reported at the flag. */
+function flagVariation(kind: 'none' | 'estimated', fit: Fit, file: string): VariationSpec {
+  if (kind === 'estimated' && periodCount(fit) < MIN_VARIATION_PERIODS) {
+    throw new SereError('BAD_SCENARIO', `--variation estimated needs at least ${MIN_VARIATION_PERIODS} survey periods; the record has ${periodCount(fit)}`,
+      { file, path: '--variation' }, 'use --variation none, or give a concentration in the scenario file');
+  }
+  return { kind };
+}
+
 function resolveVariation(given: ScenarioFile['variation'], fit: Fit,
   stateIndex: (name: string, path: KeyPath) => number, locate: (path: KeyPath) => Place): VariationSpec {
   if (given === undefined) return periodCount(fit) >= MIN_VARIATION_PERIODS ? { kind: 'estimated' } : { kind: 'none' };

@@ -76,6 +76,7 @@ describe('sere check (built binary)', () => {
   const bad: [string, string[], string, number][] = [
     ['an unknown target', ['check', demo, '--target', 'woodland'], "--target: unknown state 'woodland'", 1],
     ['fit flags with a fit file', ['check', 'test/fixtures/fits/inconsistent.json', '--step', '2'], 'fit flags (step) apply to a survey table', 1],
+    ['a label map with a fit file', ['check', 'test/fixtures/fits/inconsistent.json', '--labels', 'labels.yaml'], 'fit flags (labels) apply to a survey table', 1],
     ['malformed periods', ['check', demo, '--periods', '2019-2015'], 'expected ranges of start years', 2],
   ];
   for (const [what, args, message, code] of bad) {

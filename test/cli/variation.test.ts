@@ -1,4 +1,7 @@
 import { describe, expect, it } from 'vitest';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { sere } from './binary.js';
 
 const demo = 'scenarios/brenhollow/no-action.yaml';
@@ -30,5 +33,15 @@ describe('year-to-year variation on the command line (built binary)', () => {
     expect(r.stderr).toContain('[BAD_SCENARIO]');
     expect(r.stderr).toContain('(--variation)');
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+
+  it('--variation acts before the draw count is set: a point scenario draws once without it and many times with it', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sere-variation-'));
+    const file = join(dir, 'point.yaml');
+    writeFileSync(file, `data: ${join(process.cwd(), 'scenarios/brenhollow/surveys.csv')}\nfit: { states: [mudflat, pioneer, low-marsh, high-marsh, rank-grass], impossible: ['mudflat>high-marsh', 'rank-grass>mudflat'] }\n` +
+      'horizon: { steps: 3 }\nuncertainty: { source: point, seed: 5 }\n');
+    const drawsOf = (args: string[]): number => JSON.parse(sere(['forecast', file, '--json', ...args]).stdout).scenarios[0].uncertainty.draws;
+    expect(drawsOf(['--variation', 'none'])).toBe(1);
+    expect(drawsOf(['--variation', 'estimated'])).toBeGreaterThan(1);
   });
 });
