@@ -5,7 +5,7 @@ import { extname, join } from 'node:path';
 import { DuckDBInstance, DuckDBPendingResultState, type DuckDBConnection } from '@duckdb/node-api';
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
-import { FIRST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { FIRST_SURVEY, LAST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import { labelProblem, MAX_LABEL_LENGTH, normaliseLabel } from '../data/labels.js';
 import { StateLabels } from '../data/states.js';
 import { checkRegularFile } from '../data/read-text-file.js';
@@ -55,11 +55,15 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
     let repeated = 0;
     for (const r of result) {
       const from = r.from_state === null ? FIRST_SURVEY : Number(r.from_state);
-      const to = Number(r.to_state);
+      const to = r.to_state === null ? LAST_SURVEY : Number(r.to_state);
       const gap = r.gap === null ? 0 : Number(r.gap);
       const n = Number(r.n);
       const group = g ? { group: coded.groups[Number(r.site_group)]! } : {};
       const pooled = !options.perSite || r.site === null || r.site === undefined;
+      if (to === LAST_SURVEY) {
+        cells.push({ ...group, from, to, gap: 0, time: Number(r.to_time), n, line: 0 });
+        continue;
+      }
       if (from !== FIRST_SURVEY && gap === 0) {
         // An exact repeat (count-query.ts): used once. Two states at one time: refused.
         if (from !== to) await contradiction(db, fileNames, coded);

@@ -37,7 +37,7 @@ describe('sere count', () => {
     expect(sources.inputs).toEqual([{ file: DEMO, kind: 'survey table', sha256: sha(DEMO) }]);
     expect(sources.counts.sha256).toBe(sha(out));
     // The demo: 60 plots, 583 surveys, 507 one-year transitions, 15 + 1 pairs 2 and 3 years apart (sere fit prints the same).
-    expect(sources.totals).toEqual({ sites: 60, surveys: 583, transitions: 507, other_pairs: 16, repeated_rows: 0 });
+    expect(sources.totals).toEqual({ sites: 60, surveys: 583, transitions: 507, other_pairs: 16, repeated_rows: 0, sites_by_last_survey: 60 });
     const again = await sereInProcess(['count', DEMO, '--out', out, '--debug']);
     expect(again.code).toBe(1);
     expect(code(again.stderr)).toBe('FILE_EXISTS');
