@@ -160,3 +160,35 @@ describe('fitting from counts', () => {
     expect(unavailable.some((u) => u.startsWith('order 1 vs 2: a counts table'))).toBe(true);
   });
 });
+
+describe('sere fit --by on a counts table', () => {
+  it('gives the same fits, files and groups test as --by on the survey table', async () => {
+    const counts = at('by-zone.csv');
+    expect((await sereInProcess(['count', DEMO, '--group-column', 'zone', '--per-site', '--states', STATES, '--out', counts])).code).toBe(0);
+    const viaSurvey = await sereInProcess(['fit', DEMO, '--by', 'zone', '--states', STATES, '--out', at('s.json')]);
+    const viaCounts = await sereInProcess(['fit', counts, '--by', 'zone', '--states', STATES, '--out', at('c.json')]);
+    expect(viaSurvey.code).toBe(0);
+    expect(viaCounts.code).toBe(0);
+    const zones = ['north', 'south'];
+    for (const zone of zones) {
+      const a = JSON.parse(readFileSync(at(`s-${zone}.json`), 'utf8'));
+      const b = JSON.parse(readFileSync(at(`c-${zone}.json`), 'utf8'));
+      expect(b.counts).toEqual(a.counts);
+      expect(b.latest).toEqual(a.latest);
+      expect(b.estimate).toEqual(a.estimate);
+      expect(b.data.sites).toBe(a.data.sites);
+      expect(b.group_column).toBe('zone');
+    }
+    // The groups test (per-site counts) and its table: the same numbers, only the file named differs.
+    expect(viaCounts.stdout.replaceAll(counts, 'X').replaceAll(at('c-'), 'OUT-')).toBe(viaSurvey.stdout.replaceAll(DEMO, 'X').replaceAll(at('s-'), 'OUT-'));
+    expect(viaCounts.stdout).toMatch(/simulated p 0\.\d+/);
+  });
+
+  it('refuses a counts table counted without groups', async () => {
+    const counts = at('no-groups.csv');
+    expect((await sereInProcess(['count', DEMO, '--out', counts])).code).toBe(0);
+    const r = await sereInProcess(['fit', counts, '--by', 'zone', '--out', at('n.json'), '--debug']);
+    expect(r.code).toBe(1);
+    expect(code(r.stderr)).toBe('BAD_OPTION');
+  });
+});
