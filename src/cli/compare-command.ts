@@ -26,7 +26,7 @@ export function registerCompare(program: Command, io: Io): void {
     .description('compare management alternatives on common random numbers (the first is the baseline)'))
     .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
     .action(async (files: string[], opts: RunOptions) => {
-      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
       if (scenarios.length < 2) {
         throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },
           'name two or more scenario files, or list alternatives in the file');
