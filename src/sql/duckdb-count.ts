@@ -11,6 +11,7 @@ import { StateLabels } from '../data/states.js';
 import { checkRegularFile } from '../data/read-text-file.js';
 import type { SurveyColumns } from '../data/survey.js';
 import { columnIndex } from '../data/survey-header.js';
+import { findSurveyLine, type SurveyRole, type SurveyRowText } from '../data/find-survey-line.js';
 import { countingSql } from './count-query.js';
 
 export interface DuckDbCountOptions {
@@ -33,7 +34,9 @@ const WHAT = 'survey table';
  * outcomes (error codes) as the in-process reader: empty values, times that are not whole,
  * labels with invisible characters or too long (labels.ts), states as states.ts decides them, and
  * a site surveyed twice at one time in two states; exact repeats are dropped and counted.
- * Messages name the file and the site and time (DuckDB does not keep line numbers).
+ * DuckDB keeps no line numbers: a problem in a CSV file is then found again by one streaming pass
+ * of the survey reader's own scanner (data/find-survey-line.ts), so the message names the file,
+ * line and column the in-process reader would; in a Parquet file, the file and the site and time.
  */
 export async function countWithDuckDb(files: readonly string[], options: DuckDbCountOptions): Promise<CountsTable> {
   for (const f of files) checkRegularFile(f, WHAT);
@@ -48,6 +51,7 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
     const g = options.columns.group !== undefined;
     const fileNames = files.join(', ');
     const coded = await codedSurveys(db, files, fileNames, options);
+    const place = placer(files, options.columns);
     const sql = countingSql({ table: 'sere_coded', columns: { site: 'site', time: 'time', state: 'state', ...(g ? { group: 'site_group' } : {}) }, step: options.step, perSite: options.perSite });
     const result = await withProgress(db, sql, options);
     const cells: CountCell[] = [];
@@ -66,7 +70,7 @@ export async function countWithDuckDb(files: readonly string[], options: DuckDbC
       }
       if (from !== FIRST_SURVEY && gap === 0) {
         // An exact repeat (count-query.ts): used once. Two states at one time: refused.
-        if (from !== to) await contradiction(db, fileNames, coded);
+        if (from !== to) await contradiction(db, fileNames, coded, place);
         if (pooled) repeated += n;
         continue;
       }
@@ -146,19 +150,17 @@ async function codedSurveys(db: DuckDBConnection, files: readonly string[], file
       nfc_normalize(${trimmed('state')}) AS state
       ${g ? `, nfc_normalize(${trimmed('site_group')}) AS site_group` : ''}
       FROM sere_raw`);
-    await checkRows(db, fileNames, g, options);
+    await checkRows(db, fileNames, g, options, placer(files, columns));
   }
   // States: the distinct labels, in code-point order, decided by states.ts as for any survey table.
   const rawStates = [...new Set(summary.map((r) => String(r['state'])))];
-  const labels = new StateLabels(fileNames, options.states);
-  const provisional = new Map<string, number>();
-  for (const label of [...new Set(rawStates.map(clean))].sort(compareCodePoints)) provisional.set(label, labels.see(label, 0, 0));
-  const { states, index } = labels.finish();
+  const distinct = [...new Set(rawStates.map(clean))].sort(compareCodePoints);
+  const { provisional, states, index } = decideStates(distinct, fileNames, options.states, placer(files, columns));
   const rawGroups = g ? [...new Set(summary.map((r) => String(r['site_group'])))] : [];
   const groups = [...new Set(rawGroups.map(clean))].sort(compareCodePoints);
   for (const group of groups) {
     const problem = labelProblem(group, () => `group ${quote(group)}`);
-    if (problem) throw new SereError(problem.code, problem.what, { file: fileNames }, problem.hint);
+    if (problem) throw placer(files, columns)(new SereError(problem.code, problem.what, { file: fileNames }, problem.hint), 'group', (r) => r.group === group);
   }
   const groupCode = new Map(groups.map((l, i) => [l, i] as const));
   const site = oddSites ? `CASE WHEN ${PLAIN('site')} THEN site ELSE nfc_normalize(${trimmed('site')}) END` : 'site';
@@ -233,7 +235,7 @@ async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyC
  * One pass over the rows for what the in-process reader checks row by row: empty values, times,
  * site and group labels; and the distinct states, decided by states.ts as for any survey table.
  */
-async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, options: DuckDbCountOptions): Promise<void> {
+async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, options: DuckDbCountOptions, place: Placer): Promise<void> {
   // Only printable ASCII up to the length limit is surely fine; the rest (rare) are checked by labels.ts.
   // Measured on 10⁷ rows: 0.3 s, where a \p{Cc}\p{Cf} regular expression on every row took 1.2 s.
   const suspect = (column: string): string => `(strlen(${column}) > ${MAX_LABEL_LENGTH} OR NOT (${column} SIMILAR TO '[ -~]*'))`;
@@ -248,40 +250,114 @@ async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, o
   if (sum('empty') > 0) {
     const example = await one(db, `SELECT site, time_text, state FROM sere_surveys WHERE ${empty} LIMIT 1`);
     const which = !example['site'] ? options.columns.site : !example['time_text'] ? options.columns.time : !example['state'] ? options.columns.state : options.columns.group!;
-    throw new SereError('EMPTY_VALUE', `${sum('empty')} row${sum('empty') === 1 ? ' has' : 's have'} no ${which}${example['site'] ? ` (site ${quote(String(example['site']))})` : ''}`,
-      { file }, `fill in the ${which} of every row, or remove the rows`);
+    const role: SurveyRole = which === options.columns.site ? 'site' : which === options.columns.time ? 'time' : which === options.columns.state ? 'state' : 'group';
+    const site = example['site'] ? String(example['site']) : undefined;
+    throw place(new SereError('EMPTY_VALUE', `${sum('empty')} row${sum('empty') === 1 ? ' has' : 's have'} no ${which}${site ? ` (site ${quote(site)})` : ''}`,
+      { file }, `fill in the ${which} of every row, or remove the rows`), role, (r) => r[role] === '' && (site === undefined || r.site === site));
   }
   if (sum('bad_time') > 0) {
     const example = await one(db, 'SELECT site, time_text FROM sere_surveys WHERE time IS NULL LIMIT 1');
-    throw new SereError('BAD_TIME', `time ${quote(String(example['time_text']))} of site ${quote(String(example['site']))} is not a whole number`,
-      { file }, 'write survey times as whole numbers (years, or season numbers)');
+    const [site, time] = [String(example['site']), String(example['time_text'])];
+    throw place(new SereError('BAD_TIME', `time ${quote(time)} of site ${quote(site)} is not a whole number`,
+      { file }, 'write survey times as whole numbers (years, or season numbers)'), 'time', (r) => r.site === site && r.time === time);
   }
   if (sum('suspect_site') > 0) {
     const suspects = await db.runAndReadAll(`SELECT DISTINCT site FROM sere_surveys WHERE ${suspect('site')} ORDER BY site`);
     for (const [value] of suspects.getRows()) {
       const site = String(value);
       const problem = labelProblem(site, () => `site ${quote(site)}`);
-      if (problem) throw new SereError(problem.code, problem.what, { file }, problem.hint);
+      if (problem) throw place(new SereError(problem.code, problem.what, { file }, problem.hint), 'site', (r) => r.site === site);
     }
   }
-  const labels = new StateLabels(file, options.states);
-  for (const state of [...new Set(rows.map((r) => String(r['state'])))].sort(compareCodePoints)) labels.see(state, 0, 0);
+  decideStates([...new Set(rows.map((r) => String(r['state'])))].sort(compareCodePoints), file, options.states, place);
   if (grouped) {
     for (const group of new Set(rows.map((r) => String(r['site_group'])))) {
       const problem = labelProblem(group, () => `group ${quote(group)}`);
-      if (problem) throw new SereError(problem.code, problem.what, { file }, problem.hint);
+      if (problem) throw place(new SereError(problem.code, problem.what, { file }, problem.hint), 'group', (r) => r.group === group);
     }
   }
+}
+
+/**
+ * The states of the distinct labels (in code-point order), decided by states.ts as for any survey
+ * table. Each label is seen at "line" n + 1, its place in the list: an error naming that line is
+ * about that label, whose first row in the file is then found for the message.
+ */
+function decideStates(distinct: readonly string[], file: string, declared: readonly string[] | undefined, place: Placer):
+  { provisional: Map<string, number>; states: readonly string[]; index: ArrayLike<number> } {
+  const labels = new StateLabels(file, declared);
+  const provisional = new Map<string, number>();
+  try {
+    distinct.forEach((label, n) => provisional.set(label, labels.see(label, n + 1, 0)));
+    return { provisional, ...labels.finish() };
+  } catch (err) {
+    if (!(err instanceof SereError)) throw err;
+    const line = err.place.line;
+    if (line === undefined || !(line >= 1 && line <= distinct.length)) throw err;
+    const label = distinct[line - 1]!;
+    const placed = place(new SereError(err.code, err.message, { file }, err.hint), 'state', (r) => r.state === label);
+    if (placed.place.line !== undefined) inFileOrder(distinct, placed.place.file!, declared, place);
+    throw placed;
+  }
+}
+
+/**
+ * The states decided again as the in-process reader decides them — each label seen at its first
+ * line, in file order — so that an error naming two labels (a case clash, a look-alike) names the
+ * same two, with their lines. One pass over the file, on the error path only; throws that error.
+ */
+function inFileOrder(distinct: readonly string[], file: string, declared: readonly string[] | undefined, place: Placer): void {
+  const first = new Map<string, number>();
+  const wanted = new Set(distinct);
+  const column = place.column(file, 'state');
+  place.scan(file, (r, line) => {
+    if (wanted.has(r.state) && !first.has(r.state)) first.set(r.state, line);
+    return first.size === wanted.size;
+  });
+  if (first.size !== wanted.size || column === undefined) return;
+  const labels = new StateLabels(file, declared);
+  for (const [label, line] of [...first].sort((a, b) => a[1] - b[1])) labels.see(label, line, column);
   labels.finish();
 }
 
+/** Find the first row of a problem in the CSV files (find-survey-line.ts) and put it in the error. */
+interface Placer {
+  (error: SereError, role: SurveyRole, matches: (row: SurveyRowText) => boolean): SereError;
+  /** One pass over a file's rows, until `visit` returns true. */
+  scan(file: string, visit: (row: SurveyRowText, line: number) => boolean): void;
+  /** The 1-based column of a role in a file (from its first row). */
+  column(file: string, role: SurveyRole): number | undefined;
+}
+
+function placer(files: readonly string[], columns: SurveyColumns): Placer {
+  const place = (error: SereError, role: SurveyRole, matches: (row: SurveyRowText) => boolean): SereError => {
+    for (const file of files.filter((f) => !isParquet(f))) {
+      const found = findSurveyLine(file, columns, role, matches);
+      if (found) return new SereError(error.code, error.message, { file, line: found.line, column: found.column }, error.hint);
+    }
+    return error;
+  };
+  return Object.assign(place, {
+    scan: (file: string, visit: (row: SurveyRowText, line: number) => boolean): void => void findSurveyLine(file, columns, 'site', visit),
+    column: (file: string, role: SurveyRole): number | undefined => findSurveyLine(file, columns, role, () => true)?.column,
+  });
+}
+
 /** The first site surveyed twice at one time in two states, as the in-process reader refuses it. */
-async function contradiction(db: DuckDBConnection, file: string, coded: CodedSurveys): Promise<never> {
+async function contradiction(db: DuckDBConnection, file: string, coded: CodedSurveys, place: Placer): Promise<never> {
   const r = await one(db, `SELECT site, time, MIN(state) AS a, MAX(state) AS b FROM (SELECT DISTINCT site, time, state FROM sere_coded)
     GROUP BY site, time HAVING COUNT(DISTINCT state) > 1 ORDER BY site, time LIMIT 1`);
   const label = (code: unknown): string => coded.states[Number(code)]!;
-  throw new SereError('DUPLICATE_SURVEY', `site ${quote(String(r['site']))} at time ${String(r['time'])} is ${quote(label(r['a']))} in one row and ${quote(label(r['b']))} in another`,
-    { file }, 'keep one of the two rows');
+  const [site, time] = [String(r['site']), Number(r['time'])];
+  // The second of the two rows, as the in-process reader names it.
+  let first: string | undefined;
+  const error = place(new SereError('DUPLICATE_SURVEY', `site ${quote(site)} at time ${time} is ${quote(label(r['a']))} in one row and ${quote(label(r['b']))} in another`,
+    { file }, 'keep one of the two rows'), 'state', (row) => {
+    if (row.site !== site || Number(row.time) !== time) return false;
+    first ??= row.state;
+    return row.state !== first;
+  });
+  throw error.place.line === undefined ? error : new SereError(error.code, error.message, { file: error.place.file, line: error.place.line }, error.hint);
 }
 
 async function one(db: DuckDBConnection, sql: string): Promise<Record<string, unknown>> {
