@@ -59,6 +59,25 @@ describe('sere count', () => {
     expect(sources.totals.sites).toBe(60);
   });
 
+  it('a shard without last-survey rows (counted before they existed) drops the others\' too, and the sum still fits', async () => {
+    const [a, b] = shards(20);
+    for (const [input, out] of [[a, 'la.csv'], [b, 'lb.csv']] as const) {
+      expect((await sereInProcess(['count', input, '--states', STATES, '--out', at(out)])).code).toBe(0);
+    }
+    // Strip shard a's last-survey rows (a from_state and no to_state), as an older sere wrote it.
+    const lines = readFileSync(at('la.csv'), 'utf8').split('\n');
+    const old = lines.filter((l) => !/^[^,]+,,/.test(l));
+    expect(old.length).toBeLessThan(lines.length);
+    writeFileSync(at('la-old.csv'), old.join('\n'));
+    const both = await sereInProcess(['count', at('la.csv'), at('lb.csv'), '--states', STATES, '--out', at('lm-new.csv')]);
+    const mixed = await sereInProcess(['count', at('la-old.csv'), at('lb.csv'), '--states', STATES, '--out', at('lm-old.csv')]);
+    expect(both.code).toBe(0);
+    expect(mixed.code).toBe(0);
+    expect(JSON.parse(readFileSync(at('lm-new.sources.json'), 'utf8')).totals.sites_by_last_survey).toBe(60);
+    expect(JSON.parse(readFileSync(at('lm-old.sources.json'), 'utf8')).totals.sites_by_last_survey).toBe(0);
+    expect((await sereInProcess(['fit', at('lm-old.csv'), '--states', STATES])).code).toBe(0);
+  });
+
   it("adds shards in their own step, refuses another, and refuses an existing --out before counting", async () => {
     const [a, b] = shards(30);
     for (const [input, out] of [[a, 's5a.csv'], [b, 's5b.csv'], [DEMO, 's5.csv']] as const) {
