@@ -1,5 +1,5 @@
 import { SereError, quote } from '../errors.js';
-import { sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { isLastSurvey, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import { StateLabels } from '../data/states.js';
 
 /**
@@ -8,7 +8,9 @@ import { StateLabels } from '../data/states.js';
  * shard. A site in two shards would lose the pair that spans them and count its sites twice, so
  * with per-site counts (which name the sites) it is refused; without them it cannot be seen, and
  * the README says to split by site. States are the declared ones (each shard was read with them)
- * or the union, sorted, with look-alike spellings refused as for several survey tables.
+ * or the union, sorted, with look-alike spellings refused as for several survey tables. Last-survey
+ * rows are kept only when every shard has them (a shard counted before they existed has none, and
+ * the others' alone would not count every site).
  */
 export function mergeCounts(tables: readonly CountsTable[], declared: boolean): CountsTable {
   if (tables.length === 1) return tables[0]!;
@@ -40,9 +42,11 @@ export function mergeCounts(tables: readonly CountsTable[], declared: boolean): 
   const cells = new Map<string, CountCell>();
   const siteCells: SiteCell[] = [];
   const siteShard = new Map<string, string>();
+  const keepLast = tables.every((t) => t.cells.some(isLastSurvey));
   for (const t of tables) {
     const to = (i: number): number => (i < 0 ? i : index.get(t.states[i]!)!);
     for (const c of t.cells) {
+      if (!keepLast && isLastSurvey(c)) continue;
       const from = to(c.from);
       const key = `${c.group ?? ''}\u0000${from} ${to(c.to)} ${c.gap} ${c.time}`;
       const earlier = cells.get(key);

@@ -1,4 +1,4 @@
-import { FIRST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { FIRST_SURVEY, LAST_SURVEY, sortCells, sortSiteCells, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import type { SurveyTable } from '../data/survey.js';
 
 export interface TallyOptions {
@@ -12,7 +12,8 @@ export interface TallyOptions {
  * survey (no `from`), or the end of a pair from the site's survey before it, pooled over sites by
  * (group, from, to, gap, time). These are the sufficient statistics of a chain observed at
  * irregular times on independent sites (Anderson & Goodman 1957; Kalbfleisch & Lawless 1985 for
- * pairs several steps apart), plus the surveyed mix at every time.
+ * pairs several steps apart), plus the surveyed mix at every time, and the sites by the state and
+ * time of their last survey (the rows that carry unsurveyed sites into a forecast's start).
  *
  * One pass over the rows (ordered by site, then time). Pooled counts live in one dense
  * (k + 1) × k table per (time, Δt, group) — a handful of times and gaps — so a row costs two map
@@ -33,6 +34,8 @@ export function tallyCounts(table: SurveyTable, options: TallyOptions): CountsTa
     if (dense === undefined) byGap.set(dt, dense = new Float64Array(groupCount * width));
     return dense;
   };
+  // time → groupCount × k: sites whose last survey was then, by its state.
+  const lastByTime = new Map<number, Float64Array>();
   const siteCells: SiteCell[] | undefined = options.perSite ? [] : undefined;
   const { site, time, state } = rows;
   for (let a = 0; a < rows.count;) {
@@ -43,6 +46,9 @@ export function tallyCounts(table: SurveyTable, options: TallyOptions): CountsTa
     for (let n = a + 1; n < b; n++) {
       block(time[n]!, time[n]! - time[n - 1]!)[g * width + (state[n - 1]! + 1) * k + state[n]!] += 1;
     }
+    let last = lastByTime.get(time[b - 1]!);
+    if (last === undefined) lastByTime.set(time[b - 1]!, last = new Float64Array(groupCount * k));
+    last[g * k + state[b - 1]!] += 1;
     if (siteCells) siteCells.push(...siteRows(table, a, b, options.step));
     a = b;
   }
@@ -56,6 +62,11 @@ export function tallyCounts(table: SurveyTable, options: TallyOptions): CountsTa
         cells.push({ ...(grouped ? { group: table.groups![g]! } : {}), from, to: c % k, gap: dt / options.step, time: t, n, line: 0 });
       });
     }
+  }
+  for (const [t, last] of lastByTime) {
+    last.forEach((n, c) => {
+      if (n > 0) cells.push({ ...(grouped ? { group: table.groups![Math.floor(c / k)]! } : {}), from: c % k, to: LAST_SURVEY, gap: 0, time: t, n, line: 0 });
+    });
   }
   return { file: table.file, sha256: table.sha256, states, step: options.step, grouped, cells: sortCells(cells),
     ...(siteCells ? { siteCells } : {}), repeatedRows: table.repeatedRows };

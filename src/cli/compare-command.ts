@@ -1,4 +1,6 @@
 import type { Command } from 'commander';
+import { join } from 'node:path';
+import type { Scenario } from '../scenario/scenario.js';
 import { SereError } from '../errors.js';
 import { checkComparable } from '../scenario/comparable.js';
 import { runComparison } from '../engine/compare.js';
@@ -21,17 +23,37 @@ function chartTitle(results: readonly { scenario: { name: string; alternative?: 
   return names.join(' · ');
 }
 
+/**
+ * One folder per alternative under `folder`, named for the alternative (or the scenario) with only
+ * letters, digits, _ . - kept; two that would share a folder are refused before anything runs.
+ */
+function mapFolders(scenarios: readonly Scenario[], folder: string): string[] {
+  const folders = scenarios.map((s) => join(folder, (s.alternative ?? s.name).replace(/[^A-Za-z0-9_.-]+/g, '_')));
+  folders.forEach((f, n) => {
+    const same = folders.findIndex((g) => g.toLowerCase() === f.toLowerCase());
+    if (same !== n) {
+      throw new SereError('BAD_OPTION', `alternatives '${scenarios[same]!.alternative ?? scenarios[same]!.name}' and '${scenarios[n]!.alternative ?? scenarios[n]!.name}' would both write their maps to ${f}`,
+        { path: '--maps' }, 'give the alternatives names that differ in letters or digits');
+    }
+  });
+  return folders;
+}
+
 export function registerCompare(program: Command, io: Io): void {
   withRunOptions(program.command('compare')
     .description('compare management alternatives on common random numbers (the first is the baseline)'))
     .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
-    .action(async (files: string[], opts: RunOptions) => {
-      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
+    .option('--maps <folder>', 'with a raster stack as data: write each alternative\'s probability maps and expected-area.csv into its own folder FOLDER/<alternative>')
+    .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
       if (scenarios.length < 2) {
         throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },
           'name two or more scenario files, or list alternatives in the file');
       }
       checkComparable(scenarios);
+      const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
+      const folders = opts.maps === undefined ? [] : mapFolders(scenarios, opts.maps);
+      scenarios.forEach((s, n) => maps?.checkMapsScenario([s], folders[n]!, Boolean(opts.force)));
       const seed = chooseSeed(scenarios[0]!, opts.seed, io);
       const progress = progressReporter(io.progress, 'comparing');
       let comparison;
@@ -52,6 +74,8 @@ export function registerCompare(program: Command, io: Io): void {
       if (opts.csv) {
         writeCsv(opts.csv, tidyCsv(results, comparison), Boolean(opts.force), io);
       }
+      // Every alternative's maps from the comparison's seed: common random numbers, as its bands.
+      for (const [n, s] of scenarios.entries()) if (maps) await maps.writeScenarioMaps(s, folders[n]!, randomStreams(seed), io);
       io.stdout(opts.json ? JSON.stringify(comparisonJson(comparison), null, 2) + '\n' : comparisonTable(comparison, makeStyle(io.color)));
     });
 }

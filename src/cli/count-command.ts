@@ -35,8 +35,8 @@ interface CountOptions {
 
 /**
  * Survey tables larger than this are counted by DuckDB under `--engine auto`. Measured with
- * `npm run bench -- count` on 10⁷ rows (159 MB of CSV): in-process 2.9 s of CPU at a peak of
- * 584 MB, DuckDB 8.3 s at 746 MB. The in-process counter is the faster, but its memory grows with
+ * `npm run bench -- count` on 10⁷ rows (159 MB of CSV): in-process 3.7 s of CPU at a peak of
+ * 587 MB, DuckDB 7.0 s at 648 MB. The in-process counter is the faster, but its memory grows with
  * the rows (about 58 bytes a row at the peak); DuckDB's does not (it spills to disk). At 256 MiB,
  * some 1.7·10⁷ rows, the in-process peak is about 1 GB.
  */

@@ -3,7 +3,9 @@ import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { existsSync } from 'node:fs';
 import { SereError } from '../errors.js';
-import { fitSurvey } from '../fit/fit.js';
+import { fitSurvey, type Fit } from '../fit/fit.js';
+import type { FitSettings } from '../fit/settings.js';
+import { compareCodePoints } from '../data/code-points.js';
 import { fitCounts } from '../fit/fit-counts.js';
 import { isCountsFile } from '../data/counts-table.js';
 import { readCountsCsv } from '../data/read-counts-csv.js';
@@ -20,6 +22,7 @@ import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { writeFileAtomic } from './write-file.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
+import { countStack } from './scenario-stacks.js';
 import { fitRasterCounts } from '../fit/fit-from-raster.js';
 import { sampleFit, withSamplerOptions, type SamplerFlags } from './sample-fit.js';
 
@@ -56,7 +59,7 @@ export function registerFit(program: Command, io: Io): void {
           'map class codes to states under labels: in the stack file');
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
-      const counted = raster ? await (await import('../data/raster/count-stack.js')).countRasterStack(file) : undefined;
+      const counted = raster ? await countStack(file, io.progress) : undefined;
       const fit = sampleFit(counted ? fitRasterCounts(counted, settings)
         : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
           : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io);
@@ -84,19 +87,11 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
     throw new SereError('BAD_OPTION', '--by writes one file per group and needs --out', { path: '--by' },
       'add --out NAME.json; the groups go to NAME-<group>.json');
   }
-  if (isCountsFile(file)) {
-    throw new SereError('BAD_OPTION', '--by needs the survey table: a counts table is fitted whole', { file, path: '--by' },
-      'run sere fit --by on the survey table, or count each group into its own counts table');
-  }
   const flags = fitSettingsFrom(opts);
   const settings = { ...flags, columns: { ...flags.columns, group: opts.by } };
-  const table = readSurveyCsv(file, surveyReadOptions(settings));
-  const whole = fitSurvey(table, settings);
+  const { whole, fits } = isCountsFile(file) ? countsByGroup(file, settings, opts.states) : surveyByGroup(file, settings, opts.by!);
   const stem = opts.out.replace(/\.json$/i, '');
-  const groups = groupsOf(table).map((group) => {
-    const fit = sampleFit(fitSurvey(groupOf(table, group, opts.by), settings), opts, io);
-    return { group, fit, out: `${stem}-${group.replace(/[^A-Za-z0-9_.-]/g, '_')}.json` };
-  });
+  const groups = fits.map(({ group, fit }) => ({ group, fit: sampleFit(fit, opts, io), out: `${stem}-${group.replace(/[^A-Za-z0-9_.-]/g, '_')}.json` }));
   groups.forEach((g, n) => {
     const same = groups.findIndex((h) => h.out.toLowerCase() === g.out.toLowerCase());
     if (same !== n) {
@@ -114,4 +109,29 @@ function fitByGroup(file: string, opts: FitOptions, io: Io): void {
   const printed = fitGroupsTable(file, opts.by!, groups, groupDifference(whole), makeStyle(io.color));
   groups.forEach((g, n) => writeFileAtomic(g.out, texts[n]!, true));
   io.stdout(printed);
+}
+
+interface GroupFits {
+  readonly whole: Fit;
+  readonly fits: readonly { readonly group: string; readonly fit: Fit }[];
+}
+
+function surveyByGroup(file: string, settings: FitSettings, column: string): GroupFits {
+  const table = readSurveyCsv(file, surveyReadOptions(settings));
+  return { whole: fitSurvey(table, settings), fits: groupsOf(table).map((group) => ({ group, fit: fitSurvey(groupOf(table, group, column), settings) })) };
+}
+
+/**
+ * A counts table counted by group (its site_group column): one fit per group, from that group's
+ * rows, as fit-counts.ts fits one group for a scenario's fit.group. `--by` names the survey table's
+ * group column, which the fits report; the counts table's own column is always site_group.
+ */
+function countsByGroup(file: string, settings: FitSettings, states: readonly string[] | undefined): GroupFits {
+  const table = readCountsCsv(file, { states });
+  if (!table.grouped) {
+    throw new SereError('BAD_OPTION', '--by needs a counts table counted by group (with a site_group column)', { file, path: '--by' },
+      'count the survey table again with --group-column, or run sere fit --by on the survey table');
+  }
+  const groups = [...new Set(table.cells.map((c) => c.group!))].sort(compareCodePoints);
+  return { whole: fitCounts(table, settings), fits: groups.map((group) => ({ group, fit: fitCounts(table, { ...settings, group }) })) };
 }

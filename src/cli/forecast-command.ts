@@ -17,7 +17,7 @@ export function registerForecast(program: Command, io: Io): void {
     .option('--maps <folder>', 'with a raster stack as data: write per-pixel probability maps (GeoTIFF, one per state and shown year) and expected-area.csv')
     .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
       // Raster stacks named as data are counted first: reading them is asynchronous.
-      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files) });
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
       const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
       maps?.checkMapsScenario(scenarios, opts.maps!, Boolean(opts.force));
       // A file's alternatives share one seed, and so the same draws and event years.

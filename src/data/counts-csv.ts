@@ -1,5 +1,5 @@
 import { stringify } from 'csv-stringify/sync';
-import { FIRST_SURVEY, type CountsTable } from './counts-table.js';
+import { FIRST_SURVEY, isLastSurvey, type CountsTable } from './counts-table.js';
 import { TOOL_VERSION } from '../version.js';
 
 /**
@@ -10,14 +10,15 @@ import { TOOL_VERSION } from '../version.js';
 export function countsCsv(table: CountsTable): string {
   const perSite = table.siteCells !== undefined;
   const header = [...(table.grouped ? ['site_group'] : []), ...(perSite ? ['site'] : []), 'from_state', 'to_state', 'gap', 'to_time', 'step', 'n'];
+  // FIRST_SURVEY and LAST_SURVEY (both -1) are written as an empty state.
   const label = (i: number): string => (i === FIRST_SURVEY ? '' : table.states[i]!);
-  const gap = (from: number, g: number): string => (from === FIRST_SURVEY ? '' : String(g));
+  const gap = (from: number, to: number, g: number): string => (from === FIRST_SURVEY || isLastSurvey({ from, to }) ? '' : String(g));
   const rows: (string | number)[][] = [header];
   for (const c of table.cells) {
-    rows.push([...(table.grouped ? [c.group!] : []), ...(perSite ? [''] : []), label(c.from), label(c.to), gap(c.from, c.gap), c.time, table.step, c.n]);
+    rows.push([...(table.grouped ? [c.group!] : []), ...(perSite ? [''] : []), label(c.from), label(c.to), gap(c.from, c.to, c.gap), c.time, table.step, c.n]);
   }
   for (const c of table.siteCells ?? []) {
-    rows.push([...(table.grouped ? [c.group!] : []), c.site, label(c.from), label(c.to), gap(c.from, c.gap), '', table.step, c.n]);
+    rows.push([...(table.grouped ? [c.group!] : []), c.site, label(c.from), label(c.to), gap(c.from, c.to, c.gap), '', table.step, c.n]);
   }
   return stringify(rows);
 }
@@ -39,7 +40,12 @@ export function countsSources(table: CountsTable, csvFile: string, csvSha256: st
   let surveys = 0;
   let transitions = 0;
   let otherPairs = 0;
+  let lastSurveys = 0;
   for (const c of table.cells) {
+    if (isLastSurvey(c)) {
+      lastSurveys += c.n;
+      continue;
+    }
     surveys += c.n;
     if (c.from === FIRST_SURVEY) sites += c.n;
     else if (c.gap === 1) transitions += c.n;
@@ -55,6 +61,6 @@ export function countsSources(table: CountsTable, csvFile: string, csvSha256: st
     step: table.step,
     states: table.states,
     per_site: table.siteCells !== undefined,
-    totals: { sites, surveys, transitions, other_pairs: otherPairs, repeated_rows: table.repeatedRows },
+    totals: { sites, surveys, transitions, other_pairs: otherPairs, repeated_rows: table.repeatedRows, sites_by_last_survey: lastSurveys },
   };
 }

@@ -11,6 +11,12 @@ import { compareCodePoints } from './code-points.js';
  * So the rows carry, besides the transitions by gap, the mix surveyed at every time (the latest of
  * them starts a forecast), the number of surveys, and — summing the first-survey rows — the number
  * of sites.
+ *
+ * And every site's last survey is the `from` end of one *last-survey row*: no `to_state` and no gap,
+ * `to_time` the time of that last survey, `n` the sites whose last survey it was (pooled, never per
+ * site). A forecast starts sites not surveyed at the latest time from them, carried forward
+ * (chain/latest-mix.ts). Counts tables written before these rows existed read as before: their
+ * forecasts then start from the sites surveyed at the latest time only.
  */
 export const COUNTS_COLUMNS = ['site_group', 'site', 'from_state', 'to_state', 'gap', 'to_time', 'step', 'n'] as const;
 /** The columns every counts table has; site_group and site are there only when counted by group, or per site. */
@@ -18,12 +24,18 @@ export const REQUIRED_COUNTS_COLUMNS = ['from_state', 'to_state', 'gap', 'to_tim
 
 /** `from` of a site's first survey: there is no survey before it. */
 export const FIRST_SURVEY = -1;
+/** `to` of a site's last survey: there is no survey after it (the row's `from` and `time` are that survey's). */
+export const LAST_SURVEY = -1;
 
-/** Pooled over sites: `n` surveys of state `to` at `time`, each `gap` steps after a survey in state `from`. */
+/**
+ * Pooled over sites: `n` surveys of state `to` at `time`, each `gap` steps after a survey in state
+ * `from`; or (`to` = LAST_SURVEY, gap 0) `n` sites last surveyed at `time`, in state `from`.
+ */
 export interface CountCell {
   readonly group?: string;
   /** Index into `states`, or FIRST_SURVEY. */
   readonly from: number;
+  /** Index into `states`, or LAST_SURVEY. */
   readonly to: number;
   /** Steps between the two surveys (Δt / step; not always whole); 0 for a first survey. */
   readonly gap: number;
@@ -88,9 +100,21 @@ export function isCountsFile(file: string): boolean {
   }
 }
 
-/** The order a counts table is written in: group (code points), from (first surveys first), to, gap, time. */
+/**
+ * The order a counts table is written in: group (code points), then first surveys, pairs and last
+ * surveys, each by from, to, gap, time.
+ */
 export function sortCells<C extends CountCell>(cells: C[]): C[] {
-  return cells.sort((x, y) => compareCodePoints(x.group ?? '', y.group ?? '') || x.from - y.from || x.to - y.to || x.gap - y.gap || x.time - y.time);
+  return cells.sort((x, y) => compareCodePoints(x.group ?? '', y.group ?? '') || rowKind(x) - rowKind(y) || x.from - y.from || x.to - y.to || x.gap - y.gap || x.time - y.time);
+}
+
+/** Whether a cell is a last-survey row (see LAST_SURVEY). */
+export function isLastSurvey(cell: Pick<CountCell, 'from' | 'to'>): boolean {
+  return cell.to === LAST_SURVEY && cell.from !== FIRST_SURVEY;
+}
+
+function rowKind(cell: CountCell): number {
+  return cell.from === FIRST_SURVEY ? 0 : isLastSurvey(cell) ? 2 : 1;
 }
 
 /** Per-site rows in site order (code points, the site bootstrap's order), then from, to, gap. */

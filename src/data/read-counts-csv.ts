@@ -1,6 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import { SereError, quote } from '../errors.js';
-import { COUNTS_COLUMNS, FIRST_SURVEY, isCountsHeader, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
+import { COUNTS_COLUMNS, FIRST_SURVEY, LAST_SURVEY, isCountsHeader, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
 import { labelProblem, normaliseLabel } from './labels.js';
 import { readTextFile } from './read-text-file.js';
 import { StateLabels } from './states.js';
@@ -21,7 +21,8 @@ const HINT = 'write counts tables with sere count (or sere count --sql), and do 
  * and positive, one step throughout, a gap for every pair and none for a first survey. A pair 0
  * steps apart is two surveys of one site at one time: in one state, an exact repeat, dropped and
  * counted as a survey table's are; in two states, the contradiction a survey table refuses, and
- * refused here too.
+ * refused here too. Last-survey rows (a from_state, no to_state) are pooled, and when a table has
+ * them they count every site once: per group, as many sites as the first-survey rows.
  */
 export function readCountsCsv(file: string, options: ReadCountsOptions = {}): CountsTable {
   const { text, sha256 } = readTextFile(file, WHAT);
@@ -46,6 +47,10 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
   const siteCells: (SiteCell & { rawFrom: number; rawTo: number })[] = [];
   let step: number | undefined;
   let repeatedRows = 0;
+  // Per group: sites by first-survey rows and by last-survey rows, and the first last-survey row's line.
+  const firstSites = new Map<string, number>();
+  const lastSites = new Map<string, number>();
+  let lastLine = 0;
   for (const { record, info } of records.slice(1)) {
     const line = info.lines;
     const place = (name: keyof typeof col): Place => ({ file, line, column: col[name] + 1 });
@@ -74,12 +79,22 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
     const n = whole('n', 1);
     const fromLabel = field('from');
     const toLabel = field('to');
-    if (toLabel === '') throw new SereError('EMPTY_VALUE', 'to_state is empty', place('to'), HINT);
-    const to = labels.see(toLabel, line, col.to + 1);
+    if (toLabel === '' && fromLabel === '') throw new SereError('EMPTY_VALUE', 'from_state and to_state are both empty', place('to'), HINT);
+    const to = toLabel === '' ? LAST_SURVEY : labels.see(toLabel, line, col.to + 1);
     const from = fromLabel === '' ? FIRST_SURVEY : labels.see(fromLabel, line, col.from + 1);
     const group = label('group');
     const site = label('site');
     const gapText = field('gap');
+    if (to === LAST_SURVEY) {
+      // A last-survey row: pooled, no gap (counts-table.ts).
+      if (site !== undefined && site !== '') throw new SereError('BAD_COUNTS', `a last-survey row (no to_state) for site ${quote(site)}: these rows are pooled`, place('site'), HINT);
+      if (gapText !== '') throw new SereError('BAD_COUNTS', `a last-survey row (no to_state) has gap ${quote(gapText)}`, place('gap'), 'leave gap empty on last-survey rows');
+      if (group === '') throw new SereError('EMPTY_VALUE', 'site_group is empty', place('group'), 'give every row its group');
+      lastSites.set(group ?? '', (lastSites.get(group ?? '') ?? 0) + n);
+      if (lastLine === 0) lastLine = line;
+      cells.push({ ...(group === undefined ? {} : { group }), from, to, gap: 0, time: whole('time', Number.MIN_SAFE_INTEGER), n, line, rawFrom: from, rawTo: to });
+      continue;
+    }
     let gap = 0;
     if (from === FIRST_SURVEY) {
       if (gapText !== '') throw new SereError('BAD_COUNTS', `a first survey (no from_state) has gap ${quote(gapText)}`, place('gap'), 'leave gap empty on first-survey rows');
@@ -103,11 +118,22 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
       continue;
     }
     if (group === '') throw new SereError('EMPTY_VALUE', 'site_group is empty', place('group'), 'give every row its group');
+    if (from === FIRST_SURVEY) firstSites.set(group ?? '', (firstSites.get(group ?? '') ?? 0) + n);
     cells.push({ ...groupPart, from, to, gap, time: whole('time', Number.MIN_SAFE_INTEGER), n, line, rawFrom: from, rawTo: to });
   }
   if (step === undefined) throw new SereError('EMPTY_FILE', 'the counts table has a header but no rows', { file }, HINT);
+  if (lastSites.size > 0) {
+    for (const group of new Set([...firstSites.keys(), ...lastSites.keys()])) {
+      const first = firstSites.get(group) ?? 0;
+      const last = lastSites.get(group) ?? 0;
+      if (first !== last) {
+        throw new SereError('BAD_COUNTS', `the last-survey rows count ${last} site${last === 1 ? '' : 's'}${group ? ` in group ${quote(group)}` : ''}, the first-survey rows ${first}`,
+          { file, line: lastLine }, HINT);
+      }
+    }
+  }
   const { states, index } = labels.finish();
-  const map = (id: number): number => (id === FIRST_SURVEY ? id : index[id]!);
+  const map = (id: number): number => (id < 0 ? id : index[id]!); // FIRST_SURVEY, LAST_SURVEY
   const strip = <C extends { rawFrom: number; rawTo: number }>({ rawFrom, rawTo, ...rest }: C): Omit<C, 'rawFrom' | 'rawTo'> => ({ ...rest, from: map(rawFrom), to: map(rawTo) });
   const perSite = col.site >= 0 && siteCells.length > 0;
   return {

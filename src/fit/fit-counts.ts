@@ -1,9 +1,9 @@
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
-import { FIRST_SURVEY, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
+import { FIRST_SURVEY, isLastSurvey, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
 import { gapCellsOf, gapNotWholeSteps, pairsByGapOf, periodList } from '../chain/counts.js';
 import { gcd } from '../chain/structure.js';
-import type { MixAtTime } from '../chain/latest-mix.js';
+import type { CarriedSites, MixAtTime } from '../chain/latest-mix.js';
 import { SiteCountBuilder, type SiteCountTable } from '../chain/site-counts.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import { checkTransitions, type Fit } from './fit.js';
@@ -15,7 +15,9 @@ export const COUNTS_GROUP_COLUMN = 'site_group';
  * A fit from a counts table (`sere count`, or `sere count --sql` run elsewhere). The counts are
  * the sufficient statistics, so everything a survey-table fit computes from counts comes out the
  * same — counts, skipped pairs, pairs by gap, periods, the surveyed mix at every time, and, with
- * per-site counts, the site table the bootstrap resamples. What needs runs of surveys (the order
+ * per-site counts, the site table the bootstrap resamples; with last-survey rows, the sites not
+ * surveyed at the latest time, carried into a forecast's start as a survey-table fit carries them
+ * (tables without those rows start from the surveyed sites only). What needs runs of surveys (the order
  * test's triples) or the rows themselves (a hindcast) is absent, and those features say so.
  */
 export function fitCounts(table: CountsTable, given: FitSettings): Fit {
@@ -38,7 +40,12 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
   let transitions = 0;
   let surveys = 0;
   let pooledSites = 0;
+  const lastSurveys: CountCell[] = [];
   for (const c of cells) {
+    if (isLastSurvey(c)) {
+      lastSurveys.push(c);
+      continue;
+    }
     surveys += c.n;
     const mix = history.get(c.time) ?? new Array<number>(k).fill(0);
     mix[c.to]! += c.n;
@@ -91,11 +98,33 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
     repeatedRows: table.repeatedRows,
     surveys,
     firstTime: mixes[0]!.time,
-    latest: { time: latest.time, counts: latest.counts, shares: latest.counts.map((c) => c / latest.sites), sites: latest.sites },
+    latest: { time: latest.time, counts: latest.counts, shares: latest.counts.map((c) => c / latest.sites), sites: latest.sites,
+      ...(lastSurveys.length > 0 ? carriedSites(lastSurveys, latest.time, step, k) : {}) },
     periods: periodList(periods, k),
     ...(table.grouped ? { groupColumn: settings.columns.group ?? COUNTS_GROUP_COLUMN } : {}),
     history: mixes,
   };
+}
+
+/**
+ * Sites last surveyed before the latest time, by state and whole steps back, from the last-survey
+ * rows — what chain/latest-mix.ts `latestSurveyedMix` finds from the rows of a survey table.
+ */
+function carriedSites(lastSurveys: readonly CountCell[], latest: number, step: number, k: number): { carried: CarriedSites[]; notCarried: number } {
+  const carried = new Map<number, number>();
+  let notCarried = 0;
+  for (const c of lastSurveys) {
+    if (c.time === latest) continue;
+    const gap = latest - c.time;
+    if (gap % step !== 0) {
+      notCarried += c.n;
+      continue;
+    }
+    const key = (gap / step) * k + c.from;
+    carried.set(key, (carried.get(key) ?? 0) + c.n);
+  }
+  const list = [...carried].sort((a, b) => a[0] - b[0]).map(([key, n]) => ({ state: key % k, steps: Math.floor(key / k), sites: n }));
+  return { carried: list, notCarried };
 }
 
 function groupCells(cells: readonly CountCell[], table: CountsTable, group: string): CountCell[] {

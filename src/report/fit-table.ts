@@ -98,9 +98,12 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   }
   lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
   if (fit.latest.carried?.length) lines.push(`forecasts start from these ${count(fit.latest.sites, 'site')} ${carriedWords(fit.latest.carried)}`);
-  const uncarried = fit.pooledSites === undefined ? 0 : fit.pooledSites - fit.latest.sites;
+  // Sites neither surveyed at the latest time nor carried (nor left out for an uneven gap): a counts
+  // table written before it had last-survey rows (data/counts-table.ts) cannot place them.
+  const accounted = fit.latest.sites + (fit.latest.carried ?? []).reduce((s, c) => s + c.sites, 0) + (fit.latest.notCarried ?? 0);
+  const uncarried = fit.pooledSites === undefined ? 0 : fit.pooledSites - accounted;
   if (uncarried > 0) {
-    lines.push(style.yellow(`${count(uncarried, 'site')} not surveyed in ${fit.latest.time} left out of the start: pooled counts keep no site's last survey to carry forward`));
+    lines.push(style.yellow(`${count(uncarried, 'site')} not surveyed in ${fit.latest.time} left out of the start: these pooled counts have no last-survey rows to carry them forward (count the survey table again with this version of sere count)`));
   }
   if (fit.latest.notCarried) lines.push(style.yellow(`${count(fit.latest.notCarried, 'site')} last surveyed a time that is not whole steps before ${fit.latest.time}: left out of the start`));
   lines.push(states.map((name, s) => `${name} ${percent(fit.latest.shares[s]!)}%`).join(' · '));

@@ -35,7 +35,7 @@ function identifier(name: string, flag: string, dotted = false): string {
 
 /**
  * The counting query, in SQL that runs unchanged on Spark SQL, Trino, DuckDB and SQLite (≥ 3.25):
- * only a CTE, the standard window functions LAG and FIRST_VALUE … OVER (PARTITION BY … ORDER BY …), GROUP BY,
+ * only a CTE, the standard window functions LAG, LEAD and FIRST_VALUE … OVER (PARTITION BY … ORDER BY …), GROUP BY,
  * UNION ALL and CAST(… AS DOUBLE); no quoting, no engine functions. Its result is a
  * counts table (data/counts-table.ts) — rows in no particular order, which `sere fit` does not
  * need. The DuckDB engine runs this same text over its view of the files (sql/duckdb-count.ts).
@@ -45,6 +45,10 @@ function identifier(name: string, flag: string, dotted = false): string {
  * contradiction, which it refuses. Whatever order the engine puts tied rows in, dropping the
  * repeat leaves the site's other pairs as they would be without it. No SELECT DISTINCT, then:
  * measured on 10⁷ Parquet rows in DuckDB, it doubled the query's time (11.0 s against 4.6 s).
+ *
+ * A site's last survey (no LEAD time) is also counted, pooled by state and time: the last-survey
+ * rows (data/counts-table.ts). Of tied last rows exactly one has no LEAD, and which one does not
+ * matter: an exact repeat has the same state, and a contradiction is refused.
  */
 export function countingSql(options: CountingSqlOptions): string {
   const { columns, step } = options;
@@ -64,6 +68,13 @@ export function countingSql(options: CountingSqlOptions): string {
     'FROM sere_pairs',
     `GROUP BY ${g}from_state, state, dt, survey_time`,
   ];
+  const last = [
+    'UNION ALL',
+    `SELECT ${g}${options.perSite ? 'NULL AS site, ' : ''}state AS from_state, NULL AS to_state, NULL AS gap, survey_time AS to_time, ${step} AS step, COUNT(*) AS n`,
+    'FROM sere_pairs',
+    'WHERE next_time IS NULL',
+    `GROUP BY ${g}state, survey_time`,
+  ];
   const perSite = options.perSite ? [
     'UNION ALL',
     `SELECT ${g}site, from_state, state AS to_state, CAST(dt AS DOUBLE) / ${step} AS gap, NULL AS to_time, ${step} AS step, COUNT(*) AS n`,
@@ -81,10 +92,12 @@ export function countingSql(options: CountingSqlOptions): string {
     // A site's group is the one of its first survey, as the survey reader keeps it (one group per site).
     `  SELECT ${group ? 'FIRST_VALUE(site_group) OVER (PARTITION BY site ORDER BY survey_time) AS site_group, ' : ''}site, state, survey_time,`,
     '    LAG(state) OVER (PARTITION BY site ORDER BY survey_time) AS from_state,',
-    '    survey_time - LAG(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS dt',
+    '    survey_time - LAG(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS dt,',
+    '    LEAD(survey_time) OVER (PARTITION BY site ORDER BY survey_time) AS next_time',
     '  FROM sere_once',
     ')',
     ...pooled,
+    ...last,
     ...perSite,
   ].join('\n') + '\n';
 }

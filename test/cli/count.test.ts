@@ -37,7 +37,7 @@ describe('sere count', () => {
     expect(sources.inputs).toEqual([{ file: DEMO, kind: 'survey table', sha256: sha(DEMO) }]);
     expect(sources.counts.sha256).toBe(sha(out));
     // The demo: 60 plots, 583 surveys, 507 one-year transitions, 15 + 1 pairs 2 and 3 years apart (sere fit prints the same).
-    expect(sources.totals).toEqual({ sites: 60, surveys: 583, transitions: 507, other_pairs: 16, repeated_rows: 0 });
+    expect(sources.totals).toEqual({ sites: 60, surveys: 583, transitions: 507, other_pairs: 16, repeated_rows: 0, sites_by_last_survey: 60 });
     const again = await sereInProcess(['count', DEMO, '--out', out, '--debug']);
     expect(again.code).toBe(1);
     expect(code(again.stderr)).toBe('FILE_EXISTS');
@@ -57,6 +57,25 @@ describe('sere count', () => {
     const sources = JSON.parse(readFileSync(at('merged.sources.json'), 'utf8'));
     expect(sources.inputs.map((i: { sha256: string }) => i.sha256)).toEqual([sha(at('sa.csv')), sha(at('sb.csv'))]);
     expect(sources.totals.sites).toBe(60);
+  });
+
+  it('a shard without last-survey rows (counted before they existed) drops the others\' too, and the sum still fits', async () => {
+    const [a, b] = shards(20);
+    for (const [input, out] of [[a, 'la.csv'], [b, 'lb.csv']] as const) {
+      expect((await sereInProcess(['count', input, '--states', STATES, '--out', at(out)])).code).toBe(0);
+    }
+    // Strip shard a's last-survey rows (a from_state and no to_state), as an older sere wrote it.
+    const lines = readFileSync(at('la.csv'), 'utf8').split('\n');
+    const old = lines.filter((l) => !/^[^,]+,,/.test(l));
+    expect(old.length).toBeLessThan(lines.length);
+    writeFileSync(at('la-old.csv'), old.join('\n'));
+    const both = await sereInProcess(['count', at('la.csv'), at('lb.csv'), '--states', STATES, '--out', at('lm-new.csv')]);
+    const mixed = await sereInProcess(['count', at('la-old.csv'), at('lb.csv'), '--states', STATES, '--out', at('lm-old.csv')]);
+    expect(both.code).toBe(0);
+    expect(mixed.code).toBe(0);
+    expect(JSON.parse(readFileSync(at('lm-new.sources.json'), 'utf8')).totals.sites_by_last_survey).toBe(60);
+    expect(JSON.parse(readFileSync(at('lm-old.sources.json'), 'utf8')).totals.sites_by_last_survey).toBe(0);
+    expect((await sereInProcess(['fit', at('lm-old.csv'), '--states', STATES])).code).toBe(0);
   });
 
   it("adds shards in their own step, refuses another, and refuses an existing --out before counting", async () => {
@@ -158,5 +177,37 @@ describe('fitting from counts', () => {
     expect(check.code).toBe(0);
     const unavailable: string[] = JSON.parse(check.stdout).tests.not_tested;
     expect(unavailable.some((u) => u.startsWith('order 1 vs 2: a counts table'))).toBe(true);
+  });
+});
+
+describe('sere fit --by on a counts table', () => {
+  it('gives the same fits, files and groups test as --by on the survey table', async () => {
+    const counts = at('by-zone.csv');
+    expect((await sereInProcess(['count', DEMO, '--group-column', 'zone', '--per-site', '--states', STATES, '--out', counts])).code).toBe(0);
+    const viaSurvey = await sereInProcess(['fit', DEMO, '--by', 'zone', '--states', STATES, '--out', at('s.json')]);
+    const viaCounts = await sereInProcess(['fit', counts, '--by', 'zone', '--states', STATES, '--out', at('c.json')]);
+    expect(viaSurvey.code).toBe(0);
+    expect(viaCounts.code).toBe(0);
+    const zones = ['north', 'south'];
+    for (const zone of zones) {
+      const a = JSON.parse(readFileSync(at(`s-${zone}.json`), 'utf8'));
+      const b = JSON.parse(readFileSync(at(`c-${zone}.json`), 'utf8'));
+      expect(b.counts).toEqual(a.counts);
+      expect(b.latest).toEqual(a.latest);
+      expect(b.estimate).toEqual(a.estimate);
+      expect(b.data.sites).toBe(a.data.sites);
+      expect(b.group_column).toBe('zone');
+    }
+    // The groups test (per-site counts) and its table: the same numbers, only the file named differs.
+    expect(viaCounts.stdout.replaceAll(counts, 'X').replaceAll(at('c-'), 'OUT-')).toBe(viaSurvey.stdout.replaceAll(DEMO, 'X').replaceAll(at('s-'), 'OUT-'));
+    expect(viaCounts.stdout).toMatch(/simulated p 0\.\d+/);
+  });
+
+  it('refuses a counts table counted without groups', async () => {
+    const counts = at('no-groups.csv');
+    expect((await sereInProcess(['count', DEMO, '--out', counts])).code).toBe(0);
+    const r = await sereInProcess(['fit', counts, '--by', 'zone', '--out', at('n.json'), '--debug']);
+    expect(r.code).toBe(1);
+    expect(code(r.stderr)).toBe('BAD_OPTION');
   });
 });

@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
@@ -12,6 +12,8 @@ import { fitSurvey, fitMle, siteCount, type Fit } from '../../src/fit/fit.js';
 import { fitCounts } from '../../src/fit/fit-counts.js';
 import { groupOf } from '../../src/fit/fit-from-file.js';
 import { fitToJson } from '../../src/fit/fit-json.js';
+import { fitTable } from '../../src/report/fit-table.js';
+import { makeStyle } from '../../src/report/style.js';
 import { estimateFit } from '../../src/fit/estimate.js';
 import { loadFit } from '../../src/fit/load-fit.js';
 import type { FitSettings } from '../../src/fit/settings.js';
@@ -31,6 +33,20 @@ function file(text: string, name = `t${files++}.csv`): string {
 
 const DEMO = 'scenarios/brenhollow/surveys.csv';
 const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-grass'];
+
+/**
+ * The demo table with the latest survey removed on every third line (and the last two on every seventh)
+ * removed: every demo plot was surveyed in the last year, so nothing would be carried otherwise.
+ */
+function demoWithUnsurveyed(): string {
+  const [header, ...lines] = readFileSync(DEMO, 'utf8').trim().split('\n');
+  const latest = Math.max(...lines.map((l) => Number(l.split(',')[1])));
+  const kept = lines.filter((l, n) => {
+    const back = latest - Number(l.split(',')[1]);
+    return !((n % 3 === 0 && back === 0) || (n % 7 === 0 && back <= 1));
+  });
+  return file([header, ...kept].join('\n') + '\n');
+}
 
 function settingsOf(step: number, group?: string, states?: string[]): FitSettings {
   return { step, prior: 'jeffreys', impossible: [], columns: { ...DEFAULT_COLUMNS, group }, ...(states ? { states } : {}) };
@@ -70,10 +86,8 @@ function expectSameFit(a: Fit, b: Fit, perSite: boolean): void {
   expect(b.gapCounts).toEqual(a.gapCounts);
   expect(b.periods).toEqual(a.periods);
   expect(b.pairsByGap).toEqual(a.pairsByGap);
-  // A counts table keeps no site's last survey, so sites not surveyed at the latest time are not
-  // carried into the start (fit-table says so); the surveyed mix itself is the same.
-  const { carried: _carried, notCarried: _notCarried, ...surveyed } = a.latest;
-  expect(b.latest).toEqual(surveyed);
+  // The surveyed mix and, from the last-survey rows, the sites carried into the start.
+  expect(b.latest).toEqual(a.latest);
   expect(b.history).toEqual(a.history);
   expect(b.surveys).toBe(a.surveys);
   expect(b.firstTime).toBe(a.firstTime);
@@ -95,9 +109,13 @@ function expectSameFit(a: Fit, b: Fit, perSite: boolean): void {
 describe('a fit from a counts table equals the survey-table fit', () => {
   for (const perSite of [false, true]) {
     it(`on the demo table (${perSite ? 'with' : 'without'} per-site counts)`, () => {
-      const [direct, viaCounts] = bothWays(DEMO, settingsOf(1, 'zone', DEMO_STATES), perSite);
+      const [direct, viaCounts] = bothWays(demoWithUnsurveyed(), settingsOf(1, 'zone', DEMO_STATES), perSite);
       expect('fit' in direct && 'fit' in viaCounts).toBe(true);
-      if ('fit' in direct && 'fit' in viaCounts) expectSameFit(direct.fit, viaCounts.fit, perSite);
+      if ('fit' in direct && 'fit' in viaCounts) {
+        expectSameFit(direct.fit, viaCounts.fit, perSite);
+        // Some demo plots were not surveyed in the last year: the last-survey rows carry them.
+        expect(viaCounts.fit.latest.carried!.reduce((n, c) => n + c.sites, 0)).toBeGreaterThan(0);
+      }
     });
   }
 
@@ -141,6 +159,26 @@ describe('a fit from a counts table equals the survey-table fit', () => {
         expect(viaCounts.fit.repeatedRows).toBe(0);
       }
     }), { numRuns: 150, seed: 20261202 });
+  });
+});
+
+describe('a counts table without last-survey rows (written before they existed)', () => {
+  it('still fits, the start then the sites surveyed at the latest time only, and the fit says why', () => {
+    const table = readSurveyCsv(demoWithUnsurveyed(), { columns: DEFAULT_COLUMNS, states: DEMO_STATES });
+    const csv = countsCsv(tallyCounts(table, { step: 1, perSite: false }));
+    // A last-survey row has a from_state and no to_state (the fourth-from-last field empty).
+    const old = csv.split('\n').filter((l) => !/^[^,]+,,/.test(l)).join('\n');
+    expect(old.length).toBeLessThan(csv.length);
+    const oldFit = fitCounts(readCountsCsv(file(old), { states: DEMO_STATES }), settingsOf(1));
+    const direct = fitSurvey(table, settingsOf(1));
+    expect(oldFit.latest.carried).toBeUndefined();
+    expect(oldFit.latest.counts).toEqual(direct.latest.counts);
+    const carried = direct.latest.carried!.reduce((n, c) => n + c.sites, 0);
+    expect(oldFit.pooledSites! - oldFit.latest.sites).toBe(carried);
+    const text = fitTable(oldFit, estimateFit(oldFit, 0.9), makeStyle(false));
+    expect(text).toContain(`${carried} sites not surveyed in ${direct.latest.time} left out of the start`);
+    const newFit = fitCounts(readCountsCsv(file(csv), { states: DEMO_STATES }), settingsOf(1));
+    expect(fitTable(newFit, estimateFit(newFit, 0.9), makeStyle(false))).not.toContain('left out of the start');
   });
 });
 
@@ -192,6 +230,17 @@ describe('counts tables refused at the door', () => {
     const repeated = readCountsCsv(file([header, ...ok, 'b,b,0,2001,1,2'].join('\n')));
     expect(repeated.repeatedRows).toBe(2);
     expect(fitCounts(repeated, settingsOf(1)).surveys).toBe(6);
+  });
+  it('reads last-survey rows and refuses them with a gap, per site, or not counting every site once', () => {
+    const last = ['a,,,2000,1,1', 'a,,,2001,1,1', 'b,,,2001,1,1'];
+    const table = readCountsCsv(file([header, ...ok, ...last].join('\n')));
+    expect(fitCounts(table, settingsOf(1)).latest.carried).toEqual([{ state: 0, steps: 1, sites: 1 }]);
+    expect(code([header, ...ok, 'a,,1,2000,1,1', ...last.slice(1)].join('\n'))).toBe('BAD_COUNTS');
+    expect(code([header, ...ok, ...last.slice(1)].join('\n'))).toBe('BAD_COUNTS');
+    expect(place([header, ...ok, ...last.slice(1)].join('\n'))).toEqual({ line: 7, column: undefined });
+    expect(code([header, ...ok, ',,,2000,1,1'].join('\n'))).toBe('EMPTY_VALUE');
+    const perSite = 'site,from_state,to_state,gap,to_time,step,n';
+    expect(code([perSite, ...ok.map((l) => `,${l}`), ...last.map((l) => `,${l}`), 'x,a,,,,1,1'].join('\n'))).toBe('BAD_COUNTS');
   });
   it('refuses a gap on a first survey, and no gap on a pair', () => {
     expect(code([header, ...ok, ',b,1,2001,1,1'].join('\n'))).toBe('BAD_COUNTS');

@@ -75,6 +75,26 @@ describe('counting with DuckDB gives the in-process counts', () => {
     }), { numRuns: 40, seed: 20261202 });
   });
 
+  it('on random tables whose site ids and times need trimming or NFC (the normalising path, property)', async () => {
+    // Plain tables skip the per-row normalisation (duckdb-count.ts); these rows need it.
+    const table = fc.record({
+      grouped: fc.boolean(),
+      rows: fc.array(fc.record({
+        site: fc.constantFrom('p0', ' p0', 'p1\t', 'pé', 'pe\u0301', 'q'),
+        time: fc.integer({ min: 0, max: 6 }),
+        pad: fc.constantFrom('', ' ', '\u00a0'),
+        state: fc.constantFrom('a', 'b ', 'Dé', 'De\u0301'),
+        zone: fc.constantFrom('z1', ' z1', 'zé', 'ze\u0301'),
+      }), { minLength: 1, maxLength: 40 }),
+    });
+    await fc.assert(fc.asyncProperty(table, async ({ grouped, rows }) => {
+      const lines = ['site,time,state,zone', ...rows.map((r) => `${r.site},${r.pad}${r.time}${r.pad},${r.state},${r.zone}`)];
+      const input = file(lines.join('\n') + '\n');
+      const o = { ...defaults, columns: { ...DEFAULT_COLUMNS, ...(grouped ? { group: 'zone' } : {}) } };
+      expect(await duck([input], o)).toBe(inProcess([input], o));
+    }), { numRuns: 30, seed: 20261202 });
+  });
+
   it('several survey tables read as one, and Parquet as CSV', async () => {
     const a = file('site,time,state\nx,1,a\nx,2,b\ny,1,a\n');
     const b = file('site,time,state\nx,3,b\ny,2,a\ny,4,b\nx,2,b\n');
@@ -114,10 +134,43 @@ describe('counting with DuckDB gives the in-process counts', () => {
       'INVISIBLE_CHARACTER', 'INVISIBLE_CHARACTER', 'TOO_FEW_STATES', 'UNKNOWN_STATE', 'MISSING_COLUMN', 'MISSING_COLUMN', 'DUPLICATE_COLUMN']);
   });
 
+  it('names the line (and column) the in-process reader names, found again in the CSV file', async () => {
+    const place = async (run: () => unknown): Promise<unknown> => {
+      try {
+        await run();
+        return undefined;
+      } catch (err) {
+        const { code, place: { file: f, line, column } } = err as SereError;
+        return { code, file: f, line, column };
+      }
+    };
+    const cases: [string, Options?][] = [
+      ['site,time,state\nx,1,a\ny,1,b\nx,,b\n'],
+      ['site,time,state\nx,1,a\nx,2,b\n\ny,1,a\nx,2.5,b\n'],
+      ['site,time,state\nx,1,a\nx,2,b\ny,1,a\nx,2,a\n'],
+      ['site,time,state\nx,1,a\ny,1,b\nx,2,A\n'],
+      ['site,time,state\nx,1,a\nx,2,b\ny,1,"b\u200b"\n'],
+      ['site,time,state\nx,1,a\nx,2,b\ny\u200b,1,b\n'],
+      ['site,time,state\nx,1,a\nx,2,b\nx,3,c\n', { ...defaults, states: ['a', 'b'] }],
+      ['site,time,state,zone\nx,1,a,n\nx,2,b,n\ny,1,b,s\u200b\n', { ...defaults, columns: { ...DEFAULT_COLUMNS, group: 'zone' } }],
+    ];
+    const places: unknown[] = [];
+    for (const [text, o = defaults] of cases) {
+      const input = file(text);
+      const expected = await place(() => readSurveyTables([input], { columns: o.columns, states: o.states }));
+      expect(expected).toMatchObject({ file: input });
+      expect(await place(() => countWithDuckDb([input], { columns: o.columns, step: 1, perSite: false, states: o.states }))).toEqual(expected);
+      places.push(expected);
+    }
+    expect(places.map((p) => [(p as { code: string }).code, (p as { line: number }).line])).toEqual([['EMPTY_VALUE', 4], ['BAD_TIME', 6],
+      ['DUPLICATE_SURVEY', 5], ['STATE_CASE_CLASH', 4], ['INVISIBLE_CHARACTER', 4], ['INVISIBLE_CHARACTER', 4], ['UNKNOWN_STATE', 4], ['INVISIBLE_CHARACTER', 4]]);
+  });
+
   it('reads what the in-process reader reads: a BOM, CRLF, blank lines, quoted fields, white space trimmed', async () => {
     const input = file('\uFEFFsite,time,state\r\nx,1,"a"\r\n\r\n"x",2,b\t\r\ny,1, b \r\ny,3,a\u00a0\r\n');
     const expected = inProcess([input]);
-    expect(expected.split('\n').length).toBe(6);
+    // Header, two first surveys, two pairs, two last surveys, and the final newline.
+    expect(expected.split('\n').length).toBe(8);
     expect(await duck([input])).toBe(expected);
   });
 

@@ -51,7 +51,7 @@ const CODES = 65536;
  * years form its survey sequence, exactly as a long table with one site per pixel would (nodata
  * and `skip` codes are years not surveyed) — test/data/raster/count-stack.test.ts checks that.
  */
-export async function countRasterStack(file: string, options: { readonly windowPixels?: number } = {}): Promise<RasterCounts> {
+export async function countRasterStack(file: string, options: { readonly windowPixels?: number; readonly onProgress?: (done: number, total: number) => void } = {}): Promise<RasterCounts> {
   const stack = readRasterStack(file);
   const places = stack.rasters.map((r) => stack.locate(r.path));
   const rasters: OpenRaster[] = [];
@@ -60,14 +60,14 @@ export async function countRasterStack(file: string, options: { readonly windowP
     for (const [n, r] of stack.rasters.entries()) rasters.push(await openRaster(r.file, places[n]!));
     zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
     checkSameGrid(zoneRaster ? [...rasters, zoneRaster] : rasters, zoneRaster ? [...places, stack.locate(['zones'])] : places);
-    return await countOpen(stack, rasters, zoneRaster, options.windowPixels);
+    return await countOpen(stack, rasters, zoneRaster, options.windowPixels, options.onProgress);
   } finally {
     for (const r of [...rasters, ...(zoneRaster ? [zoneRaster] : [])]) void r.tiff.close();
   }
 }
 
 async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined,
-  windowPixels: number | undefined): Promise<RasterCounts> {
+  windowPixels: number | undefined, onProgress?: (done: number, total: number) => void): Promise<RasterCounts> {
   const T = rasters.length;
   const years = stack.rasters.map((r) => r.year);
   const codes = new CodeStates(stack);
@@ -93,7 +93,9 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
     tally.pairs.forEach((m, n) => { if (m) tally.pairs[n] = widen(m, old, k, 2); });
     tally.triples.forEach((m, n) => { if (m) tally.triples[n] = widen(m, old, k, 3); });
   };
-  for (const window of windows) {
+  for (const [done, window] of windows.entries()) {
+    // Windows done so far (of all): the CLI's progress line (cli/progress.ts).
+    onProgress?.(done, windows.length);
     const { x0, y0 } = window;
     const across = window.x1 - x0;
     const n = across * (window.y1 - y0);
