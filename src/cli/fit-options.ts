@@ -25,13 +25,16 @@ export interface FitFlags {
   timeColumn: string;
   stateColumn: string;
   groupColumn?: string;
+  xColumn?: string;
+  yColumn?: string;
+  blockSize?: number;
   wide?: boolean;
   sheet?: string;
   labels?: string;
 }
 
 /** The option keys withFitOptions adds, to tell whether any was given. */
-export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'wide', 'sheet', 'labels'] as const;
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels'] as const;
 
 /** One time unit per step, unless --step says otherwise. */
 export const DEFAULT_STEP = 1;
@@ -46,6 +49,9 @@ export function withFitOptions(command: Command): Command {
     .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
     .option('--state-column <name>', 'column holding the state', 'state')
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
+    .option('--x-column <name>', 'optional column holding each site\'s easting (projected units, e.g. metres); with --y-column the bootstrap resamples spatial blocks')
+    .option('--y-column <name>', 'optional column holding each site\'s northing (projected units)')
+    .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default: the range of spatial autocorrelation of the latest states', Number)
     .option('--wide', 'the table is wide: one row per site, one column per survey time (detected when every other column is headed by a time)')
     .option('--sheet <name>', 'the worksheet of a spreadsheet (.xlsx) to read (default: the first)')
     .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)');
@@ -59,7 +65,11 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
     prior: parsePrior(opts.prior, { path: '--prior' }),
     states: opts.states,
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),
-    columns: { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn },
+    columns: {
+      site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn,
+      ...(opts.xColumn !== undefined ? { x: opts.xColumn } : {}), ...(opts.yColumn !== undefined ? { y: opts.yColumn } : {}),
+    },
+    ...(opts.blockSize !== undefined ? { blockSize: opts.blockSize } : {}),
     ...(opts.wide ? { layout: 'wide' as const } : {}),
     ...(opts.sheet !== undefined ? { sheet: opts.sheet } : {}),
     ...(opts.labels !== undefined ? { labels: opts.labels } : {}),

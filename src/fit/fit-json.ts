@@ -70,8 +70,24 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     // null when the fit came from pooled counts (a counts table without per-site counts).
     site_counts: fit.pooledSites === undefined ? fit.sites : null,
     site_gap_counts: siteGapJson(fit),
+    // Only with positions or raster blocks, so a fit without them is written as before.
+    ...(fit.positions ? { site_positions: fit.sites.ids.map((id, s) => [id, fit.positions![2 * s]!, fit.positions![2 * s + 1]!]) } : {}),
+    ...(fit.spatial ? { spatial_blocks: spatialJson(fit) } : {}),
     period_counts: fit.periods ?? null,
     order2_counts: fit.triples ?? null,
+  };
+}
+
+/** The spatial bootstrap's blocks: their side, how it was chosen (and the range behind it), how many; a raster fit's pixels per block. */
+function spatialJson(fit: Fit): object {
+  const b = fit.spatial!;
+  return {
+    side: b.side,
+    unit: fit.blockSites ? 'pixels' : 'projected units',
+    chosen_by: b.chosenBy,
+    range: b.range ? { range: b.range.range, reached: b.range.reached, spacing: b.range.spacing, sites: b.range.sites } : null,
+    blocks: b.blocks,
+    ...(fit.blockSites ? { block_sites: Array.from(fit.blockSites) } : {}),
   };
 }
 
