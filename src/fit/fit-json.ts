@@ -4,6 +4,7 @@ import { TOOL_VERSION } from '../version.js';
 import type { FitEstimates } from './estimate.js';
 import { hasGaps, siteCount, type Fit } from './fit.js';
 import type { LatentSample } from './latent-sample.js';
+import { blocksJson } from './spatial-blocks.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -78,17 +79,9 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
   };
 }
 
-/** The spatial bootstrap's blocks: their side, how it was chosen (and the range behind it), how many; a raster fit's pixels per block. */
+/** The spatial bootstrap's blocks (spatial-blocks.ts, blocksJson); a raster fit's pixels per block. */
 function spatialJson(fit: Fit): object {
-  const b = fit.spatial!;
-  return {
-    side: b.side,
-    unit: fit.blockSites ? 'pixels' : 'projected units',
-    chosen_by: b.chosenBy,
-    range: b.range ? { range: b.range.range, reached: b.range.reached, spacing: b.range.spacing, sites: b.range.sites } : null,
-    blocks: b.blocks,
-    ...(fit.blockSites ? { block_sites: Array.from(fit.blockSites) } : {}),
-  };
+  return { ...blocksJson(fit.spatial!, fit.blockSites !== undefined), ...(fit.blockSites ? { block_sites: Array.from(fit.blockSites) } : {}) };
 }
 
 /** The data-augmentation sampler's settings, diagnostics and retained latent counts (null where a cell never varies). */

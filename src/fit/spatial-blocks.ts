@@ -122,6 +122,17 @@ export function chooseBlocks(positions: Float64Array, latest: ArrayLike<number>,
   return { side, chosenBy: 'range', range: { range, reached, spacing, sites }, blocks: blockUnits(positions, side).count };
 }
 
+/** The blocks as fit and forecast JSON give them: side and its unit, how chosen (with the range behind it), how many. */
+export function blocksJson(b: SpatialBlocks, raster: boolean): { side: number; unit: string; chosen_by: string; range: object | null; blocks: number } {
+  return {
+    side: b.side,
+    unit: raster ? 'pixels' : 'projected units',
+    chosen_by: b.chosenBy,
+    range: b.range ? { range: b.range.range, reached: b.range.reached, spacing: b.range.spacing, sites: b.range.sites } : null,
+    blocks: b.blocks,
+  };
+}
+
 /** What the user should hear about the blocks: the size, how it was chosen, how many; a warning when few. */
 export function blockNotes(blocks: SpatialBlocks, unit = ''): string[] {
   const how = blocks.chosenBy === 'given' ? 'as given'
