@@ -56,7 +56,7 @@ export function registerFit(program: Command, io: Io): void {
           'map class codes to states under labels: in the stack file');
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
-      const counted = raster ? await (await import('../data/raster/count-stack.js')).countRasterStack(file) : undefined;
+      const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }) : undefined;
       const fit = sampleFit(counted ? fitRasterCounts(counted, settings)
         : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
           : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io);

@@ -14,6 +14,11 @@ function stepFlag(value: string): { step: number; dates: boolean } {
   return step;
 }
 
+/** `--block-size 500` or `auto`; anything else is checked where the positions' extent is known (one message for every bad size). */
+function blockSizeFlag(value: string): number | 'auto' {
+  return value.trim() === 'auto' ? 'auto' : Number(value);
+}
+
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
   /** Absent when not given: fitSettingsFrom applies the default (DEFAULT_STEP), so a counts table's own step can apply. */
@@ -27,7 +32,8 @@ export interface FitFlags {
   groupColumn?: string;
   xColumn?: string;
   yColumn?: string;
-  blockSize?: number;
+  /** A side, or `auto` (chosen from the data; for a raster stack, count it in blocks). */
+  blockSize?: number | 'auto';
   wide?: boolean;
   sheet?: string;
   labels?: string;
@@ -51,7 +57,7 @@ export function withFitOptions(command: Command): Command {
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
     .option('--x-column <name>', 'optional column holding each site\'s easting (projected units, e.g. metres); with --y-column the bootstrap resamples spatial blocks')
     .option('--y-column <name>', 'optional column holding each site\'s northing (projected units)')
-    .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default: the range of spatial autocorrelation of the latest states', Number)
+    .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default (or auto): twice the range of spatial autocorrelation of the latest states; a raster stack is counted in blocks only with this flag', blockSizeFlag)
     .option('--wide', 'the table is wide: one row per site, one column per survey time (detected when every other column is headed by a time)')
     .option('--sheet <name>', 'the worksheet of a spreadsheet (.xlsx) to read (default: the first)')
     .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)');
@@ -69,7 +75,7 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
       site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn,
       ...(opts.xColumn !== undefined ? { x: opts.xColumn } : {}), ...(opts.yColumn !== undefined ? { y: opts.yColumn } : {}),
     },
-    ...(opts.blockSize !== undefined ? { blockSize: opts.blockSize } : {}),
+    ...(typeof opts.blockSize === 'number' ? { blockSize: opts.blockSize } : {}),
     ...(opts.wide ? { layout: 'wide' as const } : {}),
     ...(opts.sheet !== undefined ? { sheet: opts.sheet } : {}),
     ...(opts.labels !== undefined ? { labels: opts.labels } : {}),

@@ -10,18 +10,36 @@ import type { RasterCounts } from '../data/raster/count-stack.js';
  * (opening a pipe would wait for a writer); a file that cannot be read is left for the loader.
  */
 export function stacksNamedBy(files: readonly string[]): string[] {
-  const stacks = new Set<string>();
+  return [...stackUses(files).keys()];
+}
+
+/**
+ * Each stack the files name, and whether a scenario on it wants the bootstrap — then it is counted
+ * in blocks, of the first such scenario's `uncertainty.block_size` or chosen from the data (a
+ * differing block_size on the same stack is refused when that scenario loads: load-scenario.ts).
+ */
+function stackUses(files: readonly string[]): Map<string, { blocks?: number | 'auto'; file?: string }> {
+  const stacks = new Map<string, { blocks?: number | 'auto'; file?: string }>();
   for (const file of files) {
-    let data: unknown;
+    let parsed: { data?: unknown; uncertainty?: { source?: unknown; block_size?: unknown } } | null;
     try {
       if (!statSync(file).isFile()) continue;
-      data = (parse(readFileSync(file, 'utf8')) as { data?: unknown } | null)?.data;
+      parsed = parse(readFileSync(file, 'utf8')) as typeof parsed;
     } catch {
       continue;
     }
-    if (typeof data === 'string' && isRasterStackFile(data)) stacks.add(relative(process.cwd(), resolve(dirname(file), data)));
+    const data = parsed?.data;
+    if (typeof data !== 'string' || !isRasterStackFile(data)) continue;
+    const stack = relative(process.cwd(), resolve(dirname(file), data));
+    const use = stacks.get(stack) ?? {};
+    const u = parsed?.uncertainty;
+    if (use.blocks === undefined && u?.source === 'bootstrap') {
+      use.blocks = typeof u.block_size === 'number' ? u.block_size : 'auto';
+      use.file = file;
+    }
+    stacks.set(stack, use);
   }
-  return [...stacks];
+  return stacks;
 }
 
 /**
@@ -30,10 +48,10 @@ export function stacksNamedBy(files: readonly string[]): string[] {
  * a stack is named, so other runs do not pay for it at start-up.
  */
 export async function countScenarioStacks(files: readonly string[]): Promise<Map<string, RasterCounts> | undefined> {
-  const stacks = stacksNamedBy(files);
-  if (stacks.length === 0) return undefined;
-  const { countRasterStack } = await import('../data/raster/count-stack.js');
+  const stacks = stackUses(files);
+  if (stacks.size === 0) return undefined;
+  const { countStack } = await import('./count-blocks.js');
   const counted = new Map<string, RasterCounts>();
-  for (const stack of stacks) counted.set(stack, await countRasterStack(stack));
+  for (const [stack, use] of stacks) counted.set(stack, await countStack(stack, use.blocks, { file: use.file, path: 'uncertainty.block_size' }));
   return counted;
 }

@@ -68,8 +68,9 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       carried: fit.latest.carried ?? [], not_carried: fit.latest.notCarried ?? 0,
     },
     group_column: fit.groupColumn ?? null,
-    // null when the fit came from pooled counts (a counts table without per-site counts).
-    site_counts: fit.pooledSites === undefined ? fit.sites : null,
+    // null when the fit came from pooled counts (a counts table without per-site counts); a raster
+    // fit counted in blocks holds each block's counts here (spatial_blocks.block_sites: its pixels).
+    site_counts: fit.pooledSites === undefined || fit.blockSites ? fit.sites : null,
     site_gap_counts: siteGapJson(fit),
     // Only with positions or raster blocks, so a fit without them is written as before.
     ...(fit.positions ? { site_positions: fit.sites.ids.map((id, s) => [id, fit.positions![2 * s]!, fit.positions![2 * s + 1]!]) } : {}),

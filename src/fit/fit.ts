@@ -208,7 +208,8 @@ function sitePlaces(table: SurveyTable, k: number, settings: FitSettings): { pos
 export function withBlockSize(fit: Fit, side: number, place: Place): Fit {
   if (fit.blockSites) {
     if (fit.spatial?.side === side) return fit;
-    throw new Error('internal: a raster fit is counted with its block size');
+    throw new SereError('BAD_OPTION', `this raster fit was counted in blocks of ${fit.spatial?.side} pixels, not ${side}`, place,
+      'give every scenario on this stack the same block_size, or refit the stack with sere fit --block-size');
   }
   if (!fit.positions) {
     throw new SereError('BAD_OPTION', 'a block size needs the sites\' positions, and this fit has none', place,

@@ -1,5 +1,6 @@
 import { SereError, type Place } from '../errors.js';
 import { estimateRange, type RangeEstimate } from './spatial-range.js';
+import type { BlockChoice } from '../data/raster/block-tally.js';
 
 /**
  * Below this many blocks the block bootstrap's bands are themselves unreliable: a resample of fewer
@@ -148,4 +149,22 @@ export function blockNotes(blocks: SpatialBlocks, unit = ''): string[] {
 
 function round(x: number): string {
   return Number(x.toPrecision(3)).toString();
+}
+
+/**
+ * A raster's block side, in whole pixels: as given, or BLOCK_RANGES times the range of the latest
+ * map's states on a sample of it (data/raster/latest-sample.ts); at least one pixel. A given side
+ * must be positive and no larger than the map.
+ */
+export function rasterBlockChoice(sample: { positions: Float64Array; states: Int32Array; k: number; width: number; height: number },
+  given: number | undefined, place: Place): BlockChoice {
+  const extent = Math.max(sample.width, sample.height);
+  if (given !== undefined) {
+    checkBlockSide(given, extent, place, 'pixels');
+    return { side: given, chosenBy: 'given' };
+  }
+  const estimate = sample.k > 1 ? estimateRange(sample.positions, sample.states, sample.k) : undefined;
+  if (!estimate) return { side: 1, chosenBy: 'range' };
+  const { range, reached, spacing, sites } = estimate;
+  return { side: Math.min(extent, Math.max(1, Math.ceil(BLOCK_RANGES * range))), chosenBy: 'range', range: { range, reached, spacing, sites } };
 }
