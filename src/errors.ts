@@ -26,6 +26,8 @@ export type ErrorCode =
   | 'TOO_MANY_STATES'
   | 'DUPLICATE_COLUMN'
   | 'DUPLICATE_SITE'
+  | 'BAD_COORDINATE'
+  | 'SITE_MOVED'
   | 'UNMAPPED_LABEL'
   | 'DUPLICATE_KEY'
   | 'BAD_LABEL_MAP'

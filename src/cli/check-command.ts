@@ -7,7 +7,7 @@ import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
 import { FIT_FLAG_KEYS, fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
-import { countStack } from './scenario-stacks.js';
+import { countStack } from './count-blocks.js';
 import type { Io } from './io.js';
 import { drawsFlag, level, replicatesFlag, seedFlag, yearsFlag } from './parse-options.js';
 
@@ -58,7 +58,7 @@ export function registerCheck(program: Command, io: Io): void {
         'drop them, or check the survey table itself');
     }
     // A raster stack is counted first (reading rasters is asynchronous); its fit holds counts only.
-    const rasters = isRasterStackFile(file) ? new Map([[file, await countStack(file, io.progress)]]) : undefined;
+    const rasters = isRasterStackFile(file) ? new Map([[file, await countStack(file, undefined, { file }, io.progress)]]) : undefined;
     const fit = fitFromFile(file, fitSettingsFrom(opts), rasters);
     let target: { state: number; steps: number } | undefined;
     if (opts.target !== undefined) {

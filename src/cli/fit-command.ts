@@ -22,7 +22,6 @@ import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { writeFileAtomic } from './write-file.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
-import { countStack } from './scenario-stacks.js';
 import { fitRasterCounts } from '../fit/fit-from-raster.js';
 import { sampleFit, withSamplerOptions, type SamplerFlags } from './sample-fit.js';
 
@@ -59,7 +58,7 @@ export function registerFit(program: Command, io: Io): void {
           'map class codes to states under labels: in the stack file');
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
-      const counted = raster ? await countStack(file, io.progress) : undefined;
+      const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }, io.progress) : undefined;
       const fit = sampleFit(counted ? fitRasterCounts(counted, settings)
         : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
           : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io);

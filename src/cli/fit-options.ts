@@ -14,6 +14,11 @@ function stepFlag(value: string): { step: number; dates: boolean } {
   return step;
 }
 
+/** `--block-size 500` or `auto`; anything else is checked where the positions' extent is known (one message for every bad size). */
+function blockSizeFlag(value: string): number | 'auto' {
+  return value.trim() === 'auto' ? 'auto' : Number(value);
+}
+
 /** The flags that say how to fit a survey table, shared by `fit` and `check`. */
 export interface FitFlags {
   /** Absent when not given: fitSettingsFrom applies the default (DEFAULT_STEP), so a counts table's own step can apply. */
@@ -25,13 +30,17 @@ export interface FitFlags {
   timeColumn: string;
   stateColumn: string;
   groupColumn?: string;
+  xColumn?: string;
+  yColumn?: string;
+  /** A side, or `auto` (chosen from the data; for a raster stack, count it in blocks). */
+  blockSize?: number | 'auto';
   wide?: boolean;
   sheet?: string;
   labels?: string;
 }
 
 /** The option keys withFitOptions adds, to tell whether any was given. */
-export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'wide', 'sheet', 'labels'] as const;
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels'] as const;
 
 /** One time unit per step, unless --step says otherwise. */
 export const DEFAULT_STEP = 1;
@@ -46,6 +55,9 @@ export function withFitOptions(command: Command): Command {
     .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
     .option('--state-column <name>', 'column holding the state', 'state')
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
+    .option('--x-column <name>', 'optional column holding each site\'s easting (projected units, e.g. metres); with --y-column the bootstrap resamples spatial blocks')
+    .option('--y-column <name>', 'optional column holding each site\'s northing (projected units)')
+    .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default (or auto): twice the range of spatial autocorrelation of the latest states; a raster stack is counted in blocks only with this flag', blockSizeFlag)
     .option('--wide', 'the table is wide: one row per site, one column per survey time (detected when every other column is headed by a time)')
     .option('--sheet <name>', 'the worksheet of a spreadsheet (.xlsx) to read (default: the first)')
     .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)');
@@ -59,7 +71,11 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
     prior: parsePrior(opts.prior, { path: '--prior' }),
     states: opts.states,
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),
-    columns: { site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn },
+    columns: {
+      site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn,
+      ...(opts.xColumn !== undefined ? { x: opts.xColumn } : {}), ...(opts.yColumn !== undefined ? { y: opts.yColumn } : {}),
+    },
+    ...(typeof opts.blockSize === 'number' ? { blockSize: opts.blockSize } : {}),
     ...(opts.wide ? { layout: 'wide' as const } : {}),
     ...(opts.sheet !== undefined ? { sheet: opts.sheet } : {}),
     ...(opts.labels !== undefined ? { labels: opts.labels } : {}),

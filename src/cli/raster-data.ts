@@ -51,6 +51,12 @@ export function checkMapsScenario(scenarios: readonly Scenario[], folder: string
     throw new SereError('BAD_OPTION', '--maps needs a scenario whose data is a raster stack (.yaml)', { file: scenario.file, path: 'data' },
       'name the raster stack file as data');
   }
+  const { counted, settings } = rasterSourceOf(scenario.fit)!;
+  if (scenario.source === 'bootstrap' && (settings.group !== undefined || counted.zones)) {
+    // Blocks are counted over the whole map (data/raster/block-tally.ts); a zone's chain has pooled counts only.
+    throw new SereError('BAD_OPTION', 'maps of a stack with zones draw each zone\'s own chain, and the block bootstrap\'s blocks are counted over the whole map',
+      { file: scenario.file, path: 'uncertainty.source' }, 'use source: posterior for these maps, or a stack without zones');
+  }
   if (scenario.events.some((e) => e.scope === 'landscape')) {
     throw new SereError('BAD_OPTION', '--maps cannot draw landscape-scope events yet (their years are random per draw)', { file: scenario.file, path: 'events' },
       'give the event scope: site, or run --maps with a scenario without it');

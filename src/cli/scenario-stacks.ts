@@ -3,7 +3,6 @@ import { dirname, relative, resolve } from 'node:path';
 import { parse } from 'yaml';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
 import type { RasterCounts } from '../data/raster/count-stack.js';
-import { progressReporter } from './progress.js';
 
 /**
  * The raster stacks that scenario files name as `data`, as `data` resolves (relative to the
@@ -11,18 +10,36 @@ import { progressReporter } from './progress.js';
  * (opening a pipe would wait for a writer); a file that cannot be read is left for the loader.
  */
 export function stacksNamedBy(files: readonly string[]): string[] {
-  const stacks = new Set<string>();
+  return [...stackUses(files).keys()];
+}
+
+/**
+ * Each stack the files name, and whether a scenario on it wants the bootstrap — then it is counted
+ * in blocks, of the first such scenario's `uncertainty.block_size` or chosen from the data (a
+ * differing block_size on the same stack is refused when that scenario loads: load-scenario.ts).
+ */
+function stackUses(files: readonly string[]): Map<string, { blocks?: number | 'auto'; file?: string }> {
+  const stacks = new Map<string, { blocks?: number | 'auto'; file?: string }>();
   for (const file of files) {
-    let data: unknown;
+    let parsed: { data?: unknown; uncertainty?: { source?: unknown; block_size?: unknown } } | null;
     try {
       if (!statSync(file).isFile()) continue;
-      data = (parse(readFileSync(file, 'utf8')) as { data?: unknown } | null)?.data;
+      parsed = parse(readFileSync(file, 'utf8')) as typeof parsed;
     } catch {
       continue;
     }
-    if (typeof data === 'string' && isRasterStackFile(data)) stacks.add(relative(process.cwd(), resolve(dirname(file), data)));
+    const data = parsed?.data;
+    if (typeof data !== 'string' || !isRasterStackFile(data)) continue;
+    const stack = relative(process.cwd(), resolve(dirname(file), data));
+    const use = stacks.get(stack) ?? {};
+    const u = parsed?.uncertainty;
+    if (use.blocks === undefined && u?.source === 'bootstrap') {
+      use.blocks = typeof u.block_size === 'number' ? u.block_size : 'auto';
+      use.file = file;
+    }
+    stacks.set(stack, use);
   }
-  return [...stacks];
+  return stacks;
 }
 
 /**
@@ -31,23 +48,11 @@ export function stacksNamedBy(files: readonly string[]): string[] {
  * a stack is named, so other runs do not pay for it at start-up.
  */
 export async function countScenarioStacks(files: readonly string[], progress: boolean): Promise<Map<string, RasterCounts> | undefined> {
-  const stacks = stacksNamedBy(files);
-  if (stacks.length === 0) return undefined;
+  const stacks = stackUses(files);
+  if (stacks.size === 0) return undefined;
+  const { countStack } = await import('./count-blocks.js');
   const counted = new Map<string, RasterCounts>();
-  for (const stack of stacks) counted.set(stack, await countStack(stack, progress));
+  for (const [stack, use] of stacks) counted.set(stack, await countStack(stack, use.blocks, { file: use.file, path: 'uncertainty.block_size' }, progress));
   return counted;
 }
 
-/**
- * Count one raster stack (the raster code loaded only now), with a progress line on stderr when it
- * is a terminal and the counting takes long enough (cli/progress.ts): the share of windows done.
- */
-export async function countStack(file: string, progress: boolean): Promise<RasterCounts> {
-  const { countRasterStack } = await import('../data/raster/count-stack.js');
-  const bar = progressReporter(progress, 'counting pixels', 'percent');
-  try {
-    return await countRasterStack(file, { onProgress: (done, total) => bar.update(Math.floor((100 * done) / total), 100) });
-  } finally {
-    bar.stop();
-  }
-}

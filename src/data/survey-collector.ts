@@ -34,6 +34,9 @@ const FAILED = -4;
 /** Unmapped labels listed in one message. */
 const MAX_LISTED = 10;
 
+/** A position as written: a decimal number, optionally signed, with an optional exponent. */
+const COORDINATE = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 /** A time written as an ISO date (2024-05-17): the hint points to --step 1y, which reads them. */
 const DATE = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -73,6 +76,9 @@ export class SurveyCollector implements RowSink {
   private stateIds = new Int16Array(64).fill(-1);
   private readonly states: StateLabels;
   private readonly store: RowStore;
+  /** With x and y columns: each site label's position and the line it was first given on (NaN: not yet). */
+  private positions: Float64Array | undefined;
+  private positionLines: Float64Array | undefined;
 
   /** `lineWord`: what a record's number is called in messages — a CSV line, or a worksheet's row. */
   constructor(private readonly file: string, private readonly options: ReadSurveyOptions, private readonly trim: boolean,
@@ -83,6 +89,10 @@ export class SurveyCollector implements RowSink {
     this.states = new StateLabels(file, options.states, options.partOfSeveral ? 1 : 2, options.statesPlace);
     this.store = new RowStore(options.columns.group !== undefined);
     this.declared = new Set((options.states ?? []).map((s) => normaliseLabel(s.trim())));
+    if (options.columns.x !== undefined) {
+      this.positions = new Float64Array(2048).fill(Number.NaN);
+      this.positionLines = new Float64Array(1024);
+    }
   }
 
   notCsv(error: SereError): void {
@@ -150,6 +160,7 @@ export class SurveyCollector implements RowSink {
         { file: this.file, line, column: index.time + 1 }, 'write survey times as years, or count from a nearer origin (e.g. days since 2000-01-01)'));
       return;
     }
+    if (index.x !== undefined && !this.position(bytes, starts, ends, line, site, index.x, index.y!)) return;
     if (this.stage <= STATE) return;
     // The cached id inline (most rows): the call is for a label's first row, or a skipped one.
     const cached = state < this.stateIds.length ? this.stateIds[state]! : NEW;
@@ -173,7 +184,7 @@ export class SurveyCollector implements RowSink {
       return;
     }
     for (let c = 0; c < fields; c++) {
-      if (Number.isNaN(index.times[c]!) && c !== index.site && c !== index.group && this.text(bytes, starts[c]!, ends[c]!) !== '') {
+      if (Number.isNaN(index.times[c]!) && c !== index.site && c !== index.group && c !== index.x && c !== index.y && this.text(bytes, starts[c]!, ends[c]!) !== '') {
         this.fail(VALUE, new SereError('BAD_CELL', `a value under column ${c + 1}, which has no header`, { file: this.file, line, column: c + 1 },
           'head the column with its survey time, or delete the value'));
         return;
@@ -183,6 +194,7 @@ export class SurveyCollector implements RowSink {
       this.fail(DUPLICATE, new SereError('DUPLICATE_SITE', `site ${quote(this.sites.labels[site]!)} has a second row here (the first is ${this.lineWord} ${this.siteLines[site]})`,
         { file: this.file, line, column: index.site + 1 }, 'a wide table has one row per site: merge the two rows into one'));
     }
+    if (index.x !== undefined && !this.position(bytes, starts, ends, line, site, index.x, index.y!)) return;
     if (this.stage <= STATE) return;
     for (let c = 0; c < fields; c++) {
       const time = index.times[c]!;
@@ -210,6 +222,53 @@ export class SurveyCollector implements RowSink {
     const group = this.groups.id(bytes, starts[at]!, ends[at]!);
     if (group === known) this.checkLabel('group', this.groups.labels[group]!, line, at);
     return group;
+  }
+
+  /**
+   * A row's position (x, y columns): both must be numbers, and every row of a site must give the
+   * same one — a site in two places is an error naming both lines. False when a coordinate is refused.
+   */
+  private position(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, site: number, xAt: number, yAt: number): boolean {
+    const x = this.coordinate(bytes, starts, ends, line, xAt, 'x');
+    const y = Number.isNaN(x) ? x : this.coordinate(bytes, starts, ends, line, yAt, 'y');
+    if (Number.isNaN(y)) return false;
+    if (2 * site + 1 >= this.positions!.length) {
+      const grown = new Float64Array(Math.max(this.positions!.length * 2, 2 * site + 2)).fill(Number.NaN);
+      grown.set(this.positions!);
+      this.positions = grown;
+    }
+    const known = this.positions![2 * site]!;
+    if (Number.isNaN(known)) {
+      this.positions![2 * site] = x;
+      this.positions![2 * site + 1] = y;
+      this.positionLines = setGrown(this.positionLines!, site, line);
+      return true;
+    }
+    if (known !== x || this.positions![2 * site + 1] !== y) {
+      this.fail(DUPLICATE, new SereError('SITE_MOVED',
+        `site ${quote(this.sites.labels[site]!)} is at (${x}, ${y}) here but at (${known}, ${this.positions![2 * site + 1]}) on ${this.lineWord} ${this.positionLines![site]}`,
+        { file: this.file, line, column: xAt + 1 }, 'a site has one position: correct the coordinates on one of the two rows'));
+      // Ranked with the duplicates, last: the row's state is still checked.
+    }
+    return true;
+  }
+
+  /** One coordinate as a finite number, or NaN with the problem kept. */
+  private coordinate(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number, axis: 'x' | 'y'): number {
+    const text = this.text(bytes, starts[at]!, ends[at]!);
+    if (text === '') {
+      this.fail(VALUE, new SereError('EMPTY_VALUE', `empty ${axis} coordinate in column ${at + 1} (${quote(this.header![at]!)})`,
+        { file: this.file, line, column: at + 1 }, `give every row its site's ${axis} coordinate, or drop --${axis}-column`));
+      return Number.NaN;
+    }
+    const value = COORDINATE.test(text) ? Number(text) : Number.NaN;
+    if (!Number.isFinite(value)) {
+      this.fail(VALUE, new SereError('BAD_COORDINATE', `${axis} coordinate ${quote(text)} in column ${at + 1} is not a number`,
+        { file: this.file, line, column: at + 1 },
+        text.includes(',') ? 'write the decimal point as a dot (1234.5)' : 'write positions as numbers in projected units (metres east and north), e.g. 431250.5'));
+      return Number.NaN;
+    }
+    return value;
   }
 
   private emptyValue(what: 'site' | 'time' | 'state', at: number, line: number): void {
@@ -291,7 +350,14 @@ export class SurveyCollector implements RowSink {
 
     const store = this.store;
     const { sites, rank } = this.surveyedSites();
+    // Positions by the sites' final order, taken from the rows (a site without surveys is no site).
+    const positions = this.positions ? new Float64Array(2 * sites.length) : undefined;
     for (let n = 0; n < store.count; n++) {
+      if (positions) {
+        const id = store.site[n]!;
+        positions[2 * rank[id]!] = this.positions![2 * id]!;
+        positions[2 * rank[id]! + 1] = this.positions![2 * id + 1]!;
+      }
       store.site[n] = rank[store.site[n]!]!;
       store.state[n] = stateIndex[store.state[n]!]!;
     }
@@ -306,6 +372,7 @@ export class SurveyCollector implements RowSink {
     }
     return {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
+      ...(positions ? { positions } : {}),
       ...(this.layout?.index.group !== undefined ? { groups: this.groups.labels } : {}),
       ...(this.options.labels ? { labels: { file: this.options.labels.file, sha256: this.options.labels.sha256, droppedRows: this.dropped } } : {}),
       ...(seasons ? { seasons } : {}),

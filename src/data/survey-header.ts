@@ -4,18 +4,23 @@ import { isCountsHeader } from './counts-table.js';
 import type { SurveyColumns } from './survey.js';
 
 /** Which field of a row holds what. */
-export type ColumnIndex = { site: number; time: number; state: number; group?: number };
+export type ColumnIndex = { site: number; time: number; state: number; group?: number; x?: number; y?: number };
+
+/** A column's role, as messages and flags name it (`--x-column`). */
+export type ColumnRole = 'site' | 'time' | 'state' | 'group' | 'x' | 'y';
 
 /** The columns named in a header row (fields as read), or the error that says which is missing or repeated. */
 export function columnIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns): ColumnIndex {
   const header = headerNames(file, fields, line);
-  const find = (role: 'site' | 'time' | 'state' | 'group', wanted: string): number => findColumn(file, header, line, role, wanted);
+  const find = (role: ColumnRole, wanted: string): number => findColumn(file, header, line, role, wanted);
   const index: ColumnIndex = {
     site: find('site', columns.site),
     time: find('time', columns.time),
     state: find('state', columns.state),
   };
   if (columns.group !== undefined) index.group = find('group', columns.group);
+  if (columns.x !== undefined) index.x = find('x', columns.x);
+  if (columns.y !== undefined) index.y = find('y', columns.y);
   return index;
 }
 
@@ -36,7 +41,7 @@ export function headerNames(file: string, fields: readonly string[], line: numbe
 }
 
 /** The place of the column named `wanted` in a normalised header, or the MISSING_COLUMN error. */
-export function findColumn(file: string, header: readonly string[], line: number, role: 'site' | 'time' | 'state' | 'group', wanted: string): number {
+export function findColumn(file: string, header: readonly string[], line: number, role: ColumnRole, wanted: string): number {
   const name = normaliseLabel(wanted);
   const at = header.indexOf(name);
   if (at < 0) {

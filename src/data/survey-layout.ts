@@ -12,6 +12,8 @@ import type { SurveyColumns, SurveyLayout } from './survey.js';
 export interface WideIndex {
   readonly site: number;
   readonly group?: number;
+  readonly x?: number;
+  readonly y?: number;
   /** Survey time of each column; NaN for the site, group and empty-headed columns. */
   readonly times: Float64Array;
 }
@@ -61,20 +63,21 @@ function looksWide(header: readonly string[], columns: SurveyColumns): boolean {
   return header.includes(normaliseLabel(columns.site)) && otherColumns(header, columns).some((name) => headerTime(name) !== undefined);
 }
 
-/** Header names other than the site and group columns and empty ones. */
+/** Header names other than the site, group and position columns and empty ones. */
 function otherColumns(header: readonly string[], columns: SurveyColumns): string[] {
-  const site = normaliseLabel(columns.site);
-  const group = columns.group === undefined ? undefined : normaliseLabel(columns.group);
-  return header.filter((name) => name !== '' && name !== site && name !== group);
+  const named = new Set([columns.site, columns.group, columns.x, columns.y].filter((c) => c !== undefined).map(normaliseLabel));
+  return header.filter((name) => name !== '' && !named.has(name));
 }
 
 function wideIndex(file: string, header: readonly string[], line: number, columns: SurveyColumns): WideIndex {
   const site = findColumn(file, header, line, 'site', columns.site);
   const group = columns.group === undefined ? undefined : findColumn(file, header, line, 'group', columns.group);
+  const x = columns.x === undefined ? undefined : findColumn(file, header, line, 'x', columns.x);
+  const y = columns.y === undefined ? undefined : findColumn(file, header, line, 'y', columns.y);
   const times = new Float64Array(header.length).fill(Number.NaN);
   const columnOfTime = new Map<number, number>();
   header.forEach((name, at) => {
-    if (at === site || at === group || name === '') return;
+    if (at === site || at === group || at === x || at === y || name === '') return;
     const time = headerTime(name);
     if (time === undefined) {
       throw new SereError('BAD_TIME', `column ${at + 1} (${quote(name)}) is not a survey time: in a wide table every column besides the site${columns.group === undefined ? '' : ' and group'} column is headed by a whole-number time`,
@@ -92,5 +95,5 @@ function wideIndex(file: string, header: readonly string[], line: number, column
     throw new SereError('MISSING_COLUMN', `a wide table needs one column per survey time besides the ${quote(normaliseLabel(columns.site))} column (header has ${header.map(quote).join(', ')})`,
       { file, line }, 'add a column for each survey time, headed by the time (e.g. 2024)');
   }
-  return { site, ...(group === undefined ? {} : { group }), times };
+  return { site, ...(group === undefined ? {} : { group }), ...(x === undefined ? {} : { x }), ...(y === undefined ? {} : { y }), times };
 }

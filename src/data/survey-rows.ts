@@ -43,7 +43,11 @@ export function tableFromRecords(file: string, states: readonly string[], record
   for (const r of records) store.push(siteIndex.get(r.site)!, r.time, r.state, r.line, grouped ? groupIndex.get(r.group!)! : 0);
   const ordered = orderRows(store, sites.length);
   if (ordered.conflict || ordered.repeated > 0) throw new Error('internal: records repeat a (site, time)');
-  return { file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}) };
+  // Positions are kept when every record has one (a site's last record's, for tables made in memory).
+  const placed = records.length > 0 && records.every((r) => r.x !== undefined && r.y !== undefined);
+  const positions = placed ? new Float64Array(2 * sites.length) : undefined;
+  if (positions) for (const r of records) positions.set([r.x!, r.y!], 2 * siteIndex.get(r.site)!);
+  return { file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}), ...(positions ? { positions } : {}) };
 }
 
 /**

@@ -29,6 +29,9 @@ export interface SurveyRecord {
   readonly state: number;
   readonly group?: string;
   readonly line: number;
+  /** The site's position (projected units), when the table has x and y columns. */
+  readonly x?: number;
+  readonly y?: number;
 }
 
 /** A validated survey table: states in their final order, rows by site then time. */
@@ -48,6 +51,8 @@ export interface SurveyTable {
   readonly labels?: LabelMapUse;
   /** When the time column held dates: how they were rounded to season years (the times in `rows`). */
   readonly seasons?: SeasonRounding;
+  /** With x and y columns: site s at (`positions[2s]`, `positions[2s + 1]`), in projected units, aligned with `sites`. */
+  readonly positions?: Float64Array;
 }
 
 export interface LabelMapUse {
@@ -69,6 +74,12 @@ export interface SurveyColumns {
   readonly time: string;
   readonly state: string;
   readonly group?: string;
+  /**
+   * Columns holding each site's position in projected units (easting, northing), for the spatial
+   * block bootstrap; both or neither. Absent: sites have no positions and nothing changes.
+   */
+  readonly x?: string;
+  readonly y?: string;
 }
 
 export const DEFAULT_COLUMNS: SurveyColumns = { site: 'site', time: 'time', state: 'state' };

@@ -8,6 +8,7 @@ import type { FitFile } from './fit-file-schema.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { impossibleMask } from './settings.js';
+import { checkSpatial, type CheckedSpatial } from './check-spatial.js';
 
 /** Report one broken invariant at a key path; never returns. */
 export type Fail = (what: string, path: KeyPath, hint?: string) => never;
@@ -25,6 +26,7 @@ export interface CheckedFitFile {
   readonly pairsByGap: readonly PairsByGap[];
   readonly latentSample?: LatentSample;
   readonly siteGaps?: SiteCountTable;
+  readonly spatial: CheckedSpatial;
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -53,7 +55,8 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   const latentSample = checkSampler(f, states, impossible, gapCounts, fail);
   // Pooled counts (a number of sites) have no per-site gaps: the site bootstrap refuses them anyway.
   const siteGaps = typeof sites === 'number' ? undefined : checkSiteGaps(f, k, sites, gapCounts, fail);
-  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps };
+  const spatial = checkSpatial(f, sites, fail);
+  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps, spatial };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {

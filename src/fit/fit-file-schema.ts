@@ -48,6 +48,13 @@ export const fitFileSchema = z.object({
     latent_counts: z.array(z.array(count)),
   }).loose().nullable().optional(),
   site_gap_counts: z.array(z.tuple([label, count, count, count, count])).optional(),
+  site_positions: z.array(z.tuple([label, z.number(), z.number()])).nullable().optional(),
+  spatial_blocks: z.object({
+    side: z.number(),
+    chosen_by: z.enum(['range', 'given']),
+    range: z.object({ range: z.number().positive(), reached: z.boolean(), spacing: z.number().positive(), sites: count }).nullable().optional(),
+    block_sites: z.array(count.min(1)).nullable().optional(),
+  }).loose().nullable().optional(),
   site_counts: z.array(z.object({
     site: label,
     group: z.string().optional(),

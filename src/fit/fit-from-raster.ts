@@ -1,5 +1,7 @@
 import { SereError, quote, type Place } from '../errors.js';
 import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
+import type { BlockTally } from '../data/raster/block-tally.js';
+import { DEFAULT_COLUMNS } from '../data/survey.js';
 import { SiteCountBuilder } from '../chain/site-counts.js';
 import { gapCellsOf, gapNotWholeSteps, pairsByGapOf, periodList, sparseTriples } from '../chain/counts.js';
 import { gcd } from '../chain/structure.js';
@@ -17,7 +19,9 @@ import { checkTransitions, type Fit } from './fit.js';
 export function fitRasterCounts(counted: RasterCounts, settings: FitSettings): Fit {
   const place: Place = { file: counted.stack.file };
   const tally = settings.group === undefined ? pooled(counted) : zoneTally(counted, settings.group, place);
-  const fit = fitTally(counted, tally, settings);
+  const whole = fitTally(counted, tally, settings);
+  // Blocks are counted over the whole map: a zone's fit keeps pooled counts only.
+  const fit = counted.blocks && settings.group === undefined ? { ...whole, ...rasterBlocks(counted, counted.blocks, whole) } : whole;
   sources.set(fit, { counted, settings });
   return fit;
 }
@@ -143,6 +147,54 @@ function fitTally(counted: RasterCounts, tally: RasterTally, settings: FitSettin
     triples: sparseTriples(triples, k),
     periods: periodList(periods, k),
     history,
+  };
+}
+
+/**
+ * The per-block counts as the fit's sites (one entry per block holding a surveyed pixel, in
+ * row-major block order, named `block:ROW:COL`), each block's gapped pairs, and how many pixels each
+ * stands for: what the bootstrap resamples (uncertainty/bootstrap.ts, resampleUnits).
+ */
+function rasterBlocks(counted: RasterCounts, blocks: BlockTally, fit: Fit): Pick<Fit, 'sites' | 'siteGaps' | 'blockSites' | 'spatial'> {
+  const { years } = counted;
+  const T = years.length;
+  const { index } = rasterStateOrder(counted, { step: fit.step, prior: fit.prior, impossible: fit.impossible, columns: DEFAULT_COLUMNS, states: fit.states });
+  const k = fit.states.length;
+  const kc = blocks.k;
+  const sites = new SiteCountBuilder(k, false);
+  const gaps = new SiteCountBuilder(k, false);
+  const pixels: number[] = [];
+  const one = new Float64Array(k * k);
+  const wide = new Map<number, number>();
+  for (let b = 0; b < blocks.count; b++) {
+    if (blocks.pixels[b] === 0) continue;
+    one.fill(0);
+    wide.clear();
+    for (let u = 0; u < T; u++) for (let t = u + 1; t < T; t++) {
+      const table = blocks.pairs[u * T + t];
+      if (!table) continue;
+      const g = (years[t]! - years[u]!) / fit.step;
+      for (let a = 0; a < kc; a++) for (let c = 0; c < kc; c++) {
+        const x = table[(b * kc + a) * kc + c]!;
+        if (x === 0) continue;
+        const cell = index[a]! * k + index[c]!;
+        if (g === 1) one[cell] += x;
+        else wide.set((g - 2) * k * k + cell, (wide.get((g - 2) * k * k + cell) ?? 0) + x);
+      }
+    }
+    one.forEach((x, cell) => { if (x > 0) sites.cell(cell, x); });
+    for (const cell of [...wide.keys()].sort((x, y) => x - y)) gaps.cell(cell, wide.get(cell)!);
+    const id = `block:${Math.floor(b / blocks.across)}:${b % blocks.across}`;
+    sites.endSite(id, undefined);
+    gaps.endSite(id, undefined);
+    pixels.push(blocks.pixels[b]!);
+  }
+  const { side, chosenBy, range } = blocks.choice;
+  return {
+    sites: sites.table(),
+    siteGaps: gaps.table(),
+    blockSites: Float64Array.from(pixels),
+    spatial: { side, chosenBy, ...(range ? { range } : {}), blocks: pixels.length },
   };
 }
 

@@ -4,6 +4,7 @@ import { TOOL_VERSION } from '../version.js';
 import type { FitEstimates } from './estimate.js';
 import { hasGaps, siteCount, type Fit } from './fit.js';
 import type { LatentSample } from './latent-sample.js';
+import { blocksJson } from './spatial-blocks.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -67,12 +68,21 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       carried: fit.latest.carried ?? [], not_carried: fit.latest.notCarried ?? 0,
     },
     group_column: fit.groupColumn ?? null,
-    // null when the fit came from pooled counts (a counts table without per-site counts).
-    site_counts: fit.pooledSites === undefined ? fit.sites : null,
+    // null when the fit came from pooled counts (a counts table without per-site counts); a raster
+    // fit counted in blocks holds each block's counts here (spatial_blocks.block_sites: its pixels).
+    site_counts: fit.pooledSites === undefined || fit.blockSites ? fit.sites : null,
     site_gap_counts: siteGapJson(fit),
+    // Only with positions or raster blocks, so a fit without them is written as before.
+    ...(fit.positions ? { site_positions: fit.sites.ids.map((id, s) => [id, fit.positions![2 * s]!, fit.positions![2 * s + 1]!]) } : {}),
+    ...(fit.spatial ? { spatial_blocks: spatialJson(fit) } : {}),
     period_counts: fit.periods ?? null,
     order2_counts: fit.triples ?? null,
   };
+}
+
+/** The spatial bootstrap's blocks (spatial-blocks.ts, blocksJson); a raster fit's pixels per block. */
+function spatialJson(fit: Fit): object {
+  return { ...blocksJson(fit.spatial!, fit.blockSites !== undefined), ...(fit.blockSites ? { block_sites: Array.from(fit.blockSites) } : {}) };
 }
 
 /** The data-augmentation sampler's settings, diagnostics and retained latent counts (null where a cell never varies). */

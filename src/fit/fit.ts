@@ -13,6 +13,7 @@ import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
+import { blockUnits, checkBlockSide, chooseBlocks, extentOf, type SpatialBlocks } from './spatial-blocks.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -73,6 +74,18 @@ export interface Fit {
   readonly latentSample?: LatentSample;
   /** The surveyed mix at every survey time, for charts (absent when fitted from a fit file). */
   readonly history?: readonly MixAtTime[];
+  /** Each site's position (x, y in projected units), aligned with `sites`, when the table had x and y columns. */
+  readonly positions?: Float64Array;
+  /**
+   * The spatial block bootstrap's blocks (fit/spatial-blocks.ts), when sites have positions or the
+   * fit came from a raster stack: the bootstrap then draws whole blocks, not sites.
+   */
+  readonly spatial?: SpatialBlocks;
+  /**
+   * A raster fit's blocks: `sites` then holds one entry per block (its pixels' transitions), and
+   * `blockSites[b]` how many pixels (sites) block b stands for.
+   */
+  readonly blockSites?: Float64Array;
 }
 
 /** What the checks of a fit's transitions need, from a survey table, a counts table or a raster stack. */
@@ -162,7 +175,48 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     groupColumn: settings.columns.group,
     ...(table.seasons ? { seasons: table.seasons } : {}),
     history: surveyedMixes(table.rows, k),
+    ...(table.positions ? sitePlaces(table, k, settings) : {}),
   };
+}
+
+/**
+ * The positions of the fit's sites (those with surveys, in their order) and the blocks chosen from
+ * each site's latest surveyed state — on a survey table, sites are seldom all surveyed in the latest
+ * season, so each site's own latest state stands for the latest map.
+ */
+function sitePlaces(table: SurveyTable, k: number, settings: FitSettings): { positions: Float64Array; spatial?: SpatialBlocks } {
+  const { rows } = table;
+  const placed: number[] = [];
+  const latest: number[] = [];
+  for (let n = 0; n < rows.count; n++) {
+    const s = rows.site[n]!;
+    if (n === rows.count - 1 || rows.site[n + 1] !== s) {
+      placed.push(table.positions![2 * s]!, table.positions![2 * s + 1]!);
+      latest.push(rows.state[n]!);
+    }
+  }
+  const positions = Float64Array.from(placed);
+  const spatial = chooseBlocks(positions, latest, k, settings.blockSize, settings.places?.blockSize ?? { path: '--block-size' });
+  return spatial ? { positions, spatial } : { positions };
+}
+
+/**
+ * The fit with the spatial bootstrap's blocks of a given side (`uncertainty.block_size`): a new fit
+ * object, the rest unchanged. Needs the sites' positions; a raster fit's blocks are counted with
+ * the stack, so its side is set where the stack is counted (the same key, read before counting).
+ */
+export function withBlockSize(fit: Fit, side: number, place: Place): Fit {
+  if (fit.blockSites) {
+    if (fit.spatial?.side === side) return fit;
+    throw new SereError('BAD_OPTION', `this raster fit was counted in blocks of ${fit.spatial?.side} pixels, not ${side}`, place,
+      'give every scenario on this stack the same block_size, or refit the stack with sere fit --block-size');
+  }
+  if (!fit.positions) {
+    throw new SereError('BAD_OPTION', 'a block size needs the sites\' positions, and this fit has none', place,
+      'name the columns holding them (fit: { columns: { x: …, y: … } }, or --x-column and --y-column for sere fit), or drop block_size');
+  }
+  checkBlockSide(side, extentOf(fit.positions), place);
+  return { ...fit, spatial: { side, chosenBy: 'given', blocks: blockUnits(fit.positions, side).count } };
 }
 
 /** How many sites a fit rests on, with or without their per-site counts. */

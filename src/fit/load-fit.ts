@@ -40,5 +40,8 @@ export function loadFit(file: string): Fit {
     triples: f.order2_counts ?? undefined,
     periods: f.period_counts ?? undefined,
     groupColumn: f.group_column ?? undefined,
+    ...checked.spatial,
+    // A raster fit's site_counts are its blocks: the pixels it rests on are data.sites.
+    ...(checked.spatial.blockSites ? { pooledSites: f.data.sites ?? checked.spatial.blockSites.reduce((a, b) => a + b, 0) } : {}),
   };
 }

@@ -29,12 +29,27 @@ export interface FitSettings {
   readonly labels?: string;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
+  /**
+   * Side of the spatial bootstrap's square blocks, in projected units (pixels on a raster), when
+   * sites have positions; undefined: chosen from the range of autocorrelation of the latest states.
+   */
+  readonly blockSize?: number;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
-  readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place };
+  readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place;
+    readonly columns?: Place; readonly blockSize?: Place };
 }
 
 /** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */
 export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
+  const { x, y } = settings.columns;
+  if ((x === undefined) !== (y === undefined)) {
+    throw new SereError('BAD_OPTION', `a position needs both coordinates: only the ${x === undefined ? 'y' : 'x'} column is named`,
+      settings.places?.columns ?? { path: x === undefined ? '--y-column' : '--x-column' }, `name the ${x === undefined ? 'x (easting)' : 'y (northing)'} column too, or neither`);
+  }
+  if (x === undefined && settings.blockSize !== undefined) {
+    throw new SereError('BAD_OPTION', 'a block size needs the sites\' positions', settings.places?.blockSize ?? { path: '--block-size' },
+      'name the columns holding them (--x-column and --y-column), or drop the block size');
+  }
   return {
     columns: settings.columns,
     states: settings.states,

@@ -7,6 +7,7 @@ import { makeTable } from './style.js';
 import { carriedWords } from './forecast-table.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
+import { blockNotes } from '../fit/spatial-blocks.js';
 
 /**
  * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
@@ -54,6 +55,11 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
       `maximum likelihood by EM (${count(est.mle.iterations, 'iteration')}${est.mle.converged ? '' : ', not converged'})`);
   }
   if (fit.seasons) lines.push(seasonLine(fit.seasons));
+  if (fit.spatial) {
+    const [what, few] = blockNotes(fit.spatial, fit.blockSites ? ' pixels' : '');
+    lines.push(what!.replace('spatial block bootstrap', 'the bootstrap resamples spatial blocks'));
+    if (few) lines.push(style.yellow(few));
+  }
   lines.push(...dataWarnings(fit, style));
   lines.push(`prior: ${typeof fit.prior === 'number' ? 'pseudo-count' : fit.prior} (${pseudoCount(fit.prior)} per possible transition)` +
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));

@@ -1,4 +1,5 @@
 import { siteCount } from '../fit/fit.js';
+import { blocksJson } from '../fit/spatial-blocks.js';
 import type { ForecastResult } from '../engine/forecast.js';
 import { TOOL_VERSION } from '../version.js';
 import { SENSITIVITY_PRIORS } from '../engine/prior-sensitivity.js';
@@ -25,7 +26,11 @@ export function scenarioJson(r: ForecastResult): object {
     data: { file: fit.input.file, sha256: fit.input.sha256, sites: siteCount(fit), transitions: fit.transitions },
     states: fit.states,
     step: fit.step,
-    uncertainty: { source: sc.source, draws: r.draws, seed: r.seed },
+    uncertainty: {
+      source: sc.source, draws: r.draws, seed: r.seed,
+      // Only for a spatial block bootstrap, so other forecasts are written as before.
+      ...(sc.source === 'bootstrap' && fit.spatial ? { blocks: blocksJson(fit.spatial, fit.blockSites !== undefined) } : {}),
+    },
     level: sc.level,
     start: {
       year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!),

@@ -16,7 +16,8 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   if (!block) return DEFAULT_FIT_SETTINGS;
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
-    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']),
+      columns: locate(['fit', 'columns']) },
     ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,

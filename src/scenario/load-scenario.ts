@@ -5,7 +5,7 @@ import { SereError, type Place } from '../errors.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
 import { carriedMix } from '../chain/latest-mix.js';
-import { fitMle, fitMask, needPerSite, type Fit } from '../fit/fit.js';
+import { fitMle, fitMask, needPerSite, withBlockSize, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
 import type { Scenario } from './scenario.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
@@ -50,8 +50,9 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
     throw new SereError(code, what, locate(path), hint);
   };
-  const fit = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
-  if (s.uncertainty.source === 'bootstrap') needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
+  const data = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
+  const fit = s.uncertainty.block_size === undefined ? data : withBlockSize(data, s.uncertainty.block_size, locate(['uncertainty', 'block_size']));
+  if (s.uncertainty.source === 'bootstrap' && !fit.blockSites) needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);

@@ -25,6 +25,8 @@ export const fitSettingsSchema = z.strictObject({
     time: z.string().min(1).optional(),
     state: z.string().min(1).optional(),
     group: z.string().min(1).optional(),
+    x: z.string().min(1).optional().describe("The column holding each site's easting (projected units, e.g. metres); with y, the bootstrap resamples spatial blocks."),
+    y: z.string().min(1).optional().describe("The column holding each site's northing (projected units)."),
   }).optional(),
   group: z.string().min(1).optional().describe("Fit only the sites of this group (the value in columns.group), e.g. a soil type's own fit."),
   layout: z.enum(['long', 'wide'], { error: 'layout must be long or wide' }).optional()
@@ -155,6 +157,9 @@ export const scenarioSchema = z.strictObject({
     draws: positiveInt('draws').max(MAX_DRAWS, { error: `draws must be at most ${MAX_DRAWS}` }).default(4000),
     /** Default: a fresh seed, printed. */
     seed: positiveInt('seed').max(MAX_SEED, { error: `seed must be at most ${MAX_SEED}` }).optional(),
+    /** Default: the fit's (chosen from the range of spatial autocorrelation). */
+    block_size: z.number({ error: 'block_size must be a number' }).positive({ error: 'block_size must be positive' }).optional()
+      .describe("Side of the spatial bootstrap's square blocks, in the sites' projected units (pixels for a raster stack); needs positions (columns x and y) or a raster stack. Default: the range of spatial autocorrelation of the latest states."),
   }).default({ source: 'posterior', draws: 4000 }),
   /** Default: estimated when the record has at least three survey periods, else none. */
   variation: z.union([

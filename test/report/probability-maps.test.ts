@@ -143,8 +143,15 @@ describe('probability maps (sere forecast --maps)', () => {
     expect(again.stderr).toContain('[FILE_EXISTS]');
     expect(statSync(join(out, 'bare_2018.tif')).mtimeMs).toBe(before);
     expect((await sereInProcess(['forecast', file, '--maps', out, '--force'])).code).toBe(0);
-    const boot = scenario(plain, 'boot.yaml', 'horizon: { steps: 2 }\nuncertainty: { source: bootstrap, draws: 50, seed: 3 }\n');
-    const refused = await sereInProcess(['forecast', boot, '--debug']);
+    // The bootstrap resamples blocks of pixels counted with the stack (the spatial block bootstrap);
+    // one zone's fit has pooled counts only, and is refused.
+    const boot = scenario(plain, 'boot.yaml', 'horizon: { steps: 2 }\nuncertainty: { source: bootstrap, draws: 50, seed: 3, block_size: 6 }\n');
+    const blocks = await sereInProcess(['forecast', boot, '--debug']);
+    expect(blocks.code).toBe(0);
+    expect(blocks.stdout).toContain('blocks of side 6 pixels (as given), 35 blocks');
+    const zone = join(zoned, 'boot-zone.yaml');
+    writeFileSync(zone, `data: stack.yaml\nfit: { step: 1, states: [${STATES.join(', ')}], group: "10" }\nhorizon: { steps: 2 }\nuncertainty: { source: bootstrap, draws: 50, seed: 3 }\n`);
+    const refused = await sereInProcess(['forecast', relative(process.cwd(), zone), '--debug']);
     expect(refused.code).toBe(1);
     expect(refused.stderr).toContain('[NO_SITE_COUNTS]');
     const stormy = scenario(plain, 'stormy.yaml', 'horizon: { steps: 2 }\nevents: [{ name: fire, chance: 0.1, matrix: { heath: { bare: 1 } } }]\n');

@@ -5,6 +5,7 @@ import { LIMITS } from '../../limits.js';
 import { openRaster, checkSameGrid, type Grid, type OpenRaster } from './open-raster.js';
 import { readRasterStack, SKIP, type RasterStack } from './stack-file.js';
 import { readWindow, readWindows } from './read-band.js';
+import { BlockTally, type BlockChoice } from './block-tally.js';
 
 /**
  * The transitions of one zone (or of the whole map), by pairs of rasters: what every fit setting
@@ -37,6 +38,8 @@ export interface RasterCounts {
   readonly outsideZones: number;
   /** Largest window held at once, in pixels (for the memory note). */
   readonly bandPixels: number;
+  /** Per-block counts of the whole map (zones pooled), when asked for (`blocks` option): for the spatial block bootstrap. */
+  readonly blocks?: BlockTally;
 }
 
 const NO_STATE = -1;
@@ -51,7 +54,8 @@ const CODES = 65536;
  * years form its survey sequence, exactly as a long table with one site per pixel would (nodata
  * and `skip` codes are years not surveyed) — test/data/raster/count-stack.test.ts checks that.
  */
-export async function countRasterStack(file: string, options: { readonly windowPixels?: number; readonly onProgress?: (done: number, total: number) => void } = {}): Promise<RasterCounts> {
+export async function countRasterStack(file: string,
+  options: { readonly windowPixels?: number; readonly blocks?: BlockChoice; readonly onProgress?: (done: number, total: number) => void } = {}): Promise<RasterCounts> {
   const stack = readRasterStack(file);
   const places = stack.rasters.map((r) => stack.locate(r.path));
   const rasters: OpenRaster[] = [];
@@ -60,14 +64,15 @@ export async function countRasterStack(file: string, options: { readonly windowP
     for (const [n, r] of stack.rasters.entries()) rasters.push(await openRaster(r.file, places[n]!));
     zoneRaster = stack.zones === undefined ? undefined : await openRaster(stack.zones, stack.locate(['zones']), 'zone');
     checkSameGrid(zoneRaster ? [...rasters, zoneRaster] : rasters, zoneRaster ? [...places, stack.locate(['zones'])] : places);
-    return await countOpen(stack, rasters, zoneRaster, options.windowPixels, options.onProgress);
+    const blocks = options.blocks ? new BlockTally(options.blocks, rasters[0]!.grid.width, rasters[0]!.grid.height) : undefined;
+    return await countOpen(stack, rasters, zoneRaster, options.windowPixels, blocks, options.onProgress);
   } finally {
     for (const r of [...rasters, ...(zoneRaster ? [zoneRaster] : [])]) void r.tiff.close();
   }
 }
 
 async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zoneRaster: OpenRaster | undefined,
-  windowPixels: number | undefined, onProgress?: (done: number, total: number) => void): Promise<RasterCounts> {
+  windowPixels: number | undefined, blocks: BlockTally | undefined, onProgress?: (done: number, total: number) => void): Promise<RasterCounts> {
   const T = rasters.length;
   const years = stack.rasters.map((r) => r.year);
   const codes = new CodeStates(stack);
@@ -81,6 +86,7 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
   const prevState = new Int16Array(pixels);
   const prevRaster = new Int16Array(pixels);
   const zoneOf = new Int32Array(pixels);
+  const blockOf = blocks ? new Int32Array(pixels) : undefined;
   let outsideZones = 0;
   let k = codes.states.length;
   const grow = (tally: RasterTally): void => {
@@ -101,6 +107,7 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
     const n = across * (window.y1 - y0);
     lastRaster.fill(-1, 0, n);
     prevRaster.fill(-1, 0, n);
+    blocks?.blocksOf(x0, y0, window.x1, window.y1, blockOf!);
     if (zoneRaster) {
       const band = await readWindow(zoneRaster, window);
       const nodata = zoneRaster.nodata;
@@ -135,6 +142,10 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
           const pair = tally.pairs[key] ?? (tally.pairs[key] = new Float64Array(k * k));
           const from = lastState[p]!;
           pair[from * k + s] += 1;
+          if (blocks) {
+            if (blocks.k !== k) blocks.resize(k);
+            blocks.table(key)[(blockOf![p]! * k + from) * k + s] += 1;
+          }
           const w = prevRaster[p]!;
           if (w >= 0 && years[t]! - years[u]! === years[u]! - years[w]!) {
             const run = tally.triples[key] ?? (tally.triples[key] = new Float64Array(k * k * k));
@@ -147,9 +158,11 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
         lastState[p] = s;
       }
     }
+    if (blocks) for (let p = 0; p < n; p++) if (lastRaster[p]! >= 0) blocks.pixels[blockOf![p]!] += 1;
   }
   k = codes.states.length;
   for (const tally of tallies) if (tally) grow(tally);
+  blocks?.resize(k);
   const zoneCodes = zoneRaster ? zones.codes() : null;
   return {
     stack, sha256: stackHash(stack), years, states: codes.states, numericStates: stack.labels === undefined,
@@ -157,6 +170,7 @@ async function countOpen(stack: RasterStack, rasters: readonly OpenRaster[], zon
     zones: zoneCodes?.order ?? null,
     tallies: zoneCodes ? zoneCodes.order.map((_, z) => tallies[zoneCodes.index[z]!] ?? emptyTally(T, k)) : [tallies[0] ?? emptyTally(T, k)],
     outsideZones, bandPixels: pixels,
+    ...(blocks ? { blocks } : {}),
   };
 }
 
