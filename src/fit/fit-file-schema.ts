@@ -46,6 +46,23 @@ export const fitFileSchema = z.object({
     rhat: z.array(z.array(z.number().nullable())),
     ess: z.array(z.array(z.number().nullable())),
     latent_counts: z.array(z.array(count)),
+    error_rhat: z.array(z.array(z.number().nullable())).optional(),
+    error_ess: z.array(z.array(z.number().nullable())).optional(),
+    error_matrices: z.array(z.array(z.number().min(0).max(1))).optional(),
+    latest_true_counts: z.array(z.array(count)).optional(),
+  }).loose().nullable().optional(),
+  probabilities: z.array(z.array(z.number().min(0).max(1))).optional(),
+  estimation: z.object({
+    iterations: count, converged: z.boolean(), log_likelihood: z.number(), expected_counts: z.array(z.array(z.number().min(0))),
+  }).loose().optional(),
+  error_model: z.object({
+    file: z.string(),
+    sha256: z.string(),
+    assessment: z.array(z.array(count)),
+    dropped_rows: count,
+    probabilities: z.array(z.array(z.number().min(0).max(1))),
+    initial: z.array(z.number().min(0).max(1)),
+    true_transitions: count,
   }).loose().nullable().optional(),
   site_gap_counts: z.array(z.tuple([label, count, count, count, count])).optional(),
   site_counts: z.array(z.object({

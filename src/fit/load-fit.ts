@@ -40,5 +40,6 @@ export function loadFit(file: string): Fit {
     triples: f.order2_counts ?? undefined,
     periods: f.period_counts ?? undefined,
     groupColumn: f.group_column ?? undefined,
+    ...(checked.errorModel ? { errorModel: checked.errorModel } : {}),
   };
 }

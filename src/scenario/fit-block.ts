@@ -16,7 +16,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   if (!block) return DEFAULT_FIT_SETTINGS;
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
-    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']), errors: locate(['fit', 'errors']) },
     ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
@@ -28,6 +28,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
     ...(block.sheet !== undefined ? { sheet: block.sheet } : {}),
     // Relative to the file that names it; kept relative to the working folder, as data is.
     ...(block.labels !== undefined ? { labels: relative(process.cwd(), resolve(dir, block.labels)) } : {}),
+    ...(block.errors !== undefined ? { errors: relative(process.cwd(), resolve(dir, block.errors)) } : {}),
   };
 }
 
