@@ -34,7 +34,7 @@ export function errorModelOf(table: SurveyTable, settings: FitSettings, mask: Ui
   }
   const records = recordPatterns(table.rows, settings.step);
   let trueTransitions = 0;
-  for (let q = 0; q < records.count; q++) trueTransitions += records.sites[q]! * (patternLength(records, q) - 1);
+  for (let q = 0; q < records.count; q++) trueTransitions += records.sites[q]! * (patternLength(records, q) - 1 + Math.max(0, records.extend[q]!));
   const model: ErrorModel = { file, sha256: matrix.sha256, assessment: matrix.counts, droppedRows: matrix.droppedRows, records, trueTransitions };
   checkRecordsPossible(records, errorSupport(model), mask, table);
   return model;

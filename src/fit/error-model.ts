@@ -15,7 +15,7 @@ export interface ErrorModel {
   /** Assessment rows left out by the label map (labels mapped to skip). */
   readonly droppedRows: number;
   readonly records?: RecordPatterns;
-  /** One-step transitions in all the true paths (first survey to last, every site): what each retained sweep holds. */
+  /** One-step transitions in all the true paths (first survey to the latest time, or to the last survey for a site not carried): what each retained sweep holds. */
   readonly trueTransitions: number;
   /** The maximum-likelihood fit as read from a fit file (a fit made from records works it out). */
   readonly mle?: ErrorEstimate;
