@@ -71,6 +71,18 @@ describe('the heath fixture with one observer who records young heath as grassla
     expect(fitMle(loaded).p).toEqual(fitMle(fit).p);
   });
 
+  it('pins its seeded sweeps and draws (value stability: a change here is value-breaking)', () => {
+    const table = readSurveyCsv(SURVEYS, { columns: DEFAULT_COLUMNS, states: [...STATES] });
+    const unsampled = fitSurvey(table, SETTINGS);
+    const sample = sampleLatent(unsampled, SMALL, randomStreams(11).stream('augment'));
+    expect(Array.from(sample.latent.subarray(0, 25))).toEqual([92, 29, 0, 23, 9, 8, 183, 92, 7, 4, 0, 21, 337, 14, 25, 3, 41, 3, 304, 19, 4, 8, 3, 16, 205]);
+    expect(Array.from(sample.errors!.emissions.subarray(79 * 25 + 5, 79 * 25 + 10))).toEqual([0, 0.9529571693503275, 0, 0.04704283064967251, 0]);
+    expect(Array.from(sample.errors!.latest.subarray(79 * 5, 80 * 5))).toEqual([4, 18, 54, 37, 37]);
+    const draws = posteriorDraws({ ...unsampled, latentSample: sample }, 3, randomStreams(3).stream('p'));
+    expect(Array.from(draws.data.subarray(0, 5))).toEqual([0.5866090075902516, 0.25327065740665633, 0.0010415691956535782, 0.11034351992008935, 0.04873524588734932]);
+    expect(Array.from(draws.starts!.subarray(0, 5))).toEqual([4 / 150, 22 / 150, 51 / 150, 35 / 150, 38 / 150]);
+  });
+
   it('refuses a fit file whose error matrix breaks a structural zero', () => {
     const table = readSurveyCsv(SURVEYS, { columns: DEFAULT_COLUMNS, states: [...STATES] });
     const unsampled = fitSurvey(table, SETTINGS);
