@@ -127,3 +127,50 @@ describe('EM with observer error (Baum–Welch with the assessment as complete d
     truthE.flat().forEach((x, c) => expect(Math.abs(fit.emission[c]! - x), `E cell ${c}`).toBeLessThan(0.03));
   });
 });
+
+describe('EM with observer error against an independent optimiser', () => {
+  // The case of test/reference/error-mle.py: nine record patterns (n sites each; recorded states at
+  // steps after the first survey) and an assessment whose cell (c, a) is 0. With the assessment a
+  // tenth of this size the likelihood had two modes: EM from the assessment's proportions reached
+  // −442.004, the optimiser −441.910 (E[a, a] = 0.64) — EM finds a local maximum, as it may.
+  const PATTERNS: [number, [number, number][]][] = [
+    [30, [[0, 0], [1, 0], [2, 1], [3, 1]]],
+    [25, [[0, 1], [1, 1], [3, 2]]],
+    [20, [[0, 2], [1, 2], [2, 2]]],
+    [15, [[0, 0], [2, 2], [3, 2]]],
+    [12, [[0, 1], [1, 0], [2, 0]]],
+    [10, [[0, 2], [1, 1], [2, 1], [4, 0]]],
+    [8, [[0, 0], [1, 1], [2, 0]]],
+    [6, [[0, 2], [2, 0]]],
+    [5, [[0, 1]]],
+  ];
+  const rows: [string, number, number][] = [];
+  PATTERNS.forEach(([n, surveys], q) => {
+    for (let s = 0; s < n; s++) for (const [t, r] of surveys) rows.push([`p${q}-${String(s).padStart(2, '0')}`, t, r]);
+  });
+  const assessment = Float64Array.from([400, 30, 10, 40, 300, 20, 0, 50, 250]);
+
+  it('agrees with direct maximisation of the likelihood by scipy (test/reference/error-mle.py)', () => {
+    const records = patternsOf(K, rows);
+    expect(records.count).toBe(PATTERNS.length);
+    const fit = errorMaximumLikelihood(records, assessment, new Float64Array(K * K).fill(0.5), K, new Float64Array(K * K).fill(1 / K));
+    expect(fit.converged).toBe(true);
+    // python3 test/reference/error-mle.py (scipy.optimize.minimize, BFGS then Nelder-Mead, best of
+    // 20 starts), run once; values pasted as printed.
+    const scipy = {
+      p: [[0.46693896, 0.473390482, 0.0596705584], [0.188018668, 0.567101794, 0.244879539], [0.051392928, 0.0841215954, 0.864485477]],
+      e: [[0.909060804, 0.0691690481, 0.021770148], [0.109007293, 0.840366456, 0.0506262512], [0.0, 0.142129001, 0.857870999]],
+      pi: [0.420216411, 0.329295923, 0.250487665],
+      loglik: -889.308506369,
+    };
+    scipy.p.flat().forEach((x, c) => expect(fit.p[c], `P ${c}`).toBeCloseTo(x, 4));
+    scipy.e.flat().forEach((x, c) => expect(fit.emission[c], `E ${c}`).toBeCloseTo(x, 4));
+    scipy.pi.forEach((x, c) => expect(fit.initial[c], `π ${c}`).toBeCloseTo(x, 4));
+    expect(fit.logLikelihood).toBeCloseTo(scipy.loglik, 5);
+    // EM's answer is at least as high as the optimiser's, and the likelihoods are one function:
+    // sere's at scipy's parameters is scipy's printed value.
+    expect(fit.logLikelihood).toBeGreaterThanOrEqual(scipy.loglik - 1e-6);
+    expect(errorLogLikelihood(records, assessment, Float64Array.from(scipy.pi), Float64Array.from(scipy.p.flat()), Float64Array.from(scipy.e.flat()), K))
+      .toBeCloseTo(scipy.loglik, 5);
+  });
+});
