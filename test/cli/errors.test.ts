@@ -70,3 +70,17 @@ describe('--errors on sere fit and sere check, fit.errors in a scenario', () => 
     expect(m.stderr).toContain('fit.errors');
   });
 });
+
+describe('plot counts with observer error', () => {
+  it('are refused in one line naming the key (not forecast "as recorded" yet)', async () => {
+    const { write: put } = tempFiles('sere-cli-errors-plots-');
+    put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+    const scenario = put('p.yaml', [
+      'name: plots', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }', 'horizon: { years: 5 }', 'plots: latest',
+    ].join('\n') + '\n');
+    const r = await sereInProcess(['forecast', scenario, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_SCENARIO]');
+    expect(r.stderr).toContain('(plots)');
+  });
+});
