@@ -84,3 +84,12 @@ describe('plot counts with observer error', () => {
     expect(r.stderr).toContain('(plots)');
   });
 });
+
+describe('sere hindcast with --errors', () => {
+  it('is refused in one line naming the flag (scoring needs predictions as recorded, not built yet)', async () => {
+    const r = await sereInProcess(['hindcast', SURVEYS, '--errors', ACCURACY, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_OPTION]');
+    expect(r.stderr).toContain('--errors');
+  });
+});
