@@ -24,6 +24,8 @@
  *    DuckDB beside numpy-count.py, and on 10⁸ Parquet rows through DuckDB (scripts/bench/count-bench.ts).
  * 12. Gaps (scripts/bench/gaps.ts): 10,000 sites × 12 surveys × 8 states with 30% of visits missed —
  *    count, EM, the data-augmentation sampler (1,000 retained sweeps) and 1,000 matrix draws.
+ * 13. Observer error (`npm run bench -- observer`, only when named; scripts/bench/observer.ts): the same size seen through an error matrix — fit,
+ *    EM, the forward-filtering backward-sampling sampler, draws; draws/s and ESS/s.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -49,6 +51,7 @@ import { benchFit, benchFitFile } from './bench/fit-vs-numpy.js';
 import { benchRaster } from './bench/raster.js';
 import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
 import { benchGaps } from './bench/gaps.js';
+import { benchObserver } from './bench/observer.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -360,3 +363,4 @@ if (only === 'numpy') {
 }
 
 if (want('gaps')) benchGaps();
+if (only === 'observer') benchObserver();

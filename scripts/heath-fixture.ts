@@ -47,9 +47,16 @@ function pick(random: RandomStream, probabilities: readonly number[]): number {
  * its own, so the states are the same) for `--step 1y`.
  */
 export function heathSurveys(seed = SEED, dated = false): string {
+  return heathRecords(seed, dated).map((r) => `${r.site},${r.time},${STATES[r.state]}`).reduce((text, line) => `${text}${line}\n`, 'site,time,state\n');
+}
+
+/** One visit as simulated: the plot, the time (a year or a date), the true state. */
+interface Visit { readonly site: string; readonly time: string | number; readonly state: number }
+
+function heathRecords(seed: number, dated: boolean): Visit[] {
   const random = randomStreams(seed).stream('quillanmoor');
   const days = randomStreams(seed).stream('visit-days');
-  const lines = ['site,time,state'];
+  const visits: Visit[] = [];
   for (let n = 1; n <= 150; n++) {
     const site = `Q${String(n).padStart(3, '0')}`;
     const first = n > 100 ? ADDED_YEAR : FIRST_YEAR;
@@ -58,10 +65,47 @@ export function heathSurveys(seed = SEED, dated = false): string {
     for (let year = first; year <= LAST_YEAR; year++) {
       if (year > first) state = pick(random, TRUE_MATRIX[state]!);
       const visited = year === first || (biennial ? year % 2 === 0 : random.uniform() >= MISSED_VISIT_CHANCE);
-      if (visited) lines.push(`${site},${dated ? visitDate(year, days) : year},${STATES[state]}`);
+      if (visited) visits.push({ site, time: dated ? visitDate(year, days) : year, state });
     }
   }
-  return lines.join('\n') + '\n';
+  return visits;
+}
+
+/** Observer error in the invented survey: the observer who mislabels, and how often. */
+export const OBSERVERS = ['Avery', 'Brook', 'Corran'] as const;
+export const MISLABELLER = 'Corran';
+export const MISLABEL_CHANCE = 0.1;
+/** Assessed (verified) sites per state in the accuracy assessment. */
+export const ASSESSED_PER_STATE = 60;
+
+/**
+ * The same surveys as heathSurveys (the same true states at the same visits), each made by one of
+ * three invented observers (a stream of its own), of whom Corran records young heath as grassland
+ * one visit in ten; plus the accuracy assessment: ASSESSED_PER_STATE sites of each true state
+ * revisited and verified, each first recorded by an observer picked as the surveys pick them. The
+ * table's observer column is for the reader; sere fits one pooled error matrix.
+ */
+export function heathSurveysWithErrors(seed = SEED): { surveys: string; assessment: string } {
+  const who = randomStreams(seed).stream('observers');
+  const slips = randomStreams(seed).stream('mislabels');
+  const youngHeath = STATES.indexOf('young-heath');
+  const grassland = STATES.indexOf('grassland');
+  const recorded = (state: number, observer: string): number =>
+    (observer === MISLABELLER && state === youngHeath && slips.uniform() < MISLABEL_CHANCE ? grassland : state);
+  let surveys = 'site,time,state,observer\n';
+  for (const v of heathRecords(seed, false)) {
+    const observer = OBSERVERS[who.integer(OBSERVERS.length)]!;
+    surveys += `${v.site},${v.time},${STATES[recorded(v.state, observer)]},${observer}\n`;
+  }
+  const counts = new Map<string, number>();
+  STATES.forEach((_, state) => {
+    for (let n = 0; n < ASSESSED_PER_STATE; n++) {
+      const key = `${STATES[recorded(state, OBSERVERS[who.integer(OBSERVERS.length)]!)]},${STATES[state]}`;
+      counts.set(key, (counts.get(key) ?? 0) + 1);
+    }
+  });
+  const assessment = ['recorded,verified,n', ...[...counts].map(([key, n]) => `${key},${n}`)].join('\n') + '\n';
+  return { surveys, assessment };
 }
 
 /** A late-summer visit day: 25 July plus 0–70 days. */
@@ -73,5 +117,8 @@ function visitDate(year: number, random: RandomStream): string {
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   writeFileSync('test/fixtures/heath/surveys.csv', heathSurveys());
   writeFileSync('test/fixtures/heath/surveys-dated.csv', heathSurveys(SEED, true));
-  console.log('wrote test/fixtures/heath/surveys.csv and surveys-dated.csv');
+  const withErrors = heathSurveysWithErrors();
+  writeFileSync('test/fixtures/heath/surveys-observed.csv', withErrors.surveys);
+  writeFileSync('test/fixtures/heath/accuracy.csv', withErrors.assessment);
+  console.log('wrote test/fixtures/heath/surveys.csv, surveys-dated.csv, surveys-observed.csv and accuracy.csv');
 }

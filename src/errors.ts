@@ -56,7 +56,10 @@ export type ErrorCode =
   | 'NO_SITE_COUNTS'
   | 'BAD_COUNTS'
   | 'SITE_IN_TWO_SHARDS'
-  | 'BAD_SQL_NAME';
+  | 'BAD_SQL_NAME'
+  | 'BAD_ERROR_MATRIX'
+  | 'STATE_NEVER_VERIFIED'
+  | 'IMPOSSIBLE_RECORD';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

@@ -37,10 +37,11 @@ export interface FitFlags {
   wide?: boolean;
   sheet?: string;
   labels?: string;
+  errors?: string;
 }
 
 /** The option keys withFitOptions adds, to tell whether any was given. */
-export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels'] as const;
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels', 'errors'] as const;
 
 /** One time unit per step, unless --step says otherwise. */
 export const DEFAULT_STEP = 1;
@@ -60,7 +61,8 @@ export function withFitOptions(command: Command): Command {
     .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default (or auto): twice the range of spatial autocorrelation of the latest states; a raster stack is counted in blocks only with this flag', blockSizeFlag)
     .option('--wide', 'the table is wide: one row per site, one column per survey time (detected when every other column is headed by a time)')
     .option('--sheet <name>', 'the worksheet of a spreadsheet (.xlsx) to read (default: the first)')
-    .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)');
+    .option('--labels <labels.yaml>', 'map recorded labels or class codes to states (or to skip)')
+    .option('--errors <errors.csv>', 'observer error: an accuracy assessment (CSV recorded,verified,n); the chain is fitted to the true states behind the records');
 }
 
 export function fitSettingsFrom(opts: FitFlags): FitSettings {
@@ -79,5 +81,6 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
     ...(opts.wide ? { layout: 'wide' as const } : {}),
     ...(opts.sheet !== undefined ? { sheet: opts.sheet } : {}),
     ...(opts.labels !== undefined ? { labels: opts.labels } : {}),
+    ...(opts.errors !== undefined ? { errors: opts.errors } : {}),
   };
 }

@@ -1,3 +1,4 @@
+import { refuseErrors } from '../fit/error-fit.js';
 import type { Command } from 'commander';
 import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
@@ -38,6 +39,8 @@ export function registerHindcast(program: Command, io: Io): void {
           'run the hindcast on a survey table (site,time,state); for maps, sample pixels into such a table first');
       }
       const settings = fitSettingsFrom(opts);
+      // Scored against recorded surveys, forecasts of the true mix would be unfair: that needs predictions as recorded.
+      refuseErrors(settings, 'a hindcast scores against recorded surveys, which needs predictions "as recorded" (not built yet)', 'run the hindcast without --errors');
       for (const y of opts.years) {
         if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);
       }

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
-import { hasGaps, type Fit } from '../fit/fit.js';
-import { augment, augmentationWarnings, DEFAULT_AUGMENT } from '../uncertainty/augment.js';
+import { needsSampler, type Fit } from '../fit/fit.js';
+import { augmentationWarnings, DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { seedFlag, wholeNumber } from './parse-options.js';
@@ -18,7 +18,7 @@ export interface SamplerFlags {
 /** The flags of the data-augmentation sampler that `sere fit` runs when pairs are further apart than one step. */
 export function withSamplerOptions(command: Command): Command {
   return command
-    .option('--seed <n>', 'seed of the posterior sampler, used only when pairs are further apart than one step (printed when not given)', seedFlag)
+    .option('--seed <n>', 'seed of the posterior sampler, used only when pairs are further apart than one step or with --errors (printed when not given)', seedFlag)
     .option('--chains <n>', 'posterior sampler: independent chains (for R̂)', wholeNumber(64), DEFAULT_AUGMENT.chains)
     .option('--warm-up <n>', 'posterior sampler: sweeps dropped per chain', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.warmUp)
     .option('--retained <n>', 'posterior sampler: sweeps kept in all (shared between chains)', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.retained)
@@ -31,10 +31,10 @@ export function withSamplerOptions(command: Command): Command {
  * draws are not yet to be trusted. A fit without gaps is returned as it is.
  */
 export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
-  if (!hasGaps(fit)) return fit;
+  if (!needsSampler(fit)) return fit;
   // Picked once: with --by, every group's sampler uses the seed announced, so the run repeats.
   const seed = flags.seed ??= flagSeed(undefined, io);
-  const latentSample = augment(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
+  const latentSample = sampleLatent(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
   for (const line of augmentationWarnings(latentSample, fit.states)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }

@@ -10,8 +10,11 @@ import { sharedFloat64 } from '../uncertainty/draw-blocks.js';
  * site is left out, and where the unsurveyed sites are now stays as uncertain as the matrix. The
  * years before the start carry no scenario treatment or event. Undefined when every site was
  * surveyed at the start: the scenario's one start is then exact, and the engine uses it.
+ * With observer error the draws carry their own starts — the true mix behind the records.
  */
 export function carriedStarts(scenario: Pick<Scenario, 'start' | 'fit'>, matrices: MatrixDraws): Float64Array | undefined {
+  // With observer error each draw comes with the true mix of its own sampler sweep (uncertainty/posterior.ts).
+  if (scenario.start.from === 'latest' && matrices.starts) return matrices.starts;
   if (!scenario.start.carried?.length) return undefined;
   const { k, count: D, data } = matrices;
   const starts = sharedFloat64(D * k);

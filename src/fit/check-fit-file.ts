@@ -9,6 +9,8 @@ import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { impossibleMask } from './settings.js';
 import { checkSpatial, type CheckedSpatial } from './check-spatial.js';
+import type { ErrorModel } from './error-model.js';
+import { checkErrorModel, checkErrorSweeps } from './error-model-check.js';
 
 /** Report one broken invariant at a key path; never returns. */
 export type Fail = (what: string, path: KeyPath, hint?: string) => never;
@@ -27,6 +29,7 @@ export interface CheckedFitFile {
   readonly latentSample?: LatentSample;
   readonly siteGaps?: SiteCountTable;
   readonly spatial: CheckedSpatial;
+  readonly errorModel?: ErrorModel;
 }
 
 const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
@@ -44,19 +47,24 @@ export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
   if (!Number.isSafeInteger(transitions)) fail('counts add up to more transitions than can be counted exactly', ['counts']);
   if (transitions === 0) fail('counts hold no transitions', ['counts']);
   checkPrior(f.prior, fail);
-  const impossible = checkImpossible(f.impossible, states, counts, fail);
+  // With observer error the recorded counts may break the impossible list: that is evidence of mislabelling.
+  const errors = f.error_model !== undefined && f.error_model !== null;
+  const impossible = checkImpossible(f.impossible, states, errors ? new Float64Array(k * k) : counts, fail);
   checkTimes(f, fail);
   checkLatest(f.latest, k, fail);
   const sites = checkSites(f, k, counts, fail);
   checkPeriods(f, k, counts, fail);
   checkTriples(f, k, counts, fail);
-  const gapCounts = checkGapCounts(f, states, impossible, fail);
+  const gapCounts = checkGapCounts(f, states, impossible, fail, errors);
   const pairsByGap = checkPairsByGap(f, transitions, gapCounts, fail);
-  const latentSample = checkSampler(f, states, impossible, gapCounts, fail);
+  const errorModel = checkErrorModel(f, k, impossibleMask(impossible, states, { path: 'impossible' }), fail);
+  const sample = checkSampler(f, states, impossible, gapCounts, fail, errorModel?.trueTransitions);
+  const latentSample = sample && errorModel ? { ...sample, errors: checkErrorSweeps(f, k, errorModel, fail) } : sample;
+  if (errorModel && !latentSample) fail('a fit with observer error keeps its posterior sampler', ['posterior_sampler']);
   // Pooled counts (a number of sites) have no per-site gaps: the site bootstrap refuses them anyway.
   const siteGaps = typeof sites === 'number' ? undefined : checkSiteGaps(f, k, sites, gapCounts, fail);
   const spatial = checkSpatial(f, sites, fail);
-  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps, spatial };
+  return { states, impossible, counts, sites, transitions, gapCounts, pairsByGap, latentSample, siteGaps, spatial, ...(errorModel ? { errorModel } : {}) };
 }
 
 function checkStates(raw: readonly string[], fail: Fail): string[] {
@@ -202,7 +210,7 @@ function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
  * order, and each possible in that many steps under the structural zeros (else no matrix the fit
  * may return explains it, and EM would divide by zero).
  */
-function checkGapCounts(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail): GapCell[] {
+function checkGapCounts(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail, errors = false): GapCell[] {
   const k = states.length;
   const cells = f.data.gap_counts ?? [];
   let previous = -1;
@@ -217,7 +225,7 @@ function checkGapCounts(f: FitFile, states: readonly string[], impossible: reado
   const mask = impossibleMask(impossible, states, { path: 'impossible' });
   const reach = reachableInSteps(mask, k, maxGap(cells));
   cells.forEach(([i, j, g], c) => {
-    if (!reach[g]![i * k + j]) {
+    if (!errors && !reach[g]![i * k + j]) {
       fail(`pairs ${g} steps apart from ${quote(states[i]!)} to ${quote(states[j]!)} are impossible under the impossible list`, ['data', 'gap_counts', c]);
     }
   });
@@ -240,14 +248,15 @@ function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly Ga
  * steps is g transitions). Only a fit with gaps has them.
  */
 function checkSampler(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[],
-  gapCounts: readonly GapCell[], fail: Fail): LatentSample | undefined {
+  gapCounts: readonly GapCell[], fail: Fail, trueTransitions?: number): LatentSample | undefined {
   const s = f.posterior_sampler;
   if (s === undefined || s === null) return undefined;
   const k = states.length;
-  if (gapCounts.length === 0) fail('posterior_sampler is only for fits with pairs further apart than one step', ['posterior_sampler']);
+  if (gapCounts.length === 0 && trueTransitions === undefined) fail('posterior_sampler is only for fits with pairs further apart than one step or observer error', ['posterior_sampler']);
   if (s.latent_counts.length !== s.retained) fail(`latent_counts holds ${s.latent_counts.length} sweeps, not retained = ${s.retained}`, ['posterior_sampler', 'latent_counts']);
   const mask = impossibleMask(impossible, states, { path: 'impossible' });
-  const steps = gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
+  // With observer error a sweep holds every transition of the true paths; otherwise those inside the gaps.
+  const steps = trueTransitions ?? gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
   const latent = new Float64Array(s.retained * k * k);
   s.latent_counts.forEach((sweep, r) => {
     if (sweep.length !== k * k) fail(`a sweep has ${sweep.length} cells, not ${k * k}`, ['posterior_sampler', 'latent_counts', r]);

@@ -16,11 +16,13 @@ export function estimateFit(fit: Fit, level: number): FitEstimates {
   const k = fit.states.length;
   const alpha = fitPrior(fit);
   const mle = fitMle(fit);
+  // With observer error the recorded transitions are not data on P: the sweeps hold every true one.
+  const counts = fit.errorModel ? new Float64Array(k * k) : fit.counts;
   return {
     mle,
     // With gaps and the sampler's sweeps at hand: the exact mixture; otherwise the closed form of the one-step counts.
     posterior: fit.latentSample
-      ? mixturePosteriorSummary(fit.counts, alpha, k, level, fit.latentSample.latent, fit.latentSample.retained)
+      ? mixturePosteriorSummary(counts, alpha, k, level, fit.latentSample.latent, fit.latentSample.retained)
       : posteriorSummary(fit.counts, alpha, k, level),
     stationary: stationaryMix(mle.p, k),
   };

@@ -1,3 +1,4 @@
+import { refuseErrors } from './error-fit.js';
 import { SereError, quote } from '../errors.js';
 import { compareCodePoints } from '../data/code-points.js';
 import { FIRST_SURVEY, isLastSurvey, type CountCell, type CountsTable, type SiteCell } from '../data/counts-table.js';
@@ -21,6 +22,7 @@ export const COUNTS_GROUP_COLUMN = 'site_group';
  * test's triples) or the rows themselves (a hindcast) is absent, and those features say so.
  */
 export function fitCounts(table: CountsTable, given: FitSettings): Fit {
+  refuseErrors(given, 'a counts table holds counts of pairs only');
   const settings = given.stepDefaulted ? { ...given, step: table.step } : given;
   if (settings.step !== table.step) {
     throw new SereError('BAD_OPTION', `the counts table was counted with steps of ${unitsOf(table.step)}, not ${settings.step}`,

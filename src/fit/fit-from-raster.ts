@@ -1,3 +1,4 @@
+import { refuseErrors } from './error-fit.js';
 import { SereError, quote, type Place } from '../errors.js';
 import type { RasterCounts, RasterTally } from '../data/raster/count-stack.js';
 import type { BlockTally } from '../data/raster/block-tally.js';
@@ -17,6 +18,7 @@ import { checkTransitions, type Fit } from './fit.js';
  * say they need per-site data. `settings.group` picks one zone of the zone raster (its code).
  */
 export function fitRasterCounts(counted: RasterCounts, settings: FitSettings): Fit {
+  refuseErrors(settings, 'a raster stack is fitted from pooled pixel counts');
   const place: Place = { file: counted.stack.file };
   const tally = settings.group === undefined ? pooled(counted) : zoneTally(counted, settings.group, place);
   const whole = fitTally(counted, tally, settings);

@@ -5,6 +5,7 @@ import type { FitEstimates } from './estimate.js';
 import { hasGaps, siteCount, type Fit } from './fit.js';
 import type { LatentSample } from './latent-sample.js';
 import { blocksJson } from './spatial-blocks.js';
+import { errorModelJson, errorSweepsJson } from './error-model-json.js';
 
 /**
  * The fit as JSON — both `sere fit --out` and `sere fit --json` write this. Every matrix is an
@@ -31,7 +32,7 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     counts: toRows(fit.counts, k),
     probabilities: toRows(est.mle.p, k),
     estimation: {
-      method: hasGaps(fit) ? 'em' : 'closed-form',
+      method: fit.errorModel ? 'em-observer-error' : hasGaps(fit) ? 'em' : 'closed-form',
       iterations: est.mle.iterations,
       converged: est.mle.converged,
       log_likelihood: est.mle.logLikelihood,
@@ -63,6 +64,8 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
       last_time: fit.latest.time,
     },
     posterior_sampler: fit.latentSample ? samplerJson(fit, fit.latentSample) : null,
+    // Only with observer error, so that fits without it keep their bytes.
+    ...(fit.errorModel ? { error_model: errorModelJson(fit, est.mle) } : {}),
     latest: {
       time: fit.latest.time, counts: fit.latest.counts, shares: fit.latest.shares, sites: fit.latest.sites,
       carried: fit.latest.carried ?? [], not_carried: fit.latest.notCarried ?? 0,
@@ -102,6 +105,7 @@ function samplerJson(fit: Fit, s: LatentSample): object {
     rhat: toRows(Array.from(s.rhat, finite), k),
     ess: toRows(Array.from(s.ess, finite), k),
     latent_counts: Array.from({ length: s.retained }, (_, r) => Array.from(s.latent.subarray(r * k * k, (r + 1) * k * k))),
+    ...(s.errors ? errorSweepsJson(s, s.errors, k) : {}),
   };
 }
 

@@ -14,6 +14,10 @@ import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { blockUnits, checkBlockSide, chooseBlocks, extentOf, type SpatialBlocks } from './spatial-blocks.js';
+import type { ErrorModel } from './error-model.js';
+import { errorMaximumLikelihood } from '../chain/error-em.js';
+import { posteriorMean } from '../chain/estimates.js';
+import { errorModelOf } from './error-fit.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -86,6 +90,12 @@ export interface Fit {
    * `blockSites[b]` how many pixels (sites) block b stands for.
    */
   readonly blockSites?: Float64Array;
+  /**
+   * Observer error (`--errors`, `fit: { errors: … }`): the accuracy assessment and each site's
+   * record. With it, `counts` are the recorded transitions (reported, not fitted): the chain is
+   * fitted to the true paths behind the records (chain/error-em.ts, uncertainty/augment-errors.ts).
+   */
+  readonly errorModel?: ErrorModel;
 }
 
 /** What the checks of a fit's transitions need, from a survey table, a counts table or a raster stack. */
@@ -103,6 +113,11 @@ export interface CountedTransitions {
   readonly firstLine: Float64Array;
   /** For each cell of `gapCounts`, the line of the later survey of its first pair (absent: unknown). */
   readonly gapLines?: readonly number[];
+  /**
+   * With an error model a declared-impossible transition in the records is evidence of a
+   * misclassification, not an error: those checks are left to the error model (error-fit.ts).
+   */
+  readonly errorModel?: boolean;
 }
 
 /**
@@ -122,17 +137,17 @@ export function checkTransitions(c: CountedTransitions): void {
         ? `most surveys are ${guess * c.step} apart: try --step ${guess * c.step}`
         : 'each site needs at least two surveys one step apart');
   }
-  for (let cell = 0; cell < k * k; cell++) {
+  for (let cell = 0; cell < k * k && !c.errorModel; cell++) {
     if (c.mask[cell] && c.counts[cell]! > 0) {
       const from = c.states[Math.floor(cell / k)];
       const to = c.states[cell % k];
       throw new SereError('IMPOSSIBLE_OBSERVED',
         `transition ${quote(`${from}>${to}`)} is declared impossible but observed ${c.counts[cell]} times (first ending here)`,
         { file: c.file, ...(c.firstLine[cell] ? { line: c.firstLine[cell] } : {}) },
-        `check these surveys, or drop ${quote(`${from}>${to}`)} from the impossible list`);
+        `check these surveys, drop ${quote(`${from}>${to}`)} from the impossible list, or, if observers may have mislabelled, give an error matrix (--errors)`);
     }
   }
-  checkGapPairsPossible(c);
+  if (!c.errorModel) checkGapPairsPossible(c);
   for (let i = 0; i < k; i++) {
     let allowed = 0;
     for (let j = 0; j < k; j++) allowed += c.mask[i * k + j] ? 0 : 1;
@@ -147,7 +162,8 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
   const k = table.states.length;
   const mask = impossibleMask(settings.impossible, table.states, settings.places?.impossible ?? { path: '--impossible' });
   const counted = countTransitions(table, k, settings.step);
-  checkTransitions({ file: table.file, states: table.states, step: settings.step, mask, ...counted });
+  checkTransitions({ file: table.file, states: table.states, step: settings.step, mask, ...counted, errorModel: settings.errors !== undefined });
+  const errorModel = settings.errors === undefined ? undefined : errorModelOf(table, settings, mask);
   let firstTime = Infinity;
   for (let n = 0; n < table.rows.count; n++) firstTime = Math.min(firstTime, table.rows.time[n]!);
   return {
@@ -176,6 +192,7 @@ export function fitSurvey(table: SurveyTable, settings: FitSettings): Fit {
     ...(table.seasons ? { seasons: table.seasons } : {}),
     history: surveyedMixes(table.rows, k),
     ...(table.positions ? sitePlaces(table, k, settings) : {}),
+    ...(errorModel ? { errorModel } : {}),
   };
 }
 
@@ -256,7 +273,7 @@ function checkGapPairsPossible({ gapCounts, gapLines, mask, states, file }: Coun
   throw new SereError('IMPOSSIBLE_OBSERVED',
     `${n} pair${n === 1 ? '' : 's'} of surveys ${g} steps apart go${n === 1 ? 'es' : ''} from ${quote(from)} to ${quote(to)}, ` +
     'which no path of allowed transitions does in that many steps (first ending here)',
-    { file, ...(lineOf(worst) ? { line: lineOf(worst) } : {}) }, 'check these surveys, or shorten the impossible list');
+    { file, ...(lineOf(worst) ? { line: lineOf(worst) } : {}) }, 'check these surveys, shorten the impossible list, or, if observers may have mislabelled, give an error matrix (--errors)');
 }
 
 /**
@@ -293,10 +310,29 @@ export function fitPrior(fit: Fit): Float64Array {
  */
 export function fitMle(fit: Fit): GapEstimate {
   const cache = cacheOf(fit);
-  return cache.mle ??= gapMaximumLikelihood(fit.counts, fit.gapCounts ?? [], fitPrior(fit), fit.states.length);
+  return cache.mle ??= errorMle(fit) ?? gapMaximumLikelihood(fit.counts, fit.gapCounts ?? [], fitPrior(fit), fit.states.length);
+}
+
+/**
+ * With observer error: the MLE read from the fit file, or EM over the records (chain/error-em.ts),
+ * started at the posterior mean of the recorded one-step counts on the allowed cells.
+ */
+function errorMle(fit: Fit): GapEstimate | undefined {
+  const model = fit.errorModel;
+  if (!model) return undefined;
+  if (model.mle) return model.mle;
+  if (!model.records) throw new Error('an error model without records or a stored MLE');
+  const alpha = fitPrior(fit);
+  const recorded = Float64Array.from(fit.counts, (n, c) => (alpha[c]! > 0 ? n : 0));
+  return errorMaximumLikelihood(model.records, model.assessment, alpha, fit.states.length, posteriorMean(recorded, alpha, fit.states.length));
 }
 
 /** Whether the fit has pairs further apart than one step (then EM and data augmentation, not the closed form). */
 export function hasGaps(fit: Fit): boolean {
   return (fit.gapCounts?.length ?? 0) > 0;
+}
+
+/** Whether the fit's posterior needs the data-augmentation sampler: pairs further apart than one step, or observer error. */
+export function needsSampler(fit: Fit): boolean {
+  return hasGaps(fit) || fit.errorModel !== undefined;
 }

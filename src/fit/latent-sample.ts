@@ -18,4 +18,20 @@ export interface LatentSample {
   readonly rhat: Float64Array;
   /** Bulk effective sample size per cell (NaN likewise). */
   readonly ess: Float64Array;
+  /**
+   * With observer error (uncertainty/augment-errors.ts): `latent` then holds every one-step
+   * transition of the true paths (nothing is observed exactly), and this the rest of each sweep.
+   */
+  readonly errors?: ErrorSweeps;
+}
+
+/** What each retained sweep of the error-model sampler keeps besides the true transitions. */
+export interface ErrorSweeps {
+  /** retained × k × k: the error matrix drawn, row = true state, column = recorded (for predictions as recorded). */
+  readonly emissions: Float64Array;
+  /** retained × k: sites in each true state at the latest survey time (the forecast's start). */
+  readonly latest: Float64Array;
+  /** Split-R̂ and bulk ESS of each cell of the error matrix (NaN where it never varies). */
+  readonly rhat: Float64Array;
+  readonly ess: Float64Array;
 }

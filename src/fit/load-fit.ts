@@ -43,5 +43,6 @@ export function loadFit(file: string): Fit {
     ...checked.spatial,
     // A raster fit's site_counts are its blocks: the pixels it rests on are data.sites.
     ...(checked.spatial.blockSites ? { pooledSites: f.data.sites ?? checked.spatial.blockSites.reduce((a, b) => a + b, 0) } : {}),
+    ...(checked.errorModel ? { errorModel: checked.errorModel } : {}),
   };
 }

@@ -27,6 +27,8 @@ export interface FitSettings {
   readonly sheet?: string;
   /** A label map file (recorded label → state), relative to the working folder. */
   readonly labels?: string;
+  /** An error matrix file (an accuracy assessment: recorded,verified,n), relative to the working folder. */
+  readonly errors?: string;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
   /**
@@ -36,7 +38,7 @@ export interface FitSettings {
   readonly blockSize?: number;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
   readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place;
-    readonly columns?: Place; readonly blockSize?: Place };
+    readonly columns?: Place; readonly blockSize?: Place; readonly errors?: Place };
 }
 
 /** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */
@@ -62,7 +64,7 @@ export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
 }
 
 /** The label map, or why it cannot be read — naming the key or flag that names it when the file is missing. */
-function labelMapAt(file: string, place: Place): LabelMap {
+export function labelMapAt(file: string, place: Place): LabelMap {
   try {
     return readLabelMap(file);
   } catch (err) {

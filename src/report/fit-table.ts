@@ -8,6 +8,7 @@ import { carriedWords } from './forecast-table.js';
 import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { blockNotes } from '../fit/spatial-blocks.js';
+import { errorModelLines } from './error-table.js';
 
 /**
  * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
@@ -65,9 +66,9 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
     (fit.impossible.length ? ` · impossible: ${fit.impossible.map(([a, b]) => `${a}>${b}`).join(', ')}` : ''));
 
   const impossible = new Set(fit.impossible.map(([a, b]) => states.indexOf(a) * k + states.indexOf(b)));
-  matrix('Transition counts, from → to', (c) => String(fit.counts[c]));
-  if (further.length > 0) {
-    matrix('Completed counts at the MLE (one-step + expected inside longer gaps), from → to', (c) => est.mle.expected[c]!.toFixed(1));
+  matrix(fit.errorModel ? 'Recorded transition counts (as recorded, before observer error is allowed for), from → to' : 'Transition counts, from → to', (c) => String(fit.counts[c]));
+  if (further.length > 0 || fit.errorModel) {
+    matrix(fit.errorModel ? 'Completed counts at the MLE (expected true transitions), from → to' : 'Completed counts at the MLE (one-step + expected inside longer gaps), from → to', (c) => est.mle.expected[c]!.toFixed(1));
   }
   matrix('Maximum-likelihood probabilities, from → to', (c) => impossible.has(c) ? '—' : probability(est.mle.p[c]!));
   const { posterior } = est;
@@ -75,7 +76,7 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
   if (sample) {
     const rhat = Array.from(sample.rhat).filter(Number.isFinite);
     const ess = Array.from(sample.ess).filter(Number.isFinite);
-    lines.push('', `posterior by data augmentation over the unsurveyed steps: ${count(sample.chains, 'chain')} × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
+    lines.push('', `posterior by data augmentation over ${fit.errorModel ? 'the true paths behind the records' : 'the unsurveyed steps'}: ${count(sample.chains, 'chain')} × ${sample.retained / sample.chains} sweeps kept${sample.thin > 1 ? ` (every ${sample.thin === 2 ? 'second' : `${sample.thin}th`})` : ''} ` +
       `after ${sample.warmUp} warm-up (seed ${sample.seed}) · ` +
       (rhat.length ? `largest R̂ ${Math.max(...rhat).toFixed(3)} · smallest effective sample size ${Math.round(Math.min(...ess))}` : 'no diagnostics (they need two chains or more)'));
   }
@@ -102,8 +103,10 @@ export function fitTable(fit: Fit, est: FitEstimates, style: ChalkInstance,
     lines.push('', ...priorSensitivityLines(states, priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.longRun] })),
       ['long-run share'], style));
   }
-  lines.push('', style.bold(`Latest surveyed mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
-  if (fit.latest.carried?.length) lines.push(`forecasts start from these ${count(fit.latest.sites, 'site')} ${carriedWords(fit.latest.carried)}`);
+  lines.push(...errorModelLines(fit, est, style));
+  lines.push('', style.bold(`Latest ${fit.errorModel ? 'recorded' : 'surveyed'} mix (${fit.latest.time}, ${latestCoverage(fit.latest.sites, siteCount(fit))})`));
+  if (fit.errorModel) lines.push('forecasts start from the true mix above, not from this one');
+  else if (fit.latest.carried?.length) lines.push(`forecasts start from these ${count(fit.latest.sites, 'site')} ${carriedWords(fit.latest.carried)}`);
   // Sites neither surveyed at the latest time nor carried (nor left out for an uneven gap): a counts
   // table written before it had last-survey rows (data/counts-table.ts) cannot place them.
   const accounted = fit.latest.sites + (fit.latest.carried ?? []).reduce((s, c) => s + c.sites, 0) + (fit.latest.notCarried ?? 0);

@@ -22,7 +22,9 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const varying = r.variation ? ` · year-to-year variation ${sc.variation.kind === 'given' ? 'given' : 'estimated'}` : '';
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed}${varying} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
-    ? sc.start.carried?.length
+    ? fit.errorModel
+      ? `start: ${sc.start.year}, the true mix behind the records (observer error allowed for; ${fitSites(fit)}, each draw from its own sampler sweep)`
+      : sc.start.carried?.length
       ? `start: ${sc.start.year}, the ${count(fit.latest.sites, 'site')} surveyed then ${carriedWords(sc.start.carried)}`
       : `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
     : `start: ${sc.start.year}, shares given in the scenario`);

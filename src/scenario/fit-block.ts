@@ -17,7 +17,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
     places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']),
-      columns: locate(['fit', 'columns']) },
+      columns: locate(['fit', 'columns']), errors: locate(['fit', 'errors']) },
     ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
@@ -29,6 +29,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
     ...(block.sheet !== undefined ? { sheet: block.sheet } : {}),
     // Relative to the file that names it; kept relative to the working folder, as data is.
     ...(block.labels !== undefined ? { labels: relative(process.cwd(), resolve(dir, block.labels)) } : {}),
+    ...(block.errors !== undefined ? { errors: relative(process.cwd(), resolve(dir, block.errors)) } : {}),
   };
 }
 

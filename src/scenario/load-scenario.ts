@@ -176,6 +176,12 @@ function resolveVariation(given: ScenarioFile['variation'], fit: Fit,
  * survey; otherwise the given number of plots split by the starting shares (largest remainder).
  */
 function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['start'], place: Place): Scenario['plots'] {
+  // Plot counts start from recorded states and would be compared with recorded counts: with observer
+  // error both need the error matrix (counts "as recorded"), which plot forecasts do not draw yet.
+  if (fit.errorModel) {
+    throw new SereError('BAD_SCENARIO', 'plot counts are not forecast with observer error yet', place,
+      'remove plots: the shares forecast is of the true mix');
+  }
   if (plots === 'latest') {
     if (start.from !== 'latest') {
       throw new SereError('BAD_SCENARIO', "plots: latest needs start: latest (the plots of the latest survey)", place,

@@ -34,6 +34,8 @@ export const fitSettingsSchema = z.strictObject({
   sheet: z.string().min(1).optional().describe('The worksheet of a spreadsheet (.xlsx) to read. Default: the first.'),
   labels: z.string().min(1).optional()
     .describe('A label map (YAML, relative to this file): recorded label or class code → state, or skip. Every recorded label must be mapped or be one of its states.'),
+  errors: z.string().min(1).optional()
+    .describe('Observer error: an accuracy assessment (CSV with columns recorded,verified,n; relative to this file). The chain is then fitted to the true states behind the records.'),
 });
 
 const startSchema = z.union([

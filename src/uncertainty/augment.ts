@@ -7,6 +7,7 @@ import { sampleDirichlet } from './dirichlet.js';
 import { convergence, ESS_WARNING, RHAT_WARNING } from './mcmc-diagnostics.js';
 import { multinomialSampler } from './multinomial.js';
 import type { RandomStream } from './random.js';
+import { augmentErrors } from './augment-errors.js';
 
 /** How long the data-augmentation sampler runs. */
 export interface AugmentSettings {
@@ -79,19 +80,28 @@ export function augment(fit: Fit, settings: AugmentSettings, random: RandomStrea
   return { seed: random.seed, chains: settings.chains, warmUp: settings.warmUp, thin: settings.thin, retained, latent, rhat, ess };
 }
 
+/** The sampler a fit needs: with observer error augment-errors.ts, else the bridges between exact surveys. */
+export function sampleLatent(fit: Fit, settings: AugmentSettings, random: RandomStream): LatentSample {
+  return fit.errorModel ? augmentErrors(fit, settings, random) : augment(fit, settings, random);
+}
+
 /** The warning line(s) the user should read when the sampler may not have converged. */
 export function augmentationWarnings(a: LatentSample, states: readonly string[]): string[] {
   const k = states.length;
+  // Cells 0 … k²−1 are P's; with observer error, k² … 2k²−1 are the error matrix's.
+  const rhat = a.errors ? [...a.rhat, ...a.errors.rhat] : Array.from(a.rhat);
+  const ess = a.errors ? [...a.ess, ...a.errors.ess] : Array.from(a.ess);
   let worstRhat = -1;
   let worstEss = -1;
-  for (let c = 0; c < k * k; c++) {
-    if (a.rhat[c]! > RHAT_WARNING && (worstRhat < 0 || a.rhat[c]! > a.rhat[worstRhat]!)) worstRhat = c;
-    if (a.ess[c]! < ESS_WARNING && (worstEss < 0 || a.ess[c]! < a.ess[worstEss]!)) worstEss = c;
+  for (let c = 0; c < rhat.length; c++) {
+    if (rhat[c]! > RHAT_WARNING && (worstRhat < 0 || rhat[c]! > rhat[worstRhat]!)) worstRhat = c;
+    if (ess[c]! < ESS_WARNING && (worstEss < 0 || ess[c]! < ess[worstEss]!)) worstEss = c;
   }
-  const cell = (c: number): string => `${states[Math.floor(c / k)]}→${states[c % k]}`;
+  const cell = (c: number): string => (c < k * k ? '' : 'error matrix, true→recorded ') +
+    `${states[Math.floor((c % (k * k)) / k)]}→${states[c % k]}`;
   const lines: string[] = [];
   if (a.chains < 2) lines.push('sampler: one chain only, so convergence cannot be checked (R̂ compares chains): refit with --chains 4');
-  if (worstRhat >= 0) lines.push(`sampler: R̂ ${a.rhat[worstRhat]!.toFixed(4)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with more warm-up and retained draws`);
-  if (worstEss >= 0) lines.push(`sampler: effective sample size ${Math.round(a.ess[worstEss]!)} for ${cell(worstEss)} (below ${ESS_WARNING}): refit with more retained draws`);
+  if (worstRhat >= 0) lines.push(`sampler: R̂ ${rhat[worstRhat]!.toFixed(4)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with more warm-up and retained draws`);
+  if (worstEss >= 0) lines.push(`sampler: effective sample size ${Math.round(ess[worstEss]!)} for ${cell(worstEss)} (below ${ESS_WARNING}): refit with more retained draws`);
   return lines;
 }

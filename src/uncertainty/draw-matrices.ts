@@ -2,7 +2,8 @@ import { hasGaps, type Fit } from '../fit/fit.js';
 import { bootstrapInto, bootstrapNotes } from './bootstrap.js';
 import type { MatrixDraws } from './draws.js';
 import { pointDraws } from './point.js';
-import { latentSampleOf, posteriorDraws } from './posterior.js';
+import { latentSampleOf, posteriorDraws, trueShares } from './posterior.js';
+import { SereError } from '../errors.js';
 import type { RandomStream } from './random.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
 import { estimateVariation, VARIATION_SAMPLES, type RowVariation, type VariationSpec } from './variation.js';
@@ -24,19 +25,43 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
   const data = sharedFloat64(count * k * k);
   if (source === 'point') {
     data.set(pointDraws(fit, count).data);
-    return { k, count, data, source, notes: [] };
+    return { k, count, data, source, notes: [], ...(fit.errorModel ? { starts: meanTrueStarts(fit, count, random) } : {}) };
+  }
+  if (source === 'bootstrap' && fit.errorModel) {
+    throw new SereError('BAD_OPTION', 'the site bootstrap does not model observer error', { path: 'source' },
+      'use source: posterior (the default) with an error matrix');
   }
   let emptyRows = 0;
   // With gaps, one sampler run (or the fit's stored one) serves every block.
   const latent = source === 'posterior' ? latentSampleOf(fit, random) : undefined;
+  const starts = latent?.errors ? sharedFloat64(count * k) : undefined;
   for (let b = 0; b < blockCount(count); b++) {
     const first = b * DRAW_BLOCK;
     const n = Math.min(DRAW_BLOCK, count - first);
     const stream = random.stream(blockName(b));
     if (source === 'bootstrap') emptyRows += bootstrapInto(fit, n, stream, data, first * k * k);
-    else data.set(posteriorDraws(fit, n, stream, latent).data, first * k * k);
+    else {
+      const block = posteriorDraws(fit, n, stream, latent);
+      data.set(block.data, first * k * k);
+      if (starts && block.starts) starts.set(block.starts, first * k);
+    }
   }
-  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [] };
+  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}) };
+}
+
+/** A point forecast with observer error starts every draw from the posterior mean true mix at the latest time. */
+function meanTrueStarts(fit: Fit, count: number, random: RandomStream): Float64Array {
+  const k = fit.states.length;
+  const latent = latentSampleOf(fit, random)!;
+  const mean = new Float64Array(k);
+  const shares = new Float64Array(k);
+  for (let r = 0; r < latent.retained; r++) {
+    trueShares(latent.errors!.latest, r, k, shares, 0);
+    for (let x = 0; x < k; x++) mean[x] += shares[x]! / latent.retained;
+  }
+  const starts = sharedFloat64(count * k);
+  for (let d = 0; d < count; d++) starts.set(mean, d * k);
+  return starts;
 }
 
 /**
@@ -49,6 +74,10 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
  */
 function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random: RandomStream): MatrixDraws {
   if (spec.kind === 'none') return draws;
+  // Estimated from recorded changes year by year, it would take mislabellings for yearly swings.
+  if (spec.kind === 'estimated' && fit.errorModel) {
+    return { ...draws, notes: [...draws.notes, 'year-to-year variation is not estimated with observer error (recorded yearly changes mix errors with real swings): give it per state, or set variation: none'] };
+  }
   const { k, count } = draws;
   const concentration = sharedFloat64(count * k).fill(Infinity);
   let rows: RowVariation[];

@@ -18,6 +18,12 @@ export interface MatrixDraws {
    * (Infinity: the row does not vary). Absent: no variation, today's chain.
    */
   readonly concentration?: Float64Array;
+  /**
+   * With observer error: each draw's starting mix (D × k), the true mix at the latest survey time
+   * from the same sampler sweep as its matrix (engine/carried-start.ts uses it in place of the
+   * recorded mix). Absent otherwise.
+   */
+  readonly starts?: Float64Array;
   /** How each row's variation was set (variation.ts), when there is any. */
   readonly variation?: readonly RowVariation[];
 }

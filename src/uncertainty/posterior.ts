@@ -1,7 +1,7 @@
 import type { Fit } from '../fit/fit.js';
-import { fitPrior, hasGaps } from '../fit/fit.js';
+import { fitPrior, needsSampler } from '../fit/fit.js';
 import type { LatentSample } from '../fit/latent-sample.js';
-import { augment, DEFAULT_AUGMENT } from './augment.js';
+import { DEFAULT_AUGMENT, sampleLatent } from './augment.js';
 import { sampleDirichlet } from './dirichlet.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
@@ -23,17 +23,29 @@ export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
   latent: LatentSample | undefined = latentSampleOf(fit, random)): MatrixDraws {
   const k = fit.states.length;
   const alpha = fitPrior(fit);
-  for (let c = 0; c < k * k; c++) if (alpha[c]! > 0) alpha[c] += fit.counts[c]!;
+  // With observer error nothing is observed exactly: every transition is in the sweep's true paths.
+  if (!fit.errorModel) for (let c = 0; c < k * k; c++) if (alpha[c]! > 0) alpha[c] += fit.counts[c]!;
   const data = new Float64Array(count * k * k);
   const completed = latent ? new Float64Array(k * k) : alpha;
+  const errors = latent?.errors;
+  const starts = errors ? new Float64Array(count * k) : undefined;
   for (let d = 0; d < count; d++) {
     if (latent) {
       const r = random.integer(latent.retained);
       for (let c = 0; c < k * k; c++) completed[c] = alpha[c]! > 0 ? alpha[c]! + latent.latent[r * k * k + c]! : 0;
+      // The true mix at the latest time of the same sweep: the draw's start (engine/carried-start.ts).
+      if (errors && starts) trueShares(errors.latest, r, k, starts, d * k);
     }
     for (let i = 0; i < k; i++) sampleDirichlet(random, completed, i * k, k, data, d * k * k + i * k);
   }
-  return { k, count, data, source: 'posterior', notes: [] };
+  return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}) };
+}
+
+/** Sweep r's true latest counts as shares, into `out` at `offset`. */
+export function trueShares(latest: Float64Array, r: number, k: number, out: Float64Array, offset: number): void {
+  let total = 0;
+  for (let x = 0; x < k; x++) total += latest[r * k + x]!;
+  for (let x = 0; x < k; x++) out[offset + x] = latest[r * k + x]! / total;
 }
 
 const sampled = new WeakMap<Fit, Map<string, LatentSample>>();
@@ -43,12 +55,12 @@ const sampled = new WeakMap<Fit, Map<string, LatentSample>>();
  * of the sampler on `random.stream('augment')`, made once per fit and stream. Undefined without gaps.
  */
 export function latentSampleOf(fit: Fit, random: RandomStream): LatentSample | undefined {
-  if (!hasGaps(fit)) return undefined;
+  if (!needsSampler(fit)) return undefined;
   if (fit.latentSample) return fit.latentSample;
   let bySeed = sampled.get(fit);
   if (!bySeed) sampled.set(fit, bySeed = new Map());
   const key = `${random.seed}:${random.name}`;
   let sample = bySeed.get(key);
-  if (!sample) bySeed.set(key, sample = augment(fit, DEFAULT_AUGMENT, random.stream('augment')));
+  if (!sample) bySeed.set(key, sample = sampleLatent(fit, DEFAULT_AUGMENT, random.stream('augment')));
   return sample;
 }

@@ -1,3 +1,4 @@
+import { refuseErrors } from '../fit/error-fit.js';
 import { readFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { Document } from 'yaml';
@@ -20,6 +21,7 @@ export const INIT_HORIZON_YEARS = 20;
  */
 export function initWorkspaceFrom(dir: string, survey: string, settings: FitSettings, seed: number): string[] {
   refuseUsedFolder(dir);
+  refuseErrors(settings, 'a workspace does not carry an error matrix yet', 'fit with sere fit --errors and forecast with a scenario instead');
   const table = readSurveyTables([survey], surveyReadOptions(settings));
   const fit = fitSurvey(table, settings);
   const name = basename(resolve(dir));

@@ -1,3 +1,4 @@
+import { refuseErrors } from '../fit/error-fit.js';
 import { readFileSync } from 'node:fs';
 import { surveyReadOptions } from '../fit/settings.js';
 import { join, relative } from 'node:path';
@@ -65,6 +66,7 @@ export interface SeasonRun {
  */
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
+  refuseErrors(settings, 'a workspace does not carry an error matrix yet', 'fit with sere fit --errors and forecast with a scenario instead');
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
   let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);

@@ -1,0 +1,156 @@
+import { maximumLikelihood } from './estimates.js';
+import type { GapEstimate } from './gap-em.js';
+import { EM_TOLERANCE } from './gap-em.js';
+import { patternEmissions, patternLength, type RecordPatterns } from './record-patterns.js';
+
+/** The maximum-likelihood fit of a chain seen through observer error. */
+export interface ErrorEstimate extends GapEstimate {
+  /** k × k, row = true state, column = recorded state: E[x, r] = P(recorded r | true x). */
+  readonly emission: Float64Array;
+  /** The true-state mix at sites' first surveys (π). */
+  readonly initial: Float64Array;
+}
+
+/**
+ * EM iterations with observer error are the costly part of a fit (one forward–backward per record
+ * pattern each): they stop at this many even if not converged (reported).
+ */
+export const ERROR_EM_MAX_ITERATIONS = 5000;
+
+/**
+ * Maximum likelihood of the one-step matrix P, the error matrix E and the first-survey mix π from
+ * sites' records seen through observer error and an accuracy assessment, by EM — the Baum–Welch
+ * algorithm (Baum et al. 1970; Rabiner 1989, §III.C) with the assessment's counts added to E's
+ * expected counts, since they are complete data on the same E (assessed sites: true state known,
+ * recorded state seen).
+ *
+ * Likelihood: Σ_patterns n · log P(record | π, P, E) + Σ A[x, r] · log E[x, r]; each site's path
+ * runs from its first survey to its last, one step at a time, unsurveyed steps emitting all ones.
+ * E-step: forward–backward per pattern (chain/forward-backward.ts). M-step: P from the expected
+ * transitions (maximumLikelihood: structural zeros stay zero, a row never entered takes the prior
+ * mean and is flagged), E row by row from A + expected true→recorded counts, π from the expected
+ * first true states.
+ *
+ * Start: P0 as given (the caller's posterior mean of the recorded counts), E0 the assessment's own
+ * proportions, π0 uniform. A cell of E that the assessment never saw is zero at the start and, EM
+ * keeping zeros, zero at the end: the error model's structural zeros (fit.ts decides this and
+ * checks every record is possible under them).
+ */
+export function errorMaximumLikelihood(records: RecordPatterns, assessment: Float64Array, alpha: Float64Array, k: number,
+  start: Float64Array, maxIterations = ERROR_EM_MAX_ITERATIONS): ErrorEstimate {
+  let p: Float64Array = Float64Array.from(start);
+  let e: Float64Array = rowNormalise(assessment, k, new Float64Array(k * k));
+  let pi: Float64Array = new Float64Array(k).fill(1 / k);
+  let iterations = 0;
+  let converged = false;
+  let step = eStep(records, assessment, pi, p, e, k);
+  while (iterations < maxIterations) {
+    const next = maximumLikelihood(step.transitions, alpha, k).p;
+    const nextE = rowNormalise(step.records, k, new Float64Array(k * k));
+    const nextPi = rowNormalise(step.first, 1, new Float64Array(k), k);
+    iterations += 1;
+    const change = Math.max(largestChange(next, p), largestChange(nextE, e), largestChange(nextPi, pi));
+    p = next;
+    e = nextE;
+    pi = nextPi;
+    step = eStep(records, assessment, pi, p, e, k);
+    if (change < EM_TOLERANCE) { converged = true; break; }
+  }
+  const estimate = maximumLikelihood(step.transitions, alpha, k);
+  return {
+    p, rowsFromPrior: estimate.rowsFromPrior, rowsNeverLeft: estimate.rowsNeverLeft, expected: step.transitions,
+    logLikelihood: step.logLikelihood, iterations, converged, emission: e, initial: pi,
+  };
+}
+
+/** Expected completed counts at (π, P, E): transitions, true→recorded (assessment included) and first true states. */
+function eStep(records: RecordPatterns, assessment: Float64Array, pi: Float64Array, p: Float64Array, e: Float64Array, k: number):
+  { transitions: Float64Array; records: Float64Array; first: Float64Array; logLikelihood: number } {
+  const out = { transitions: new Float64Array(k * k), records: Float64Array.from(assessment), first: new Float64Array(k), logLikelihood: 0 };
+  for (let c = 0; c < k * k; c++) if (assessment[c]! > 0) out.logLikelihood += assessment[c]! * Math.log(e[c]!);
+  let longest = 0;
+  for (let q = 0; q < records.count; q++) longest = Math.max(longest, patternLength(records, q));
+  const work = { emissions: new Float64Array(longest * k), alpha: new Float64Array(longest * k), beta: new Float64Array(longest * k), scale: new Float64Array(longest) };
+  for (let q = 0; q < records.count; q++) addPattern(records, q, pi, p, e, k, work, out);
+  return out;
+}
+
+/**
+ * One pattern's share of the E-step: the scaled forward–backward of forward-backward.ts (Rabiner
+ * 1989, eqs. 91–93 and 37), written again here into buffers made once per E-step and adding
+ * straight into the totals — forwardBackward allocates its marginals per call, which took most of
+ * an EM iteration over 3,000 short records. The brute-force test checks both against enumeration.
+ */
+function addPattern(records: RecordPatterns, q: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
+  work: { emissions: Float64Array; alpha: Float64Array; beta: Float64Array; scale: Float64Array },
+  out: { transitions: Float64Array; records: Float64Array; first: Float64Array; logLikelihood: number }): void {
+  const T = patternLength(records, q);
+  const n = records.sites[q]!;
+  const { alpha, beta, scale } = work;
+  const em = patternEmissions(records, q, e, k, work.emissions);
+  for (let t = 0; t < T; t++) {
+    let c = 0;
+    for (let s = 0; s < k; s++) {
+      let x: number;
+      if (t === 0) x = pi[s]!;
+      else {
+        x = 0;
+        for (let r = 0; r < k; r++) x += alpha[(t - 1) * k + r]! * p[r * k + s]!;
+      }
+      x *= em[t * k + s]!;
+      alpha[t * k + s] = x;
+      c += x;
+    }
+    for (let s = 0; s < k; s++) alpha[t * k + s] /= c;
+    scale[t] = c;
+    out.logLikelihood += n * Math.log(c);
+  }
+  for (let s = 0; s < k; s++) beta[(T - 1) * k + s] = 1;
+  for (let t = T - 2; t >= 0; t--) {
+    for (let r = 0; r < k; r++) {
+      let x = 0;
+      for (let s = 0; s < k; s++) x += p[r * k + s]! * em[(t + 1) * k + s]! * beta[(t + 1) * k + s]!;
+      beta[t * k + r] = x / scale[t + 1]!;
+    }
+  }
+  for (let s = 0; s < k; s++) out.first[s] += n * alpha[s]! * beta[s]!;
+  for (let v = records.start[q]!; v < records.start[q + 1]!; v++) {
+    const t = records.at[v]!;
+    const r = records.state[v]!;
+    for (let x = 0; x < k; x++) out.records[x * k + r] += n * alpha[t * k + x]! * beta[t * k + x]!;
+  }
+  for (let t = 0; t + 1 < T; t++) {
+    const inv = n / scale[t + 1]!;
+    for (let a = 0; a < k; a++) {
+      const from = alpha[t * k + a]!;
+      if (from === 0) continue;
+      for (let b = 0; b < k; b++) {
+        out.transitions[a * k + b] += from * p[a * k + b]! * em[(t + 1) * k + b]! * beta[(t + 1) * k + b]! * inv;
+      }
+    }
+  }
+}
+
+/** Each of `rows` rows of `width` divided by its sum (a row summing to 0 stays 0). */
+function rowNormalise(m: Float64Array, rows: number, out: Float64Array, width = rows): Float64Array {
+  for (let i = 0; i < rows; i++) {
+    let total = 0;
+    for (let j = 0; j < width; j++) total += m[i * width + j]!;
+    for (let j = 0; j < width; j++) out[i * width + j] = total > 0 ? m[i * width + j]! / total : 0;
+  }
+  return out;
+}
+
+function largestChange(a: Float64Array, b: Float64Array): number {
+  let change = 0;
+  for (let c = 0; c < a.length; c++) change = Math.max(change, Math.abs(a[c]! - b[c]!));
+  return change;
+}
+
+/**
+ * The log-likelihood of the records and the assessment at (π, P, E), for checks against an
+ * independent optimiser and brute force.
+ */
+export function errorLogLikelihood(records: RecordPatterns, assessment: Float64Array, pi: Float64Array, p: Float64Array, e: Float64Array, k: number): number {
+  return eStep(records, assessment, pi, p, e, k).logLikelihood;
+}

@@ -1,0 +1,123 @@
+import { parse } from 'csv-parse/sync';
+import { SereError, quote, type Place } from '../errors.js';
+import { normaliseLabel } from './labels.js';
+import type { LabelMap } from './label-map.js';
+import { readTextFile } from './read-text-file.js';
+
+/**
+ * An accuracy assessment (an error matrix, Congalton 1991; Olofsson et al. 2014): how often sites
+ * whose true state was verified (a second, careful visit, a plot re-measured, a photo checked) had
+ * been recorded as each state. Counts, row = verified (true) state, column = recorded state, k × k
+ * in the survey's state order.
+ */
+export interface ErrorMatrix {
+  readonly file: string;
+  readonly sha256: string;
+  /** k × k, row = verified (true) state, column = recorded state. */
+  readonly counts: Float64Array;
+  /** Rows left out because the label map sends one of their labels to skip. */
+  readonly droppedRows: number;
+}
+
+/** The three columns of the one format accepted: long, one row per (recorded, verified) cell. */
+export const ERROR_MATRIX_COLUMNS = ['recorded', 'verified', 'n'] as const;
+
+const WHAT = 'error matrix';
+const HINT = 'write the error matrix as a CSV with columns recorded,verified,n: one row per cell, n sites recorded as one state and verified as another';
+
+/**
+ * Read an error matrix in its one accepted form, a long CSV with columns `recorded,verified,n` (in
+ * any order, other columns refused): each row says n assessed sites were recorded as `recorded`
+ * and verified as `verified`. A long table needs no orientation — each cell names both states —
+ * which is why the square form (where rows and columns are easily swapped) is not accepted.
+ * Missing cells are 0. Labels are survey labels: trimmed, NFC, through the same label map, and
+ * must name a state of the fit.
+ *
+ * Refused, each with file, line and column: an unknown label, a count that is not a whole number
+ * ≥ 0, a (recorded, verified) cell given twice, no rows, and a state never verified (its row of
+ * the error matrix would rest on the prior alone: assess some sites of every state, or merge it).
+ */
+export function readErrorMatrix(file: string, states: readonly string[], labels?: LabelMap): ErrorMatrix {
+  const { text, sha256 } = readTextFile(file, WHAT);
+  let records: { record: string[]; info: { lines: number } }[];
+  try {
+    records = parse(text, { info: true, trim: true, skip_empty_lines: true, bom: true, relax_column_count: false }) as never;
+  } catch (err) {
+    const line = (err as { lines?: number }).lines;
+    throw new SereError('NOT_CSV', `not a valid CSV file (${(err as Error).message.split('\n')[0]!.slice(0, 120)})`, { file, ...(line ? { line } : {}) }, HINT);
+  }
+  if (records.length === 0) throw new SereError('EMPTY_FILE', 'the error matrix is empty', { file }, HINT);
+  const header = records[0]!.record.map(normaliseLabel);
+  const headerLine = records[0]!.info.lines;
+  header.forEach((name, c) => {
+    if (name === 'observer') {
+      throw new SereError('BAD_ERROR_MATRIX', 'one error matrix per observer is not supported yet', { file, line: headerLine, column: c + 1 },
+        'pool the assessment of every observer into one matrix (drop the observer column and add up the counts)');
+    }
+    if (!(ERROR_MATRIX_COLUMNS as readonly string[]).includes(name)) {
+      throw new SereError('BAD_ERROR_MATRIX', `unexpected column ${quote(name)}`, { file, line: headerLine, column: c + 1 }, HINT);
+    }
+    if (header.indexOf(name) !== c) {
+      throw new SereError('DUPLICATE_COLUMN', `column ${quote(name)} appears twice`, { file, line: headerLine, column: c + 1 }, HINT);
+    }
+  });
+  const missing = ERROR_MATRIX_COLUMNS.filter((name) => !header.includes(name));
+  if (missing.length) {
+    throw new SereError('MISSING_COLUMN', `no ${missing.map(quote).join(', ')} column${missing.length > 1 ? 's' : ''}`, { file, line: headerLine }, HINT);
+  }
+  const k = states.length;
+  const index = new Map(states.map((s, i) => [s, i] as const));
+  const col = { recorded: header.indexOf('recorded'), verified: header.indexOf('verified'), n: header.indexOf('n') };
+  const counts = new Float64Array(k * k);
+  const cellLine = new Map<number, number>();
+  let droppedRows = 0;
+  let rows = 0;
+  for (const { record, info } of records.slice(1)) {
+    const line = info.lines;
+    const place = (name: keyof typeof col): Place => ({ file, line, column: col[name] + 1 });
+    /** The state index of a label, -1 when the label map skips it. */
+    const state = (name: 'recorded' | 'verified'): number => {
+      const raw = normaliseLabel(record[col[name]]!);
+      if (raw === '') throw new SereError('EMPTY_VALUE', `${name} is empty`, place(name), HINT);
+      const target = labels?.targets.get(raw);
+      if (target === null) return -1;
+      const label = target ?? raw;
+      const i = index.get(label);
+      if (i === undefined) {
+        throw new SereError('UNKNOWN_STATE', `${name} state ${quote(label)} is not a state of the survey (${states.map(quote).join(', ')})`, place(name),
+          labels ? `map ${quote(raw)} to a state in ${labels.file}, or correct the row` : 'spell it as the survey does, or give the label map with --labels');
+      }
+      return i;
+    };
+    const nText = normaliseLabel(record[col.n]!);
+    const n = nText === '' ? Number.NaN : Number(nText);
+    if (!Number.isSafeInteger(n) || n < 0) {
+      throw new SereError('BAD_ERROR_MATRIX', `n ${quote(nText)} is not a whole number of sites (0 or more)`, place('n'), HINT);
+    }
+    const recorded = state('recorded');
+    const verified = state('verified');
+    if (recorded < 0 || verified < 0) {
+      droppedRows += 1;
+      continue;
+    }
+    const cell = verified * k + recorded;
+    const first = cellLine.get(cell);
+    if (first !== undefined) {
+      throw new SereError('DUPLICATE_KEY', `recorded ${quote(states[recorded]!)}, verified ${quote(states[verified]!)} is given twice (first on line ${first})`,
+        { file, line }, 'keep one row per cell, with the counts added up');
+    }
+    cellLine.set(cell, line);
+    counts[cell] = n;
+    rows += 1;
+  }
+  if (rows === 0) throw new SereError('EMPTY_FILE', 'the error matrix has a header but no rows', { file }, HINT);
+  for (let x = 0; x < k; x++) {
+    let total = 0;
+    for (let r = 0; r < k; r++) total += counts[x * k + r]!;
+    if (total === 0) {
+      throw new SereError('STATE_NEVER_VERIFIED', `no assessed site was verified as ${quote(states[x]!)}, so how often it is recorded wrongly is unknown`,
+        { file }, `verify some sites found in ${quote(states[x]!)} and add their rows (verified ${quote(states[x]!)})`);
+    }
+  }
+  return { file, sha256, counts, droppedRows };
+}

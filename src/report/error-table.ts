@@ -1,0 +1,41 @@
+import type { ChalkInstance } from 'chalk';
+import type { ErrorEstimate } from '../chain/error-em.js';
+import type { FitEstimates } from '../fit/estimate.js';
+import type { Fit } from '../fit/fit.js';
+import { count, levelLabel, percent, probability } from './numbers.js';
+import { makeTable } from './style.js';
+
+/** `sere fit`'s lines on observer error: the assessment, the error matrix at the MLE, and the true latest mix forecasts start from. */
+export function errorModelLines(fit: Fit, est: FitEstimates, style: ChalkInstance): string[] {
+  const model = fit.errorModel;
+  if (!model) return [];
+  const { states } = fit;
+  const k = states.length;
+  const assessed = model.assessment.reduce((a, b) => a + b, 0);
+  const mle = est.mle as ErrorEstimate;
+  const lines = ['', style.bold(`Observer error: error matrix ${model.file} (${count(assessed, 'assessed site')})`),
+    `the chain is fitted to the true states behind the records (EM, ${count(mle.iterations, 'iteration')}${mle.converged ? '' : ', not converged'}); ` +
+    'an error the assessment never saw is taken as impossible'];
+  const table = makeTable(['true → recorded', ...states], style, ['left', ...states.map(() => 'right' as const)]);
+  states.forEach((name, x) => table.push([name, ...states.map((_, r) => (model.assessment[x * k + r]! > 0 ? probability(mle.emission[x * k + r]!) : '—'))]));
+  lines.push('', style.bold('Error matrix at the MLE, P(recorded | true), true → recorded'), table.toString());
+  const sweeps = fit.latentSample?.errors;
+  if (sweeps) {
+    const retained = fit.latentSample!.retained;
+    const shares = new Float64Array(retained * k);
+    for (let r = 0; r < retained; r++) {
+      let total = 0;
+      for (let x = 0; x < k; x++) total += sweeps.latest[r * k + x]!;
+      for (let x = 0; x < k; x++) shares[r * k + x] = sweeps.latest[r * k + x]! / total;
+    }
+    const band = (x: number): string => {
+      const column = Array.from({ length: retained }, (_, r) => shares[r * k + x]!).sort((a, b) => a - b);
+      const at = (q: number): number => column[Math.min(retained - 1, Math.floor(q * retained))]!;
+      const tail = (1 - est.posterior.level) / 2;
+      return `${states[x]} ${percent(column.reduce((a, b) => a + b, 0) / retained)}% [${percent(at(tail))}–${percent(at(1 - tail))}]`;
+    };
+    lines.push('', style.bold(`True mix at ${fit.latest.time}, where forecasts start (posterior mean [${levelLabel(est.posterior.level)}])`),
+      states.map((_, x) => band(x)).join(' · '));
+  }
+  return lines;
+}

@@ -1,0 +1,95 @@
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { sereInProcess } from './in-process.js';
+import { tempFiles } from '../helpers.js';
+
+const SURVEYS = 'test/fixtures/heath/surveys-observed.csv';
+const ACCURACY = 'test/fixtures/heath/accuracy.csv';
+const { dir, write } = tempFiles('sere-cli-errors-');
+const SAMPLER = ['--seed', '4', '--chains', '2', '--warm-up', '40', '--retained', '60', '--thin', '1'];
+
+describe('--errors on sere fit and sere check, fit.errors in a scenario', () => {
+  it('sere fit --errors --json writes the error model and the sampler\'s error sweeps', async () => {
+    const r = await sereInProcess(['fit', SURVEYS, '--errors', ACCURACY, '--json', ...SAMPLER]);
+    expect(r.code).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect(json.estimation.method).toBe('em-observer-error');
+    expect(json.error_model.orientation).toBe('rows are true (verified) states, columns are recorded states');
+    expect(json.error_model.assessment.flat().reduce((a: number, b: number) => a + b, 0)).toBe(300);
+    expect(json.posterior_sampler.error_matrices).toHaveLength(60);
+    expect(json.posterior_sampler.latest_true_counts[0].reduce((a: number, b: number) => a + b, 0)).toBe(150);
+  });
+
+  it('a missing error matrix: one line naming the file and the flag, exit 1, nothing written', async () => {
+    const out = join(dir, 'never.json');
+    const r = await sereInProcess(['fit', SURVEYS, '--errors', 'no-such.csv', '--out', out, ...SAMPLER]);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('no-such.csv');
+    expect(r.stderr).toContain('--errors');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(existsSync(out)).toBe(false);
+  });
+
+  it('a bad error matrix: its code, file and line (--debug shows the code)', async () => {
+    const bad = write('bad.csv', 'recorded,verified,n\nyoung-heath,young-heath,-2\n');
+    const r = await sereInProcess(['fit', SURVEYS, '--errors', bad, '--debug', ...SAMPLER]);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_ERROR_MATRIX]');
+    expect(r.stderr).toContain(`${bad}:2:3`);
+  });
+
+  it('sere check on a fit file refuses --errors like the other fit flags', async () => {
+    const fit = join(dir, 'fit.json');
+    expect((await sereInProcess(['fit', SURVEYS, '--errors', ACCURACY, '--out', fit, ...SAMPLER])).code).toBe(0);
+    const r = await sereInProcess(['check', fit, '--errors', ACCURACY, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_OPTION]');
+  });
+
+  it('a scenario names the error matrix relative to itself, and the forecast starts from the true mix', async () => {
+    write('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+    const scenario = write('s.yaml', [
+      'name: observed heath',
+      `data: ${join(process.cwd(), SURVEYS)}`,
+      'fit: { errors: accuracy.csv, impossible: [mature-heath>bare-peat] }',
+      'horizon: { years: 5 }',
+      'variation: none',
+      'uncertainty: { source: posterior, draws: 200, seed: 3 }',
+    ].join('\n') + '\n');
+    const r = await sereInProcess(['forecast', scenario, '--json']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    // The start is each draw's true mix: the 2024 band has width, which the recorded mix alone would not give.
+    const json = JSON.parse(r.stdout);
+    expect(JSON.stringify(json)).toContain('young-heath');
+    const missing = write('m.yaml', 'name: m\ndata: ' + join(process.cwd(), SURVEYS) + '\nfit: { errors: nowhere.csv }\nhorizon: { years: 5 }\n');
+    const m = await sereInProcess(['forecast', missing, '--debug']);
+    expect(m.code).toBe(1);
+    expect(m.stderr).toContain('[FILE_NOT_FOUND]');
+    expect(m.stderr).toContain('fit.errors');
+  });
+});
+
+describe('plot counts with observer error', () => {
+  it('are refused in one line naming the key (not forecast "as recorded" yet)', async () => {
+    const { write: put } = tempFiles('sere-cli-errors-plots-');
+    put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+    const scenario = put('p.yaml', [
+      'name: plots', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }', 'horizon: { years: 5 }', 'plots: latest',
+    ].join('\n') + '\n');
+    const r = await sereInProcess(['forecast', scenario, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_SCENARIO]');
+    expect(r.stderr).toContain('(plots)');
+  });
+});
+
+describe('sere hindcast with --errors', () => {
+  it('is refused in one line naming the flag (scoring needs predictions as recorded, not built yet)', async () => {
+    const r = await sereInProcess(['hindcast', SURVEYS, '--errors', ACCURACY, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_OPTION]');
+    expect(r.stderr).toContain('--errors');
+  });
+});
