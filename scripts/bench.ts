@@ -4,7 +4,7 @@
  * 1. Engine: propagate 100,000 draws × 100 years × 10 states (random stochastic matrices), reported
  *    as draws·years·states² per second, best of 3 runs on one core.
  * 1b. Year-to-year variation (`npm run bench -- variation`): the same 100,000 × 100 × 10 run with a
- *    fresh year matrix per draw and year (row i ~ Dirichlet(50 · row i): 10⁸ gamma variates), beside
+ *    fresh year matrix per draw and year (row i ~ Dirichlet(50 · row i): 10⁹ gamma variates), beside
  *    the run without, best of 3 each, one core; and the demo forecast with variation estimated and
  *    with `--variation none` (wall, start-up included, best of 5).
  * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by

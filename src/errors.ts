@@ -59,7 +59,8 @@ export type ErrorCode =
   | 'BAD_SQL_NAME'
   | 'BAD_ERROR_MATRIX'
   | 'STATE_NEVER_VERIFIED'
-  | 'IMPOSSIBLE_RECORD';
+  | 'IMPOSSIBLE_RECORD'
+  | 'WORKER_DIED';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

@@ -6,10 +6,11 @@ import { fileURLToPath } from 'node:url';
  * the bundle (dist/cli/NAME.mjs, from the entry or from one of its chunks/), beside the module
  * when compiled (dist/src/FOLDER/NAME.js), or — when the module runs from its TypeScript source,
  * as under the test runner — the compiled copy. Each worker is an entry of its own in
- * scripts/bundle.mjs.
+ * scripts/bundle.mjs. `folder` '' is src/ itself (the watcher of watched-worker.ts).
  */
 export function workerFile(name: string, folder: string, from: string): URL {
-  const candidates = [`./${name}.mjs`, `../${name}.mjs`, `./${name}.js`, `../../dist/src/${folder}/${name}.js`];
+  const source = folder === '' ? `../dist/src/${name}.js` : `../../dist/src/${folder}/${name}.js`;
+  const candidates = [`./${name}.mjs`, `../${name}.mjs`, `./${name}.js`, source];
   for (const c of candidates) {
     const url = new URL(c, from);
     if (existsSync(fileURLToPath(url))) return url;

@@ -1,4 +1,4 @@
-import { polarNormals } from '../src/uncertainty/normal.js';
+import { zigguratNormals } from '../src/uncertainty/normal.js';
 import type { RandomStream } from '../src/uncertainty/random.js';
 
 /**
@@ -19,7 +19,7 @@ export function smoothField(width: number, height: number, sigma: number, random
   const g = weights.map((w) => w / norm);
   const W = width + 2 * reach;
   const H = height + 2 * reach;
-  const normal = polarNormals(() => random.uniform());
+  const normal = zigguratNormals(() => random.uniform());
   const noise = new Float64Array(W * H);
   for (let n = 0; n < noise.length; n++) noise[n] = normal();
   const rows = new Float64Array(W * height);

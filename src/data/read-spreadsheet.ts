@@ -1,6 +1,6 @@
-import { MessageChannel, receiveMessageOnPort, Worker } from 'node:worker_threads';
+import { MessageChannel, receiveMessageOnPort } from 'node:worker_threads';
 import { columnLetters, SereError, quote, type Place } from '../errors.js';
-import { workerFile } from '../worker-file.js';
+import { startWatched, waitWhile } from '../watched-worker.js';
 import { hashFile } from './hash-file.js';
 import type { SheetReply } from './sheet-cells.js';
 import type { RowSink } from './row-sink.js';
@@ -72,21 +72,20 @@ export function readSpreadsheet(file: string, sheet: string | undefined, sink: R
   return { sha256, sheet: reply.sheet };
 }
 
-/** The worker's reply, waited for on this thread. */
+/** The worker's reply, waited for on this thread; a worker that dies (out of memory) is WORKER_DIED, not a hang. */
 function readOnWorker(file: string, sheet: string | undefined): SheetReply {
   const signal = new Int32Array(new SharedArrayBuffer(4));
   const { port1, port2 } = new MessageChannel();
-  const worker = new Worker(workerFile('xlsx-worker', 'data', import.meta.url), {
-    workerData: { file, sheet, port: port2, signal }, transferList: [port2],
-  });
+  const worker = startWatched('xlsx-worker', 'data', import.meta.url, { file, sheet, replyPort: port2, signal }, [port2],
+    `reading the workbook ${file}`, 'save the sheet as CSV and read that instead');
   try {
-    // The worker always replies (it catches every error of its own); wait until it has.
-    while (Atomics.load(signal, 0) === 0) Atomics.wait(signal, 0, 0);
+    // The worker always replies (it catches every error of its own) unless it dies; wait until it has.
+    waitWhile(signal, 0, 0, [worker]);
     const message = receiveMessageOnPort(port1);
     if (message === undefined) throw new Error('the workbook reader replied with nothing');
     return message.message as SheetReply;
   } finally {
     port1.close();
-    void worker.terminate();
+    worker.terminate();
   }
 }

@@ -7,7 +7,7 @@ import { sheetRows, type SheetReply } from './sheet-cells.js';
  * and the survey readers are synchronous (every caller reads a table, then works on it). The reply
  * goes on the port, then the shared word is set and the waiting thread woken.
  */
-const { file, sheet, port, signal } = workerData as { file: string; sheet?: string; port: MessagePort; signal: Int32Array };
+const { file, sheet, replyPort: port, signal } = workerData as { file: string; sheet?: string; replyPort: MessagePort; signal: Int32Array };
 
 function reply(message: SheetReply): void {
   port.postMessage(message);

@@ -47,8 +47,11 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
     const draws: MatrixDraws = source === 'matrix' ? { ...pointDraws(scenario.fit, matrices.count), concentration: matrices.concentration }
       : source === 'variation' ? { ...matrices, concentration: undefined } : matrices;
-    // Only the horizon is summarised: the reruns keep no other year.
-    const off = simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes, threads: engine.threads });
+    // Only the horizon is summarised: the reruns keep no other year. Plot counts are drawn after
+    // the shares, from their own streams, so with plots off the shares are the full run's to the
+    // last bit: that rerun (a whole run, year matrices and all) is not made.
+    const off = source === 'plots' ? full
+      : simulate(scenario, draws, random, { switches, record: [scenario.horizonSteps], chunkBytes: engine.chunkBytes, threads: engine.threads });
     const stats = horizonStats(off, scenario, quantity === 'plots' && source !== 'plots');
     return {
       source,

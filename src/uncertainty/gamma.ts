@@ -4,7 +4,7 @@
  * normal x until v = (1 + c·x)³ > 0 and accept d·v when a uniform u satisfies
  * u < 1 − 0.0331·x⁴ (the squeeze, taken about 98% of the time at a = 1 and more as a grows) or
  * ln u < x²/2 + d·(1 − v + ln v). For a < 1 (§6 of the paper) the boost
- * Gamma(a) = Gamma(a + 1)·U^(1/a). Exact given exact uniforms and normals.
+ * Gamma(a) = Gamma(a + 1)·U^(1/a). Exact given exact uniforms and normals (ziggurat normals, normal.ts).
  *
  * Written for sere, in place of stdlib's version of the same method (whose normals come from a
  * ziggurat through its generic generator interface), because posterior sampling draws one variate
@@ -28,5 +28,9 @@ export function gammaVariates(uniform: () => number, normal: () => number): (sha
       if (Math.log(u) < 0.5 * x2 + d * (1 - v + Math.log(v))) return d * v;
     }
   };
-  return (shape) => (shape >= 1 ? atLeastOne(shape) : atLeastOne(shape + 1) * Math.pow(uniform(), 1 / shape));
+  // U^(1/a) as exp(ln U / a): V8's Math.pow with a fractional exponent measured 115–130 ns a call
+  // against 60–85 ns for exp(ln U / a) (node 20, loaded 2-core machine), and a year matrix of small
+  // transition chances takes the boost for most of its cells. The two differ by rounding only: an
+  // error of an ulp in y = ln U / a is a relative error of |y|·2⁻⁵³ in exp(y), with |y| < 746.
+  return (shape) => (shape >= 1 ? atLeastOne(shape) : atLeastOne(shape + 1) * Math.exp(Math.log(uniform()) / shape));
 }

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import { gammaVariates } from './gamma.js';
-import { polarNormals } from './normal.js';
+import { zigguratNormals } from './normal.js';
 import { xoshiroUniforms } from './xoshiro.js';
 
 import { LIMITS } from '../limits.js';
@@ -15,7 +15,7 @@ export const MAX_SEED = LIMITS.seed;
  *
  * Uniforms come from xoshiro256** (Blackman & Vigna 2021) with 53-bit resolution (`xoshiro.ts`);
  * gamma variates from Marsaglia & Tsang's (2000) method (`gamma.ts`, with the boost
- * Gamma(a) = Gamma(a + 1)·U^(1/a) for shape < 1) on polar-method normals (Marsaglia & Bray 1964,
+ * Gamma(a) = Gamma(a + 1)·U^(1/a) for shape < 1) on ziggurat normals (Marsaglia & Tsang 2000,
  * `normal.ts`), all driven by the stream's own uniforms.
  *
  * Why these and not MT19937 with stdlib's gamma sampler (sere ≤ 0.4), measured with
@@ -88,7 +88,7 @@ export function keyOf(stream: RandomStream): Uint32Array {
 /** Uniforms and gamma variates of the stream whose key is `key[offset … offset+8)` (see keyOf). */
 export function generatorOfKey(key: Uint32Array, offset = 0): Pick<RandomStream, 'uniform' | 'gamma'> {
   const uniform = xoshiroUniforms(key.slice(offset, offset + 8));
-  return { uniform, gamma: gammaVariates(uniform, polarNormals(uniform)) };
+  return { uniform, gamma: gammaVariates(uniform, zigguratNormals(uniform)) };
 }
 
 /** A fresh seed for a run that named none; it is printed so the run can be repeated. */
