@@ -54,7 +54,8 @@ export type ErrorCode =
   | 'NO_SITE_COUNTS'
   | 'BAD_COUNTS'
   | 'SITE_IN_TWO_SHARDS'
-  | 'BAD_SQL_NAME';
+  | 'BAD_SQL_NAME'
+  | 'BAD_ZONES';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

@@ -13,6 +13,7 @@ import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
+import type { FitZones } from './zones.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -73,6 +74,11 @@ export interface Fit {
   readonly latentSample?: LatentSample;
   /** The surveyed mix at every survey time, for charts (absent when fitted from a fit file). */
   readonly history?: readonly MixAtTime[];
+  /**
+   * The zones' own fits, when the fit was asked to keep them (`pooling: partial | none`; zones.ts).
+   * Everything else in the record is the pooled fit of every zone together.
+   */
+  readonly zones?: FitZones;
 }
 
 /** What the checks of a fit's transitions need, from a survey table, a counts table or a raster stack. */

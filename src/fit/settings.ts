@@ -4,6 +4,7 @@ import type { SurveyColumns, SurveyLayout } from '../data/survey.js';
 import { readLabelMap, type LabelMap } from '../data/label-map.js';
 import type { ReadSurveyOptions } from '../data/read-survey-csv.js';
 import type { PriorSpec } from '../chain/prior.js';
+import type { Pooling } from './zones.js';
 
 /** Everything that decides a fit besides the survey table itself. */
 export interface FitSettings {
@@ -29,8 +30,10 @@ export interface FitSettings {
   readonly labels?: string;
   /** Fit only the sites whose group column holds this value. */
   readonly group?: string;
+  /** How the zones of the group column share a chain (zones.ts); undefined: complete, one pooled fit. */
+  readonly pooling?: Pooling;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
-  readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place };
+  readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place; readonly pooling?: Place };
 }
 
 /** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */

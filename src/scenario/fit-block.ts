@@ -16,7 +16,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   if (!block) return DEFAULT_FIT_SETTINGS;
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
-    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']) },
+    places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']), pooling: locate(['fit', 'pooling']) },
     ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
@@ -24,6 +24,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
     impossible: parseImpossible(block.impossible ?? [], impossiblePlace),
     columns: { ...DEFAULT_COLUMNS, ...block.columns },
     group: block.group,
+    ...(block.pooling !== undefined ? { pooling: block.pooling } : {}),
     ...(block.layout ? { layout: block.layout } : {}),
     ...(block.sheet !== undefined ? { sheet: block.sheet } : {}),
     // Relative to the file that names it; kept relative to the working folder, as data is.
