@@ -40,7 +40,7 @@ export function fitZoned(table: SurveyTable, settings: FitSettings, pooling: 'pa
   const names = groupsWithRows(table);
   if (pooling === 'partial' && names.length < 2) {
     throw new SereError('BAD_ZONES', `pooling: partial needs at least two zones; column ${quote(column)} holds ${names.length === 0 ? 'none' : `only ${quote(names[0]!)}`}`,
-      { file: table.file, path: place.path }, 'use pooling: complete (one fit), or a column with two or more zones');
+      place, 'use pooling: complete (one fit), or a column with two or more zones');
   }
   const whole = fitSurvey(table, settings);
   const zones = names.map((name) => {

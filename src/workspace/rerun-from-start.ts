@@ -2,7 +2,7 @@ import type { Fit } from '../fit/fit.js';
 import type { SurveyedMix } from '../chain/latest-mix.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import type { Scenario } from '../scenario/scenario.js';
-import { drawMatrices } from '../uncertainty/draw-matrices.js';
+import { scenarioDraws } from '../engine/scenario-draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { summarise, type ForecastResult } from '../engine/forecast.js';
@@ -34,7 +34,7 @@ export function rerunFromStart(path: string, rel: string, fit: Fit, start: Surve
   const moved: Fit = { ...fit, latest: start };
   return loadScenarios(path, { fit: moved }).map((s): ForecastResult => {
     const scenario: Scenario = { ...s, file: rel };
-    const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'), scenario.variation);
+    const matrices = scenarioDraws(scenario, scenario.draws, random.stream('matrices'));
     return summarise(scenario, matrices, simulate(scenario, matrices, random), random, { split: false, priorChecks: false });
   });
 }
