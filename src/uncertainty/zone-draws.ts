@@ -68,12 +68,18 @@ function pointZones(fit: Fit, count: number): Float64Array {
 }
 
 function posteriorZones(fit: Fit, count: number, random: RandomStream): Float64Array {
-  const k = fit.states.length;
+  return zoneRowDraws(fit.zones!.zones.map((z) => z.fit.counts), fitMask(fit), fitPrior(fit), fit.states.length, count, random).data;
+}
+
+/**
+ * The partial-pooling posterior from the zones' one-step counts (k×k each), the structural zeros
+ * and the prior (k×k): `data[(z*count + d)*k² + i*k + j]`, and per row the κ of each draw (null for a
+ * row with one possible cell). Draw d takes sample d mod VARIATION_SAMPLES of the row's (κ, p).
+ */
+export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Array, prior: Float64Array, k: number, count: number,
+  random: RandomStream): { data: Float64Array; kappa: (Float64Array | null)[] } {
   const k2 = k * k;
-  const zoneCounts = fit.zones!.zones.map((z) => z.fit.counts);
   const Z = zoneCounts.length;
-  const mask = fitMask(fit);
-  const prior = fitPrior(fit);
   // Per row: the cells it may reach and its samples of (κ, p); null for a row with one possible cell.
   const rows = Array.from({ length: k }, (_, i) => {
     const r = zoneRowPeriods(zoneCounts, mask, k, i);
@@ -101,5 +107,6 @@ function posteriorZones(fit: Fit, count: number, random: RandomStream): Float64A
       }
     }
   }
-  return data;
+  const kappa = rows.map(({ samples }) => (samples ? Float64Array.from({ length: count }, (_, d) => samples.kappa[d % VARIATION_SAMPLES]!) : null));
+  return { data, kappa };
 }

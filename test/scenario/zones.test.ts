@@ -42,3 +42,19 @@ describe('a stratified scenario', () => {
     });
   }
 });
+
+describe('a workspace', () => {
+  it('refuses fit.pooling partial or none: its records keep one pooled chain', async () => {
+    const { mkdtempSync, writeFileSync } = await import('node:fs');
+    const { join } = await import('node:path');
+    const { tmpdir } = await import('node:os');
+    const { loadWorkspace } = await import('../../src/workspace/workspace.js');
+    const { WORKSPACE_FILE } = await import('../../src/workspace/workspace.js');
+    const root = mkdtempSync(join(tmpdir(), 'sere-ws-'));
+    writeFileSync(join(root, WORKSPACE_FILE), 'name: w\nsurveys: [s.csv]\nfit:\n  columns: { group: zone }\n  pooling: partial\nscenarios: [s.yaml]\nrecords: records\n');
+    try { loadWorkspace(root); expect.unreachable(); } catch (err) {
+      expect((err as SereError).code).toBe('BAD_ZONES');
+      expect((err as SereError).place).toMatchObject({ line: 5, path: 'fit.pooling' });
+    }
+  });
+});
