@@ -80,3 +80,14 @@ describe('sere fit --pooling', () => {
     }
   });
 });
+
+describe('commands on a zoned scenario', () => {
+  it('compare runs; effort refuses in one line', async () => {
+    const c = await sere(['compare', 'test/fixtures/scenarios/zones-good.yaml', 'test/fixtures/scenarios/zones-good.yaml']);
+    expect(c.code).toBe(0);
+    const e = await sere(['effort', 'test/fixtures/scenarios/zones-good.yaml']);
+    expect(e.code).toBe(1);
+    expect(e.stderr).toContain('fit.pooling');
+    expect(e.stderr.trim().split('\n')).toHaveLength(1);
+  });
+});
