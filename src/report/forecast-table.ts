@@ -167,10 +167,10 @@ export function carriedWords(carried: readonly CarriedSites[] | undefined): stri
 }
 
 /** The zones of a stratified forecast: pooling, and each zone's share of the area with where it came from. */
-function zonesLine(sc: ForecastResult['scenario']): string {
+export function zonesLine(sc: ForecastResult['scenario']): string {
   const zones = sc.zones!;
   const pooling = sc.fit.zones!.pooling === 'partial' ? 'partially pooled' : 'each its own fit';
   const parts = zones.names.map((name, z) => `${name} ${percent(zones.shares[z]!)}%${zones.areas ? ` (${zones.areas[z]} ${zones.unit})` : ''}`);
   const from = zones.from === 'plots' ? ' by share of plots' : '';
-  return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix; --zones shows each`;
+  return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix${sc.alternative === undefined ? '; --zones shows each' : ''}`;
 }

@@ -81,4 +81,50 @@ areas: { north: 1 km2, south: 3 km2 }
     expect(out.zones.zones.map((z: { share: number }) => z.share)).toEqual([0.25, 0.75]);
     expect(out.zones.unit).toBe('km2');
   });
+
+  it('a landscape event limited to one zone strikes only there: by hand, x ← x·P·E in that zone each year', async () => {
+    const dir = tmp();
+    expect((await sere(['fit', DEMO, ...FIT_FLAGS, '--group-column', 'zone', '--pooling', 'none', '--out', join(dir, 'z.json')])).code).toBe(0);
+    writeFileSync(join(dir, 's.yaml'), `data: z.json
+uncertainty: { source: point, draws: 1 }
+variation: none
+horizon: { years: 3 }
+areas: { north: 0.4, south: 0.6 }
+events:
+  - { name: surge, chance: 1, zones: [south], matrix: { high-marsh: { low-marsh: 1 } } }
+`);
+    const r = await sere(['forecast', join(dir, 's.yaml'), '--json']);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout).scenarios[0];
+    expect(out.events[0].zones).toEqual(['south']);
+    const fit = loadFit(join(dir, 'z.json'));
+    const k = 5;
+    const E = Array.from({ length: k }, (_, i) => Array.from({ length: k }, (_, j) => (i === 3 ? (j === 2 ? 1 : 0) : i === j ? 1 : 0)));
+    const rows = (p: Float64Array): number[][] => Array.from({ length: k }, (_, i) => Array.from(p.subarray(i * k, (i + 1) * k)));
+    const project = (z: number, t: number, hit: boolean): number[] => {
+      const zf = fit.zones!.zones[z]!.fit;
+      let v: Matrix = matrix([Array.from(zf.latest.shares)]);
+      for (let n = 0; n < t; n++) {
+        v = multiply(v, matrix(rows(fitMle(zf).p))) as Matrix;
+        if (hit) v = multiply(v, matrix(E)) as Matrix;
+      }
+      return (v.toArray() as number[][])[0]!;
+    };
+    for (const t of [1, 2, 3]) {
+      const north = project(0, t, false);
+      const south = project(1, t, true);
+      fit.states.forEach((s, i) => expect(out.shares[s].median[t]).toBeCloseTo(0.4 * north[i]! + 0.6 * south[i]!, 12));
+    }
+    // South holds no high-marsh after a surge; north keeps its own.
+    expect(project(1, 1, true)[3]).toBe(0);
+  });
+
+  it('gives the same bytes on 1 and 2 threads (zones in the plan the workers receive)', async () => {
+    const args = ['forecast', 'scenarios/brenhollow/zoned.yaml', '--draws', '2100', '--json', '--zones'];
+    const one = await sere([...args, '--threads', '1']);
+    const two = await sere([...args, '--threads', '2']);
+    expect(one.code).toBe(0);
+    expect(two.stdout).toBe(one.stdout);
+    expect(JSON.parse(one.stdout).scenarios[0].zones.zones).toHaveLength(3);
+  });
 });
