@@ -74,7 +74,7 @@ export function resolveZones(fit: Fit, areas: Readonly<Record<string, number | s
   const total = given.reduce((a, b) => a + b, 0);
   if (!(total > 0)) fail('the areas add up to 0', ['areas'], 'give at least one zone an area above 0');
   if (kind === 'shares' && Math.abs(total - 1) > AREA_SHARES_TOLERANCE) {
-    fail(`the shares add up to ${total}, not 1`, ['areas'], 'make the shares add up to 1, or give areas with a unit (410 ha)');
+    fail(`the shares add up to ${Number(total.toPrecision(12))}, not 1`, ['areas'], 'make the shares add up to 1, or give areas with a unit (410 ha)');
   }
   return { names, shares: Float64Array.from(given, (a) => a / total), from: kind!, ...(kind === 'areas' ? { unit, areas: given } : {}), starts, carried };
 }
