@@ -166,11 +166,11 @@ export function carriedWords(carried: readonly CarriedSites[] | undefined): stri
     `(${near === far ? near : `${near}–${far}`} step${far === 1 ? '' : 's'} back)`;
 }
 
-/** The zones of a stratified forecast: pooling, and each zone's share of the area with where it came from. */
-export function zonesLine(sc: ForecastResult['scenario']): string {
+/** The zones of a stratified forecast: pooling, and each zone's share of the area with where it came from; `hint`: say that --zones shows each (not where each is always shown). */
+export function zonesLine(sc: ForecastResult['scenario'], hint = true): string {
   const zones = sc.zones!;
   const pooling = sc.fit.zones!.pooling === 'partial' ? 'partially pooled' : 'each its own fit';
   const parts = zones.names.map((name, z) => `${name} ${percent(zones.shares[z]!)}%${zones.areas ? ` (${zones.areas[z]} ${zones.unit})` : ''}`);
   const from = zones.from === 'plots' ? ' by share of plots' : '';
-  return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix${sc.alternative === undefined ? '; --zones shows each' : ''}`;
+  return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix${hint && sc.alternative === undefined ? '; --zones shows each' : ''}`;
 }

@@ -58,11 +58,6 @@ export function loadWorkspace(root: string): Workspace {
     return rel.split('\\').join('/');
   };
   const fitSettings = fitSettingsOf(w.fit, locate, root);
-  if (fitSettings.pooling === 'partial' || fitSettings.pooling === 'none') {
-    // A season's record scores and reruns one pooled chain; zones are not carried through records yet.
-    throw new SereError('BAD_ZONES', `a workspace keeps one pooled fit, and fit.pooling is ${fitSettings.pooling}`, locate(['fit', 'pooling']),
-      'drop fit.pooling from the workspace file; forecast by zone with sere fit --pooling and a scenario');
-  }
   const scenarios = w.scenarios.map((s, n) => inside(s, ['scenarios', n]));
   const clash = clashingStems(scenarios);
   if (clash) {

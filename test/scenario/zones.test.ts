@@ -44,15 +44,19 @@ describe('a stratified scenario', () => {
 });
 
 describe('a workspace', () => {
-  it('refuses fit.pooling partial or none: its records keep one pooled chain', async () => {
+  it('keeps fit.pooling for its seasons, and a zoned fit of one zone is refused at that key', async () => {
     const { mkdtempSync, writeFileSync } = await import('node:fs');
     const { join } = await import('node:path');
     const { tmpdir } = await import('node:os');
-    const { loadWorkspace } = await import('../../src/workspace/workspace.js');
-    const { WORKSPACE_FILE } = await import('../../src/workspace/workspace.js');
+    const { loadWorkspace, WORKSPACE_FILE } = await import('../../src/workspace/workspace.js');
+    const { runSeason } = await import('../../src/workspace/season.js');
     const root = mkdtempSync(join(tmpdir(), 'sere-ws-'));
     writeFileSync(join(root, WORKSPACE_FILE), 'name: w\nsurveys: [s.csv]\nfit:\n  columns: { group: zone }\n  pooling: partial\nscenarios: [s.yaml]\nrecords: records\n');
-    try { loadWorkspace(root); expect.unreachable(); } catch (err) {
+    writeFileSync(join(root, 's.csv'), 'site,time,state,zone\na,1,x,only\na,2,y,only\nb,1,y,only\nb,2,y,only\n');
+    writeFileSync(join(root, 's.yaml'), 'name: s\nhorizon: { years: 2 }\n');
+    const ws = loadWorkspace(root);
+    expect(ws.fitSettings.pooling).toBe('partial');
+    try { await runSeason(ws, { date: '2025-01-01', fallbackSeed: 1 }); expect.unreachable(); } catch (err) {
       expect((err as SereError).code).toBe('BAD_ZONES');
       expect((err as SereError).place).toMatchObject({ line: 5, path: 'fit.pooling' });
     }
