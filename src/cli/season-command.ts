@@ -65,7 +65,9 @@ export function registerSeason(program: Command, io: Io): void {
         const name = freeRecordName(recordsDir, date);
         const target = join(recordsDir, name);
         writeFolderAtomic(target, await recordFiles(run));
-        io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
+        // A record outside the working folder is named by its full path, not by a climb of ../
+        const shown = relative(process.cwd(), target);
+        io.stdout(seasonTable(run, shown === '' || shown.startsWith('..') ? target : shown, ws.name, makeStyle(io.color)));
       });
     });
 }
