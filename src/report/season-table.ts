@@ -77,7 +77,11 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       ['left', 'left', 'right', 'left', ...SCORE_HEADINGS.slice(1).map(() => 'right' as const)]);
     for (const r of run.scores) {
       const [log, brier] = scoreRows(r.summary);
-      t.push([r.record, r.years.map((y) => y.year).join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
+      t.push([r.record, [...new Set(r.years.map((y) => y.year))].join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
+      for (const z of r.zones ?? []) {
+        const [zlog, zbrier] = scoreRows(z.summary);
+        t.push([`  zone ${z.zone}`, '', String(z.summary.sites), ...zlog], ['', '', '', ...zbrier]);
+      }
     }
     lines.push(t.toString());
     for (const r of run.scores) {
@@ -87,7 +91,8 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       if (unscored > 0) lines.push(style.dim(`  ${count(unscored, 'site')} surveyed since could not be scored (not surveyed by ${r.years[0]!.origin}, or in a state the record did not know)`));
       lines.push(style.dim(`  ${r.scenarios.length > 0 ? `forecast by: ${r.scenarios.join('; ')}` : 'no scenario of this record forecasts the chain alone (all have a given start, treatments or events)'}`));
     }
-    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.'));
+    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.' +
+      (run.scores.some((r) => r.zones) ? ' A record by zone: each site by its zone\'s chain, climatology the zone\'s mix.' : '')));
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';

@@ -43,7 +43,7 @@ function tallyByZone(csv: string): Map<string, { counts: number[][]; latest: num
 const json = (path: string): any => JSON.parse(readFileSync(path, 'utf8')); // eslint-disable-line @typescript-eslint/no-explicit-any
 
 describe('a zoned workspace (sere init --zoned, built binary)', () => {
-  it('keeps each zone\'s counts in every record, splits what changed, scores the landscape, and replays byte for byte', () => {
+  it('keeps each zone\'s counts in every record, splits what changed, scores each zone with its chain and the landscape, and replays byte for byte', () => {
     const dir = zonedWorkspace();
     expect(readFileSync(join(dir, 'sere-workspace.yaml'), 'utf8')).toMatch(/^ {2}pooling: partial/m);
     const run = sere(['season', dir, '--date', '2025-03-01']);
@@ -97,11 +97,25 @@ describe('a zoned workspace (sere init --zoned, built binary)', () => {
       // The median's move splits exactly into the new data's effect and the moved start's.
       expect(f.effects.data + f.effects.start).toBeCloseTo(f.now.median - f.before.median, 12);
     }
-    // The earlier record is scored on the 2024 surveys of all 90 plots, from each plot's 2023 state.
+    // The earlier record is scored on the 2024 surveys of all 90 plots, from each plot's 2023 state,
+    // each zone's plots with that zone's chain; the landscape is the zones' plots added up.
     const scores = json(join(record, 'scores.json')).records;
     expect(scores).toHaveLength(1);
-    expect(scores[0].years[0]).toMatchObject({ record: '2025-03-01', origin: 2023, year: 2024, sites: 90, unscored: 0 });
-    expect(scores[0].years[0].observed).toEqual(STATES.map((_, s) => [...all.values()].reduce((t, z) => t + z.latest[s]!, 0)));
+    const years = scores[0].years;
+    expect(years.map((y: { zone: string; year: number; origin: number; sites: number }) => [y.zone, y.origin, y.year, y.sites]))
+      .toEqual([['creekside', 2023, 2024, 30], ['landward', 2023, 2024, 30], ['midmarsh', 2023, 2024, 30]]);
+    for (const y of years) expect(y.observed).toEqual(all.get(y.zone)!.latest);
+    expect(years.reduce((t: number, y: { unscored: number }) => t + y.unscored, 0)).toBe(0);
+    expect(scores[0].summary.sites).toBe(90);
+    expect(scores[0].summary.cases).toBe(3);
+    expect(scores[0].zones.map((z: { zone: string; summary: { sites: number } }) => [z.zone, z.summary.sites]))
+      .toEqual([['creekside', 30], ['landward', 30], ['midmarsh', 30]]);
+    for (const key of ['log', 'brier']) {
+      const weighted = years.reduce((t: number, y: { sites: number; chain: Record<string, number> }) => t + y.sites * y.chain[key]!, 0) / 90;
+      expect(scores[0].summary.chain[key]).toBeCloseTo(weighted, 12);
+    }
+    // Coverage counts every zone's five state bands.
+    expect(scores[0].summary.coverage.bands).toBe(15);
 
     for (const r of [first, record]) {
       const replay = sere(['season', '--replay', r]);
