@@ -11,7 +11,8 @@
  *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
  * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random
  *    stream before (MT19937 + stdlib's gamma) and now (xoshiro256** + Marsaglia–Tsang), alternating.
- * 4. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5).
+ * 4. Demo forecast: wall time of `sere forecast` on the demo scenario, start-up included (best of 5);
+ *    `npm run bench -- zones`: the zoned demo (three zones, partial pooling, variation) likewise.
  * 5. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
  *    a partial area and a landscape event), wall time with start-up (best of 5).
  * 6. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
@@ -184,6 +185,13 @@ if (want('demo')) {
 if (want('demo') || only === 'variation') {
   const demoMs = wall(['forecast', 'scenarios/brenhollow/no-action.yaml']);
   console.log(`demo forecast with year-to-year variation estimated (the default), wall incl. start-up: ${(demoMs / 1000).toFixed(3)} s (target: under 1 s)`);
+}
+if (want('demo') || only === 'zones') {
+  // The zoned demo: three zones partially pooled, year-to-year variation, a zone-limited treatment (fitted from the survey table each run).
+  const zonedMs = wall(['forecast', 'scenarios/brenhollow/zoned.yaml']);
+  console.log(`zoned demo forecast (scenarios/brenhollow/zoned.yaml: 3 zones, partial pooling, variation estimated, 4000 draws × 30 years), wall incl. start-up: ${(zonedMs / 1000).toFixed(3)} s (target: under 1 s)`);
+  const noVariationMs = wall(['forecast', 'scenarios/brenhollow/zoned.yaml', '--variation', 'none']);
+  console.log(`zoned demo forecast with --variation none, wall incl. start-up: ${(noVariationMs / 1000).toFixed(3)} s`);
 }
 
 /**

@@ -60,7 +60,8 @@ export type ErrorCode =
   | 'BAD_ERROR_MATRIX'
   | 'STATE_NEVER_VERIFIED'
   | 'IMPOSSIBLE_RECORD'
-  | 'WORKER_DIED';
+  | 'WORKER_DIED'
+  | 'BAD_ZONES';
 
 /** Where in the user's input the problem is; every part optional, most specific first. */
 export interface Place {

@@ -66,8 +66,56 @@ export function generateSurveys(seed = SEED): string {
   return rows.join('\n') + '\n';
 }
 
+/**
+ * The zoned demo (`zoned-surveys.csv`, `zoned.yaml`): the saltings' three invented zones — creekside
+ * (scoured by the creeks: more mudflat and pioneer churn), midmarsh, and landward (rank grass
+ * spreads faster) — 30 plots each (ZB01–ZB90), surveyed 2015–2024 like the main table, each zone
+ * from its own true matrix. It tests partial pooling: the zones differ, by row, by a stated amount.
+ */
+export const ZONE_MATRICES: Readonly<Record<string, readonly (readonly number[])[]>> = {
+  creekside: [
+    [0.76, 0.20, 0.03, 0.00, 0.01],
+    [0.18, 0.52, 0.27, 0.02, 0.01],
+    [0.06, 0.06, 0.76, 0.10, 0.02],
+    [0.02, 0.01, 0.07, 0.84, 0.06],
+    [0.00, 0.00, 0.02, 0.10, 0.88],
+  ],
+  midmarsh: TRUE_MATRIX,
+  landward: [
+    [0.62, 0.30, 0.06, 0.00, 0.02],
+    [0.06, 0.55, 0.34, 0.03, 0.02],
+    [0.02, 0.03, 0.76, 0.16, 0.03],
+    [0.00, 0.00, 0.03, 0.83, 0.14],
+    [0.00, 0.00, 0.01, 0.05, 0.94],
+  ],
+};
+export const ZONED_SEED = 20150601;
+export const ZONED_SITES_PER_ZONE = 30;
+
+export function generateZonedSurveys(seed = ZONED_SEED): string {
+  const generator = mt19937.factory({ seed }) as unknown as { normalized: () => number };
+  const random: Uniforms = { uniform: generator.normalized };
+  const rows = ['site,time,state,zone'];
+  let n = 0;
+  for (const [zone, matrix] of Object.entries(ZONE_MATRICES)) {
+    for (let s = 0; s < ZONED_SITES_PER_ZONE; s++) {
+      n += 1;
+      const site = `ZB${String(n).padStart(2, '0')}`;
+      let state = pick(random, FIRST_SURVEY_MIX);
+      for (let year = FIRST_YEAR; year <= LAST_YEAR; year++) {
+        if (year > FIRST_YEAR) state = pick(random, matrix[state]!);
+        const missed = year > FIRST_YEAR && year < LAST_YEAR && random.uniform() < MISSED_SURVEY_CHANCE;
+        if (!missed) rows.push(`${site},${year},${STATES[state]},${zone}`);
+      }
+    }
+  }
+  return rows.join('\n') + '\n';
+}
+
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
-  const out = fileURLToPath(new URL('../../../scenarios/brenhollow/surveys.csv', import.meta.url));
-  writeFileSync(out, generateSurveys());
-  process.stderr.write(`wrote ${out}\n`);
+  for (const [name, text] of [['surveys.csv', generateSurveys()], ['zoned-surveys.csv', generateZonedSurveys()]] as const) {
+    const out = fileURLToPath(new URL(`../../../scenarios/brenhollow/${name}`, import.meta.url));
+    writeFileSync(out, text);
+    process.stderr.write(`wrote ${out}\n`);
+  }
 }

@@ -1,3 +1,4 @@
+import { SereError } from '../errors.js';
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
@@ -23,6 +24,11 @@ export function registerEffort(program: Command, io: Io): void {
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
       const scenario = loadScenario(file);
+      if (scenario.zones) {
+        // Simulated future surveys refit one chain; zones would need them placed by zone.
+        throw new SereError('BAD_ZONES', 'sere effort plans surveys of one pooled chain, and this scenario is stratified by zone', { file, path: 'fit.pooling' },
+          'run sere effort on a copy of the scenario without fit.pooling and areas (a pooled fit)');
+      }
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);

@@ -1,4 +1,7 @@
-import type { Command } from 'commander';
+import { Option, type Command } from 'commander';
+import { fitZoned, POOLINGS, type Pooling } from '../fit/zones.js';
+import { zonedPooling } from '../fit/fit-from-file.js';
+import { fitZonesTable } from '../report/fit-zones-table.js';
 import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
 import { existsSync } from 'node:fs';
@@ -27,6 +30,7 @@ import { sampleFit, withSamplerOptions, type SamplerFlags } from './sample-fit.j
 
 interface FitOptions extends FitFlags, SamplerFlags {
   by?: string;
+  pooling?: Pooling;
   level: number;
   out?: string;
   force?: boolean;
@@ -41,14 +45,20 @@ export function registerFit(program: Command, io: Io): void {
     .option('--out <fit.json>', 'write the fit to this file (never overwrites without --force)')
     .option('--force', 'replace an existing --out file')
     .option('--json', 'print the fit as JSON on stdout instead of tables')
-    .option('--by <column>', 'one fit per value of this column, written as OUT-<value>.json (needs --out)'))
+    .option('--by <column>', 'one fit per value of this column, written as OUT-<value>.json (needs --out)')
+    .addOption(new Option('--pooling <how>', 'zones of --group-column: partial (each zone its own matrix, shrunk toward shared rows), none (separate fits, in one file), complete (one pooled fit; the default)')
+      .choices(POOLINGS)))
     .action(async (file: string, opts: FitOptions) => {
       const raster = isRasterStackFile(file);
+      if (opts.by !== undefined && opts.pooling !== undefined) {
+        throw new SereError('BAD_OPTION', '--by writes separate files; --pooling keeps the zones in one fit file', { path: '--pooling' },
+          'use --group-column COLUMN --pooling none for separate fits in one file, or --by alone');
+      }
       if (opts.by !== undefined && !raster) {
         fitByGroup(file, opts, io);
         return;
       }
-      const settings = fitSettingsFrom(opts);
+      const settings = { ...fitSettingsFrom(opts), ...(opts.pooling ? { pooling: opts.pooling } : {}) };
       if (raster && (opts.by !== undefined || opts.groupColumn !== undefined)) {
         throw new SereError('BAD_OPTION', 'a raster stack has no columns: its groups are the zones of its zone raster', { path: opts.by !== undefined ? '--by' : '--group-column' },
           'name a zone raster in the stack file (zones: zones.tif); a scenario picks one zone with fit.group');
@@ -59,21 +69,30 @@ export function registerFit(program: Command, io: Io): void {
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
       const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }, io.progress) : undefined;
-      const fit = sampleFit(counted ? fitRasterCounts(counted, settings)
-        : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
-          : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io);
+      const pooling = zonedPooling(file, settings);
+      const fit = sampleZones(sampleFit(pooling ? fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, pooling, { path: '--pooling' })
+        : counted ? fitRasterCounts(counted, settings)
+          : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
+            : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io), opts, io);
       if (counted) io.stderr((await import('./raster-data.js')).stackSummary(counted, fit));
       const estimates = estimateFit(fit, opts.level);
       // The JSON only when it is printed or written: with 10⁶ sites it took 0.9 s (measured on 10⁷ rows).
       const json = opts.json || opts.out ? JSON.stringify(fitToJson(fit, estimates), null, 2) + '\n' : '';
       // Everything printed is made before anything is written: a failure leaves no file behind.
-      const printed = opts.json ? json : fitTable(fit, estimates, makeStyle(io.color), longRunUnderPriors(fit));
+      const style = makeStyle(io.color);
+      const printed = opts.json ? json : fitTable(fit, estimates, style, longRunUnderPriors(fit)) + (fit.zones ? fitZonesTable(fit, style) : '');
       if (opts.out) {
         writeFileAtomic(opts.out, json, Boolean(opts.force));
         io.stderr(`wrote ${opts.out}\n`);
       }
       io.stdout(printed);
     });
+}
+
+/** Each zone's own gap sampler, run as --by runs it, so `--pooling none` holds the fits --by writes. */
+function sampleZones(fit: Fit, flags: SamplerFlags, io: Io): Fit {
+  if (!fit.zones) return fit;
+  return { ...fit, zones: { ...fit.zones, zones: fit.zones.zones.map((z) => ({ name: z.name, fit: sampleFit(z.fit, flags, io) })) } };
 }
 
 /**

@@ -14,8 +14,9 @@ import { countScenarioStacks } from './scenario-stacks.js';
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
     .description('project the mix of states with credible bands, long-run mix and time to a landscape target'))
+    .option('--zones', 'with a zoned fit (pooling partial or none): also each zone\'s own forecast, in the tables and JSON')
     .option('--maps <folder>', 'with a raster stack as data: write per-pixel probability maps (GeoTIFF, one per state and shown year) and expected-area.csv')
-    .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
+    .action(async (files: string[], opts: RunOptions & { maps?: string; zones?: boolean }) => {
       // Raster stacks named as data are counted first: reading them is asynchronous.
       const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
       const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
@@ -27,7 +28,7 @@ export function registerForecast(program: Command, io: Io): void {
         seeds.set(scenario.file, seed);
         const progress = progressReporter(io.progress, scenario.name);
         try {
-          return runForecast(scenario, randomStreams(seed), progress.update, { threads: opts.threads });
+          return runForecast(scenario, randomStreams(seed), progress.update, { threads: opts.threads }, { zones: Boolean(opts.zones) });
         } finally {
           progress.stop();
         }

@@ -25,18 +25,20 @@ export function registerSeason(program: Command, io: Io): void {
   const init = withFitOptions(program.command('init')
     .description('create a workspace, ready for sere season: from your own survey table (--from), or holding the invented demo')
     .argument('<folder>', 'a new or empty folder')
-    .option('--from <survey.csv>', 'start from this survey table: fit it with the fit flags and add a do-nothing scenario'));
-  init.action((folder: string, opts: FitFlags & { from?: string }) => {
+    .option('--from <survey.csv>', 'start from this survey table: fit it with the fit flags and add a do-nothing scenario')
+    .option('--zoned', 'the demo by zone: three zones partially pooled, forecast stratified by zone with year-to-year variation'));
+  init.action((folder: string, opts: FitFlags & { from?: string; zoned?: boolean }) => {
     // The fit flags describe --from's table; on the demo they would be silently ignored.
     const given = FIT_FLAG_KEYS.filter((key) => init.getOptionValueSource(key) === 'cli');
     if (!opts.from && given.length > 0) init.error('error: the fit flags describe a survey table: give it with --from SURVEY.csv', { exitCode: 2 });
+    if (opts.from && opts.zoned) init.error('error: --zoned makes the zoned demo; with --from, name the zone column (--group-column) and --pooling partial', { exitCode: 2 });
     let files: string[];
     if (opts.from) {
       const seed = freshSeed();
       files = initWorkspaceFrom(folder, opts.from, fitSettingsFrom(opts), seed);
       io.stderr(`seed ${seed} (kept in the workspace file, so every season draws the same random numbers)\n`);
     } else {
-      files = initWorkspace(folder);
+      files = initWorkspace(folder, opts.zoned ? 'zoned' : 'pooled');
     }
     io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: cd ${folder} && sere season\n`);
   });
@@ -63,7 +65,9 @@ export function registerSeason(program: Command, io: Io): void {
         const name = freeRecordName(recordsDir, date);
         const target = join(recordsDir, name);
         writeFolderAtomic(target, await recordFiles(run));
-        io.stdout(seasonTable(run, relative(process.cwd(), target) || target, ws.name, makeStyle(io.color)));
+        // A record outside the working folder is named by its full path, not by a climb of ../
+        const shown = relative(process.cwd(), target);
+        io.stdout(seasonTable(run, shown === '' || shown.startsWith('..') ? target : shown, ws.name, makeStyle(io.color)));
       });
     });
 }

@@ -1,5 +1,5 @@
 import type { Scenario } from '../scenario/scenario.js';
-import { drawMatrices } from '../uncertainty/draw-matrices.js';
+import { scenarioDraws } from './scenario-draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { summarise, type ForecastResult } from './forecast.js';
 import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
@@ -74,7 +74,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   checkScenarios(scenarios);
   const first = scenarios[0]!;
   const draws = Math.max(...scenarios.map((s) => s.draws));
-  const matrices = drawMatrices(first.fit, first.source, draws, random.stream('matrices'), first.variation);
+  const matrices = scenarioDraws(first, draws, random.stream('matrices'));
   // A comparison reports the shown years (and the horizon, for the target); `sere forecast` gives every year.
   const record = options.everyYear
     ? Array.from({ length: first.horizonSteps + 1 }, (_, t) => t)
@@ -93,8 +93,9 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   });
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
-  const stationary = stationaryOfDraws(matrices);
-  const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
+  // (Alternatives of one file share its zones' areas too.)
+  const stationary = stationaryOfDraws(matrices, first.zones?.shares);
+  const observedRows = matrices.zones ? null : stationaryOfObservedRows(matrices, first.fit.counts);
   const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows, engine }));
   return {
     baseline: results[0]!,

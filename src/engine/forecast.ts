@@ -1,5 +1,6 @@
 import type { Scenario } from '../scenario/scenario.js';
-import { drawMatrices } from '../uncertainty/draw-matrices.js';
+import { scenarioDraws } from './scenario-draws.js';
+import { zoneForecasts, type ZoneForecast } from './zone-forecast.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { bandOf, discreteBandOf, type Band } from './quantiles.js';
@@ -94,16 +95,19 @@ export interface ForecastResult {
   readonly split: UncertaintySplit | null;
   /** Per state, its year-to-year variation (variation-summary.ts); null when no row varies. */
   readonly variation: RowVariationSummary[] | null;
+  /** A stratified forecast's zones, each alone (zone-forecast.ts), when asked for (`--zones`); else null. */
+  readonly zones: readonly ZoneForecast[] | null;
   readonly notes: readonly string[];
 }
 
 /** Run one scenario end to end: draw matrices, simulate, summarise. */
 export function runForecast(scenario: Scenario, random: RandomStream, onProgress?: (done: number, total: number) => void,
-  engine: EngineOptions = {}): ForecastResult {
+  engine: EngineOptions = {}, show: { readonly zones?: boolean } = {}): ForecastResult {
   checkScenarios([scenario]);
-  const matrices = drawMatrices(scenario.fit, scenario.source, scenario.draws, random.stream('matrices'), scenario.variation);
+  const matrices = scenarioDraws(scenario, scenario.draws, random.stream('matrices'));
   const sim = simulate(scenario, matrices, random, { onProgress, chunkBytes: engine.chunkBytes, threads: engine.threads });
-  return summarise(scenario, matrices, sim, random, { engine });
+  const result = summarise(scenario, matrices, sim, random, { engine });
+  return show.zones && scenario.zones ? { ...result, zones: zoneForecasts(scenario, matrices, random, engine) } : result;
 }
 
 /**
@@ -119,11 +123,11 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const k = fit.states.length;
   const paths = sim.tracks;
   const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
-  const stationary = options.stationary ?? stationaryOfDraws(matrices);
+  const stationary = options.stationary ?? stationaryOfDraws(matrices, scenario.zones?.shares);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   const priorChecks = options.priorChecks !== false;
   const observed = !priorChecks ? null
-    : options.observedRows !== undefined ? options.observedRows : stationaryOfObservedRows(matrices, fit.counts);
+    : options.observedRows !== undefined ? options.observedRows : matrices.zones ? null : stationaryOfObservedRows(matrices, fit.counts);
   const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);
@@ -152,6 +156,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random, options.engine),
     variation: variationSummary(matrices, level),
+    zones: null,
     notes: sim.notes,
   };
 }

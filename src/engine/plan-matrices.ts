@@ -17,11 +17,12 @@ export function planWorkspace(plan: RunPlan): PlanWorkspace {
  * Build every year recipe's matrix for one draw into `ws.matrices`: copy the drawn matrix, apply
  * the treatments in order, then fold in each site-scope event as T ← T·((1 − c)I + cE) — a site
  * makes its yearly transition and is then hit with chance c, independently of other sites.
- * `onOutcome` hears of every change that was capped or could not be met.
+ * `onOutcome` hears of every change that was capped or could not be met. With zones, recipe p
+ * starts from its zone's matrix, `zoneStride` further on per zone (MatrixDraws.zones).
  */
 export function fillPlanMatrices(plan: RunPlan, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
-  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
-  for (let p = 0; p < plan.plans.length; p++) fillRecipe(plan, p, base, baseOffset, ws, onOutcome);
+  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void, zoneStride = 0): void {
+  for (let p = 0; p < plan.plans.length; p++) fillRecipe(plan, p, base, baseOffset + plan.plans[p]!.zone * zoneStride, ws, onOutcome);
 }
 
 /** Build recipe p's matrix alone from `base` (a year's matrix, with year-to-year variation), as fillPlanMatrices does. */

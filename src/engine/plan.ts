@@ -9,10 +9,14 @@ export interface SubPopulation {
   readonly weight: number;
   /** Bit p set: this land lies inside parcel p. */
   readonly mask: number;
+  /** The zone it lies in (0 without zones): which zone's matrix draws and starting mix it takes. */
+  readonly zone: number;
 }
 
 /** One distinct recipe for a year's matrix: which changes at which strength, which site events. */
 export interface Plan {
+  /** The zone whose drawn matrix the recipe starts from. */
+  readonly zone: number;
   readonly changes: readonly { readonly treatment: number; readonly weight: number }[];
   readonly siteEvents: readonly { readonly event: number; readonly chance: number }[];
 }
@@ -32,6 +36,9 @@ export interface RunPlan {
   readonly events: readonly Disturbance[];
   /** Indices of the events that strike the whole landscape at once. */
   readonly landscapeEvents: readonly number[];
+  /** Zones: how many (1 without), and for landscape events limited to some, `eventIn[n*G + g]` = 1 when landscape event n strikes sub-population g. */
+  readonly zones: number;
+  readonly eventIn?: Uint8Array;
   /** True when every step uses the drawn matrix unchanged: the engine skips building matrices. */
   readonly trivial: boolean;
 }
@@ -43,20 +50,27 @@ export interface RunPlan {
  * change the rows (file order), sites make their yearly transition, then disturbances strike
  * (site-scope ones folded into the year's matrix, landscape ones after, in file order).
  */
-export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'treatments' | 'events'>): RunPlan {
+export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'treatments' | 'events' | 'zones'>): RunPlan {
   const k = scenario.fit.states.length;
   const horizon = scenario.horizonSteps;
   const { treatments, events } = scenario;
   const parcels: string[] = [];
   const areas: number[] = [];
+  const parcelZones: (readonly number[] | undefined)[] = [];
   for (const t of treatments) {
-    if (t.area < 1 && !parcels.includes(t.parcel)) { parcels.push(t.parcel); areas.push(t.area); }
+    if (t.area < 1 && !parcels.includes(t.parcel)) { parcels.push(t.parcel); areas.push(t.area); parcelZones.push(t.zones); }
   }
+  const within = (zones: readonly number[] | undefined, z: number): boolean => zones === undefined || zones.includes(z);
+  // Zones are strata of the area (their shares add to 1); parcels are placed within the zones they
+  // name, so a parcel's area is a share of each of those zones' land and none of the others'.
+  const zoneShares = scenario.zones?.shares ?? [1];
   const subPopulations: SubPopulation[] = [];
-  for (let mask = 0; mask < 1 << parcels.length; mask++) {
-    let weight = 1;
-    areas.forEach((a, p) => { weight *= mask & (1 << p) ? a : 1 - a; });
-    subPopulations.push({ weight, mask });
+  for (let zone = 0; zone < zoneShares.length; zone++) {
+    for (let mask = 0; mask < 1 << parcels.length; mask++) {
+      let weight = zoneShares[zone]!;
+      areas.forEach((a, p) => { weight *= !within(parcelZones[p], zone) ? (mask & (1 << p) ? 0 : 1) : mask & (1 << p) ? a : 1 - a; });
+      if (weight > 0 || !scenario.zones) subPopulations.push({ weight, mask, zone });
+    }
   }
   const G = subPopulations.length;
   const plans: Plan[] = [];
@@ -65,15 +79,15 @@ export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'tre
   for (let t = 1; t <= horizon; t++) {
     subPopulations.forEach((part, g) => {
       const changes = treatments.flatMap((tr, n) => {
-        const inside = tr.area === 1 || (part.mask & (1 << parcels.indexOf(tr.parcel))) !== 0;
+        const inside = within(tr.zones, part.zone) && (tr.area === 1 || (part.mask & (1 << parcels.indexOf(tr.parcel))) !== 0);
         return inside && tr.weights[t]! > 0 ? [{ treatment: n, weight: tr.weights[t]! }] : [];
       });
-      const siteEvents = events.flatMap((e, n) => (e.scope === 'site' && e.chances[t]! > 0 ? [{ event: n, chance: e.chances[t]! }] : []));
-      const key = JSON.stringify([changes, siteEvents]);
+      const siteEvents = events.flatMap((e, n) => (e.scope === 'site' && e.chances[t]! > 0 && within(e.zones, part.zone) ? [{ event: n, chance: e.chances[t]! }] : []));
+      const key = JSON.stringify([part.zone, changes, siteEvents]);
       let index = byKey.get(key);
       if (index === undefined) {
         index = plans.length;
-        plans.push({ changes, siteEvents });
+        plans.push({ zone: part.zone, changes, siteEvents });
         byKey.set(key, index);
       }
       planOf[t * G + g] = index;
@@ -81,5 +95,7 @@ export function buildPlan(scenario: Pick<Scenario, 'fit' | 'horizonSteps' | 'tre
   }
   const landscapeEvents = events.flatMap((e, n) => (e.scope === 'landscape' ? [n] : []));
   const trivial = G === 1 && plans.every((p) => p.changes.length === 0 && p.siteEvents.length === 0);
-  return { k, horizon, subPopulations, plans, planOf, treatments, events, landscapeEvents, trivial };
+  const limited = landscapeEvents.some((e) => events[e]!.zones !== undefined);
+  const eventIn = limited ? Uint8Array.from(landscapeEvents.flatMap((e) => subPopulations.map((part) => (within(events[e]!.zones, part.zone) ? 1 : 0)))) : undefined;
+  return { k, horizon, subPopulations, plans, planOf, treatments, events, landscapeEvents, trivial, zones: zoneShares.length, ...(eventIn ? { eventIn } : {}) };
 }

@@ -35,8 +35,11 @@ export function priorSensitivity(scenario: Scenario, random: RandomStream): Prio
   const runs = SENSITIVITY_PRIORS.map((prior) => {
     const withPrior: Fit = { ...fit, prior };
     const mean = posteriorMean(fit.counts, fitPrior(withPrior), k);
+    // A stratified forecast runs the pooled fit's mean matrix in every zone: the prior is the pooled fit's.
+    const Z = scenario.zones?.names.length ?? 1;
+    const data = Z === 1 ? mean : Float64Array.from({ length: Z * k * k }, (_, c) => mean[c % (k * k)]!);
     const sim = simulate({ ...scenario, fit: withPrior, plots: undefined },
-      { k, count: 1, data: mean, source: 'point', notes: [] }, random,
+      { k, count: 1, data, source: 'point', notes: [], ...(scenario.zones ? { zones: Z } : {}) }, random,
       { switches: { expectedEvents: true, noPlots: true }, record: [scenario.horizonSteps] });
     const stationary = stationaryMix(mean, k);
     const horizon = Array.from(sim.horizonShares); // one draw: [s*1 + 0]

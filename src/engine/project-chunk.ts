@@ -55,8 +55,9 @@ export interface ProjectionInputs {
   readonly k: number;
   readonly draws: number;
   readonly horizon: number;
+  /** The starting mix; with zones (plan.zones > 1) one per zone, zone z's at `z*k`. */
   readonly start: ArrayLike<number>;
-  /** When true, `start` holds one mix per draw (draw d at `d*k`; carried-start.ts); else one mix for all. */
+  /** When true, `start` holds one start per draw (draw d at `d*Z*k`; carried-start.ts); else one for all. */
   readonly startByDraw?: boolean;
   /** Treatments, sub-populations and events; absent: the drawn matrix every step. */
   readonly plan?: RunPlan;
@@ -99,7 +100,13 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const trivial = !plan || plan.trivial;
   const { variation } = inputs;
-  const year = variation ? new Float64Array(k2) : undefined;
+  // Zones (MatrixDraws.zones): sub-population g runs on zone zoneOf[g]'s draws, Z·D matrices in all.
+  const Z = plan ? plan.zones : 1;
+  const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
+  const zoneStride = D * k2;
+  const eventIn = plan?.eventIn;
+  const year = variation ? new Float64Array(Z * k2) : undefined;
+  const yearOf = year ? Array.from({ length: Z }, (_, zone) => year.subarray(zone * k2, (zone + 1) * k2)) : [];
   const alpha = new Float64Array(k);
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
@@ -123,7 +130,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   for (let d = d0; d < d1; d++) {
     const b = (d - d0) % OUTPUT_BLOCK;
     const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
-    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard);
+    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
     if (variation && (d === d0 || d % DRAW_BLOCK === 0)) streams = yearStreams(variation.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
     built.fill(-1);
     const M = ws ? ws.matrices : variation ? year! : P;
@@ -134,14 +141,23 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
     for (let t = from; t < to; t++) {
       if (t === 0) {
-        const so = startByDraw ? d * k : 0;
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + s]!;
-        for (let s = 0; s < k; s++) total[s] = start[so + s]!;
+        const so = startByDraw ? d * Z * k : 0;
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
+        if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
+        else {
+          total.fill(0);
+          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
+        }
       } else {
-        if (variation) sampleYearMatrix(P, d * k2, k, variation.concentration, d * k, streams[t - from]!, alpha, year!);
+        if (variation) {
+          // Each zone's year matrix around its own draw, from the same stream one zone after another.
+          for (let zone = 0; zone < Z; zone++) {
+            sampleYearMatrix(P, zone * zoneStride + d * k2, k, variation.concentration, (zone * D + d) * k, streams[t - from]!, alpha, yearOf[zone]!);
+          }
+        }
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, year!, 0, ws, heard); built[recipe] = t; }
+          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, year!, plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
           const base = ws ? recipe * k2 : variation ? 0 : d * k2;
           const xo = x + g * k;
           const x0 = xs[xo]!;
@@ -153,7 +169,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
             for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
           }
           for (let e = 0; e < events; e++) {
-            if (hits[e]![hitRow + t] === 0) continue;
+            if (hits[e]![hitRow + t] === 0 || (eventIn && eventIn[e * G + g] === 0)) continue;
             const E = landscape[e]!;
             z.fill(0);
             for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }

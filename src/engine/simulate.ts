@@ -187,7 +187,7 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
   const H = scenario.horizonSteps;
   const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
   const byDraw = carriedStarts(scenario, matrices);
-  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: byDraw ?? Array.from(scenario.start.shares), startByDraw: byDraw !== undefined,
+  const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: byDraw ?? Array.from(scenario.zones ? scenario.zones.starts : scenario.start.shares), startByDraw: byDraw !== undefined,
     plan, hits, target: scenario.target, variation };
   const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
   return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };

@@ -15,7 +15,8 @@ export interface StationaryDraws {
  * The stationary mix of every draw. A chain's classes depend only on which entries are positive,
  * and posterior draws nearly all share one pattern, so classes are worked out once per pattern.
  */
-export function stationaryOfDraws(matrices: MatrixDraws): StationaryDraws {
+export function stationaryOfDraws(matrices: MatrixDraws, zoneShares?: ArrayLike<number>): StationaryDraws {
+  if (matrices.zones) return zonedStationary(matrices, zoneShares!);
   const { k, count } = matrices;
   const mixOf = stationaryByPattern(k);
   const mixes = new Float64Array(count * k);
@@ -25,6 +26,27 @@ export function stationaryOfDraws(matrices: MatrixDraws): StationaryDraws {
     if (!mix) continue;
     mixes.set(mix, unique * k);
     unique += 1;
+  }
+  return { mixes: mixes.subarray(0, unique * k), unique, notUnique: count - unique };
+}
+
+/**
+ * Zones exchange no land, so the landscape's long-run mix is the area-weighted mixture of the
+ * zones' own: Σ_z w_z·π_z in each draw where every zone's mix is unique.
+ */
+function zonedStationary(matrices: MatrixDraws, shares: ArrayLike<number>): StationaryDraws {
+  const { k, count } = matrices;
+  const mixOf = stationaryByPattern(k);
+  const mixes = new Float64Array(count * k);
+  let unique = 0;
+  for (let d = 0; d < count; d++) {
+    let ok = true;
+    for (let z = 0; z < matrices.zones! && ok; z++) {
+      const mix = mixOf(matrices.data, (z * count + d) * k * k);
+      if (!mix) { ok = false; break; }
+      for (let s = 0; s < k; s++) mixes[unique * k + s] = (z === 0 ? 0 : mixes[unique * k + s]!) + shares[z]! * mix[s]!;
+    }
+    if (ok) unique += 1;
   }
   return { mixes: mixes.subarray(0, unique * k), unique, notUnique: count - unique };
 }

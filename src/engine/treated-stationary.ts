@@ -40,7 +40,7 @@ export function treatedStationary(scenario: Scenario, matrices: MatrixDraws): Tr
   const mixes = new Float64Array(count * k);
   let unique = 0;
   for (let d = 0; d < count; d++) {
-    fillPlanMatrices(plan, matrices.data, d * k * k, ws);
+    fillPlanMatrices(plan, matrices.data, d * k * k, ws, undefined, count * k * k);
     let ok = true;
     for (let g = 0; g < G && ok; g++) {
       const mix = mixOf(ws.matrices, recipes[g]! * k * k);

@@ -1,6 +1,7 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
+import { scenarioDraws } from './scenario-draws.js';
 import { pointDraws } from '../uncertainty/point.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
@@ -45,7 +46,7 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   const fullStats = horizonStats(full, scenario, quantity === 'plots');
   const sources = present.map((source) => {
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
-    const draws: MatrixDraws = source === 'matrix' ? { ...pointDraws(scenario.fit, matrices.count), concentration: matrices.concentration }
+    const draws: MatrixDraws = source === 'matrix' ? { ...pointOf(scenario, matrices.count, random), concentration: matrices.concentration }
       : source === 'variation' ? { ...matrices, concentration: undefined } : matrices;
     // Only the horizon is summarised: the reruns keep no other year. Plot counts are drawn after
     // the shares, from their own streams, so with plots off the shares are the full run's to the
@@ -83,4 +84,9 @@ function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { wi
     const band = bandOf(column, scenario.level);
     return { width: band.high - band.low, variance };
   });
+}
+
+/** The fitted matrix alone, every draw: the MLE, or each zone's point estimate for a stratified forecast. */
+function pointOf(scenario: Scenario, count: number, random: RandomStream): MatrixDraws {
+  return scenario.zones ? scenarioDraws({ ...scenario, source: 'point', variation: { kind: 'none' } }, count, random) : pointDraws(scenario.fit, count);
 }

@@ -4,7 +4,9 @@ import type { KeyPath } from '../data/read-structured.js';
 import { addSiteCells, compareCodePoints, pairsByGapOf, type GapCell, type PairsByGap } from '../chain/counts.js';
 import { reachableInSteps } from '../chain/reachable.js';
 import { SiteCountBuilder, SiteCountTable, type SiteCountsJson } from '../chain/site-counts.js';
-import type { FitFile } from './fit-file-schema.js';
+import type { FitBody } from './fit-file-schema.js';
+import type { Fit } from './fit.js';
+import type { FitZones } from './zones.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { impossibleMask } from './settings.js';
@@ -39,7 +41,7 @@ const PRIORS = new Map([['jeffreys', 0.5], ['uniform', 1]]);
  * script) is refused with the key path of the first broken one, never turned into a wrong forecast.
  * A file written by `sere fit --out` always passes.
  */
-export function checkFitFile(f: FitFile, fail: Fail): CheckedFitFile {
+export function checkFitFile(f: FitBody, fail: Fail): CheckedFitFile {
   const states = checkStates(f.states, fail);
   const k = states.length;
   const counts = checkCounts(f, k, fail);
@@ -82,13 +84,13 @@ function checkStates(raw: readonly string[], fail: Fail): string[] {
   return states;
 }
 
-function checkCounts(f: FitFile, k: number, fail: Fail): Float64Array {
+function checkCounts(f: FitBody, k: number, fail: Fail): Float64Array {
   if (f.counts.length !== k) fail(`counts has ${f.counts.length} rows for ${k} states`, ['counts']);
   f.counts.forEach((row, i) => { if (row.length !== k) fail(`counts row ${i} has ${row.length} entries, expected ${k}`, ['counts', i]); });
   return new Float64Array(f.counts.flat());
 }
 
-function checkPrior(prior: FitFile['prior'], fail: Fail): void {
+function checkPrior(prior: FitBody['prior'], fail: Fail): void {
   const fixed = PRIORS.get(prior.name);
   if (fixed === undefined && prior.name !== 'pseudo-count') {
     fail(`prior ${quote(prior.name)} is not jeffreys, uniform or pseudo-count`, ['prior', 'name']);
@@ -99,7 +101,7 @@ function checkPrior(prior: FitFile['prior'], fail: Fail): void {
   }
 }
 
-function checkImpossible(pairs: FitFile['impossible'], states: readonly string[], counts: Float64Array,
+function checkImpossible(pairs: FitBody['impossible'], states: readonly string[], counts: Float64Array,
   fail: Fail): [string, string][] {
   const k = states.length;
   const index = new Map(states.map((s, i) => [s, i] as const));
@@ -125,7 +127,7 @@ function checkImpossible(pairs: FitFile['impossible'], states: readonly string[]
   return out;
 }
 
-function checkTimes(f: FitFile, fail: Fail): void {
+function checkTimes(f: FitBody, fail: Fail): void {
   if (f.data.first_time > f.latest.time) {
     fail(`the first survey time ${f.data.first_time} is after the latest, ${f.latest.time}`, ['data', 'first_time']);
   }
@@ -140,7 +142,7 @@ function checkTimes(f: FitFile, fail: Fail): void {
   });
 }
 
-function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
+function checkLatest(latest: FitBody['latest'], k: number, fail: Fail): void {
   if (latest.counts.length !== k) fail(`latest.counts has ${latest.counts.length} entries for ${k} states`, ['latest', 'counts']);
   const total = latest.counts.reduce((a, b) => a + b, 0);
   // The start shares are counts / sites: any other total would make shares that do not sum to 1.
@@ -148,7 +150,7 @@ function checkLatest(latest: FitFile['latest'], k: number, fail: Fail): void {
   (latest.carried ?? []).forEach(({ state }, n) => { if (state >= k) fail(`state index out of range (${k} states)`, ['latest', 'carried', n, 'state']); });
 }
 
-function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): SiteCountTable | number {
+function checkSites(f: FitBody, k: number, counts: Float64Array, fail: Fail): SiteCountTable | number {
   if (f.site_counts === null) {
     // Pooled counts (a fit from a counts table without per-site counts): only how many sites.
     if (f.data.sites === undefined || f.data.sites < 1) fail('a fit without site_counts needs data.sites, the number of sites', ['data', 'sites']);
@@ -176,7 +178,7 @@ function checkSites(f: FitFile, k: number, counts: Float64Array, fail: Fail): Si
   return SiteCountTable.fromList(k, sites.sort((a, b) => compareCodePoints(a.site, b.site)));
 }
 
-function checkPeriods(f: FitFile, k: number, counts: Float64Array, fail: Fail): void {
+function checkPeriods(f: FitBody, k: number, counts: Float64Array, fail: Fail): void {
   if (!f.period_counts) return;
   const sum = new Float64Array(k * k);
   const times = new Set<number>();
@@ -192,7 +194,7 @@ function checkPeriods(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
   if (sum.some((x, c) => x !== counts[c])) fail('period_counts do not add up to counts', ['period_counts']);
 }
 
-function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): void {
+function checkTriples(f: FitBody, k: number, counts: Float64Array, fail: Fail): void {
   if (!f.order2_counts) return;
   const ends = new Float64Array(k * k);
   f.order2_counts.forEach(([i, j, l, n], c) => {
@@ -210,7 +212,7 @@ function checkTriples(f: FitFile, k: number, counts: Float64Array, fail: Fail): 
  * order, and each possible in that many steps under the structural zeros (else no matrix the fit
  * may return explains it, and EM would divide by zero).
  */
-function checkGapCounts(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail, errors = false): GapCell[] {
+function checkGapCounts(f: FitBody, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail, errors = false): GapCell[] {
   const k = states.length;
   const cells = f.data.gap_counts ?? [];
   let previous = -1;
@@ -232,7 +234,7 @@ function checkGapCounts(f: FitFile, states: readonly string[], impossible: reado
   return cells.map(([i, j, g, n]) => [i, j, g, n] as const);
 }
 
-function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly GapCell[], fail: Fail): PairsByGap[] {
+function checkPairsByGap(f: FitBody, transitions: number, gapCounts: readonly GapCell[], fail: Fail): PairsByGap[] {
   // transitions > 0 is checked first, so gap 1 always leads, as the file lists it.
   const pairs = pairsByGapOf(transitions, gapCounts);
   const given = f.data.pairs_by_gap;
@@ -247,7 +249,7 @@ function checkPairsByGap(f: FitFile, transitions: number, gapCounts: readonly Ga
  * structural zeros, each holding exactly g one-step transitions per pair g steps apart (a bridge of g
  * steps is g transitions). Only a fit with gaps has them.
  */
-function checkSampler(f: FitFile, states: readonly string[], impossible: readonly (readonly [string, string])[],
+function checkSampler(f: FitBody, states: readonly string[], impossible: readonly (readonly [string, string])[],
   gapCounts: readonly GapCell[], fail: Fail, trueTransitions?: number): LatentSample | undefined {
   const s = f.posterior_sampler;
   if (s === undefined || s === null) return undefined;
@@ -276,7 +278,7 @@ function checkSampler(f: FitFile, states: readonly string[], impossible: readonl
 }
 
 /** Each site's gapped pairs: known sites, in range, adding up to gap_counts; a table aligned with the sites. */
-function checkSiteGaps(f: FitFile, k: number, sites: SiteCountTable, gapCounts: readonly GapCell[], fail: Fail): SiteCountTable | undefined {
+function checkSiteGaps(f: FitBody, k: number, sites: SiteCountTable, gapCounts: readonly GapCell[], fail: Fail): SiteCountTable | undefined {
   const rows = f.site_gap_counts;
   if (rows === undefined || (rows.length === 0 && gapCounts.length > 0)) return undefined;
   const position = new Map(sites.ids.map((id, s) => [id, s] as const));
@@ -299,4 +301,38 @@ function checkSiteGaps(f: FitFile, k: number, sites: SiteCountTable, gapCounts: 
     builder.endSite(sites.ids[s]!, undefined);
   });
   return builder.table();
+}
+
+/**
+ * A zoned fit's zones against its pooled fit: the same states (in order), step, prior and
+ * structural zeros; each zone with sites; names distinct; the zones' one-step counts adding up to
+ * the pooled counts (every site in exactly one zone); two zones at least for partial pooling.
+ */
+export function checkZones(fit: Fit, zones: FitZones, fail: Fail): FitZones {
+  const at = (z: number, key: string): (string | number)[] => ['zones', 'zones', z, 'fit', key];
+  if (fit.groupColumn !== undefined && zones.column !== fit.groupColumn) {
+    fail(`zones.column ${quote(zones.column)} is not the fit's group_column ${quote(fit.groupColumn)}`, ['zones', 'column']);
+  }
+  if (zones.pooling === 'partial' && zones.zones.length < 2) fail('partial pooling needs at least two zones', ['zones', 'zones']);
+  const k = fit.states.length;
+  const sum = new Float64Array(k * k);
+  const seen = new Set<string>();
+  zones.zones.forEach((zone, z) => {
+    if (seen.has(zone.name)) fail(`zone ${quote(zone.name)} is listed twice`, ['zones', 'zones', z, 'name']);
+    seen.add(zone.name);
+    const f = zone.fit;
+    if (f.states.join('\u0000') !== fit.states.join('\u0000')) fail(`zone ${quote(zone.name)} has other states than the fit`, at(z, 'states'));
+    if (f.step !== fit.step) fail(`zone ${quote(zone.name)} has step ${f.step}, the fit ${fit.step}`, at(z, 'step'));
+    if (String(f.prior) !== String(fit.prior)) fail(`zone ${quote(zone.name)} has another prior than the fit`, at(z, 'prior'));
+    if (JSON.stringify(f.impossible) !== JSON.stringify(fit.impossible)) fail(`zone ${quote(zone.name)} has other impossible transitions than the fit`, at(z, 'impossible'));
+    if ((f.pooledSites ?? f.sites.length) === 0) fail(`zone ${quote(zone.name)} has no sites`, at(z, 'site_counts'), 'remove the zone, or refit from the survey table');
+    for (let c = 0; c < k * k; c++) sum[c] += f.counts[c]!;
+  });
+  for (let c = 0; c < k * k; c++) {
+    if (sum[c] !== fit.counts[c]) {
+      fail(`the zones' counts from ${quote(fit.states[Math.floor(c / k)]!)} to ${quote(fit.states[c % k]!)} add up to ${sum[c]}, the fit's to ${fit.counts[c]}`,
+        ['zones', 'zones'], 'every site belongs to exactly one zone: refit from the survey table');
+    }
+  }
+  return zones;
 }

@@ -10,7 +10,7 @@ const cell = z.tuple([count, count, count]);
  * The keys of a fit file that sere reads back, and their types. Estimates in the file are
  * recomputed, not trusted; the invariants between keys are checked in check-fit-file.ts.
  */
-export const fitFileSchema = z.object({
+const fitBodySchema = z.object({
   format: z.literal('sere-fit', { error: "not a sere fit file (expected format: 'sere-fit')" }),
   format_version: z.literal(1, { error: 'this fit file format version is not supported; refit with this version of sere' }),
   input: z.object({ file: z.string(), sha256: z.string() }),
@@ -79,4 +79,14 @@ export const fitFileSchema = z.object({
   })).nullable(),
 }).loose();
 
+/** A zoned fit (zones.ts) adds its zones, each with its own fit in the same keys. */
+export const fitFileSchema = fitBodySchema.extend({
+  zones: z.object({
+    column: z.string().min(1),
+    pooling: z.enum(['partial', 'none'], { error: 'zones.pooling must be partial or none' }),
+    zones: z.array(z.object({ name: z.string().min(1), fit: fitBodySchema }).loose()).min(1),
+  }).loose().nullable().optional(),
+});
+
 export type FitFile = z.infer<typeof fitFileSchema>;
+export type FitBody = z.infer<typeof fitBodySchema>;

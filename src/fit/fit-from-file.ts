@@ -13,6 +13,7 @@ import { fitRasterCounts } from './fit-from-raster.js';
 import { fitCounts } from './fit-counts.js';
 import { isCountsFile } from '../data/counts-table.js';
 import { readCountsCsv } from '../data/read-counts-csv.js';
+import { fitZoned } from './zones.js';
 
 export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true, prior: 'jeffreys', impossible: [], columns: DEFAULT_COLUMNS };
 
@@ -23,6 +24,8 @@ export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true,
  */
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS, rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
+  const zoned = zonedPooling(file, settings);
+  if (zoned) return fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, zoned, settings.places?.pooling ?? { path: '--pooling' });
   if (isRasterStackFile(file)) {
     if (settings.labels !== undefined || settings.sheet !== undefined || settings.layout !== undefined) {
       throw new SereError('BAD_OPTION', 'a raster stack names its class-code labels in the stack file, and has no sheets or layout',
@@ -38,6 +41,31 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
   if (isCountsFile(file)) return fitCounts(readCountsCsv(file, { states: settings.states, statesPlace: settings.places?.states }), settings);
   const table = readSurveyCsv(file, surveyReadOptions(settings));
   return fitSurvey(settings.group === undefined ? table : groupOf(table, settings.group, settings.columns.group), settings);
+}
+
+/**
+ * `pooling: partial | none` (zones.ts), or undefined for one pooled fit. Zones are the values of a
+ * survey table's group column: a counts table or raster stack, or one group picked by `group`, is
+ * refused in one line.
+ */
+export function zonedPooling(file: string, settings: FitSettings): 'partial' | 'none' | undefined {
+  const pooling = settings.pooling;
+  if (pooling === undefined || pooling === 'complete') return undefined;
+  const place = settings.places?.pooling ?? { path: '--pooling' };
+  if (isRasterStackFile(file) || isCountsFile(file)) {
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} reads each site's zone from a survey table's zone column`, { file, path: place.path },
+      'fit the survey table itself with its zone column (columns.group / --group-column)');
+  }
+  if (settings.group !== undefined) {
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} fits every zone, and group picks one`, place,
+      'drop group (one zone\'s own fit) or drop pooling');
+  }
+  if (settings.errors !== undefined) {
+    // Not built yet: the observer-error sampler fits one pooled chain (uncertainty/augment-errors.ts).
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} and an error matrix cannot be combined yet`, place,
+      'fit the zones with pooling: complete (one chain) when giving errors, or drop errors to pool the zones partially');
+  }
+  return pooling;
 }
 
 /** The rows of one group, keeping the whole table's states so every group's fit lines up. */

@@ -1,7 +1,8 @@
 import { toRows } from '../chain/matrix.js';
 import { pseudoCount } from '../chain/prior.js';
 import { TOOL_VERSION } from '../version.js';
-import type { FitEstimates } from './estimate.js';
+import { estimateFit, type FitEstimates } from './estimate.js';
+import { zonesToJson } from './zones-json.js';
 import { hasGaps, siteCount, type Fit } from './fit.js';
 import type { LatentSample } from './latent-sample.js';
 import { blocksJson } from './spatial-blocks.js';
@@ -80,6 +81,8 @@ export function fitToJson(fit: Fit, est: FitEstimates): object {
     ...(fit.spatial ? { spatial_blocks: spatialJson(fit) } : {}),
     period_counts: fit.periods ?? null,
     order2_counts: fit.triples ?? null,
+    // Only in a zoned fit: every other fit file keeps its bytes.
+    ...(fit.zones ? { zones: zonesToJson(fit, (zone) => fitToJson(zone, estimateFit(zone, est.posterior.level))) } : {}),
   };
 }
 

@@ -18,6 +18,7 @@ import type { ErrorModel } from './error-model.js';
 import { errorMaximumLikelihood } from '../chain/error-em.js';
 import { posteriorMean } from '../chain/estimates.js';
 import { errorModelOf } from './error-fit.js';
+import type { FitZones } from './zones.js';
 
 /**
  * A fitted chain as sere keeps it: the counts (the sufficient statistic) and what is needed to
@@ -96,6 +97,11 @@ export interface Fit {
    * fitted to the true paths behind the records (chain/error-em.ts, uncertainty/augment-errors.ts).
    */
   readonly errorModel?: ErrorModel;
+  /**
+   * The zones' own fits, when the fit was asked to keep them (`pooling: partial | none`; zones.ts).
+   * Everything else in the record is the pooled fit of every zone together.
+   */
+  readonly zones?: FitZones;
 }
 
 /** What the checks of a fit's transitions need, from a survey table, a counts table or a raster stack. */

@@ -4,14 +4,27 @@ import { readJsonStructured } from '../data/read-json.js';
 import type { Fit } from './fit.js';
 import { SiteCountTable } from '../chain/site-counts.js';
 import { fitFileSchema } from './fit-file-schema.js';
-import { checkFitFile } from './check-fit-file.js';
+import { checkFitFile, checkZones, type Fail } from './check-fit-file.js';
+import type { FitBody } from './fit-file-schema.js';
 
 /** Read a fit written by `sere fit --out`, checking every invariant the engine relies on (check-fit-file.ts). */
 export function loadFit(file: string): Fit {
   const { value: f, locate } = readJsonStructured(file, fitFileSchema, 'fit file', 'BAD_FIT_FILE');
-  const checked = checkFitFile(f, (what: string, path: KeyPath, hint = 'refit from the survey table with sere fit'): never => {
+  const fail = (what: string, path: KeyPath, hint = 'refit from the survey table with sere fit'): never => {
     throw new SereError('BAD_FIT_FILE', what, locate(path), hint);
-  });
+  };
+  const fit = fitOfFile(f, fail);
+  if (!f.zones) return fit;
+  const zones = f.zones.zones.map((zone, z) => ({
+    name: zone.name,
+    fit: fitOfFile(zone.fit, (what, path, hint) => fail(what, ['zones', 'zones', z, 'fit', ...path], hint)),
+  }));
+  return { ...fit, zones: checkZones(fit, { column: f.zones.column, pooling: f.zones.pooling, zones }, fail) };
+}
+
+/** A fit from a fit file's keys (the whole file, or one zone's `fit`), every invariant checked. */
+function fitOfFile(f: FitBody, fail: Fail): Fit {
+  const checked = checkFitFile(f, fail);
   const prior = f.prior.name === 'jeffreys' || f.prior.name === 'uniform' ? f.prior.name : f.prior.pseudo_count;
   return {
     input: f.input,

@@ -4,6 +4,7 @@ import type { SurveyColumns, SurveyLayout } from '../data/survey.js';
 import { readLabelMap, type LabelMap } from '../data/label-map.js';
 import type { ReadSurveyOptions } from '../data/read-survey-csv.js';
 import type { PriorSpec } from '../chain/prior.js';
+import type { Pooling } from './zones.js';
 
 /** Everything that decides a fit besides the survey table itself. */
 export interface FitSettings {
@@ -36,9 +37,11 @@ export interface FitSettings {
    * sites have positions; undefined: chosen from the range of autocorrelation of the latest states.
    */
   readonly blockSize?: number;
+  /** How the zones of the group column share a chain (zones.ts); undefined: complete, one pooled fit. */
+  readonly pooling?: Pooling;
   /** Where `states` and `impossible` were given (flags by default, or scenario and workspace keys), for messages. */
   readonly places?: { readonly states?: Place; readonly impossible?: Place; readonly sheet?: Place; readonly labels?: Place;
-    readonly columns?: Place; readonly blockSize?: Place; readonly errors?: Place };
+    readonly columns?: Place; readonly blockSize?: Place; readonly errors?: Place; readonly pooling?: Place };
 }
 
 /** How to read the survey table these settings fit: columns, layout, sheet, declared states, the label map (read now). */

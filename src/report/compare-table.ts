@@ -6,6 +6,7 @@ import type { ForecastResult } from '../engine/forecast.js';
 import { TREATED_STATIONARY_NOTE, treatedStationaryTitle } from './treated-stationary-lines.js';
 import { CAUTION, makeTable } from './style.js';
 import type { Scenario } from '../scenario/scenario.js';
+import { zonesLine } from './forecast-table.js';
 
 const label = (s: Scenario): string => s.alternative ?? s.name;
 
@@ -22,6 +23,7 @@ export function comparisonTable(c: Comparison, style: ChalkInstance): string {
   const lines: string[] = [];
   lines.push(style.bold(`Comparison of ${all.length} alternatives — baseline: ${sc.name}`));
   lines.push(`data: ${sc.fit.input.file} · uncertainty: ${sc.source} · ${base.draws} draws · seed ${base.seed} · bands ${band}`);
+  if (sc.zones) lines.push(zonesLine(sc));
   lines.push('Every alternative runs on the same matrix draws and event years (common random numbers).');
   for (const r of all) for (const note of r.notes) lines.push(style.yellow(`note (${r.scenario.name}): ${note}`));
 

@@ -40,8 +40,10 @@ export function scenarioJson(r: ForecastResult): object {
     years: r.years,
     shares: byState((s) => r.shares[s]),
     plots: r.plots && sc.plots ? { total: sc.plots.total, start: byState((s) => sc.plots!.start[s]!), ...byState((s) => r.plots![s]) } : null,
-    treatments: sc.treatments.map((t) => ({ name: t.name, state: fit.states[t.row], area: t.area })),
-    events: sc.events.map((e) => ({ name: e.name, scope: e.scope })),
+    treatments: sc.treatments.map((t) => ({ name: t.name, state: fit.states[t.row], area: t.area, ...(t.zones ? { zones: t.zones.map((z) => sc.zones!.names[z]) } : {}) })),
+    events: sc.events.map((e) => ({ name: e.name, scope: e.scope, ...(e.zones ? { zones: e.zones.map((z) => sc.zones!.names[z]) } : {}) })),
+    // Only in a stratified forecast, so that other outputs keep their bytes.
+    ...(sc.zones ? { zones: zonesJson(r) } : {}),
     stationary: r.stationary.bands
       ? byState((s) => { const b = r.stationary.bands![s]!; return { median: b.median, low: b.low, high: b.high }; })
       : null,
@@ -120,5 +122,26 @@ export function scenarioJson(r: ForecastResult): object {
       }),
     } : {}),
     notes: r.notes,
+  };
+}
+
+/** A stratified forecast's zones: pooling, each zone's share of the area (and area), start and — with --zones — its own bands. */
+function zonesJson(r: ForecastResult): object {
+  const sc = r.scenario;
+  const zones = sc.zones!;
+  const { states } = sc.fit;
+  const k = states.length;
+  return {
+    pooling: sc.fit.zones!.pooling,
+    column: sc.fit.zones!.column,
+    shares_from: zones.from,
+    unit: zones.unit ?? null,
+    zones: zones.names.map((name, z) => ({
+      name,
+      share: zones.shares[z],
+      area: zones.areas ? zones.areas[z] : null,
+      start: Object.fromEntries(states.map((s, i) => [s, zones.starts[z * k + i]])),
+      shares: r.zones ? Object.fromEntries(states.map((s, i) => [s, r.zones![z]!.shares[i]])) : null,
+    })),
   };
 }

@@ -28,8 +28,12 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
       ? `start: ${sc.start.year}, the ${count(fit.latest.sites, 'site')} surveyed then ${carriedWords(sc.start.carried)}`
       : `start: ${sc.start.year}, the latest surveyed mix (${latestCoverage(fit.latest.sites, siteCount(fit))})`
     : `start: ${sc.start.year}, shares given in the scenario`);
-  for (const t of sc.treatments) lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the area` : ''})`);
-  for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope)`);
+  if (sc.zones) lines.push(zonesLine(sc));
+  const inZones = (zones: readonly number[] | undefined): string => (zones ? ` in ${zones.map((z) => sc.zones!.names[z]).join(', ')}` : '');
+  for (const t of sc.treatments) {
+    lines.push(`treatment: ${t.name} (${states[t.row]}${t.area < 1 ? `, ${percent(t.area)}% of the ${t.zones ? 'zone area' : 'area'}` : ''}${inZones(t.zones)})`);
+  }
+  for (const e of sc.events) lines.push(`event: ${e.name} (${e.scope} scope${inZones(e.zones)})`);
   for (const note of r.notes) lines.push(style.yellow(`note: ${note}`));
 
   lines.push('', style.bold(`Share of the area by year, % — median [${band}]`));
@@ -41,6 +45,15 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
     shares.push([name, ...shown.map((t) => percentBand({ median: b.median[t]!, low: b.low[t]!, high: b.high[t]! }))]);
   });
   lines.push(shares.toString());
+  for (const zone of r.zones ?? []) {
+    lines.push('', style.bold(`Zone ${zone.name} (${percent(zone.share)}% of the area): share of the zone by year, % — median [${band}]`));
+    const t = makeTable(['state', ...shown.map((n) => String(r.years[n]))], style, ['left', ...shown.map(() => 'right' as const)]);
+    states.forEach((name, s) => {
+      const b = zone.shares[s]!;
+      t.push([name, ...shown.map((n) => percentBand({ median: b.median[n]!, low: b.low[n]!, high: b.high[n]! }))]);
+    });
+    lines.push(t.toString());
+  }
 
   if (r.plots && sc.plots) {
     lines.push('', style.bold(`Plots in each state, of ${sc.plots.total} — median [${band}], a prediction band`));
@@ -153,4 +166,13 @@ export function carriedWords(carried: readonly CarriedSites[] | undefined): stri
   const far = Math.max(...carried.map((c) => c.steps));
   return `plus ${count(sites, 'site')} carried forward from their last survey through each draw ` +
     `(${near === far ? near : `${near}–${far}`} step${far === 1 ? '' : 's'} back)`;
+}
+
+/** The zones of a stratified forecast: pooling, and each zone's share of the area with where it came from; `hint`: say that --zones shows each (not where each is always shown). */
+export function zonesLine(sc: ForecastResult['scenario'], hint = true): string {
+  const zones = sc.zones!;
+  const pooling = sc.fit.zones!.pooling === 'partial' ? 'partially pooled' : 'each its own fit';
+  const parts = zones.names.map((name, z) => `${name} ${percent(zones.shares[z]!)}%${zones.areas ? ` (${zones.areas[z]} ${zones.unit})` : ''}`);
+  const from = zones.from === 'plots' ? ' by share of plots' : '';
+  return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix${hint && sc.alternative === undefined ? '; --zones shows each' : ''}`;
 }

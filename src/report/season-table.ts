@@ -4,6 +4,7 @@ import type { SeasonRun } from '../workspace/season.js';
 import { count, levelLabel, percentBand, signed } from './numbers.js';
 import { CAUTION, makeTable } from './style.js';
 import { dataWarnings } from './fit-table.js';
+import { zonesLine } from './forecast-table.js';
 import { coverageWords, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
 
 /** What `sere season` prints: where the record went, the horizon shares, and what changed. */
@@ -15,7 +16,9 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
     `latest survey ${fit.latest.time} · sha256 ${fit.input.sha256.slice(0, 12)}…`);
   lines.push(...dataWarnings(fit, style));
   for (const { file, results } of run.forecasts) {
-    lines.push(`scenario ${file}: seed ${run.seeds[file]}${results.length > 1 ? ` · ${results.length} alternatives, compared` : ''}`);
+    const varying = results.some((r) => r.variation) ? ' · year-to-year variation' : '';
+    lines.push(`scenario ${file}: seed ${run.seeds[file]}${results.length > 1 ? ` · ${results.length} alternatives, compared` : ''}${varying}`);
+    if (results[0]?.scenario.zones) lines.push(`  ${zonesLine(results[0].scenario, false)}`);
   }
 
   const all = run.forecasts.flatMap((f) => f.results);
@@ -28,6 +31,19 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       percentBand({ median: r.shares[s]!.median[last]!, low: r.shares[s]!.low[last]!, high: r.shares[s]!.high[last]! }))]);
   }
   lines.push(t.toString());
+  const zoned = all.filter((r) => r.zones);
+  if (zoned.length > 0) {
+    lines.push('', style.bold(`Each zone at the horizon, % of the zone — median [${levelLabel(level)}]`));
+    const z = makeTable(['scenario', 'zone', 'year', ...fit.states], style, ['left', 'left', 'right', ...fit.states.map(() => 'right' as const)]);
+    for (const r of zoned) {
+      const last = r.years.length - 1;
+      for (const zone of r.zones!) {
+        z.push([r.scenario.alternative ?? r.scenario.name, zone.name, String(r.years[last]), ...fit.states.map((_, s) =>
+          percentBand({ median: zone.shares[s]!.median[last]!, low: zone.shares[s]!.low[last]!, high: zone.shares[s]!.high[last]! }))]);
+      }
+    }
+    lines.push(z.toString());
+  }
 
   const c = run.changes;
   if (!c) {
@@ -61,7 +77,11 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       ['left', 'left', 'right', 'left', ...SCORE_HEADINGS.slice(1).map(() => 'right' as const)]);
     for (const r of run.scores) {
       const [log, brier] = scoreRows(r.summary);
-      t.push([r.record, r.years.map((y) => y.year).join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
+      t.push([r.record, [...new Set(r.years.map((y) => y.year))].join(', '), String(r.summary.sites), ...log], ['', '', '', ...brier]);
+      for (const z of r.zones ?? []) {
+        const [zlog, zbrier] = scoreRows(z.summary);
+        t.push([`  zone ${z.zone}`, '', String(z.summary.sites), ...zlog], ['', '', '', ...zbrier]);
+      }
     }
     lines.push(t.toString());
     for (const r of run.scores) {
@@ -71,7 +91,8 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
       if (unscored > 0) lines.push(style.dim(`  ${count(unscored, 'site')} surveyed since could not be scored (not surveyed by ${r.years[0]!.origin}, or in a state the record did not know)`));
       lines.push(style.dim(`  ${r.scenarios.length > 0 ? `forecast by: ${r.scenarios.join('; ')}` : 'no scenario of this record forecasts the chain alone (all have a given start, treatments or events)'}`));
     }
-    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.'));
+    lines.push(style.dim(SCORE_NOTE + ' The record\'s chain is scored (its posterior redrawn from fit.json): scenarios with treatments or events are not.' +
+      (run.scores.some((r) => r.zones) ? ' A record by zone: each site by its zone\'s chain, climatology the zone\'s mix.' : '')));
   }
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';

@@ -17,7 +17,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
   const impossiblePlace = locate(['fit', 'impossible']);
   return {
     places: { states: locate(['fit', 'states']), impossible: impossiblePlace, sheet: locate(['fit', 'sheet']), labels: locate(['fit', 'labels']),
-      columns: locate(['fit', 'columns']), errors: locate(['fit', 'errors']) },
+      columns: locate(['fit', 'columns']), errors: locate(['fit', 'errors']), pooling: locate(['fit', 'pooling']) },
     ...stepOf(block.step),
     ...(block.step === undefined ? { stepDefaulted: true } : {}),
     prior: block.prior ?? DEFAULT_FIT_SETTINGS.prior,
@@ -25,6 +25,7 @@ export function fitSettingsOf(block: z.infer<typeof fitSettingsSchema> | undefin
     impossible: parseImpossible(block.impossible ?? [], impossiblePlace),
     columns: { ...DEFAULT_COLUMNS, ...block.columns },
     group: block.group,
+    ...(block.pooling !== undefined ? { pooling: block.pooling } : {}),
     ...(block.layout ? { layout: block.layout } : {}),
     ...(block.sheet !== undefined ? { sheet: block.sheet } : {}),
     // Relative to the file that names it; kept relative to the working folder, as data is.

@@ -7,7 +7,8 @@ import { fitFromFile } from '../fit/fit-from-file.js';
 import { carriedMix } from '../chain/latest-mix.js';
 import { fitMle, fitMask, needPerSite, withBlockSize, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
-import type { Scenario } from './scenario.js';
+import type { Disturbance, Scenario, ScenarioZones, Treatment } from './scenario.js';
+import { checkParcelZones, resolveZones, zoneIndices } from './resolve-zones.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
 import { largestRemainder } from './largest-remainder.js';
 import { resolveTarget } from './resolve-target.js';
@@ -63,12 +64,19 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const carried = fit.latest.carried ?? [];
   // Sites not surveyed at the latest time are carried forward (engine/carried-start.ts); the shares
   // reported as the start are theirs under the MLE.
-  const start = s.start === 'latest'
+  const unzonedStart = s.start === 'latest'
     ? carried.length === 0
       ? { year: fit.latest.time, shares: Float64Array.from(fit.latest.shares), from: 'latest' as const }
       : { year: fit.latest.time, shares: carriedMix(fit.latest, fitMle(fit).p, fit.states.length, 0, new Float64Array(fit.states.length)),
         from: 'latest' as const, carried }
     : { year: s.start.year, shares: givenShares(s.start.shares, states.length, stateIndex, fail), from: 'given' as const };
+
+  // A zoned fit (pooling partial or none) gives a stratified forecast: each zone from its own start.
+  const zones = resolveZones(fit, s.areas, s.start !== 'latest', locate);
+  const start = zones ? { year: fit.latest.time, shares: landscapeMix(zones, states.length), from: 'latest' as const } : unzonedStart;
+  if (zones && s.plots !== undefined) {
+    throw new SereError('BAD_ZONES', 'plot counts are not forecast by zone', locate(['plots']), 'drop plots, or fit with pooling: complete');
+  }
 
   const stepsOf = (years: number, path: KeyPath): number => {
     if (years % fit.step !== 0) {
@@ -109,10 +117,11 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const topTreatments = s.treatments.map((value, n) => ({ value, path: ['treatments', n] as KeyPath }));
   const topEvents = s.events.map((value, n) => ({ value, path: ['events', n] as KeyPath }));
   return alternatives.map((alt, a) => {
-    const treatments = resolveTreatments(ctx, [...topTreatments,
-      ...alt.treatments.map((value, n) => ({ value, path: ['alternatives', a, 'treatments', n] as KeyPath }))]);
-    const events = resolveEvents(ctx, [...topEvents,
-      ...alt.events.map((value, n) => ({ value, path: ['alternatives', a, 'events', n] as KeyPath }))]);
+    const treatmentItems = [...topTreatments, ...alt.treatments.map((value, n) => ({ value, path: ['alternatives', a, 'treatments', n] as KeyPath }))];
+    const eventItems = [...topEvents, ...alt.events.map((value, n) => ({ value, path: ['alternatives', a, 'events', n] as KeyPath }))];
+    const treatments = resolveTreatments(ctx, treatmentItems).map((t, n) => withZones(t, zones, treatmentItems[n]!, locate));
+    checkParcelZones(treatments, treatmentItems.map((item) => item.path), locate);
+    const events = resolveEvents(ctx, eventItems).map((e, n) => withZones(e, zones, eventItems[n]!, locate));
     // The MLE alone needs one draw — unless event years or plot counts are random, which need replicates.
     const random = plots !== undefined || events.some((e) => e.scope === 'landscape');
     return {
@@ -134,8 +143,23 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
       treatments,
       events,
       plots,
+      ...(zones ? { zones } : {}),
     };
   });
+}
+
+/** A treatment or event with the zones it names as indices (unchanged when it names none). */
+function withZones<T extends Treatment | Disturbance>(item: T, zones: ScenarioZones | undefined,
+  { value, path }: { value: { zones?: string[] | undefined }; path: KeyPath }, locate: (path: KeyPath) => Place): T {
+  const indices = zoneIndices(zones, value.zones, [...path, 'zones'], locate);
+  return indices ? { ...item, zones: indices } : item;
+}
+
+/** The landscape's start: the zones' starting mixes weighted by their shares of the area. */
+function landscapeMix(zones: ScenarioZones, k: number): Float64Array {
+  const mix = new Float64Array(k);
+  zones.shares.forEach((w, z) => { for (let s = 0; s < k; s++) mix[s] += w * zones.starts[z * k + s]!; });
+  return mix;
 }
 
 /**

@@ -35,6 +35,27 @@ export interface Scenario {
   readonly events: readonly Disturbance[];
   /** Forecast plot counts too: how many plots, and how many start in each state. */
   readonly plots?: { readonly total: number; readonly start: readonly number[] };
+  /** A stratified forecast (the fit keeps zones): each zone's share of the area and its start. */
+  readonly zones?: ScenarioZones;
+}
+
+/**
+ * The zones of a stratified forecast, in the fit's zone order. Each zone runs on its own matrix
+ * draws from its own latest surveyed mix; the landscape is their sum weighted by `shares`.
+ */
+export interface ScenarioZones {
+  readonly names: readonly string[];
+  /** Each zone's share of the whole area, adding up to 1. */
+  readonly shares: Float64Array;
+  /** Where the shares came from: areas with a unit, shares as written, or each zone's share of the plots (the default). */
+  readonly from: 'areas' | 'shares' | 'plots';
+  /** The unit of `areas`, when given so (ha, km2, …), and each zone's area in it. */
+  readonly unit?: string;
+  readonly areas?: Float64Array;
+  /** `starts[z*k + s]`: zone z's starting mix (its latest surveyed mix). */
+  readonly starts: Float64Array;
+  /** Per zone, its sites not surveyed at the latest time, carried forward through each draw's zone matrix. */
+  readonly carried: readonly (readonly CarriedSites[] | undefined)[];
 }
 
 /**
@@ -63,6 +84,8 @@ export interface Treatment {
   readonly area: number;
   /** Treatments with the same parcel act on the same land. */
   readonly parcel: string;
+  /** The zones it acts in (indices into scenario.zones), `area` being a share of them; absent: everywhere. */
+  readonly zones?: readonly number[];
   /** Where it is written, for errors found when it meets the fitted matrix. */
   readonly place: Place;
 }
@@ -75,4 +98,6 @@ export interface Disturbance {
   readonly chances: Float64Array;
   /** k×k row-major: where a hit site goes; rows not given in the file are identity rows. */
   readonly matrix: Float64Array;
+  /** The zones it strikes (indices into scenario.zones); absent: everywhere. */
+  readonly zones?: readonly number[];
 }

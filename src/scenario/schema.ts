@@ -29,6 +29,8 @@ export const fitSettingsSchema = z.strictObject({
     y: z.string().min(1).optional().describe("The column holding each site's northing (projected units)."),
   }).optional(),
   group: z.string().min(1).optional().describe("Fit only the sites of this group (the value in columns.group), e.g. a soil type's own fit."),
+  pooling: z.enum(['complete', 'partial', 'none'], { error: 'pooling must be complete, partial or none' }).optional()
+    .describe('How the zones of columns.group share a chain: complete (one pooled fit; the default), partial (each zone its own matrix, its rows shrunk toward shared rows), none (each zone its own fit). With partial or none the forecast is stratified by zone.'),
   layout: z.enum(['long', 'wide'], { error: 'layout must be long or wide' }).optional()
     .describe('long: one row per site and survey; wide: one row per site, one column per survey time. Default: detected from the header.'),
   sheet: z.string().min(1).optional().describe('The worksheet of a spreadsheet (.xlsx) to read. Default: the first.'),
@@ -82,6 +84,8 @@ export const treatmentSchema = z.strictObject({
     .describe('Share of the whole area treated, tracked as its own sub-population; default 1.'),
   /** Treatments naming the same parcel act on the same land; default: a parcel of its own. */
   parcel: z.string().min(1).optional().describe('Treatments naming the same parcel act on the same land; default: a parcel of its own.'),
+  zones: z.array(z.string().min(1), { error: 'zones is a list of zone names, e.g. zones: [mineral]' }).min(1, { error: 'list at least one zone' }).optional()
+    .describe('With a zoned fit: the zones it acts in (default all); its area is then a share of those zones.'),
 }).refine((t) => [t.multiply, t.set, t.move].filter((x) => x !== undefined).length === 1,
   { error: 'a treatment needs exactly one of multiply, set or move' });
 
@@ -98,6 +102,8 @@ export const eventSchema = z.strictObject({
   years: yearWindow.optional().describe('First and last calendar year it can strike; default: every year.'),
   matrix: z.record(z.string(), z.record(z.string(), probability('an event probability')))
     .describe('from-state → { to-state: probability }; rows not given are unaffected.'),
+  zones: z.array(z.string().min(1), { error: 'zones is a list of zone names, e.g. zones: [mineral]' }).min(1, { error: 'list at least one zone' }).optional()
+    .describe('With a zoned fit: the zones it acts in (default all); it strikes only there.'),
 }).refine((e) => (e.chance === undefined) !== (e.every === undefined),
   { error: 'an event needs exactly one of chance (per year) or every (return interval in years)' });
 
@@ -188,6 +194,9 @@ export const scenarioSchema = z.strictObject({
   /** Also forecast how many of N plots are in each state: a number, or 'latest' (the sites of the latest survey). */
   plots: z.union([z.literal('latest'), positiveInt('plots').max(MAX_PLOTS, { error: `plots must be at most ${MAX_PLOTS}` })],
     { error: "plots must be a whole number or 'latest'" }).optional(),
+  /** With a zoned fit: each zone's area (`410 ha`) or share (`0.6`); default each zone's share of the plots. */
+  areas: z.record(z.string(), z.union([z.number(), z.string()], { error: 'an area is a share (0.6) or an area with its unit (410 ha)' })).optional()
+    .describe('With a zoned fit (fit pooling partial or none): each zone\'s area with a unit (410 ha; units ha, km2, m2, acres — one unit for all) or its share of the whole (0.6, adding to 1). Default: each zone\'s share of the plots.'),
   /** Management, applied in every alternative. */
   treatments: z.array(treatmentSchema).default([]),
   /** Disturbances, applied in every alternative. */

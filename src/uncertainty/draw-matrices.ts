@@ -71,8 +71,9 @@ function meanTrueStarts(fit: Fit, count: number, random: RandomStream): Float64A
  * than the Dirichlet of pooled counts when years differ (periods' transitions are then not
  * independent). Bootstrap draws keep their rows; point draws take each row's posterior median κ.
  * With no row varying, the draws are returned unchanged (today's chain, the same bytes).
+ * `keepMeanRows`: take κ alone and leave the drawn rows as they are (zones' rows, zone-draws.ts).
  */
-function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random: RandomStream): MatrixDraws {
+export function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random: RandomStream, keepMeanRows = false): MatrixDraws {
   if (spec.kind === 'none') return draws;
   // Estimated from recorded changes year by year, it would take mislabellings for yearly swings.
   if (spec.kind === 'estimated' && fit.errorModel) {
@@ -90,7 +91,7 @@ function withVariation(fit: Fit, draws: MatrixDraws, spec: VariationSpec, random
     // The hierarchical mean rows rest on one-step periods only; with pairs further apart, the gap
     // model's posterior rows use every pair, so they are kept and only κ is taken (the mean rows'
     // extra width under year-to-year variation is then left out: README, year-to-year variation).
-    const meanRows = draws.source === 'posterior' && !hasGaps(fit);
+    const meanRows = draws.source === 'posterior' && !hasGaps(fit) && !keepMeanRows;
     for (const row of rows) {
       if (row.status !== 'estimated') continue;
       const i = row.state;

@@ -26,4 +26,10 @@ export interface MatrixDraws {
   readonly starts?: Float64Array;
   /** How each row's variation was set (variation.ts), when there is any. */
   readonly variation?: readonly RowVariation[];
+  /**
+   * Stratified by zone (zone-draws.ts): `data` holds this many sets of `count` matrices, zone z's
+   * draw d at `(z*count + d)*k*k`, and `concentration` likewise at `(z*count + d)*k`. Absent: one
+   * landscape. Draw d of every zone comes from the same posterior draw of the shared (κ, p).
+   */
+  readonly zones?: number;
 }

@@ -20,33 +20,49 @@ export function installed(path: string): string {
 
 const DEMO_STATES = ['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-grass'];
 
+/** The two demo workspaces: one pooled chain (surveys.csv), or three zones partially pooled (zoned-surveys.csv). */
+const DEMOS = {
+  pooled: {
+    surveys: ['surveys.csv', 'surveys/brenhollow-2015-2024.csv'],
+    pooling: [],
+    scenarios: ['no-action.yaml', 'storm-surges.yaml', 'options.yaml'],
+  },
+  zoned: {
+    surveys: ['zoned-surveys.csv', 'surveys/brenhollow-zones-2015-2024.csv'],
+    pooling: ['  pooling: partial            # each zone its own chain, pulled toward shared rows'],
+    scenarios: ['zoned.yaml'],
+  },
+} as const;
+export type DemoKind = keyof typeof DEMOS;
+
 /**
  * A new workspace holding the invented Brenhollow demo, ready for `sere season`: the survey table,
  * the demo scenarios (their own `data` and `fit` removed — the workspace supplies both), the
  * scenario JSON Schema for editors, and the workspace file. The folder must not exist or be empty.
+ * `zoned`: the saltings' three zones, fitted with partial pooling and forecast stratified by zone.
  */
-export function initWorkspace(dir: string): string[] {
+export function initWorkspace(dir: string, kind: DemoKind = 'pooled'): string[] {
   refuseUsedFolder(dir);
   const demo = dirname(installed('scenarios/brenhollow/surveys.csv'));
+  const { surveys: [source, copy], pooling, scenarios } = DEMOS[kind];
   const files = new Map<string, string | Buffer>();
   files.set(WORKSPACE_FILE, [
-    '# A sere workspace (invented demo: Brenhollow Saltings). Run `sere season` here after each season\'s surveys.',
+    `# A sere workspace (invented demo: Brenhollow Saltings${kind === 'zoned' ? ', by zone' : ''}). Run \`sere season\` here after each season's surveys.`,
     'name: Brenhollow Saltings',
     'surveys:                      # add next season\'s table to this list',
-    '  - surveys/brenhollow-2015-2024.csv',
+    `  - ${copy}`,
     'fit:',
     `  states: [${DEMO_STATES.join(', ')}]`,
     '  impossible: [mudflat>high-marsh, rank-grass>mudflat]',
     '  columns: { group: zone }',
+    ...pooling,
     'scenarios:',
-    '  - scenarios/no-action.yaml',
-    '  - scenarios/storm-surges.yaml',
-    '  - scenarios/options.yaml',
+    ...scenarios.map((name) => `  - scenarios/${name}`),
     'records: records',
     '',
   ].join('\n'));
-  files.set('surveys/brenhollow-2015-2024.csv', readFileSync(join(demo, 'surveys.csv'), 'utf8'));
-  for (const name of ['no-action.yaml', 'storm-surges.yaml', 'options.yaml']) {
+  files.set(copy, readFileSync(join(demo, source), 'utf8'));
+  for (const name of scenarios) {
     const doc = parseDocument(readFileSync(join(demo, name), 'utf8'));
     doc.delete('data');
     doc.delete('fit');

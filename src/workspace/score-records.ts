@@ -1,6 +1,8 @@
 import type { SurveyRecord } from '../data/survey.js';
 import type { Fit } from '../fit/fit.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
+import { drawZoneMatrices } from '../uncertainty/zone-draws.js';
+import { zoneView } from '../engine/scenario-draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { scoreSites, summariseScores, type ScoredCase, type ScoreSummary } from '../evaluation/site-scores.js';
 
@@ -29,6 +31,8 @@ export interface RecordScore extends ScoredCase {
   /** The record's latest survey time: the origin its sites are forecast from. */
   readonly origin: number;
   readonly year: number;
+  /** For a zoned record: the zone whose sites these are, scored with that zone's chain. */
+  readonly zone?: string;
 }
 
 export interface RecordScores {
@@ -37,6 +41,8 @@ export interface RecordScores {
   readonly scenarios: readonly string[];
   readonly years: readonly RecordScore[];
   readonly summary: ScoreSummary;
+  /** For a zoned record: each zone's summary (the landscape's is `summary`). */
+  readonly zones?: readonly { readonly zone: string; readonly summary: ScoreSummary }[];
 }
 
 /**
@@ -64,6 +70,8 @@ export function scoreRecord(record: ScorableRecord, current: { readonly states: 
   const years = [...new Set(current.records.map((r) => r.time))].filter((t) => t > origin).sort((a, b) => a - b);
   if (years.length === 0) return null;
   const own = random.stream(`score:${record.name}`);
+  const scenarios = record.forecasts.filter((f) => f.start.from === 'latest' && f.treatments.length === 0 && f.events.length === 0).map((f) => f.name);
+  if (chain.zones) return scoreZones(record.name, chain, known, years, unknownAt, scenarios, own);
   const draws = posteriorDraws(chain, SCORE_DRAWS, own.stream('matrices'));
   const scored: RecordScore[] = [];
   for (const year of years) {
@@ -72,10 +80,46 @@ export function scoreRecord(record: ScorableRecord, current: { readonly states: 
     if (s) scored.push({ record: record.name, origin, year, ...s, unscored: s.unscored + (unknownAt.get(year) ?? 0) });
   }
   if (scored.length === 0) return null;
+  return { record: record.name, scenarios, years: scored, summary: summariseScores(scored, SCORE_LEVEL) };
+}
+
+/**
+ * A zoned record (pooling partial or none) is scored as it forecast: each site with its own zone's
+ * chain — zone z's posterior draws as the stratified forecast draws them (drawZoneMatrices: for
+ * partial pooling every zone's row from Dirichlet(κp + n_z) within each draw of the shared κ and p),
+ * climatology being the zone's mix at the origin. The landscape summary adds every zone's sites up
+ * (scores are per-site means, weighted by sites; coverage counts every zone's bands). Sites in a
+ * zone the record did not have, or with no zone, are counted as unscored.
+ */
+function scoreZones(name: string, chain: Fit, known: readonly SurveyRecord[], years: readonly number[], unknownAt: Map<number, number>,
+  scenarios: readonly string[], own: RandomStream): RecordScores | null {
+  const zones = chain.zones!.zones;
+  const draws = drawZoneMatrices(chain, 'posterior', SCORE_DRAWS, own.stream('matrices'));
+  const origin = chain.latest.time;
+  const outside = new Map<number, number>();
+  for (const r of known) {
+    if (r.time > origin && !zones.some((z) => z.name === r.group)) outside.set(r.time, (outside.get(r.time) ?? 0) + 1);
+  }
+  const scored: RecordScore[] = [];
+  const byZone = zones.map((zone, z) => {
+    const inZone = known.filter((r) => r.group === zone.name);
+    const list: RecordScore[] = [];
+    for (const year of years) {
+      const s = scoreSites(zoneView(draws, z), inZone, { origin, target: year, step: chain.step, originCounts: zone.fit.latest.counts, level: SCORE_LEVEL },
+        own.stream(`sites:${year}:zone:${zone.name}`));
+      if (s) list.push({ record: name, origin, year, zone: zone.name, ...s });
+    }
+    return { zone: zone.name, list };
+  });
+  for (const year of years) {
+    const inYear = byZone.flatMap((b) => b.list.filter((s) => s.year === year));
+    // The year's sites that no zone could score are added to its first scored zone's unscored count.
+    if (inYear.length > 0) inYear[0] = { ...inYear[0]!, unscored: inYear[0]!.unscored + (unknownAt.get(year) ?? 0) + (outside.get(year) ?? 0) };
+    scored.push(...inYear);
+  }
+  if (scored.length === 0) return null;
   return {
-    record: record.name,
-    scenarios: record.forecasts.filter((f) => f.start.from === 'latest' && f.treatments.length === 0 && f.events.length === 0).map((f) => f.name),
-    years: scored,
-    summary: summariseScores(scored, SCORE_LEVEL),
+    record: name, scenarios, years: scored, summary: summariseScores(scored, SCORE_LEVEL),
+    zones: byZone.filter((b) => b.list.length > 0).map((b) => ({ zone: b.zone, summary: summariseScores(b.list, SCORE_LEVEL) })),
   };
 }

@@ -7,7 +7,8 @@ import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
 import { fitSurvey, hasGaps, type Fit } from '../fit/fit.js';
 import { augment, DEFAULT_AUGMENT } from '../uncertainty/augment.js';
-import { groupOf } from '../fit/fit-from-file.js';
+import { groupOf, zonedPooling } from '../fit/fit-from-file.js';
+import { fitZoned } from '../fit/zones.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import { checkComparable } from '../scenario/comparable.js';
@@ -18,7 +19,7 @@ import { runComparison, type Comparison } from '../engine/compare.js';
 import { SereError } from '../errors.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
-import { carriedStart, rerunFromStart } from './rerun-from-start.js';
+import { movedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredForecast } from './changes.js';
 import { scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
@@ -68,12 +69,17 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const settings = ws.fitSettings;
   refuseErrors(settings, 'a workspace does not carry an error matrix yet', 'fit with sere fit --errors and forecast with a scenario instead');
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
+  const pooling = zonedPooling(surveyPaths[0]!, settings);
   let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
   if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
-  const fitted = fitSurvey(table, settings);
+  // With fit.pooling partial or none the record keeps each zone's fit (and counts) beside the pooled one.
+  const fitted = pooling ? fitZoned(table, settings, pooling, settings.places?.pooling ?? { file: ws.file, path: 'fit.pooling' }) : fitSurvey(table, settings);
   // Paths as the workspace names them, so a record replayed from its own inputs/ writes the same fit.
-  const unsampled: Fit = { ...fitted, input: { file: ws.surveys.join(', '), sha256: fitted.input.sha256 },
-    ...(fitted.labels && ws.labels !== undefined ? { labels: { ...fitted.labels, file: ws.labels } } : {}) };
+  // The zones' own fits too: each names the same input.
+  const asNamed = (f: Fit): Fit => ({ ...f, input: { file: ws.surveys.join(', '), sha256: f.input.sha256 },
+    ...(f.labels && ws.labels !== undefined ? { labels: { ...f.labels, file: ws.labels } } : {}) });
+  const unsampled: Fit = { ...asNamed(fitted),
+    ...(fitted.zones ? { zones: { ...fitted.zones, zones: fitted.zones.zones.map((z) => ({ ...z, fit: asNamed(z.fit) })) } } : {}) };
 
   const seeds: Record<string, number> = {};
   const byFile = ws.scenarios.map((rel) => {
@@ -97,7 +103,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     if (scenarios.length > 1) checkComparable(scenarios);
   }
   const forecasts = byFile.map(({ file, scenarios }) => ({
-    file, results: scenarios.map((s) => runForecast(s, randomStreams(seeds[file]!))),
+    // A stratified scenario's record keeps each zone's own bands too (as sere forecast --zones), run after the landscape's on its streams.
+    file, results: scenarios.map((s) => runForecast(s, randomStreams(seeds[file]!), undefined, {}, { zones: true })),
   }));
   const comparisons = byFile.filter((b) => b.scenarios.length > 1)
     .map(({ file, scenarios }) => ({ file, comparison: runComparison(scenarios, randomStreams(seeds[file]!)) }));
@@ -131,12 +138,12 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
  */
 function fromPreviousStart(ws: Workspace, fit: Fit, previous: Fit, seeds: Readonly<Record<string, number>>,
   current: readonly ForecastResult[]): readonly ForecastResult[] {
-  const start = carriedStart(previous, fit);
-  if (!start) return [];
-  if (start.time === fit.latest.time && start.counts.every((c, s) => c === fit.latest.counts[s])) return current;
+  const moved = movedStart(previous, fit);
+  if (!moved) return [];
+  if (moved === fit) return current;
   return ws.scenarios.flatMap((rel) => {
     try {
-      return rerunFromStart(join(ws.root, rel), rel, fit, start, randomStreams(seeds[rel]!));
+      return rerunFromStart(join(ws.root, rel), rel, moved, randomStreams(seeds[rel]!));
     } catch (err) {
       if (err instanceof SereError) return [];
       throw err;

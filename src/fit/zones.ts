@@ -1,0 +1,72 @@
+import { SereError, quote, type Place } from '../errors.js';
+import type { SurveyTable } from '../data/survey.js';
+import { partialPoolingMle, type PartialPooling } from '../chain/zone-pooling.js';
+import { fitMask, fitMle, fitSurvey, type Fit } from './fit.js';
+import type { FitSettings } from './settings.js';
+import { groupsWithRows, selectRows } from '../data/survey-rows.js';
+
+/**
+ * How zones (the values of the group column: soil types, management units) share a chain.
+ * complete: one pooled fit (the default; zones play no part). none: each zone its own fit, as
+ * `sere fit --by` makes them. partial: each zone its own matrix, its rows shrunk toward shared
+ * rows by how alike the zones are (chain/zone-pooling.ts).
+ */
+export type Pooling = 'complete' | 'partial' | 'none';
+export const POOLINGS: readonly Pooling[] = ['complete', 'partial', 'none'];
+
+export interface Zone {
+  readonly name: string;
+  /** The zone's own fit: its sites' surveys, with the whole table's states. */
+  readonly fit: Fit;
+}
+
+/** The zones of a fit that keeps them (`pooling: partial | none`); the fit itself stays the pooled one. */
+export interface FitZones {
+  readonly column: string;
+  readonly pooling: 'partial' | 'none';
+  readonly zones: readonly Zone[];
+}
+
+/**
+ * A zoned fit of a survey table: the pooled fit of every row (what every command that knows no
+ * zones keeps using) carrying one fit per zone. `place` names the pooling setting for errors.
+ */
+export function fitZoned(table: SurveyTable, settings: FitSettings, pooling: 'partial' | 'none', place: Place): Fit {
+  const column = settings.columns.group;
+  if (column === undefined) {
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} needs a zone column`, place,
+      'name the column holding each site\'s zone: --group-column NAME, or fit.columns.group in a scenario');
+  }
+  const names = groupsWithRows(table);
+  if (pooling === 'partial' && names.length < 2) {
+    throw new SereError('BAD_ZONES', `pooling: partial needs at least two zones; column ${quote(column)} holds ${names.length === 0 ? 'none' : `only ${quote(names[0]!)}`}`,
+      place, 'use pooling: complete (one fit), or a column with two or more zones');
+  }
+  const whole = fitSurvey(table, settings);
+  const zones = names.map((name) => {
+    const g = table.groups!.indexOf(name);
+    const rows = selectRows(table, (n) => table.rows.group![n] === g)!;
+    try {
+      return { name, fit: fitSurvey(rows, settings) };
+    } catch (err) {
+      if (err instanceof SereError && err.code === 'NO_TRANSITIONS') {
+        throw new SereError('BAD_ZONES', `zone ${quote(name)} has no two surveys of one site a step apart: its chain cannot be fitted`,
+          { file: table.file, path: column }, 'survey its sites again, or merge it into another zone in the zone column');
+      }
+      throw err;
+    }
+  });
+  return { ...whole, zones: { column, pooling, zones } };
+}
+
+/** The partial-pooling point estimate of a zoned fit, made once per fit. */
+const pooled = new WeakMap<Fit, PartialPooling>();
+export function zonePooling(fit: Fit): PartialPooling {
+  let p = pooled.get(fit);
+  if (!p) {
+    const zones = fit.zones!.zones;
+    p = partialPoolingMle(zones.map((z) => z.fit.counts), fitMask(fit), fit.states.length, fitMle(fit).p);
+    pooled.set(fit, p);
+  }
+  return p;
+}

@@ -1,0 +1,34 @@
+import type { ChalkInstance } from 'chalk';
+import { siteCount, type Fit } from '../fit/fit.js';
+import { zonePooling } from '../fit/zones.js';
+import { zoneShifts } from '../fit/zones-json.js';
+import { makeTable } from './style.js';
+
+/**
+ * The zones of a zoned fit, after its pooled table: per zone and from-state, the weight of the
+ * shared row in the zone's row (partial pooling: κᵢ/(κᵢ + N_zi)) and the largest change of a cell
+ * from the zone's own maximum-likelihood row; then the shared concentrations.
+ */
+export function fitZonesTable(fit: Fit, style: ChalkInstance): string {
+  const zones = fit.zones!;
+  const { states } = fit;
+  const partial = zones.pooling === 'partial';
+  const t = makeTable([zones.column, 'sites', 'transitions', ...states], style, ['left', 'right', 'right', ...states.map(() => 'right' as const)]);
+  const shifts = zoneShifts(fit);
+  zones.zones.forEach((zone, z) => {
+    const s = shifts[z]!;
+    t.push([zone.name, String(siteCount(zone.fit)), String(zone.fit.transitions),
+      ...states.map((_, i) => (partial ? `${s.pull[i]!.toFixed(2)} (±${s.change[i]!.toFixed(3)})` : 'own'))]);
+  });
+  const title = partial
+    ? `Zones by ${zones.column}, partially pooled: per from-state, the shared row's weight in the zone's row (largest change of a cell from the zone's own fit)`
+    : `Zones by ${zones.column}, not pooled: each zone its own fit`;
+  const lines = ['', style.bold(title), t.toString()];
+  if (partial) {
+    const { kappa } = zonePooling(fit);
+    lines.push(`how alike the zones are, κ per from-state (∞: no more unlike than sampling allows): ` +
+      states.map((name, i) => `${name} ${Number.isFinite(kappa[i]!) ? kappa[i]!.toPrecision(3) : '∞'}`).join(', '));
+    lines.push('Partial pooling uses one-step pairs; a forecast draws each zone\'s matrix from its posterior (sere forecast).');
+  }
+  return lines.join('\n') + '\n';
+}

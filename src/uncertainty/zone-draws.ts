@@ -1,0 +1,112 @@
+import { SereError } from '../errors.js';
+import type { Fit } from '../fit/fit.js';
+import { fitMask, fitPrior } from '../fit/fit.js';
+import { zonePooling } from '../fit/zones.js';
+import { zoneRowPeriods } from '../chain/zone-pooling.js';
+import { sampleRowConcentration } from './concentration.js';
+import { sampleDirichlet } from './dirichlet.js';
+import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
+import { drawMatrices, withVariation } from './draw-matrices.js';
+import type { MatrixDraws } from './draws.js';
+import type { RandomStream } from './random.js';
+import { VARIATION_SAMPLES, type VariationSpec } from './variation.js';
+
+/**
+ * Matrix draws of every zone of a zoned fit, in one MatrixDraws with `zones` set (zone z's draw d
+ * at (z·D + d)·k²).
+ *
+ * none: each zone from its own fit, by the sampler its source names (drawMatrices) — the first zone
+ * on `random` itself, the others on `random.stream('zone:NAME')`; so one zone is the unzoned run.
+ * partial (Gelman et al. 2013, BDA3 ch. 5): per row, posterior samples of the shared (κᵢ, pᵢ) from
+ * the zones' counts by the variation model's sampler (concentration.ts, stream `zones` / `row:i`),
+ * then draw d takes sample d mod VARIATION_SAMPLES and every zone's row from its conditional
+ * posterior Dirichlet(κᵢpᵢ + n_zi) (stream `block:b` / `zones`) — all zones in draw d share the
+ * same (κ, p). A point forecast takes the point estimate (κ̂, p̂ by maximum likelihood). Year-to-year
+ * variation is estimated on the pooled record and applied within each zone (κ only).
+ */
+export function drawZoneMatrices(fit: Fit, source: MatrixDraws['source'], count: number, random: RandomStream,
+  variation: VariationSpec = { kind: 'none' }): MatrixDraws {
+  const zones = fit.zones!;
+  const k = fit.states.length;
+  const k2 = k * k;
+  const Z = zones.zones.length;
+  let sets: MatrixDraws[];
+  if (zones.pooling === 'none') {
+    sets = zones.zones.map((zone, z) => drawMatrices(zone.fit, source, count, z === 0 ? random : random.stream(`zone:${zone.name}`), variation));
+  } else {
+    if (source === 'bootstrap') {
+      throw new SereError('BAD_ZONES', 'partially pooled zones are drawn from their posterior; the site bootstrap does not resample zones',
+        { path: 'uncertainty.source' }, 'use source: posterior (or point), or fit with pooling: none');
+    }
+    const data = source === 'point' ? pointZones(fit, count) : posteriorZones(fit, count, random);
+    const base = { k, count, source, notes: [] } as const;
+    const first = withVariation(fit, { ...base, data: data.subarray(0, count * k2) }, variation, random, true);
+    sets = zones.zones.map((_, z) => ({ ...first, data: data.subarray(z * count * k2, (z + 1) * count * k2) }));
+  }
+  const data = sharedFloat64(Z * count * k2);
+  sets.forEach((s, z) => data.set(s.data, z * count * k2));
+  const varying = sets.some((s) => s.concentration);
+  let concentration: Float64Array | undefined;
+  if (varying) {
+    concentration = sharedFloat64(Z * count * k).fill(Infinity);
+    sets.forEach((s, z) => { if (s.concentration) concentration!.set(s.concentration, z * count * k); });
+  }
+  return {
+    k, count, data, source, zones: Z,
+    notes: sets.flatMap((s, z) => s.notes.map((n) => `zone ${zones.zones[z]!.name}: ${n}`)),
+    ...(concentration ? { concentration } : {}),
+    ...(sets[0]!.variation ? { variation: sets[0]!.variation } : {}),
+  };
+}
+
+function pointZones(fit: Fit, count: number): Float64Array {
+  const k2 = fit.states.length ** 2;
+  const { rows } = zonePooling(fit);
+  const data = new Float64Array(rows.length * count * k2);
+  rows.forEach((p, z) => { for (let d = 0; d < count; d++) data.set(p, (z * count + d) * k2); });
+  return data;
+}
+
+function posteriorZones(fit: Fit, count: number, random: RandomStream): Float64Array {
+  return zoneRowDraws(fit.zones!.zones.map((z) => z.fit.counts), fitMask(fit), fitPrior(fit), fit.states.length, count, random).data;
+}
+
+/**
+ * The partial-pooling posterior from the zones' one-step counts (k×k each), the structural zeros
+ * and the prior (k×k): `data[(z*count + d)*k² + i*k + j]`, and per row the κ of each draw (null for a
+ * row with one possible cell). Draw d takes sample d mod VARIATION_SAMPLES of the row's (κ, p).
+ */
+export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Array, prior: Float64Array, k: number, count: number,
+  random: RandomStream): { data: Float64Array; kappa: (Float64Array | null)[] } {
+  const k2 = k * k;
+  const Z = zoneCounts.length;
+  // Per row: the cells it may reach and its samples of (κ, p); null for a row with one possible cell.
+  const rows = Array.from({ length: k }, (_, i) => {
+    const r = zoneRowPeriods(zoneCounts, mask, k, i);
+    if (r.cells.length < 2) return { cells: r.cells, samples: null };
+    const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
+    return { cells: r.cells, samples: sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream('zones').stream(`row:${i}`)) };
+  });
+  const data = new Float64Array(Z * count * k2);
+  const a = new Float64Array(k);
+  for (let b = 0; b < blockCount(count); b++) {
+    const stream = random.stream(blockName(b)).stream('zones');
+    for (let d = b * DRAW_BLOCK; d < Math.min(count, (b + 1) * DRAW_BLOCK); d++) {
+      const s = d % VARIATION_SAMPLES;
+      for (let z = 0; z < Z; z++) {
+        for (let i = 0; i < k; i++) {
+          const { cells, samples } = rows[i]!;
+          const at = (z * count + d) * k2 + i * k;
+          if (!samples) { data[at + cells[0]!] = 1; continue; }
+          a.fill(0);
+          const m = cells.length;
+          const kappa = samples.kappa[s]!;
+          for (let c = 0; c < m; c++) a[cells[c]!] = kappa * samples.mean[s * m + c]! + zoneCounts[z]![i * k + cells[c]!]!;
+          sampleDirichlet(stream, a, 0, k, data, at);
+        }
+      }
+    }
+  }
+  const kappa = rows.map(({ samples }) => (samples ? Float64Array.from({ length: count }, (_, d) => samples.kappa[d % VARIATION_SAMPLES]!) : null));
+  return { data, kappa };
+}
