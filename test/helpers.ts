@@ -2,6 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { SereError } from '../src/errors.js';
+import { chiSquareUpperTail } from '../src/chain/chi-square.js';
 import { tableFromRecords } from '../src/data/survey-rows.js';
 import fc from 'fast-check';
 import { multiply, matrix, type Matrix } from 'mathjs';
@@ -111,4 +112,34 @@ export function errorOf(fn: () => unknown): SereError {
 export function tempFiles(prefix: string): { dir: string; write: (name: string, text: string) => string } {
   const dir = mkdtempSync(join(tmpdir(), prefix));
   return { dir, write: (name, text) => { const file = join(dir, name); writeFileSync(file, text); return file; } };
+}
+
+/**
+ * Simulation-based calibration's check (Talts et al. 2018): the p-value of Pearson's χ² test that
+ * ranks fell evenly into `bins` (counts per equal-width bin of the rank), bins − 1 degrees of freedom.
+ */
+export function rankUniformityP(bins: readonly number[]): number {
+  const total = bins.reduce((a, b) => a + b, 0);
+  const expected = total / bins.length;
+  return chiSquareUpperTail(bins.reduce((sum, o) => sum + (o - expected) ** 2 / expected, 0), bins.length - 1);
+}
+
+/** A start mix carried `steps` years through the k × k matrix at `offset` of `p` (plain loops, for coverage tests). */
+export function projectMix(p: ArrayLike<number>, offset: number, start: readonly number[], steps: number): number[] {
+  const k = start.length;
+  let x = start.slice();
+  for (let t = 0; t < steps; t++) {
+    const y = new Array<number>(k).fill(0);
+    for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) y[j]! += x[i]! * p[offset + i * k + j]!;
+    x = y;
+  }
+  return x;
+}
+
+/** Type-7 quantile (Hyndman & Fan 1996) of a small sample (sorting is fine here). */
+export function quantile7(values: readonly number[], p: number): number {
+  const s = Float64Array.from(values).sort();
+  const h = (s.length - 1) * p;
+  const i = Math.floor(h);
+  return s[i]! + (s[Math.min(i + 1, s.length - 1)]! - s[i]!) * (h - i);
 }

@@ -1,4 +1,4 @@
-import { parse } from 'csv-parse/sync';
+import { csvRecords } from './read-csv-records.js';
 import { SereError, quote } from '../errors.js';
 import { COUNTS_COLUMNS, FIRST_SURVEY, LAST_SURVEY, isCountsHeader, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
 import { labelProblem, normaliseLabel } from './labels.js';
@@ -26,13 +26,7 @@ const HINT = 'write counts tables with sere count (or sere count --sql), and do 
  */
 export function readCountsCsv(file: string, options: ReadCountsOptions = {}): CountsTable {
   const { text, sha256 } = readTextFile(file, WHAT);
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, { info: true, trim: true, skip_empty_lines: true, bom: true, relax_column_count: false }) as never;
-  } catch (err) {
-    const line = (err as { lines?: number }).lines;
-    throw new SereError('NOT_CSV', `not a valid CSV file (${(err as Error).message.split('\n')[0]!.slice(0, 120)})`, { file, ...(line ? { line } : {}) }, HINT);
-  }
+  const records = csvRecords(file, text, HINT);
   if (records.length === 0) throw new SereError('EMPTY_FILE', 'the counts table is empty', { file }, HINT);
   const header = records[0]!.record.map(normaliseLabel);
   if (!isCountsHeader(header)) {

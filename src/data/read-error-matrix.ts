@@ -1,4 +1,4 @@
-import { parse } from 'csv-parse/sync';
+import { csvRecords } from './read-csv-records.js';
 import { SereError, quote, type Place } from '../errors.js';
 import { normaliseLabel } from './labels.js';
 import type { LabelMap } from './label-map.js';
@@ -39,13 +39,7 @@ const HINT = 'write the error matrix as a CSV with columns recorded,verified,n: 
  */
 export function readErrorMatrix(file: string, states: readonly string[], labels?: LabelMap): ErrorMatrix {
   const { text, sha256 } = readTextFile(file, WHAT);
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, { info: true, trim: true, skip_empty_lines: true, bom: true, relax_column_count: false }) as never;
-  } catch (err) {
-    const line = (err as { lines?: number }).lines;
-    throw new SereError('NOT_CSV', `not a valid CSV file (${(err as Error).message.split('\n')[0]!.slice(0, 120)})`, { file, ...(line ? { line } : {}) }, HINT);
-  }
+  const records = csvRecords(file, text, HINT);
   if (records.length === 0) throw new SereError('EMPTY_FILE', 'the error matrix is empty', { file }, HINT);
   const header = records[0]!.record.map(normaliseLabel);
   const headerLine = records[0]!.info.lines;

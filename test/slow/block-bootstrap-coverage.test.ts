@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { projectMix, quantile7 } from '../helpers.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import { fitSurvey } from '../../src/fit/fit.js';
@@ -16,23 +17,6 @@ const H = 10;
 const DRAWS = 200;
 /** Invented true matrix: each state mostly stays, and moves to its neighbours. */
 const P = [0.8, 0.15, 0.05, 0.1, 0.8, 0.1, 0.05, 0.15, 0.8];
-
-function project(p: ArrayLike<number>, offset: number, start: readonly number[]): number[] {
-  let x = start.slice();
-  for (let t = 0; t < H; t++) {
-    const y = new Array<number>(K).fill(0);
-    for (let i = 0; i < K; i++) for (let j = 0; j < K; j++) y[j]! += x[i]! * p[offset + i * K + j]!;
-    x = y;
-  }
-  return x;
-}
-
-function quantile(values: number[], p: number): number {
-  const s = Float64Array.from(values).sort();
-  const h = (s.length - 1) * p;
-  const i = Math.floor(h);
-  return s[i]! + (s[Math.min(i + 1, s.length - 1)]! - s[i]!) * (h - i);
-}
 
 /**
  * A landscape whose patches change together: the first states are a smooth Gaussian field cut at
@@ -78,13 +62,13 @@ function coverage(histories: number, random: RandomStream): { cells: number; blo
     sides.push(placed.spatial!.side);
     counts.push(placed.spatial!.blocks);
     const start = placed.latest.shares;
-    const truth = project(P, 0, start);
+    const truth = projectMix(P, 0, start, H);
     const inside = (draws: MatrixDraws): number => {
-      const mixes = Array.from({ length: DRAWS }, (_, d) => project(draws.data, d * K * K, start));
+      const mixes = Array.from({ length: DRAWS }, (_, d) => projectMix(draws.data, d * K * K, start, H));
       let n = 0;
       for (let s = 0; s < K; s++) {
         const column = mixes.map((m) => m[s]!);
-        if (truth[s]! >= quantile(column, 0.05) && truth[s]! <= quantile(column, 0.95)) n += 1;
+        if (truth[s]! >= quantile7(column, 0.05) && truth[s]! <= quantile7(column, 0.95)) n += 1;
       }
       return n;
     };

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { projectMix, quantile7 } from '../helpers.js';
 import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { bootstrapDraws, BOOTSTRAP_FEW_SITES } from '../../src/uncertainty/bootstrap.js';
@@ -13,24 +14,6 @@ const K = 5;
 const H = 10;
 const DRAWS = 400;
 const P = TRUE_MATRIX.flat();
-
-function project(p: ArrayLike<number>, offset: number, start: readonly number[]): number[] {
-  let x = start.slice();
-  for (let t = 0; t < H; t++) {
-    const y = new Array<number>(K).fill(0);
-    for (let i = 0; i < K; i++) for (let j = 0; j < K; j++) y[j]! += x[i]! * p[offset + i * K + j]!;
-    x = y;
-  }
-  return x;
-}
-
-/** Type-7 quantile of a small sample (sorting is fine here). */
-function quantile(values: number[], p: number): number {
-  const s = Float64Array.from(values).sort();
-  const h = (s.length - 1) * p;
-  const i = Math.floor(h);
-  return s[i]! + (s[Math.min(i + 1, s.length - 1)]! - s[i]!) * (h - i);
-}
 
 /** Share of (history, state) pairs whose true 10-step mix lies inside the 90% band of each method. */
 /** A site's first state: uniform over the states, or drawn from a given mix. */
@@ -62,13 +45,13 @@ function coverage(sites: number, histories: number, random: RandomStream, firstS
     }
     const fit = fitSurvey(tableFromRecords('sim', ['a', 'b', 'c', 'd', 'e'], records), DEFAULT_FIT_SETTINGS);
     const start = fit.latest.shares;
-    const truth = project(P, 0, start);
+    const truth = projectMix(P, 0, start, H);
     const inside = (draws: MatrixDraws): number => {
-      const mixes = Array.from({ length: DRAWS }, (_, d) => project(draws.data, d * K * K, start));
+      const mixes = Array.from({ length: DRAWS }, (_, d) => projectMix(draws.data, d * K * K, start, H));
       let n = 0;
       for (let s = 0; s < K; s++) {
         const column = mixes.map((m) => m[s]!);
-        if (truth[s]! >= quantile(column, 0.05) && truth[s]! <= quantile(column, 0.95)) n += 1;
+        if (truth[s]! >= quantile7(column, 0.05) && truth[s]! <= quantile7(column, 0.95)) n += 1;
       }
       return n;
     };
