@@ -2,7 +2,7 @@ import { InvalidArgumentError, type Command } from 'commander';
 import { extname } from 'node:path';
 import { statSync } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { SereError } from '../errors.js';
+import { SereError, quote } from '../errors.js';
 import { isCountsFile, type CountsTable } from '../data/counts-table.js';
 import { readCountsCsv } from '../data/read-counts-csv.js';
 import { readSurveyTables } from '../data/read-survey-tables.js';
@@ -114,6 +114,13 @@ export function registerCount(program: Command, io: Io): void {
         if (shard.step !== opts.step) {
           throw new SereError('BAD_COUNTS', `this shard was counted with steps of ${shard.step} time unit${shard.step === 1 ? '' : 's'}, not ${opts.step}`, { file: f, path: '--step' },
             `count with --step ${shard.step}, or count that shard again with --step ${opts.step}`);
+        }
+        // Shards add up, so the same counts given twice would count every transition twice (a survey
+        // table given twice is safe: its repeated rows are exact duplicates, each used once).
+        const same = sources.find((s) => s.kind === 'counts table' && s.sha256 === shard.sha256);
+        if (same) {
+          throw new SereError('BAD_COUNTS', `this counts table has the same content (SHA-256) as ${quote(same.file)}: adding it would count every transition twice`, { file: f },
+            'give each shard once');
         }
         tables.push(shard);
         sources.push({ file: f, sha256: shard.sha256, kind: 'counts table' });

@@ -18,11 +18,11 @@ export function fitZonesTable(fit: Fit, style: ChalkInstance): string {
   zones.zones.forEach((zone, z) => {
     const s = shifts[z]!;
     t.push([zone.name, String(siteCount(zone.fit)), String(zone.fit.transitions),
-      ...states.map((_, i) => (partial ? `${s.pull[i]!.toFixed(2)} (±${s.change[i]!.toFixed(3)})` : 'own'))]);
+      ...states.map((_, i) => (partial ? `${s.pull[i]!.toFixed(2)} (Δ ${s.change[i]!.toFixed(3)})` : 'own'))]);
   });
   const title = partial
-    ? `Zones by ${zones.column}, partially pooled: per from-state, the shared row's weight in the zone's row (largest change of a cell from the zone's own fit)`
-    : `Zones by ${zones.column}, not pooled: each zone its own fit`;
+    ? `Zones (column ${zones.column}), partially pooled: per from-state, the shared row's weight in the zone's row (Δ: largest change of a cell from the zone's own fit)`
+    : `Zones (column ${zones.column}), not pooled: each zone its own fit (sere fit --by writes each one's matrix)`;
   const lines = ['', style.bold(title), t.toString()];
   if (partial) {
     const { kappa } = zonePooling(fit);

@@ -54,6 +54,10 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const data = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
   const fit = s.uncertainty.block_size === undefined ? data : withBlockSize(data, s.uncertainty.block_size, locate(['uncertainty', 'block_size']));
   if (s.uncertainty.source === 'bootstrap' && !fit.blockSites) needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
+  if (s.uncertainty.source === 'bootstrap' && fit.errorModel) {
+    throw new SereError('BAD_SCENARIO', 'the site bootstrap does not model observer error', locate(['uncertainty', 'source']),
+      'use source: posterior (the default) with an error matrix');
+  }
   const states = fit.states;
   const stateIndex = (name: string, path: KeyPath): number => {
     const i = states.indexOf(name);

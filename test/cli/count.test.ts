@@ -103,6 +103,15 @@ describe('sere count', () => {
     expect(existsSync(at('om.csv')) || existsSync(at('om.sources.json'))).toBe(false);
   });
 
+  it('refuses the same pooled counts given twice (they would count every transition twice), writing nothing', async () => {
+    await sereInProcess(['count', DEMO, '--out', at('once.csv')]);
+    const r = await sereInProcess(['count', at('once.csv'), at('once.csv'), '--out', at('twice.csv'), '--debug']);
+    expect(r.code).toBe(1);
+    expect(code(r.stderr)).toBe('BAD_COUNTS');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(existsSync(at('twice.csv')) || existsSync(at('twice.sources.json'))).toBe(false);
+  });
+
   it('survey tables given together are one table: a site in two of them is joined', async () => {
     const [a, b] = shards(25, true);
     const together = await sereInProcess(['count', a, b]);

@@ -85,6 +85,23 @@ describe('plot counts with observer error', () => {
   });
 });
 
+describe('the site bootstrap with observer error', () => {
+  it('is refused in one line naming the scenario key', async () => {
+    const { write: put } = tempFiles('sere-cli-errors-bootstrap-');
+    put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+    const scenario = put('b.yaml', [
+      'name: boot', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }', 'horizon: { years: 5 }',
+      'uncertainty: { source: bootstrap, draws: 50 }',
+    ].join('\n') + '\n');
+    const r = await sereInProcess(['forecast', scenario, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_SCENARIO]');
+    expect(r.stderr).toContain('b.yaml:5');
+    expect(r.stderr).toContain('(uncertainty.source)');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+});
+
 describe('sere hindcast with --errors', () => {
   it('is refused in one line naming the flag (scoring needs predictions as recorded, not built yet)', async () => {
     const r = await sereInProcess(['hindcast', SURVEYS, '--errors', ACCURACY, '--debug']);
