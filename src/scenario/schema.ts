@@ -203,7 +203,7 @@ export const scenarioSchema = z.strictObject({
     // YAML reads a bare `true` as a boolean: take it and the quoted word alike.
     as: z.union([z.literal('recorded'), z.literal('true'), z.literal(true)], { error: "as must be 'recorded' or 'true'" })
       .default('true').transform((v) => (v === 'recorded' ? 'recorded' as const : 'true' as const)),
-  })], { error: "plots must be a whole number, 'latest', or { count, as }" }).optional()
+  })], { error: "plots must be a whole number, 'latest', or { count, as: true | recorded }" }).optional()
     .describe("Plot counts: a whole number, 'latest', or { count, as: true | recorded } — as: recorded draws them through the error matrix (default true: the true states)."),
   /** With a zoned fit: each zone's area (`410 ha`) or share (`0.6`); default each zone's share of the plots. */
   areas: z.record(z.string(), z.union([z.number(), z.string()], { error: 'an area is a share (0.6) or an area with its unit (410 ha)' })).optional()
