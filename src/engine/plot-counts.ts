@@ -6,6 +6,7 @@ import type { ProjectionInputs } from './project-chunk.js';
 import { sampleYearMatrix, yearStreams, type YearStream } from './year-matrix.js';
 import type { DrawLayout } from './layout.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
+import { largestRemainder } from '../scenario/largest-remainder.js';
 
 export interface PlotCounts extends DrawLayout {
   readonly recorded: readonly number[];
@@ -27,6 +28,14 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   readonly variation?: ProjectionInputs['variation'];
   /** The plot-level chance of block b of draws (its own sub-stream, draw-blocks.ts). */
   readonly multinomialOf: (block: number) => Multinomial;
+  /** With observer error and a start at the latest survey: each draw's true starting mix (D × k); its plots are split by it. */
+  readonly starts?: Float64Array;
+  /**
+   * Counts "as recorded": each draw's error matrix E (D × k × k, row = true, column = recorded) and
+   * the chance of recording for block b (a sub-stream of its own, so the true plots are the same
+   * draws as without it). Absent: the counts are of the true states.
+   */
+  readonly recorded?: { readonly emissions: Float64Array; readonly multinomialOf: (block: number) => Multinomial };
 }): PlotCounts {
   const { k, count: D, data: P } = matrices;
   const k2 = k * k;
@@ -50,16 +59,25 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const split = new Int32Array(G);
   const moved = new Int32Array(k);
 
+  const through = options.recorded;
+  const total = start.reduce((a, b) => a + b, 0);
+  const trueAt = new Int32Array(k);
+  const seen = new Int32Array(k);
   let multinomial: Multinomial = multinomialOf(0);
+  let recording: Multinomial | undefined = through?.multinomialOf(0);
   for (let d = 0; d < D; d++) {
-    if (d > 0 && d % DRAW_BLOCK === 0) multinomial = multinomialOf(d / DRAW_BLOCK);
+    if (d > 0 && d % DRAW_BLOCK === 0) {
+      multinomial = multinomialOf(d / DRAW_BLOCK);
+      recording = through?.multinomialOf(d / DRAW_BLOCK);
+    }
+    const first = options.starts ? largestRemainder(Array.from(options.starts.subarray(d * k, (d + 1) * k)), total) : start;
     if (variation && d % DRAW_BLOCK === 0) streams = yearStreams(variation.keys, d / DRAW_BLOCK, horizon, 0, steps);
     if (!plan.trivial && !variation) fillPlanMatrices(plan, P, d * k2, ws);
     built.fill(-1);
     now.fill(0);
     for (let s = 0; s < k; s++) {
       split.fill(0);
-      multinomial(start[s]!, groupWeights, 0, G, split, 0);
+      multinomial(first[s]!, groupWeights, 0, G, split, 0);
       for (let g = 0; g < G; g++) now[g * k + s] = split[g]!;
     }
     for (let t = 0; t < steps; t++) {
@@ -90,7 +108,17 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
       const slot = slotOf[t]!;
       if (slot < 0) continue;
       const out = slot * k * D + d;
-      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s * D] += now[g * k + s]!;
+      if (!through || !recording) {
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) counts[out + s * D] += now[g * k + s]!;
+        continue;
+      }
+      // As recorded: the nₓ plots truly in x are recorded as Multinomial(nₓ, row x of this draw's E),
+      // so the recorded mix has mean (true mix)·E — the emission step of the hidden Markov model.
+      trueAt.fill(0);
+      for (let g = 0; g < G; g++) for (let x = 0; x < k; x++) trueAt[x] += now[g * k + x]!;
+      seen.fill(0);
+      for (let x = 0; x < k; x++) if (trueAt[x]! > 0) recording(trueAt[x]!, through.emissions, d * k2 + x * k, k, seen, 0);
+      for (let s = 0; s < k; s++) counts[out + s * D] = seen[s]!;
     }
   }
   return { draws: D, slots: R, k, recorded: record, counts };

@@ -159,6 +159,7 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
       ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
         record: recorded, hits: run.inputs.hits, variation,
         multinomialOf: (b) => multinomialSampler(random.stream('plots').stream(blockName(b))),
+        ...plotScaleInputs(run.scenario, matrices, random),
       })
       : undefined;
     return {
@@ -191,4 +192,18 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
     plan, hits, target: scenario.target, variation };
   const outcomes = new Uint8Array(new SharedArrayBuffer(Math.max(1, plan.treatments.length * D)));
   return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
+}
+
+/**
+ * With observer error, plots start from each draw's true mix (when the start is the latest survey)
+ * and, asked `as: recorded`, are recorded through each draw's error matrix on the stream
+ * 'plots:recorded'. Without an error model the records are taken as the truth: nothing is added.
+ */
+function plotScaleInputs(scenario: Scenario, matrices: MatrixDraws, random: RandomStream): Pick<Parameters<typeof simulatePlots>[3], 'starts' | 'recorded'> {
+  const starts = scenario.start.from === 'latest' ? matrices.starts : undefined;
+  const emissions = scenario.plots?.scale === 'recorded' ? matrices.emissions : undefined;
+  return {
+    ...(starts ? { starts } : {}),
+    ...(emissions ? { recorded: { emissions, multinomialOf: (b: number) => multinomialSampler(random.stream('plots:recorded').stream(blockName(b))) } } : {}),
+  };
 }

@@ -56,7 +56,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   }
 
   if (r.plots && sc.plots) {
-    lines.push('', style.bold(`Plots in each state, of ${sc.plots.total} — median [${band}], a prediction band`));
+    lines.push('', style.bold(`Plots in each state, of ${sc.plots.total}${plotScaleWords(sc)} — median [${band}], a prediction band`));
     const plots = makeTable(['state', ...shown.map((t) => String(r.years[t]))], style, ['left', ...shown.map(() => 'right' as const)]);
     states.forEach((name, s) => {
       const b = r.plots![s]!;
@@ -175,4 +175,10 @@ export function zonesLine(sc: ForecastResult['scenario'], hint = true): string {
   const parts = zones.names.map((name, z) => `${name} ${percent(zones.shares[z]!)}%${zones.areas ? ` (${zones.areas[z]} ${zones.unit})` : ''}`);
   const from = zones.from === 'plots' ? ' by share of plots' : '';
   return `zones (${sc.fit.zones!.column}, ${pooling}): ${parts.join(' · ')}${from} — each from its own latest survey on its own matrix${hint && sc.alternative === undefined ? '; --zones shows each' : ''}`;
+}
+
+/** With observer error, which states the plot counts are of; without, the records are the truth and nothing is said. */
+function plotScaleWords(sc: ForecastResult['scenario']): string {
+  if (!sc.fit.errorModel) return '';
+  return sc.plots?.scale === 'recorded' ? ', as a survey would record them (through the error matrix)' : ', true states (not as recorded)';
 }

@@ -28,7 +28,8 @@ function forecastRows(r: ForecastResult, push: (row: Row) => void): void {
   const who: [string, string] = [sc.name, sc.alternative ?? ''];
   sc.fit.states.forEach((state, s) => {
     bandRows(push, who, state, r.years, r.shares[s]!, 'share', 'percent', tenths);
-    if (r.plots) bandRows(push, who, state, r.years, r.plots[s]!, 'plots', 'plots', hundredths);
+    // Counts as recorded are a measure of their own, so a reader never mixes them with true-state counts.
+    if (r.plots) bandRows(push, who, state, r.years, r.plots[s]!, sc.plots?.scale === 'recorded' ? 'plots_recorded' : 'plots', 'plots', hundredths);
   });
   if (sc.target && r.dominance) {
     const state = targetStates(sc.target, sc.fit.states);

@@ -202,22 +202,21 @@ function resolveVariation(given: ScenarioFile['variation'], fit: Fit,
 /**
  * Plots at the start: with `plots: latest` and the latest surveyed mix, the actual counts of that
  * survey; otherwise the given number of plots split by the starting shares (largest remainder).
+ * With observer error the latest survey's counts are records, not true states: its number of plots
+ * is split by the starting (true) mix instead, and each draw re-splits it by its own true start
+ * (engine/plot-counts.ts).
  */
-function startingPlots(plots: number | 'latest', fit: Fit, start: Scenario['start'], place: Place): Scenario['plots'] {
-  // Plot counts start from recorded states and would be compared with recorded counts: with observer
-  // error both need the error matrix (counts "as recorded"), which plot forecasts do not draw yet.
-  if (fit.errorModel) {
-    throw new SereError('BAD_SCENARIO', 'plot counts are not forecast with observer error yet', place,
-      'remove plots: the shares forecast is of the true mix');
-  }
+function startingPlots(given: NonNullable<ScenarioFile['plots']>, fit: Fit, start: Scenario['start'], place: Place): Scenario['plots'] {
+  const { count: plots, as: scale } = typeof given === 'object' ? given : { count: given, as: 'true' as const };
   if (plots === 'latest') {
     if (start.from !== 'latest') {
       throw new SereError('BAD_SCENARIO', "plots: latest needs start: latest (the plots of the latest survey)", place,
         'give the number of plots instead');
     }
-    return { total: fit.latest.sites, start: fit.latest.counts };
+    if (!fit.errorModel) return { total: fit.latest.sites, start: fit.latest.counts, scale };
+    return { total: fit.latest.sites, start: largestRemainder(Array.from(start.shares), fit.latest.sites), scale };
   }
-  return { total: plots, start: largestRemainder(Array.from(start.shares), plots) };
+  return { total: plots, start: largestRemainder(Array.from(start.shares), plots), scale };
 }
 
 function fitOfData(s: ScenarioFile, file: string,

@@ -33,8 +33,11 @@ export interface Scenario {
   readonly treatments: readonly Treatment[];
   /** Disturbances, in the order they strike within a year (file order). */
   readonly events: readonly Disturbance[];
-  /** Forecast plot counts too: how many plots, and how many start in each state. */
-  readonly plots?: { readonly total: number; readonly start: readonly number[] };
+  /**
+   * Forecast plot counts too: how many plots, how many start in each state, and on which scale —
+   * the true states, or as recorded (through each draw's error matrix; the same as true without one).
+   */
+  readonly plots?: { readonly total: number; readonly start: readonly number[]; readonly scale?: PlotScale };
   /** A stratified forecast (the fit keeps zones): each zone's share of the area and its start. */
   readonly zones?: ScenarioZones;
 }
@@ -101,3 +104,6 @@ export interface Disturbance {
   /** The zones it strikes (indices into scenario.zones); absent: everywhere. */
   readonly zones?: readonly number[];
 }
+
+/** Which states plot counts describe: the true ones, or those a survey would record (README, observer error). */
+export type PlotScale = 'true' | 'recorded';

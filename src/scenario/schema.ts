@@ -145,6 +145,8 @@ const targetSchema = z.strictObject({
 }).describe('A landscape target: the summed share of states reaching at_least, or kept at_most; { state, share } is shorthand for one state and at_least.');
 
 const MAX_PLOTS = LIMITS.plots;
+const plotCount = z.union([z.literal('latest'), positiveInt('plots').max(MAX_PLOTS, { error: `plots must be at most ${MAX_PLOTS}` })],
+  { error: "plots must be a whole number or 'latest'" });
 
 /**
  * The scenario file (YAML). Every option states its default here and in the README.
@@ -191,9 +193,18 @@ export const scenarioSchema = z.strictObject({
   level: z.number().gt(0, { error: 'level must be between 0 and 1' }).lt(1, { error: 'level must be between 0 and 1' }).default(0.9)
     .describe('Credible level of every band; default 0.9.'),
   target: targetSchema.optional(),
-  /** Also forecast how many of N plots are in each state: a number, or 'latest' (the sites of the latest survey). */
-  plots: z.union([z.literal('latest'), positiveInt('plots').max(MAX_PLOTS, { error: `plots must be at most ${MAX_PLOTS}` })],
-    { error: "plots must be a whole number or 'latest'" }).optional(),
+  /**
+   * Also forecast how many of N plots are in each state: a number, or 'latest' (the sites of the
+   * latest survey); or `{ count, as }` to say on which scale, `as: true` (the default: the true
+   * states) or `as: recorded` (through the error matrix, as a survey would record them).
+   */
+  plots: z.union([plotCount, z.strictObject({
+    count: plotCount,
+    // YAML reads a bare `true` as a boolean: take it and the quoted word alike.
+    as: z.union([z.literal('recorded'), z.literal('true'), z.literal(true)], { error: "as must be 'recorded' or 'true'" })
+      .default('true').transform((v) => (v === 'recorded' ? 'recorded' as const : 'true' as const)),
+  })], { error: "plots must be a whole number, 'latest', or { count, as: true | recorded }" }).optional()
+    .describe("Plot counts: a whole number, 'latest', or { count, as: true | recorded } — as: recorded draws them through the error matrix (default true: the true states)."),
   /** With a zoned fit: each zone's area (`410 ha`) or share (`0.6`); default each zone's share of the plots. */
   areas: z.record(z.string(), z.union([z.number(), z.string()], { error: 'an area is a share (0.6) or an area with its unit (410 ha)' })).optional()
     .describe('With a zoned fit (fit pooling partial or none): each zone\'s area with a unit (410 ha; units ha, km2, m2, acres — one unit for all) or its share of the whole (0.6, adding to 1). Default: each zone\'s share of the plots.'),

@@ -25,7 +25,7 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
   const data = sharedFloat64(count * k * k);
   if (source === 'point') {
     data.set(pointDraws(fit, count).data);
-    return { k, count, data, source, notes: [], ...(fit.errorModel ? { starts: meanTrueStarts(fit, count, random) } : {}) };
+    return { k, count, data, source, notes: [], ...(fit.errorModel ? meanTrueStarts(fit, count, random) : {}) };
   }
   if (source === 'bootstrap' && fit.errorModel) {
     throw new SereError('BAD_OPTION', 'the site bootstrap does not model observer error', { path: 'source' },
@@ -35,6 +35,7 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
   // With gaps, one sampler run (or the fit's stored one) serves every block.
   const latent = source === 'posterior' ? latentSampleOf(fit, random) : undefined;
   const starts = latent?.errors ? sharedFloat64(count * k) : undefined;
+  const emissions = latent?.errors ? sharedFloat64(count * k * k) : undefined;
   for (let b = 0; b < blockCount(count); b++) {
     const first = b * DRAW_BLOCK;
     const n = Math.min(DRAW_BLOCK, count - first);
@@ -44,24 +45,34 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
       const block = posteriorDraws(fit, n, stream, latent);
       data.set(block.data, first * k * k);
       if (starts && block.starts) starts.set(block.starts, first * k);
+      if (emissions && block.emissions) emissions.set(block.emissions, first * k * k);
     }
   }
-  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}) };
+  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}) };
 }
 
-/** A point forecast with observer error starts every draw from the posterior mean true mix at the latest time. */
-function meanTrueStarts(fit: Fit, count: number, random: RandomStream): Float64Array {
+/**
+ * A point forecast with observer error starts every draw from the posterior mean true mix at the
+ * latest time, and records plots through the posterior mean error matrix.
+ */
+function meanTrueStarts(fit: Fit, count: number, random: RandomStream): { starts: Float64Array; emissions: Float64Array } {
   const k = fit.states.length;
   const latent = latentSampleOf(fit, random)!;
   const mean = new Float64Array(k);
+  const meanE = new Float64Array(k * k);
   const shares = new Float64Array(k);
   for (let r = 0; r < latent.retained; r++) {
     trueShares(latent.errors!.latest, r, k, shares, 0);
     for (let x = 0; x < k; x++) mean[x] += shares[x]! / latent.retained;
+    for (let c = 0; c < k * k; c++) meanE[c] += latent.errors!.emissions[r * k * k + c]! / latent.retained;
   }
   const starts = sharedFloat64(count * k);
-  for (let d = 0; d < count; d++) starts.set(mean, d * k);
-  return starts;
+  const emissions = sharedFloat64(count * k * k);
+  for (let d = 0; d < count; d++) {
+    starts.set(mean, d * k);
+    emissions.set(meanE, d * k * k);
+  }
+  return { starts, emissions };
 }
 
 /**

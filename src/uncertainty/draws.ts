@@ -24,6 +24,12 @@ export interface MatrixDraws {
    * recorded mix). Absent otherwise.
    */
   readonly starts?: Float64Array;
+  /**
+   * With observer error: each draw's error matrix E (D × k × k, row = true state, column =
+   * recorded), from the same sampler sweep as its matrix and start; plot counts "as recorded" are
+   * drawn through it (engine/plot-counts.ts). Absent otherwise.
+   */
+  readonly emissions?: Float64Array;
   /** How each row's variation was set (variation.ts), when there is any. */
   readonly variation?: readonly RowVariation[];
   /**

@@ -29,16 +29,19 @@ export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
   const completed = latent ? new Float64Array(k * k) : alpha;
   const errors = latent?.errors;
   const starts = errors ? new Float64Array(count * k) : undefined;
+  const emissions = errors ? new Float64Array(count * k * k) : undefined;
   for (let d = 0; d < count; d++) {
     if (latent) {
       const r = random.integer(latent.retained);
       for (let c = 0; c < k * k; c++) completed[c] = alpha[c]! > 0 ? alpha[c]! + latent.latent[r * k * k + c]! : 0;
       // The true mix at the latest time of the same sweep: the draw's start (engine/carried-start.ts).
       if (errors && starts) trueShares(errors.latest, r, k, starts, d * k);
+      // …and its error matrix, so plots "as recorded" see the E that goes with this P and start.
+      if (errors && emissions) emissions.set(errors.emissions.subarray(r * k * k, (r + 1) * k * k), d * k * k);
     }
     for (let i = 0; i < k; i++) sampleDirichlet(random, completed, i * k, k, data, d * k * k + i * k);
   }
-  return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}) };
+  return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}) };
 }
 
 /** Sweep r's true latest counts as shares, into `out` at `offset`. */

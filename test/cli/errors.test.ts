@@ -72,16 +72,58 @@ describe('--errors on sere fit and sere check, fit.errors in a scenario', () => 
 });
 
 describe('plot counts with observer error', () => {
-  it('are refused in one line naming the key (not forecast "as recorded" yet)', async () => {
-    const { write: put } = tempFiles('sere-cli-errors-plots-');
-    put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
-    const scenario = put('p.yaml', [
-      'name: plots', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }', 'horizon: { years: 5 }', 'plots: latest',
-    ].join('\n') + '\n');
-    const r = await sereInProcess(['forecast', scenario, '--debug']);
+  const { dir: plotsDir, write: put } = tempFiles('sere-cli-errors-plots-');
+  put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+  const scenarioWith = (name: string, plots: string, errors = true) => put(name, [
+    `name: ${name}`, `data: ${join(process.cwd(), SURVEYS)}`, ...(errors ? ['fit: { errors: accuracy.csv }'] : []),
+    'horizon: { years: 5 }', 'variation: none', 'uncertainty: { source: posterior, draws: 200, seed: 3 }', `plots: ${plots}`,
+  ].join('\n') + '\n');
+  type PlotsJson = { total: number; scale: string; [state: string]: unknown };
+  const plotsOf = (stdout: string): PlotsJson => JSON.parse(stdout).scenarios[0].plots;
+  /** The forecast without the scenario file's own hash (the files differ in their plots line). */
+  const unhashed = (stdout: string): string => JSON.stringify({ ...JSON.parse(stdout).scenarios[0], sha256: '' });
+
+  it('are forecast as recorded or as true, the JSON and CSV saying which, the same seed giving the same bytes', async () => {
+    const recorded = scenarioWith('rec.yaml', '{ count: latest, as: recorded }');
+    const a = await sereInProcess(['forecast', recorded, '--json']);
+    expect(a.stderr).toBe('');
+    expect(a.code).toBe(0);
+    const b = await sereInProcess(['forecast', recorded, '--json']);
+    expect(b.stdout).toBe(a.stdout);
+    const rec = plotsOf(a.stdout);
+    expect(rec.scale).toBe('recorded');
+    // plots: latest with observer error: the latest survey's 132 sites (scripts/heath-fixture.ts), split by the true mix.
+    expect(rec.total).toBe(132);
+    const truth = plotsOf((await sereInProcess(['forecast', scenarioWith('true.yaml', '{ count: latest, as: true }'), '--json'])).stdout);
+    expect(truth.scale).toBe('true');
+    // The fixture's observer records some young heath as grassland: recorded young heath sits below the true count.
+    const mean = (p: PlotsJson, state: string) => (p[state] as { mean: number[] }).mean;
+    expect(mean(rec, 'young-heath')[0]!).toBeLessThan(mean(truth, 'young-heath')[0]!);
+    const csvFile = join(plotsDir, 'rec.csv');
+    expect((await sereInProcess(['forecast', recorded, '--csv', csvFile])).code).toBe(0);
+    const csv = readFileSync(csvFile, 'utf8');
+    expect(csv).toContain(',plots_recorded,');
+    expect(csv).not.toContain(',plots,');
+  });
+
+  it('without an error model, as: recorded changes no number (the records are the truth), and plots: 40 and { count: 40 } give the same forecast byte for byte', async () => {
+    const plain = await sereInProcess(['forecast', scenarioWith('plain.yaml', '40', false), '--json']);
+    expect(plain.code).toBe(0);
+    const object = await sereInProcess(['forecast', scenarioWith('plain.yaml', '{ count: 40 }', false), '--json']);
+    expect(unhashed(object.stdout)).toBe(unhashed(plain.stdout));
+    const rec = await sereInProcess(['forecast', scenarioWith('plain.yaml', '{ count: 40, as: recorded }', false), '--json']);
+    const { scale: s1, ...p1 } = plotsOf(rec.stdout);
+    const { scale: s2, ...p2 } = plotsOf(plain.stdout);
+    expect([s1, s2]).toEqual(['recorded', 'true']);
+    expect(JSON.stringify(p1)).toBe(JSON.stringify(p2));
+  });
+
+  it('a scale other than true or recorded: one line naming plots.as', async () => {
+    const r = await sereInProcess(['forecast', scenarioWith('bad.yaml', '{ count: 40, as: observed }'), '--debug']);
     expect(r.code).toBe(1);
     expect(r.stderr).toContain('[BAD_SCENARIO]');
-    expect(r.stderr).toContain('(plots)');
+    expect(r.stderr).toContain('plots');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
   });
 });
 

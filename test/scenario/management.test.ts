@@ -16,7 +16,7 @@ describe('treatments and events in scenario files', () => {
     expect(t).toMatchObject({ name: 'push to c', row: 1, area: 0.5, parcel: 'treatment:push to c' });
     expect(s.events[0]!.chances[1]).toBeCloseTo(0.25, 15);
     // 20 plots split by the start shares (1/9, 1/4, 23/36, with hand.csv's site B carried forward) by largest remainder.
-    expect(s.plots).toEqual({ total: 20, start: [2, 5, 13] });
+    expect(s.plots).toEqual({ total: 20, start: [2, 5, 13], scale: 'true' });
   });
 
   it('gives one scenario per alternative, each with the shared and its own management', () => {
