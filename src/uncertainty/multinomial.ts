@@ -1,16 +1,16 @@
-import binomialRandom from '@stdlib/random-base-binomial';
+import { binomialSampler } from './binomial.js';
 import type { RandomStream } from './random.js';
 
 export type Multinomial = (n: number, p: Float64Array, pOffset: number, k: number, out: Int32Array, outOffset: number) => void;
 
 /**
  * Multinomial(n, p) by sequential binomials: Xⱼ ~ Binomial(n − Σ earlier, pⱼ / (1 − Σ earlier p))
- * (e.g. Devroye 1986, Non-Uniform Random Variate Generation, ch. XI.1), with stdlib's binomial
- * sampler on the same uniforms. Counts are *added* to `out`, so sub-populations can be summed in
+ * (e.g. Devroye 1986, Non-Uniform Random Variate Generation, ch. XI.1), with the exact binomial
+ * sampler of binomial.ts on the same stream. Counts are *added* to `out`, so sub-populations can be summed in
  * place. Stops as soon as nothing is left to place, which makes sparse rows cheap.
  */
 export function multinomialSampler(random: RandomStream): Multinomial {
-  const binomial = binomialRandom.factory({ prng: random.uniform });
+  const binomial = binomialSampler(random);
   return (n, p, pOffset, k, out, outOffset) => {
     let left = n;
     let mass = 1;

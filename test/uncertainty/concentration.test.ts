@@ -9,8 +9,11 @@ describe('posterior of the concentration (slice sampler)', () => {
     const r = simulateRow([0.6, 0.3, 0.1], 20, 40, 60, random.stream('data'));
     const s = sampleRowConcentration(r, [0.5, 0.5, 0.5], 1000, random.stream('sampler'));
     const sorted = Array.from(s.kappa).sort((x, y) => x - y);
-    expect(sorted[50]!).toBeLessThan(20);
-    expect(sorted[950]!).toBeGreaterThan(20);
+    // One simulated record: its 90% band misses the truth one time in ten by chance (the rate is
+    // checked by simulation-based calibration, test/slow/concentration-sbc.test.ts), so this single
+    // case asks the 99% band to hold it — a 1% false alarm for a given seed.
+    expect(sorted[5]!).toBeLessThan(20);
+    expect(sorted[994]!).toBeGreaterThan(20);
     let m0 = 0;
     for (let i = 0; i < 1000; i++) m0 += s.mean[i * 3]! / 1000;
     expect(m0).toBeGreaterThan(0.5);
@@ -31,8 +34,8 @@ describe('value stability', () => {
     const random = randomStreams(11);
     const r = simulateRow([0.5, 0.3, 0.2], 15, 10, 20, random.stream('data'));
     const s = sampleRowConcentration(r, [0.5, 0.5, 0.5], 50, random.stream('sampler'));
-    expect(s.kappa[0]).toBe(3.8546910035983375);
-    expect(s.kappa[49]).toBe(15.123352310139104);
-    expect(s.mean[49 * 3]).toBe(0.41893172082901986);
+    expect(s.kappa[0]).toBe(21.978862165060104);
+    expect(s.kappa[49]).toBe(25.78393868521979);
+    expect(s.mean[49 * 3]).toBe(0.43662619926685803);
   });
 });
