@@ -101,3 +101,10 @@ export function carriedMix(latest: SurveyedMix, p: ArrayLike<number>, k: number,
   for (let s = 0; s < k; s++) out[s] /= total;
   return out;
 }
+
+/** Sweep r's true latest counts as shares, into `out` at `offset`. */
+export function trueShares(latest: Float64Array, r: number, k: number, out: Float64Array, offset: number): void {
+  let total = 0;
+  for (let x = 0; x < k; x++) total += latest[r * k + x]!;
+  for (let x = 0; x < k; x++) out[offset + x] = latest[r * k + x]! / total;
+}

@@ -1,4 +1,4 @@
-import type { PeriodCounts } from './counts.js';
+import { periodList, type PeriodCounts } from './counts.js';
 import { concentrationMle } from './concentration-mle.js';
 import { rowPeriods, type RowPeriods } from './row-periods.js';
 
@@ -12,16 +12,16 @@ import { rowPeriods, type RowPeriods } from './row-periods.js';
  * (concentration-mle.ts) and their posterior from the κ sampler (uncertainty/concentration.ts).
  */
 export function zonePeriods(zoneCounts: readonly Float64Array[], k: number): PeriodCounts[] {
-  return zoneCounts.map((counts, z) => {
-    const cells: [number, number, number][] = [];
-    for (let c = 0; c < k * k; c++) if (counts[c]! > 0) cells.push([Math.floor(c / k), c % k, counts[c]!]);
-    return { time: z, cells };
-  });
+  return periodList(new Map(zoneCounts.map((counts, z) => [z, counts])), k);
 }
 
-/** Row i's counts zone by zone (`times` hold zone indices; zones with no transition out of i are left out). */
-export function zoneRowPeriods(zoneCounts: readonly Float64Array[], mask: Uint8Array, k: number, row: number): RowPeriods {
-  return rowPeriods(zonePeriods(zoneCounts, k), mask, k, row);
+/**
+ * Each row's counts zone by zone (`times` hold zone indices; zones with no transition out of the
+ * row are left out), the zones' periods made once for every row.
+ */
+export function zoneRows(zoneCounts: readonly Float64Array[], mask: Uint8Array, k: number): RowPeriods[] {
+  const periods = zonePeriods(zoneCounts, k);
+  return Array.from({ length: k }, (_, row) => rowPeriods(periods, mask, k, row));
 }
 
 export interface PartialPooling {
@@ -38,7 +38,7 @@ export interface PartialPooling {
 /**
  * The point estimate of partial pooling: κᵢ and pᵢ by maximum likelihood of the zones' counts
  * (empirical Bayes), then each zone's row as the posterior mean given them. `fallback` (k×k) is
- * the row a state takes when no zone ever left it (the pooled fit's prior mean). With κᵢ = ∞ every
+ * the row a state takes when no zone ever left it (the pooled fit's MLE row, which for a state never left is its prior mean). With κᵢ = ∞ every
  * zone's row is the pooled maximum-likelihood row; with κᵢ → 0 each zone keeps its own counts.
  */
 export function partialPoolingMle(zoneCounts: readonly Float64Array[], mask: Uint8Array, k: number, fallback: Float64Array): PartialPooling {
@@ -47,8 +47,9 @@ export function partialPoolingMle(zoneCounts: readonly Float64Array[], mask: Uin
   const Z = zoneCounts.length;
   const rows = zoneCounts.map(() => new Float64Array(k * k));
   const pull = zoneCounts.map(() => new Float64Array(k));
+  const byRow = zoneRows(zoneCounts, mask, k);
   for (let i = 0; i < k; i++) {
-    const r = zoneRowPeriods(zoneCounts, mask, k, i);
+    const r = byRow[i]!;
     if (r.totals.length === 0) {
       kappa[i] = Infinity;
       for (let j = 0; j < k; j++) shared[i * k + j] = fallback[i * k + j]!;

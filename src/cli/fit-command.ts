@@ -68,8 +68,9 @@ export function registerFit(program: Command, io: Io): void {
           'map class codes to states under labels: in the stack file');
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
-      const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }, io.progress) : undefined;
+      // Pooling is refused for a stack before its (slow) counting starts.
       const pooling = zonedPooling(file, settings);
+      const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }, io.progress) : undefined;
       const fit = sampleZones(sampleFit(pooling ? fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, pooling, { path: '--pooling' })
         : counted ? fitRasterCounts(counted, settings)
           : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)

@@ -6,17 +6,11 @@ import type { RasterCounts } from '../data/raster/count-stack.js';
 
 /**
  * The raster stacks that scenario files name as `data`, as `data` resolves (relative to the
- * scenario file, shown relative to the working folder), each once. Only regular files are read
- * (opening a pipe would wait for a writer); a file that cannot be read is left for the loader.
- */
-export function stacksNamedBy(files: readonly string[]): string[] {
-  return [...stackUses(files).keys()];
-}
-
-/**
- * Each stack the files name, and whether a scenario on it wants the bootstrap — then it is counted
- * in blocks, of the first such scenario's `uncertainty.block_size` or chosen from the data (a
- * differing block_size on the same stack is refused when that scenario loads: load-scenario.ts).
+ * scenario file, shown relative to the working folder), each once, and whether a scenario on it
+ * wants the bootstrap — then it is counted in blocks, of the first such scenario's
+ * `uncertainty.block_size` or chosen from the data (a differing block_size on the same stack is
+ * refused when that scenario loads: load-scenario.ts). Only regular files are read (opening a pipe
+ * would wait for a writer); a file that cannot be read is left for the loader.
  */
 function stackUses(files: readonly string[]): Map<string, { blocks?: number | 'auto'; file?: string }> {
   const stacks = new Map<string, { blocks?: number | 'auto'; file?: string }>();

@@ -95,7 +95,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   // (Alternatives of one file share its zones' areas too.)
   const stationary = stationaryOfDraws(matrices, first.zones?.shares);
-  const observedRows = matrices.zones ? null : stationaryOfObservedRows(matrices, first.fit.counts);
+  const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
   const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows, engine }));
   return {
     baseline: results[0]!,

@@ -127,7 +127,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   const priorChecks = options.priorChecks !== false;
   const observed = !priorChecks ? null
-    : options.observedRows !== undefined ? options.observedRows : matrices.zones ? null : stationaryOfObservedRows(matrices, fit.counts);
+    : options.observedRows !== undefined ? options.observedRows : stationaryOfObservedRows(matrices, fit.counts);
   const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);

@@ -69,6 +69,8 @@ export interface ObservedRowsStationary {
  * is the prior's. Null when every state was seen as a from-state (the two would be the same).
  */
 export function stationaryOfObservedRows(matrices: MatrixDraws, counts: ArrayLike<number>): ObservedRowsStationary | null {
+  // A zoned run's rows differ by zone: the pooled counts cannot say which rows each zone observed.
+  if (matrices.zones) return null;
   const { k, count } = matrices;
   const kept: number[] = [];
   const dropped: number[] = [];

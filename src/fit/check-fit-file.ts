@@ -57,10 +57,11 @@ export function checkFitFile(f: FitBody, fail: Fail): CheckedFitFile {
   const sites = checkSites(f, k, counts, fail);
   checkPeriods(f, k, counts, fail);
   checkTriples(f, k, counts, fail);
-  const gapCounts = checkGapCounts(f, states, impossible, fail, errors);
+  const mask = impossibleMask(impossible, states, { path: 'impossible' });
+  const gapCounts = checkGapCounts(f, states, mask, fail, errors);
   const pairsByGap = checkPairsByGap(f, transitions, gapCounts, fail);
-  const errorModel = checkErrorModel(f, k, impossibleMask(impossible, states, { path: 'impossible' }), fail);
-  const sample = checkSampler(f, states, impossible, gapCounts, fail, errorModel?.trueTransitions);
+  const errorModel = checkErrorModel(f, k, mask, fail);
+  const sample = checkSampler(f, states, mask, gapCounts, fail, errorModel?.trueTransitions);
   const latentSample = sample && errorModel ? { ...sample, errors: checkErrorSweeps(f, k, errorModel, fail) } : sample;
   if (errorModel && !latentSample) fail('a fit with observer error keeps its posterior sampler', ['posterior_sampler']);
   // Pooled counts (a number of sites) have no per-site gaps: the site bootstrap refuses them anyway.
@@ -212,7 +213,7 @@ function checkTriples(f: FitBody, k: number, counts: Float64Array, fail: Fail): 
  * order, and each possible in that many steps under the structural zeros (else no matrix the fit
  * may return explains it, and EM would divide by zero).
  */
-function checkGapCounts(f: FitBody, states: readonly string[], impossible: readonly (readonly [string, string])[], fail: Fail, errors = false): GapCell[] {
+function checkGapCounts(f: FitBody, states: readonly string[], mask: Uint8Array, fail: Fail, errors = false): GapCell[] {
   const k = states.length;
   const cells = f.data.gap_counts ?? [];
   let previous = -1;
@@ -224,10 +225,10 @@ function checkGapCounts(f: FitBody, states: readonly string[], impossible: reado
     if (order <= previous) fail('cells are listed twice or out of (gap, from, to) order', ['data', 'gap_counts', c]);
     previous = order;
   });
-  const mask = impossibleMask(impossible, states, { path: 'impossible' });
-  const reach = reachableInSteps(mask, k, maxGap(cells));
+  // With observer error an unreachable recorded pair is evidence of mislabelling, not a broken file.
+  const reach = errors ? undefined : reachableInSteps(mask, k, maxGap(cells));
   cells.forEach(([i, j, g], c) => {
-    if (!errors && !reach[g]![i * k + j]) {
+    if (reach && !reach[g]![i * k + j]) {
       fail(`pairs ${g} steps apart from ${quote(states[i]!)} to ${quote(states[j]!)} are impossible under the impossible list`, ['data', 'gap_counts', c]);
     }
   });
@@ -249,14 +250,13 @@ function checkPairsByGap(f: FitBody, transitions: number, gapCounts: readonly Ga
  * structural zeros, each holding exactly g one-step transitions per pair g steps apart (a bridge of g
  * steps is g transitions). Only a fit with gaps has them.
  */
-function checkSampler(f: FitBody, states: readonly string[], impossible: readonly (readonly [string, string])[],
+function checkSampler(f: FitBody, states: readonly string[], mask: Uint8Array,
   gapCounts: readonly GapCell[], fail: Fail, trueTransitions?: number): LatentSample | undefined {
   const s = f.posterior_sampler;
   if (s === undefined || s === null) return undefined;
   const k = states.length;
   if (gapCounts.length === 0 && trueTransitions === undefined) fail('posterior_sampler is only for fits with pairs further apart than one step or observer error', ['posterior_sampler']);
   if (s.latent_counts.length !== s.retained) fail(`latent_counts holds ${s.latent_counts.length} sweeps, not retained = ${s.retained}`, ['posterior_sampler', 'latent_counts']);
-  const mask = impossibleMask(impossible, states, { path: 'impossible' });
   // With observer error a sweep holds every transition of the true paths; otherwise those inside the gaps.
   const steps = trueTransitions ?? gapCounts.reduce((a, [, , g, n]) => a + g * n, 0);
   const latent = new Float64Array(s.retained * k * k);

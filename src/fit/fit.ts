@@ -13,7 +13,7 @@ import { reachableInSteps } from '../chain/reachable.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
-import { blockUnits, checkBlockSide, chooseBlocks, extentOf, type SpatialBlocks } from './spatial-blocks.js';
+import { chooseBlocks, type SpatialBlocks } from './spatial-blocks.js';
 import type { ErrorModel } from './error-model.js';
 import { errorMaximumLikelihood } from '../chain/error-em.js';
 import { posteriorMean } from '../chain/estimates.js';
@@ -238,8 +238,7 @@ export function withBlockSize(fit: Fit, side: number, place: Place): Fit {
     throw new SereError('BAD_OPTION', 'a block size needs the sites\' positions, and this fit has none', place,
       'name the columns holding them (fit: { columns: { x: …, y: … } }, or --x-column and --y-column for sere fit), or drop block_size');
   }
-  checkBlockSide(side, extentOf(fit.positions), place);
-  return { ...fit, spatial: { side, chosenBy: 'given', blocks: blockUnits(fit.positions, side).count } };
+  return { ...fit, spatial: chooseBlocks(fit.positions, [], fit.states.length, side, place)! };
 }
 
 /** How many sites a fit rests on, with or without their per-site counts. */

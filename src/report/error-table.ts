@@ -1,4 +1,5 @@
 import type { ChalkInstance } from 'chalk';
+import { trueShares } from '../chain/latest-mix.js';
 import type { ErrorEstimate } from '../chain/error-em.js';
 import type { FitEstimates } from '../fit/estimate.js';
 import type { Fit } from '../fit/fit.js';
@@ -23,11 +24,7 @@ export function errorModelLines(fit: Fit, est: FitEstimates, style: ChalkInstanc
   if (sweeps) {
     const retained = fit.latentSample!.retained;
     const shares = new Float64Array(retained * k);
-    for (let r = 0; r < retained; r++) {
-      let total = 0;
-      for (let x = 0; x < k; x++) total += sweeps.latest[r * k + x]!;
-      for (let x = 0; x < k; x++) shares[r * k + x] = sweeps.latest[r * k + x]! / total;
-    }
+    for (let r = 0; r < retained; r++) trueShares(sweeps.latest, r, k, shares, r * k);
     const band = (x: number): string => {
       const column = Array.from({ length: retained }, (_, r) => shares[r * k + x]!).sort((a, b) => a - b);
       const at = (q: number): number => column[Math.min(retained - 1, Math.floor(q * retained))]!;

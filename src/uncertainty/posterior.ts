@@ -1,4 +1,5 @@
 import type { Fit } from '../fit/fit.js';
+import { trueShares } from '../chain/latest-mix.js';
 import { fitPrior, needsSampler } from '../fit/fit.js';
 import type { LatentSample } from '../fit/latent-sample.js';
 import { DEFAULT_AUGMENT, sampleLatent } from './augment.js';
@@ -42,13 +43,6 @@ export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
     for (let i = 0; i < k; i++) sampleDirichlet(random, completed, i * k, k, data, d * k * k + i * k);
   }
   return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}) };
-}
-
-/** Sweep r's true latest counts as shares, into `out` at `offset`. */
-export function trueShares(latest: Float64Array, r: number, k: number, out: Float64Array, offset: number): void {
-  let total = 0;
-  for (let x = 0; x < k; x++) total += latest[r * k + x]!;
-  for (let x = 0; x < k; x++) out[offset + x] = latest[r * k + x]! / total;
 }
 
 const sampled = new WeakMap<Fit, Map<string, LatentSample>>();

@@ -2,7 +2,7 @@ import { SereError } from '../errors.js';
 import type { Fit } from '../fit/fit.js';
 import { fitMask, fitPrior } from '../fit/fit.js';
 import { zonePooling } from '../fit/zones.js';
-import { zoneRowPeriods } from '../chain/zone-pooling.js';
+import { zoneRows } from '../chain/zone-pooling.js';
 import { sampleRowConcentration } from './concentration.js';
 import { sampleDirichlet } from './dirichlet.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
@@ -81,8 +81,7 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
   const k2 = k * k;
   const Z = zoneCounts.length;
   // Per row: the cells it may reach and its samples of (κ, p); null for a row with one possible cell.
-  const rows = Array.from({ length: k }, (_, i) => {
-    const r = zoneRowPeriods(zoneCounts, mask, k, i);
+  const rows = zoneRows(zoneCounts, mask, k).map((r, i) => {
     if (r.cells.length < 2) return { cells: r.cells, samples: null };
     const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
     return { cells: r.cells, samples: sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream('zones').stream(`row:${i}`)) };

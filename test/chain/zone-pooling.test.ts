@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { partialPoolingMle, zoneRowPeriods } from '../../src/chain/zone-pooling.js';
+import { partialPoolingMle, zoneRows } from '../../src/chain/zone-pooling.js';
 import { dirichletMultinomialLogPmf } from '../../src/chain/dirichlet-multinomial.js';
 
 const k = 3;
@@ -51,7 +51,7 @@ describe('partial pooling of zones (point estimate)', () => {
     const fb = Float64Array.from([0.2, 0.5, 0.3, 0, 0, 0, 0, 0, 0]);
     const p = partialPoolingMle([a, b], none, k, fb);
     expect(Array.from(p.rows[0]!.subarray(0, 3))).toEqual([0.2, 0.5, 0.3]);
-    const r = zoneRowPeriods([a, b], none, k, 1);
+    const r = zoneRows([a, b], none, k)[1]!;
     expect(r.times).toEqual([0, 1]);
     expect(Array.from(r.counts)).toEqual([1, 2, 0, 2, 1, 0]);
   });
