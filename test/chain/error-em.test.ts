@@ -156,7 +156,7 @@ describe('EM with observer error against an independent optimiser', () => {
     const fit = errorMaximumLikelihood(records, assessment, new Float64Array(K * K).fill(0.5), K, new Float64Array(K * K).fill(1 / K));
     expect(fit.converged).toBe(true);
     // python3 test/reference/error-mle.py (scipy.optimize.minimize, BFGS then Nelder-Mead, best of
-    // 20 starts), run once; values pasted as printed.
+    // 8 starts), run once; values pasted as printed.
     const scipy = {
       p: [[0.46693896, 0.473390482, 0.0596705584], [0.188018668, 0.567101794, 0.244879539], [0.051392928, 0.0841215954, 0.864485477]],
       e: [[0.909060804, 0.0691690481, 0.021770148], [0.109007293, 0.840366456, 0.0506262512], [0.0, 0.142129001, 0.857870999]],
