@@ -232,8 +232,8 @@ async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyC
 }
 
 /**
- * One pass over the rows for what the in-process reader checks row by row: empty values, times,
- * site and group labels; and the distinct states, decided by states.ts as for any survey table.
+ * One pass over the rows for what the in-process reader checks row by row: empty values, times and
+ * site labels (state and group labels are then decided once, by codedSurveys).
  */
 async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, options: DuckDbCountOptions, place: Placer): Promise<void> {
   // Only printable ASCII up to the length limit is surely fine; the rest (rare) are checked by labels.ts.
@@ -269,13 +269,7 @@ async function checkRows(db: DuckDBConnection, file: string, grouped: boolean, o
       if (problem) throw place(new SereError(problem.code, problem.what, { file }, problem.hint), 'site', (r) => r.site === site);
     }
   }
-  decideStates([...new Set(rows.map((r) => String(r['state'])))].sort(compareCodePoints), file, options.states, place);
-  if (grouped) {
-    for (const group of new Set(rows.map((r) => String(r['site_group'])))) {
-      const problem = labelProblem(group, () => `group ${quote(group)}`);
-      if (problem) throw place(new SereError(problem.code, problem.what, { file }, problem.hint), 'group', (r) => r.group === group);
-    }
-  }
+  // States and groups are decided next by codedSurveys, on the same trimmed, NFC labels: not twice.
 }
 
 /**

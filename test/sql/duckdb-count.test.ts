@@ -153,6 +153,9 @@ describe('counting with DuckDB gives the in-process counts', () => {
       ['site,time,state\nx,1,a\nx,2,b\ny\u200b,1,b\n'],
       ['site,time,state\nx,1,a\nx,2,b\nx,3,c\n', { ...defaults, states: ['a', 'b'] }],
       ['site,time,state,zone\nx,1,a,n\nx,2,b,n\ny,1,b,s\u200b\n', { ...defaults, columns: { ...DEFAULT_COLUMNS, group: 'zone' } }],
+      // A site id that needs trimming sends the check down the normalising path; states and groups are then decided once, after it.
+      ['site,time,state\n x,1,a\ny,1,b\nx,2,A\n'],
+      ['site,time,state,zone\n x,1,a,n\nx,2,b,n\ny,1,b,s\u200b\n', { ...defaults, columns: { ...DEFAULT_COLUMNS, group: 'zone' } }],
     ];
     const places: unknown[] = [];
     for (const [text, o = defaults] of cases) {
@@ -163,7 +166,8 @@ describe('counting with DuckDB gives the in-process counts', () => {
       places.push(expected);
     }
     expect(places.map((p) => [(p as { code: string }).code, (p as { line: number }).line])).toEqual([['EMPTY_VALUE', 4], ['BAD_TIME', 6],
-      ['DUPLICATE_SURVEY', 5], ['STATE_CASE_CLASH', 4], ['INVISIBLE_CHARACTER', 4], ['INVISIBLE_CHARACTER', 4], ['UNKNOWN_STATE', 4], ['INVISIBLE_CHARACTER', 4]]);
+      ['DUPLICATE_SURVEY', 5], ['STATE_CASE_CLASH', 4], ['INVISIBLE_CHARACTER', 4], ['INVISIBLE_CHARACTER', 4], ['UNKNOWN_STATE', 4], ['INVISIBLE_CHARACTER', 4],
+      ['STATE_CASE_CLASH', 4], ['INVISIBLE_CHARACTER', 4]]);
   });
 
   it('reads what the in-process reader reads: a BOM, CRLF, blank lines, quoted fields, white space trimmed', async () => {
