@@ -72,10 +72,14 @@ export interface CountsTable {
   readonly repeatedRows: number;
 }
 
-/** Whether a header row (already split) is a counts table's. */
+/**
+ * Whether a header row (already split) is a counts table's: it has `from_state` and `to_state`,
+ * which no survey table needs. Its other columns are then checked by the counts reader, so a counts
+ * table missing one (say `step`) is told so, not asked for a `site` column.
+ */
 export function isCountsHeader(fields: readonly string[]): boolean {
   const names = new Set(fields.map((f) => f.trim().replace(/^"(.*)"$/, '$1')));
-  return REQUIRED_COUNTS_COLUMNS.every((c) => names.has(c));
+  return names.has('from_state') && names.has('to_state');
 }
 
 /**

@@ -1,6 +1,6 @@
 import { csvRecords } from './read-csv-records.js';
 import { SereError, quote } from '../errors.js';
-import { COUNTS_COLUMNS, FIRST_SURVEY, LAST_SURVEY, isCountsHeader, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
+import { COUNTS_COLUMNS, FIRST_SURVEY, LAST_SURVEY, sortCells, sortSiteCells, REQUIRED_COUNTS_COLUMNS, type CountCell, type CountsTable, type SiteCell } from './counts-table.js';
 import { labelProblem, normaliseLabel } from './labels.js';
 import { readTextFile } from './read-text-file.js';
 import { StateLabels } from './states.js';
@@ -29,8 +29,8 @@ export function readCountsCsv(file: string, options: ReadCountsOptions = {}): Co
   const records = csvRecords(file, text, HINT);
   if (records.length === 0) throw new SereError('EMPTY_FILE', 'the counts table is empty', { file }, HINT);
   const header = records[0]!.record.map(normaliseLabel);
-  if (!isCountsHeader(header)) {
-    const missing = REQUIRED_COUNTS_COLUMNS.filter((c) => !header.includes(c));
+  const missing = REQUIRED_COUNTS_COLUMNS.filter((c) => !header.includes(c));
+  if (missing.length > 0) {
     throw new SereError('MISSING_COLUMN', `no ${missing.map(quote).join(', ')} column${missing.length > 1 ? 's' : ''} (a counts table has ${COUNTS_COLUMNS.join(', ')})`,
       { file, line: records[0]!.info.lines }, HINT);
   }

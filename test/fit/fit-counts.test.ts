@@ -5,6 +5,7 @@ import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
 import { readCountsCsv } from '../../src/data/read-counts-csv.js';
+import { isCountsFile } from '../../src/data/counts-table.js';
 import { DEFAULT_COLUMNS } from '../../src/data/survey.js';
 import { tallyCounts } from '../../src/chain/tally-counts.js';
 import { countsCsv } from '../../src/data/counts-csv.js';
@@ -249,6 +250,18 @@ describe('counts tables refused at the door', () => {
   it('refuses two steps in one table, and fitting with another step', () => {
     expect(code([header, ...ok, 'a,b,1,2002,2,1'].join('\n'))).toBe('BAD_COUNTS');
     expect(code([header, ...ok].join('\n'), settingsOf(2))).toBe('BAD_OPTION');
+  });
+  it('a counts table without one of its columns is told which, not read as a survey table', () => {
+    const noStep = 'from_state,to_state,gap,to_time,n\n,a,,2000,2\na,b,1,2001,1\n';
+    expect(isCountsFile(file(noStep))).toBe(true);
+    expect(code(noStep)).toBe('MISSING_COLUMN');
+    expect(place(noStep)).toEqual({ line: 1, column: undefined });
+    try {
+      readCountsCsv(file(noStep));
+    } catch (err) {
+      expect((err as SereError).message).toContain("'step'");
+    }
+    expect(isCountsFile(file('site,time,state\nx,1,a\n'))).toBe(false);
   });
   it('checks labels as a survey table does', () => {
     expect(code([header, ...ok, 'a,B\u200b,1,2001,1,1'].join('\n'))).toBe('INVISIBLE_CHARACTER');
