@@ -1,4 +1,5 @@
 import { SereError, quote } from '../errors.js';
+import { settingName } from '../setting-name.js';
 
 /** `jeffreys` = 0.5 per cell (Jeffreys 1946), `uniform` = 1 per cell, or any positive number. */
 export type PriorSpec = 'jeffreys' | 'uniform' | number;
@@ -8,7 +9,7 @@ export function parsePrior(text: string, place: { path?: string; file?: string; 
   const x = Number(text);
   if (text.trim() !== '' && x > 0 && Number.isFinite(x)) return x;
   throw new SereError('BAD_PRIOR', `prior ${quote(text)} is not jeffreys, uniform or a positive number`, place,
-    'use --prior jeffreys (0.5 per cell), uniform (1 per cell) or a positive pseudo-count such as 0.1');
+    `give ${settingName('--prior', 'fit.prior')} as jeffreys (0.5 per cell), uniform (1 per cell) or a positive pseudo-count such as 0.1`);
 }
 
 export function pseudoCount(prior: PriorSpec): number {

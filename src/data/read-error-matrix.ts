@@ -3,6 +3,7 @@ import { SereError, quote, type Place } from '../errors.js';
 import { normaliseLabel } from './labels.js';
 import type { LabelMap } from './label-map.js';
 import { readTextFile } from './read-text-file.js';
+import { settingName } from '../setting-name.js';
 
 /**
  * An accuracy assessment (an error matrix, Congalton 1991; Olofsson et al. 2014): how often sites
@@ -79,7 +80,7 @@ export function readErrorMatrix(file: string, states: readonly string[], labels?
       const i = index.get(label);
       if (i === undefined) {
         throw new SereError('UNKNOWN_STATE', `${name} state ${quote(label)} is not a state of the survey (${states.map(quote).join(', ')})`, place(name),
-          labels ? `map ${quote(raw)} to a state in ${labels.file}, or correct the row` : 'spell it as the survey does, or give the label map with --labels');
+          labels ? `map ${quote(raw)} to a state in ${labels.file}, or correct the row` : `spell it as the survey does, or give the label map with ${settingName('--labels', 'fit.labels')}`);
       }
       return i;
     };

@@ -1,5 +1,6 @@
 import { SereError, quote, type Place } from '../errors.js';
 import { firstDifference, labelProblem, lookAlikeKey, MAX_STATES, normaliseLabel } from './labels.js';
+import { settingName } from '../setting-name.js';
 
 /** The provisional id of a label that is not among the declared states (an error at the end). */
 export const UNKNOWN = 255;
@@ -63,7 +64,7 @@ export class StateLabels {
       if (id >= MAX_STATES) {
         throw new SereError('TOO_MANY_STATES', `more than ${MAX_STATES} different states (this is state ${MAX_STATES + 1}: ${quote(label)})`,
           { file: this.file, line, column },
-          `merge states into at most ${MAX_STATES} classes, or name the column that holds the states with --state-column`);
+          `merge states into at most ${MAX_STATES} classes, or name the column that holds the states with ${settingName('--state-column', 'fit.columns.state')}`);
       }
       this.firstSeen.push({ label, line, column });
     }
@@ -139,7 +140,7 @@ function inferStates(file: string, distinct: readonly Label[], minStates: number
 
 /** Two labels that are probably one: a case clash when only case differs, else a look-alike. */
 function lookAlikeError(file: string, l: Label, clash: Label): SereError {
-  const hint = 'correct the spelling, or declare both with --states if they really are different states';
+  const hint = `correct the spelling, or declare both with ${settingName('--states', 'fit.states')} if they really are different states`;
   if (l.label.toLowerCase() === clash.label.toLowerCase()) {
     return new SereError('STATE_CASE_CLASH', `state ${quote(l.label)} differs from ${quote(clash.label)} (line ${clash.line}) only by case`,
       { file, line: l.line, column: l.column }, hint);

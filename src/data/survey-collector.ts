@@ -11,6 +11,7 @@ import type { ReadSurveyOptions } from './read-survey-csv.js';
 import type { SurveyTable } from './survey.js';
 import { parseDate, parseTime, TIME_EMPTY, TIME_NOT_DATE, TIME_NOT_WHOLE, TIME_UNSAFE } from './parse-time.js';
 import { roundToSeasons } from './seasons.js';
+import { settingName } from '../setting-name.js';
 
 /**
  * The order in which problems are reported: the order of the checks when each ran over the whole
@@ -111,7 +112,7 @@ export class SurveyCollector implements RowSink {
         this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout);
         if (this.layout.layout === 'wide' && this.options.dates) {
           throw new SereError('BAD_OPTION', 'a wide table is headed by survey times, not dates: --step 1y reads dates in a long table\'s time column',
-            { file: this.file, line }, 'head the columns by survey year and give --step as a number (--step 1)');
+            { file: this.file, line }, `head the columns by survey year and give the step as a number: ${settingName('--step 1', 'fit.step: 1')}`);
         }
       } catch (err) {
         if (!(err instanceof SereError)) throw err;
@@ -144,7 +145,7 @@ export class SurveyCollector implements RowSink {
     }
     if (time.status === TIME_NOT_DATE) {
       this.fail(VALUE, new SereError('BAD_TIME', `time ${quote(time.text)} in column ${index.time + 1} is not a date written YYYY-MM-DD`,
-        { file: this.file, line, column: index.time + 1 }, 'write survey dates as 2024-08-15, or give --step as a number of time units for whole-number times'));
+        { file: this.file, line, column: index.time + 1 }, `write survey dates as 2024-08-15, or give the step as a number of time units for whole-number times: ${settingName('--step 1', 'fit.step: 1')}`));
       return;
     }
     if (time.status === TIME_NOT_WHOLE) {

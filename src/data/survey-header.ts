@@ -2,6 +2,7 @@ import { SereError, quote } from '../errors.js';
 import { normaliseLabel } from './labels.js';
 import { isCountsHeader } from './counts-table.js';
 import type { SurveyColumns } from './survey.js';
+import { settingName } from '../setting-name.js';
 
 /** Which field of a row holds what. */
 export type ColumnIndex = { site: number; time: number; state: number; group?: number; x?: number; y?: number };
@@ -56,7 +57,7 @@ export function findColumn(file: string, header: readonly string[], line: number
       { file, line },
       semicolons
         ? 'the file uses semicolons; save it with commas between values'
-        : `add a ${quote(name)} column, or name the column that holds the ${role} with --${role}-column`);
+        : `add a ${quote(name)} column, or name the column that holds the ${role} with ${settingName(`--${role}-column`, `fit.columns.${role}`)}`);
   }
   return at;
 }

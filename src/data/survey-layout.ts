@@ -3,6 +3,7 @@ import { normaliseLabel } from './labels.js';
 import { parseTime, TIME_OK } from './parse-time.js';
 import { columnIndex, findColumn, headerNames, type ColumnIndex } from './survey-header.js';
 import type { SurveyColumns, SurveyLayout } from './survey.js';
+import { settingName } from '../setting-name.js';
 
 /**
  * The columns of a wide table: the site (and group) column, and for every other column the survey
@@ -37,7 +38,7 @@ export function headerIndex(file: string, fields: readonly string[], line: numbe
   } catch (err) {
     if (err instanceof SereError && err.code === 'MISSING_COLUMN' && layout === undefined && looksWide(header, columns)) {
       throw new SereError(err.code, err.message, err.place,
-        'for a wide table (one row per site, one column per survey time) pass --wide; name any column that is not a time with --group-column, or remove it');
+        `for a wide table (one row per site, one column per survey time) pass ${settingName('--wide', 'fit.layout: wide')}; name any column that is not a time with ${settingName('--group-column', 'fit.columns.group')}, or remove it`);
     }
     throw err;
   }
@@ -81,7 +82,7 @@ function wideIndex(file: string, header: readonly string[], line: number, column
     const time = headerTime(name);
     if (time === undefined) {
       throw new SereError('BAD_TIME', `column ${at + 1} (${quote(name)}) is not a survey time: in a wide table every column besides the site${columns.group === undefined ? '' : ' and group'} column is headed by a whole-number time`,
-        { file, line, column: at + 1 }, 'remove the column, head it with the survey time (e.g. 2024), or name it with --group-column');
+        { file, line, column: at + 1 }, `remove the column, head it with the survey time (e.g. 2024), or name it with ${settingName('--group-column', 'fit.columns.group')}`);
     }
     const earlier = columnOfTime.get(time);
     if (earlier !== undefined) {

@@ -8,6 +8,7 @@ import type { CarriedSites, MixAtTime } from '../chain/latest-mix.js';
 import { SiteCountBuilder, type SiteCountTable } from '../chain/site-counts.js';
 import { impossibleMask, type FitSettings } from './settings.js';
 import { checkTransitions, type Fit } from './fit.js';
+import { settingName } from '../setting-name.js';
 
 /** The column name a fit from a counts table reports for its groups, unless the settings name one. */
 export const COUNTS_GROUP_COLUMN = 'site_group';
@@ -26,7 +27,7 @@ export function fitCounts(table: CountsTable, given: FitSettings): Fit {
   const settings = given.stepDefaulted ? { ...given, step: table.step } : given;
   if (settings.step !== table.step) {
     throw new SereError('BAD_OPTION', `the counts table was counted with steps of ${unitsOf(table.step)}, not ${settings.step}`,
-      { file: table.file, path: '--step' }, `fit with --step ${table.step}, or count the survey table again with --step ${settings.step}`);
+      { file: table.file, path: '--step' }, `fit with ${settingName(`--step ${table.step}`, `fit.step: ${table.step}`)}, or count the survey table again with --step ${settings.step}`);
   }
   const cells = settings.group === undefined ? table.cells : groupCells(table.cells, table, settings.group);
   const siteCells = settings.group === undefined ? table.siteCells : table.siteCells?.filter((c) => c.group === settings.group);

@@ -9,6 +9,7 @@ import type { PriorReliance } from '../chain/prior-reliance.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { blockNotes } from '../fit/spatial-blocks.js';
 import { errorModelLines } from './error-table.js';
+import { settingName } from '../setting-name.js';
 
 /**
  * What the fit left out, merged or could not use: skipped pairs (old fit files only), sites with one
@@ -29,7 +30,7 @@ export function dataWarnings(fit: Fit, style: ChalkInstance): string[] {
     // The label map is where a recorded spelling is fixed without editing the field data.
     const map = fit.labels ? `in the label map ${fit.labels.file}` : 'in a label map (--labels FILE, or fit.labels in a scenario)';
     lines.push(style.yellow(`check state '${t.label}' (${count(t.rows, 'row')}, first on line ${t.line}): a slip for '${t.near}' ` +
-      `(${count(t.nearRows, 'row')})? Map '${t.label}: ${t.near}' ${map}, or declare the states with --states if both are real`));
+      `(${count(t.nearRows, 'row')})? Map '${t.label}: ${t.near}' ${map}, or declare the states with ${settingName('--states', 'fit.states')} if both are real`));
   }
   return lines;
 }

@@ -13,6 +13,7 @@ import type { SurveyColumns } from '../data/survey.js';
 import { columnIndex } from '../data/survey-header.js';
 import { findSurveyLine, type SurveyRole, type SurveyRowText } from '../data/find-survey-line.js';
 import { countingSql } from './count-query.js';
+import { settingName } from '../setting-name.js';
 
 export interface DuckDbCountOptions {
   readonly columns: SurveyColumns;
@@ -226,7 +227,7 @@ async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyC
   for (const [role, name] of wanted) {
     if (name !== undefined && !names.includes(name)) {
       throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (columns: ${names.map(quote).join(', ')})`, { file },
-        `name the column that holds the ${role} with --${role}-column`);
+        `name the column that holds the ${role} with ${settingName(`--${role}-column`, `fit.columns.${role}`)}`);
     }
   }
 }
