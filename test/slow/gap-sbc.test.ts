@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { rankUniformityP } from '../helpers.js';
+import { projectMix, rankUniformityP } from '../helpers.js';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
 import { fitSurvey, type Fit } from '../../src/fit/fit.js';
@@ -85,10 +85,10 @@ describe('simulation-based calibration of the gap posterior (Talts et al. 2018)'
       const random = root.stream(`history:${n}`);
       const truth = truthFromPrior(random);
       const { fit, last } = history(truth, 30, 6, 0.3, random);
-      const want = project(last, truth, 0, 10);
+      const want = projectMix(truth, 0, Array.from(last), 10);
       const draws = posteriorDraws(fit, D, random.stream('draws'), fit.latentSample);
       for (let s = 0; s < K; s++) {
-        const shares = Array.from({ length: D }, (_, d) => project(last, draws.data, d * K * K, 10)[s]!).sort((x, y) => x - y);
+        const shares = Array.from({ length: D }, (_, d) => projectMix(draws.data, d * K * K, Array.from(last), 10)[s]!).sort((x, y) => x - y);
         const low = shares[Math.floor(0.05 * (D - 1))]!;
         const high = shares[Math.ceil(0.95 * (D - 1))]!;
         inside += want[s]! >= low && want[s]! <= high ? 1 : 0;
@@ -102,12 +102,3 @@ describe('simulation-based calibration of the gap posterior (Talts et al. 2018)'
   });
 });
 
-function project(x0: Float64Array, p: Float64Array, offset: number, steps: number): Float64Array {
-  let x = Float64Array.from(x0);
-  for (let t = 0; t < steps; t++) {
-    const next = new Float64Array(K);
-    for (let i = 0; i < K; i++) for (let j = 0; j < K; j++) next[j] += x[i]! * p[offset + i * K + j]!;
-    x = next;
-  }
-  return x;
-}
