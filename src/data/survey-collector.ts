@@ -73,6 +73,7 @@ export class SurveyCollector implements RowSink {
   private readonly sites: LabelColumn;
   private readonly stateLabels: LabelColumn;
   private readonly groups: LabelColumn;
+  private readonly observers: LabelColumn;
   private stateIds = new Int16Array(64).fill(-1);
   private readonly states: StateLabels;
   private readonly store: RowStore;
@@ -86,8 +87,9 @@ export class SurveyCollector implements RowSink {
     this.sites = new LabelColumn(trim);
     this.stateLabels = new LabelColumn(trim);
     this.groups = new LabelColumn(trim);
+    this.observers = new LabelColumn(trim);
     this.states = new StateLabels(file, options.states, options.partOfSeveral ? 1 : 2, options.statesPlace);
-    this.store = new RowStore(options.columns.group !== undefined);
+    this.store = new RowStore(options.columns.group !== undefined, options.columns.observer !== undefined || options.detectObserver === true);
     this.declared = new Set((options.states ?? []).map((s) => normaliseLabel(s.trim())));
     if (options.columns.x !== undefined) {
       this.positions = new Float64Array(2048).fill(Number.NaN);
@@ -108,7 +110,7 @@ export class SurveyCollector implements RowSink {
       this.header = Array.from({ length: fields }, (_, n) => this.text(bytes, starts[n]!, ends[n]!));
       this.headerLine = line;
       try {
-        this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout);
+        this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout, this.options.detectObserver);
         if (this.layout.layout === 'wide' && this.options.dates) {
           throw new SereError('BAD_OPTION', 'a wide table is headed by survey times, not dates: --step 1y reads dates in a long table\'s time column',
             { file: this.file, line }, 'head the columns by survey year and give --step as a number (--step 1)');
@@ -133,13 +135,14 @@ export class SurveyCollector implements RowSink {
     const site = this.siteOf(bytes, starts, ends, line, index.site);
     const state = this.stateLabels.id(bytes, starts[index.state]!, ends[index.state]!);
     const group = this.groupOf(bytes, starts, ends, line, index.group);
+    const observer = this.observerOf(bytes, starts, ends, line, index.observer);
     if (this.stage <= VALUE) return;
 
     const time = (this.options.dates ? parseDate : parseTime)(bytes, starts[index.time]!, ends[index.time]!, this.trim);
     const empty = this.sites.labels[site] === '' ? 'site' : time.status === TIME_EMPTY ? 'time'
-      : this.stateLabels.labels[state] === '' ? 'state' : undefined;
+      : this.stateLabels.labels[state] === '' ? 'state' : index.observer !== undefined && this.observers.labels[observer] === '' ? 'observer' : undefined;
     if (empty !== undefined) {
-      this.emptyValue(empty, index[empty], line);
+      this.emptyValue(empty, index[empty]!, line);
       return;
     }
     if (time.status === TIME_NOT_DATE) {
@@ -165,7 +168,7 @@ export class SurveyCollector implements RowSink {
     // The cached id inline (most rows): the call is for a label's first row, or a skipped one.
     const cached = state < this.stateIds.length ? this.stateIds[state]! : NEW;
     const stateId = cached >= 0 ? cached : this.stateIdOf(state, line, index.state);
-    if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group);
+    if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group, observer);
   }
 
   /**
@@ -214,6 +217,15 @@ export class SurveyCollector implements RowSink {
     const site = this.sites.id(bytes, starts[at]!, ends[at]!);
     if (site === known) this.checkLabel('site', this.sites.labels[site]!, line, at);
     return site;
+  }
+
+  /** The observer's id (0 without an observer column); a new name is checked like a site id. */
+  private observerOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
+    if (at === undefined) return 0;
+    const known = this.observers.labels.length;
+    const observer = this.observers.id(bytes, starts[at]!, ends[at]!);
+    if (observer === known && this.observers.labels[observer] !== '') this.checkLabel('observer', this.observers.labels[observer]!, line, at);
+    return observer;
   }
 
   private groupOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
@@ -271,7 +283,7 @@ export class SurveyCollector implements RowSink {
     return value;
   }
 
-  private emptyValue(what: 'site' | 'time' | 'state', at: number, line: number): void {
+  private emptyValue(what: 'site' | 'time' | 'state' | 'observer', at: number, line: number): void {
     this.fail(VALUE, new SereError('EMPTY_VALUE', `empty ${what} in column ${at + 1} (${quote(this.header![at]!)})`,
       { file: this.file, line, column: at + 1 }, `fill in the ${what} or remove the row`));
   }
@@ -374,6 +386,8 @@ export class SurveyCollector implements RowSink {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
       ...(positions ? { positions } : {}),
       ...(this.layout?.index.group !== undefined ? { groups: this.groups.labels } : {}),
+      ...(this.layout?.layout === 'long' && this.layout.index.observer !== undefined
+        ? { observers: this.observers.labels, observerColumn: { name: this.header![this.layout.index.observer]!, column: this.layout.index.observer + 1 } } : {}),
       ...(this.options.labels ? { labels: { file: this.options.labels.file, sha256: this.options.labels.sha256, droppedRows: this.dropped } } : {}),
       ...(seasons ? { seasons } : {}),
     };
@@ -421,7 +435,7 @@ export class SurveyCollector implements RowSink {
     return new SereError(err.code, `${err.message} (in the ${time} column)`, err.place, err.hint);
   }
 
-  private checkLabel(role: 'site' | 'group', label: string, line: number, at: number): void {
+  private checkLabel(role: 'site' | 'group' | 'observer', label: string, line: number, at: number): void {
     const problem = labelProblem(label, () => `${role} ${quote(label)}`);
     if (problem) this.fail(LABEL, new SereError(problem.code, problem.what, { file: this.file, line, column: at + 1 }, problem.hint));
   }
