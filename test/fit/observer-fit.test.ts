@@ -1,0 +1,142 @@
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { heathSurveysByObserver, STATES } from '../../scripts/heath-fixture.js';
+import { readSurveyCsv } from '../../src/data/read-survey-csv.js';
+import type { ErrorEstimate } from '../../src/chain/error-em.js';
+import { fitMle, fitSurvey } from '../../src/fit/fit.js';
+import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
+import { estimateFit } from '../../src/fit/estimate.js';
+import { fitToJson } from '../../src/fit/fit-json.js';
+import { loadFit } from '../../src/fit/load-fit.js';
+import { surveyReadOptions, type FitSettings } from '../../src/fit/settings.js';
+import { sampleLatent } from '../../src/uncertainty/augment.js';
+import { posteriorDraws } from '../../src/uncertainty/posterior.js';
+import { randomStreams } from '../../src/uncertainty/random.js';
+import { sereInProcess } from '../cli/in-process.js';
+import { errorOf, quantile7, tempFiles } from '../helpers.js';
+
+const SURVEYS = 'test/fixtures/heath/surveys-two-observers.csv';
+const ACCURACY = 'test/fixtures/heath/accuracy-by-observer.csv';
+const SETTINGS: FitSettings = { ...DEFAULT_FIT_SETTINGS, states: [...STATES], impossible: [['mature-heath', 'bare-peat']], errors: ACCURACY };
+const SAMPLER = ['--seed', '4', '--chains', '2', '--warm-up', '40', '--retained', '60', '--thin', '1'];
+const { dir, write } = tempFiles('sere-observer-fit-');
+const k = STATES.length;
+const YH = STATES.indexOf('young-heath');
+const GR = STATES.indexOf('grassland');
+
+const fitOf = (settings: FitSettings = SETTINGS) => fitSurvey(readSurveyCsv(SURVEYS, surveyReadOptions(settings)), settings);
+
+describe('two observers, Corran recording young heath as grassland one visit in ten, Avery never (scripts/heath-fixture.ts)', () => {
+  it('is the generator output, byte for byte', () => {
+    const { surveys, assessment } = heathSurveysByObserver();
+    expect(readFileSync(SURVEYS, 'utf8')).toBe(surveys);
+    expect(readFileSync(ACCURACY, 'utf8')).toBe(assessment);
+  });
+
+  it('reads the observer column by default with --errors, one matrix per observer', () => {
+    const fit = fitOf();
+    const model = fit.errorModel!;
+    expect(model.observers!.names).toEqual(['Avery', 'Corran']);
+    expect(model.observers!.unassessed).toEqual([]);
+    expect(model.observers!.notSurveyed).toEqual([]);
+    // Without --errors the column is not read.
+    expect(readSurveyCsv(SURVEYS, surveyReadOptions({ ...SETTINGS, errors: undefined })).observers).toBeUndefined();
+    const mle = fitMle(fit) as ErrorEstimate;
+    expect(mle.converged).toBe(true);
+    expect(mle.emission).toHaveLength(3 * k * k);
+  });
+
+  it('recovers Corran\'s rate within its 90% band, and Avery\'s band stays below it', () => {
+    const unsampled = fitOf();
+    const sample = sampleLatent(unsampled, { chains: 2, warmUp: 100, retained: 400, thin: 1 }, randomStreams(21).stream('augment'));
+    const own = sample.errors!.observers!;
+    const rate = (o: number): number[] => Array.from({ length: sample.retained }, (_, r) => own.emissions[(r * 2 + o) * k * k + YH * k + GR]!);
+    const corran = rate(1);
+    const avery = rate(0);
+    // Truth 0.1 (MISLABEL_CHANCE); the band is the posterior's own, not a tolerance.
+    expect(quantile7(corran, 0.05)).toBeLessThan(0.1);
+    expect(quantile7(corran, 0.95)).toBeGreaterThan(0.1);
+    expect(quantile7(avery, 0.95)).toBeLessThan(0.05);
+    // The pooled matrix (every assessed count) lies between the two.
+    const pooled = Array.from({ length: sample.retained }, (_, r) => sample.errors!.emissions[r * k * k + YH * k + GR]!);
+    const mean = (x: number[]): number => x.reduce((a, b) => a + b, 0) / x.length;
+    expect(mean(pooled)).toBeGreaterThan(mean(avery));
+    expect(mean(pooled)).toBeLessThan(mean(corran));
+  });
+
+  it('writes a fit file that reads back to the same MLE, observer matrices and posterior draws', () => {
+    const unsampled = fitOf();
+    const fit = { ...unsampled, latentSample: sampleLatent(unsampled, { chains: 2, warmUp: 20, retained: 30, thin: 1 }, randomStreams(11).stream('augment')) };
+    const json = fitToJson(fit, estimateFit(fit, 0.9)) as { error_model: { observers: { name: string }[] }; posterior_sampler: { observer_error_matrices: number[][][] } };
+    expect(json.error_model.observers.map((o) => o.name)).toEqual(['Avery', 'Corran']);
+    expect(json.posterior_sampler.observer_error_matrices).toHaveLength(30);
+    expect(json.posterior_sampler.observer_error_matrices[0]).toHaveLength(2);
+    const file = join(dir, 'fit.json');
+    writeFileSync(file, JSON.stringify(json));
+    const loaded = loadFit(file);
+    expect(Array.from((fitMle(loaded) as ErrorEstimate).emission)).toEqual(Array.from((fitMle(fit) as ErrorEstimate).emission));
+    expect(Array.from(loaded.latentSample!.errors!.observers!.emissions)).toEqual(Array.from(fit.latentSample.errors!.observers!.emissions));
+    const a = posteriorDraws(fit, 20, randomStreams(3).stream('p'));
+    const b = posteriorDraws(loaded, 20, randomStreams(3).stream('p'));
+    expect(Array.from(b.data)).toEqual(Array.from(a.data));
+    expect(Array.from(b.emissions!)).toEqual(Array.from(a.emissions!));
+  });
+
+  it('refuses a fit file whose observers do not add up to the pooled assessment, at the key', () => {
+    const unsampled = fitOf();
+    const fit = { ...unsampled, latentSample: sampleLatent(unsampled, { chains: 2, warmUp: 5, retained: 8, thin: 1 }, randomStreams(11).stream('augment')) };
+    const json = fitToJson(fit, estimateFit(fit, 0.9)) as { error_model: { observers: { assessment: number[][] }[] } };
+    json.error_model.observers[1]!.assessment[YH]![GR] += 1;
+    const file = join(dir, 'tampered.json');
+    writeFileSync(file, JSON.stringify(json));
+    const err = errorOf(() => loadFit(file));
+    expect(err.code).toBe('BAD_FIT_FILE');
+    expect(err.place.path).toBe(`error_model.assessment[${YH}][${GR}]`);
+  });
+});
+
+describe('observers at the door', () => {
+  const surveys = readFileSync(SURVEYS, 'utf8');
+  const lines = surveys.split('\n');
+
+  it('a surveyed observer the assessment does not name: the pooled matrix, a warning, and pooled_for in the JSON', async () => {
+    // Line 2's survey (and every other of that observer's) is by someone new.
+    const renamed = write('new-observer.csv', lines.map((l, n) => (n > 0 && n % 50 === 1 ? l.replace(/,(Avery|Corran)$/, ',Dana') : l)).join('\n'));
+    const r = await sereInProcess(['fit', renamed, '--errors', ACCURACY, '--impossible', 'mature-heath>bare-peat', '--json', ...SAMPLER]);
+    expect(r.code).toBe(0);
+    expect(r.stderr).toMatch(/warning: observer Dana is not in the error matrix/);
+    const json = JSON.parse(r.stdout);
+    expect(json.error_model.pooled_for).toEqual(['Dana']);
+    expect(json.error_model.pooled_surveys).toBe(lines.filter((l, n) => n > 0 && n % 50 === 1 && l !== '').length);
+  });
+
+  it('an assessed observer who made no survey is fine (a note), and an assessment without observers is one shared matrix', () => {
+    const extra = write('extra-observer.csv', `${readFileSync(ACCURACY, 'utf8')}Edda,grassland,grassland,5\n`);
+    const fit = fitOf({ ...SETTINGS, errors: extra });
+    expect(fit.errorModel!.observers!.notSurveyed).toEqual(['Edda']);
+    const plain = write('plain.csv', 'recorded,verified,n\n' + STATES.map((s) => `${s},${s},10`).join('\n') + '\nyoung-heath,young-heath,2\n'.replace('young-heath,young-heath', 'grassland,young-heath'));
+    expect(fitOf({ ...SETTINGS, errors: plain }).errorModel!.observers).toBeUndefined();
+  });
+
+  const refused: [string, () => string, string[], string, { file: () => string; line?: number; column?: number }][] = [
+    ['a surveyed name that is an assessed one in another case', () => write('case.csv', surveys.replace(/,Corran\n/, ',corran \n')), [], 'OBSERVER_LOOK_ALIKE',
+      { file: () => join(dir, 'case.csv'), line: lines.findIndex((l) => l.endsWith(',Corran')) + 1, column: 4 }],
+    ['an empty observer cell', () => write('empty.csv', surveys.replace(/,Avery\n/, ',\n')), [], 'EMPTY_VALUE',
+      { file: () => join(dir, 'empty.csv'), line: lines.findIndex((l) => l.endsWith(',Avery')) + 1, column: 4 }],
+    ['an assessment naming observers for a table without an observer column', () => write('no-column.csv', lines.map((l) => l.replace(/,[^,]*$/, '')).join('\n')), [], 'MISSING_COLUMN',
+      { file: () => join(dir, 'no-column.csv'), line: 1 }],
+    ['an observer column named but not in the table', () => SURVEYS, ['--observer-column', 'surveyor'], 'MISSING_COLUMN', { file: () => SURVEYS, line: 1 }],
+  ];
+  for (const [what, file, flags, code, at] of refused) {
+    it(`refuses ${what}: ${code}, one line with its place, exit 1, nothing written`, async () => {
+      const out = join(dir, `never-${code}.json`);
+      const r = await sereInProcess(['fit', file(), '--errors', ACCURACY, ...flags, '--out', out, '--debug', ...SAMPLER]);
+      expect(r.code).toBe(1);
+      expect(r.stderr).toContain(`[${code}]`);
+      expect(r.stderr).toContain(`${at.file()}:${at.line ?? ''}${at.column !== undefined ? `:${at.column}` : ''}`);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(existsSync(out)).toBe(false);
+    });
+  }
+});
