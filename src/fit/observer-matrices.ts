@@ -9,7 +9,7 @@ import type { ObserverMatrices } from './error-model.js';
  * - a surveyed observer the assessment names: that observer's own matrix;
  * - a surveyed observer it does not name: the pooled matrix (listed, for a warning);
  * - an assessed observer who made no survey: nothing to read, listed for a note;
- * - a surveyed name that is an assessed one typed differently (case, look-alike letters, spaces;
+ * - two surveyed names that are one typed differently, or a surveyed name that is an assessed one typed differently (case, look-alike letters, spaces;
  *   `observerKey`) is refused at its first survey's line: it would silently fall back on the
  *   pooled matrix while its own was meant.
  * Refused too: an assessment naming observers for a table without an observer column (whose
@@ -35,6 +35,7 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
     surveys[o] += 1;
     firstLine[o] = Math.min(firstLine[o]!, rows.line[n]!);
   }
+  checkSurveyedNames(table, surveys, firstLine);
   const matrixOfObserver = new Int32Array(observers.length);
   const unassessed: string[] = [];
   const surveyed = new Uint8Array(assessed.names.length);
@@ -65,4 +66,21 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
     },
     matrixOfObserver,
   };
+}
+
+/** Two surveyed names that are one typed differently: refused at the later one's first line. */
+function checkSurveyedNames(table: SurveyTable, surveys: Float64Array, firstLine: Float64Array): void {
+  const names = table.observers!;
+  const order = names.map((_, o) => o).filter((o) => surveys[o]! > 0).sort((a, b) => firstLine[a]! - firstLine[b]!);
+  const seen = new Map<string, number>();
+  for (const o of order) {
+    const key = observerKey(names[o]!);
+    const earlier = seen.get(key);
+    if (earlier !== undefined) {
+      throw new SereError('OBSERVER_LOOK_ALIKE', `observer ${quote(names[o]!)} looks like ${quote(names[earlier]!)} (line ${firstLine[earlier]}) but is spelled differently`,
+        { file: table.file, line: firstLine[o]!, ...(table.observerColumn?.column ? { column: table.observerColumn.column } : {}) },
+        'spell each observer\'s name the same way on every row');
+    }
+    seen.set(key, o);
+  }
 }

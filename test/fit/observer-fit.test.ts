@@ -99,6 +99,9 @@ describe('two observers, Corran recording young heath as grassland one visit in 
 describe('observers at the door', () => {
   const surveys = readFileSync(SURVEYS, 'utf8');
   const lines = surveys.split('\n');
+  /** The (1-based) line of the n-th row ending with `end`. */
+  const nthLine = (end: string, n: number): number => lines.map((l, at) => (l.endsWith(end) ? at + 1 : 0)).filter((at) => at > 0)[n - 1]!;
+  const withLine = (line: number, change: (l: string) => string): string => lines.map((l, at) => (at + 1 === line ? change(l) : l)).join('\n');
 
   it('a surveyed observer the assessment does not name: the pooled matrix, a warning, and pooled_for in the JSON', async () => {
     // Line 2's survey (and every other of that observer's) is by someone new.
@@ -120,10 +123,14 @@ describe('observers at the door', () => {
   });
 
   const refused: [string, () => string, string[], string, { file: () => string; line?: number; column?: number }][] = [
-    ['a surveyed name that is an assessed one in another case', () => write('case.csv', surveys.replace(/,Corran\n/, ',corran \n')), [], 'OBSERVER_LOOK_ALIKE',
-      { file: () => join(dir, 'case.csv'), line: lines.findIndex((l) => l.endsWith(',Corran')) + 1, column: 4 }],
-    ['an empty observer cell', () => write('empty.csv', surveys.replace(/,Avery\n/, ',\n')), [], 'EMPTY_VALUE',
-      { file: () => join(dir, 'empty.csv'), line: lines.findIndex((l) => l.endsWith(',Avery')) + 1, column: 4 }],
+    // Every Corran survey spelled 'corran ': the assessment's Corran is meant (the name is trimmed, so the case differs).
+    ['a surveyed name that is an assessed one in another case', () => write('case.csv', surveys.replace(/,Corran\n/g, ',corran \n')), [], 'OBSERVER_LOOK_ALIKE',
+      { file: () => join(dir, 'case.csv'), line: nthLine(',Corran', 1), column: 4 }],
+    // Avery's second survey spelled 'AVERY': refused there, before the assessment is consulted.
+    ['two spellings of one surveyed observer', () => write('two-spellings.csv', withLine(nthLine(',Avery', 2), (l) => l.replace(/,Avery$/, ',AVERY'))), [], 'OBSERVER_LOOK_ALIKE',
+      { file: () => join(dir, 'two-spellings.csv'), line: nthLine(',Avery', 2), column: 4 }],
+    ['an empty observer cell', () => write('empty.csv', withLine(nthLine(',Avery', 1), (l) => l.replace(/,Avery$/, ','))), [], 'EMPTY_VALUE',
+      { file: () => join(dir, 'empty.csv'), line: nthLine(',Avery', 1), column: 4 }],
     ['an assessment naming observers for a table without an observer column', () => write('no-column.csv', lines.map((l) => l.replace(/,[^,]*$/, '')).join('\n')), [], 'MISSING_COLUMN',
       { file: () => join(dir, 'no-column.csv'), line: 1 }],
     ['an observer column named but not in the table', () => SURVEYS, ['--observer-column', 'surveyor'], 'MISSING_COLUMN', { file: () => SURVEYS, line: 1 }],
