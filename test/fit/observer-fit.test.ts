@@ -147,3 +147,31 @@ describe('observers at the door', () => {
     });
   }
 });
+
+describe('a scenario with one error matrix per observer', () => {
+  const { write: put } = tempFiles('sere-observer-scenario-');
+  put('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+  // The observer column under another name, given by fit.columns.observer.
+  const data = put('surveys.csv', readFileSync(SURVEYS, 'utf8').replace('site,time,state,observer', 'site,time,state,surveyor'));
+  const scenario = (name: string, columns: string, plots: string) => put(name, [
+    `name: ${name}`, `data: ${data}`, `fit: { errors: accuracy.csv, impossible: [mature-heath>bare-peat]${columns} }`,
+    'horizon: { years: 3 }', 'variation: none', 'uncertainty: { source: posterior, draws: 100, seed: 3 }', `plots: ${plots}`,
+  ].join('\n') + '\n');
+
+  it('reads fit.columns.observer, and forecasts plots as recorded through the pooled matrix', async () => {
+    const recorded = await sereInProcess(['forecast', scenario('rec.yaml', ', columns: { observer: surveyor }', '{ count: 100, as: recorded }'), '--json']);
+    expect(recorded.code).toBe(0);
+    const truth = await sereInProcess(['forecast', scenario('true.yaml', ', columns: { observer: surveyor }', '{ count: 100, as: true }'), '--json']);
+    const mean = (stdout: string, state: string): number => JSON.parse(stdout).scenarios[0].plots[state].mean[0];
+    // The pooled matrix records some young heath as grassland: fewer recorded than true.
+    expect(mean(recorded.stdout, 'young-heath')).toBeLessThan(mean(truth.stdout, 'young-heath'));
+    expect(mean(recorded.stdout, 'grassland')).toBeGreaterThan(mean(truth.stdout, 'grassland'));
+  });
+
+  it('without fit.columns.observer (no column named observer here), the assessment\'s observers are refused at the data', async () => {
+    const r = await sereInProcess(['forecast', scenario('none.yaml', '', '40'), '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[MISSING_COLUMN]');
+    expect(r.stderr).toContain(`${data}:1`);
+  });
+});
