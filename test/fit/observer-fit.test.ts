@@ -175,3 +175,26 @@ describe('a scenario with one error matrix per observer', () => {
     expect(r.stderr).toContain(`${data}:1`);
   });
 });
+
+describe('several survey tables read as one (a workspace\'s seasons)', () => {
+  it('keep each survey\'s observer, renumbered into the union of the tables\' observers', async () => {
+    const { readSurveyTables } = await import('../../src/data/read-survey-tables.js');
+    const text = readFileSync(SURVEYS, 'utf8').split('\n');
+    const header = text[0]!;
+    const body = text.slice(1).filter((l) => l !== '');
+    // Before 2020 and from 2020 on; Corran's surveys in the first table renamed, so the tables name different observers.
+    const early = write('early.csv', [header, ...body.filter((l) => Number(l.split(',')[1]) < 2020).map((l) => l.replace(/,Corran$/, ',Dana'))].join('\n') + '\n');
+    const late = write('late.csv', [header, ...body.filter((l) => Number(l.split(',')[1]) >= 2020)].join('\n') + '\n');
+    const table = readSurveyTables([early, late], surveyReadOptions(SETTINGS));
+    const { rows, observers } = table;
+    expect([...observers!].sort()).toEqual(['Avery', 'Corran', 'Dana']);
+    let checked = 0;
+    for (let n = 0; n < rows.count; n++) {
+      const name = observers![rows.observer![n]!]!;
+      if (rows.time[n]! < 2020) expect(name === 'Avery' || name === 'Dana').toBe(true);
+      else expect(name === 'Avery' || name === 'Corran').toBe(true);
+      checked += 1;
+    }
+    expect(checked).toBe(body.length);
+  });
+});
