@@ -133,6 +133,8 @@ describe('observers at the door', () => {
       { file: () => join(dir, 'empty.csv'), line: nthLine(',Avery', 1), column: 4 }],
     ['an assessment naming observers for a table without an observer column', () => write('no-column.csv', lines.map((l) => l.replace(/,[^,]*$/, '')).join('\n')), [], 'MISSING_COLUMN',
       { file: () => join(dir, 'no-column.csv'), line: 1 }],
+    ['an observer column for a wide table', () => write('wide.csv', 'site,observer,2019,2020\nQ1,Avery,grassland,grassland\nQ2,Corran,young-heath,grassland\n'), ['--observer-column', 'observer'], 'BAD_OPTION',
+      { file: () => join(dir, 'wide.csv'), line: 1 }],
     ['an observer column named but not in the table', () => SURVEYS, ['--observer-column', 'surveyor'], 'MISSING_COLUMN', { file: () => SURVEYS, line: 1 }],
   ];
   for (const [what, file, flags, code, at] of refused) {
