@@ -140,9 +140,9 @@ export class SurveyCollector implements RowSink {
 
     const time = (this.options.dates ? parseDate : parseTime)(bytes, starts[index.time]!, ends[index.time]!, this.trim);
     const empty = this.sites.labels[site] === '' ? 'site' : time.status === TIME_EMPTY ? 'time'
-      : this.stateLabels.labels[state] === '' ? 'state' : index.observer !== undefined && this.observers.labels[observer] === '' ? 'observer' : undefined;
+      : this.stateLabels.labels[state] === '' ? 'state' : undefined;
     if (empty !== undefined) {
-      this.emptyValue(empty, index[empty]!, line);
+      this.emptyValue(empty, index[empty], line);
       return;
     }
     if (time.status === TIME_NOT_DATE) {
@@ -219,7 +219,12 @@ export class SurveyCollector implements RowSink {
     return site;
   }
 
-  /** The observer's id (0 without an observer column); a new name is checked like a site id. */
+  /**
+   * The observer's id (0 without an observer column); a new name is checked like a site id. An
+   * empty cell is kept as the name '' here: it is refused only where observers are used, when the
+   * error matrix names observers (fit/observer-matrices.ts) — the column may be read without being
+   * used (an error matrix without observers), and then an empty cell is no problem.
+   */
   private observerOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
     if (at === undefined) return 0;
     const known = this.observers.labels.length;
@@ -283,7 +288,7 @@ export class SurveyCollector implements RowSink {
     return value;
   }
 
-  private emptyValue(what: 'site' | 'time' | 'state' | 'observer', at: number, line: number): void {
+  private emptyValue(what: 'site' | 'time' | 'state', at: number, line: number): void {
     this.fail(VALUE, new SereError('EMPTY_VALUE', `empty ${what} in column ${at + 1} (${quote(this.header![at]!)})`,
       { file: this.file, line, column: at + 1 }, `fill in the ${what} or remove the row`));
   }

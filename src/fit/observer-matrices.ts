@@ -12,8 +12,8 @@ import type { ObserverMatrices } from './error-model.js';
  * - two surveyed names that are one typed differently, or a surveyed name that is an assessed one typed differently (case, look-alike letters, spaces;
  *   `observerKey`) is refused at its first survey's line: it would silently fall back on the
  *   pooled matrix while its own was meant.
- * Refused too: an assessment naming observers for a table without an observer column (whose
- * matrix would each survey use?). Without observers in the assessment, one shared matrix: a
+ * Refused too: an assessment naming observers for a table without an observer column, or with an
+ * empty observer cell (whose matrix would that survey use?). Without observers in the assessment, one shared matrix: a
  * table's observer column is then not used.
  */
 export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
@@ -35,6 +35,13 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
     surveys[o] += 1;
     firstLine[o] = Math.min(firstLine[o]!, rows.line[n]!);
   }
+  const column = table.observerColumn?.column;
+  observers.forEach((name, o) => {
+    if (name !== '' || surveys[o] === 0) return;
+    throw new SereError('EMPTY_VALUE', `empty observer${column ? ` in column ${column} (${quote(table.observerColumn!.name)})` : ''}, and the error matrix has one matrix per observer`,
+      { file: table.file, line: firstLine[o]!, ...(column ? { column } : {}) },
+      'name the observer who made this survey, or drop the error matrix\'s observer column to pool every observer');
+  });
   checkSurveyedNames(table, surveys, firstLine);
   const matrixOfObserver = new Int32Array(observers.length);
   const unassessed: string[] = [];

@@ -200,3 +200,16 @@ describe('several survey tables read as one (a workspace\'s seasons)', () => {
     expect(checked).toBe(body.length);
   });
 });
+
+describe('an observer column read but not used', () => {
+  it('with an error matrix without observers, empty observer cells are no problem (one shared matrix)', () => {
+    const { write: put } = tempFiles('sere-observer-unused-');
+    const text = readFileSync(SURVEYS, 'utf8').replace(/,Avery\n/g, ',\n');
+    const data = put('blank.csv', text);
+    const plain = put('plain.csv', 'recorded,verified,n\n' + STATES.map((s) => `${s},${s},10`).join('\n') + '\ngrassland,young-heath,2\n');
+    const settings = { ...SETTINGS, errors: plain };
+    const table = readSurveyCsv(data, surveyReadOptions(settings));
+    expect(table.observers).toContain('');
+    expect(fitSurvey(table, settings).errorModel!.observers).toBeUndefined();
+  });
+});
