@@ -108,6 +108,43 @@ export function heathSurveysWithErrors(seed = SEED): { surveys: string; assessme
   return { surveys, assessment };
 }
 
+/** The two observers of the per-observer fixture: Corran mislabels as above, Avery never does. */
+export const TWO_OBSERVERS = ['Avery', 'Corran'] as const;
+
+/**
+ * The same surveys as heathSurveys, each made by one of two invented observers (a stream of its
+ * own): Corran records young heath as grassland one visit in ten, Avery records every state as it
+ * is. The accuracy assessment has an observer column: ASSESSED_PER_STATE sites of each true state
+ * verified for each observer, recorded as that observer records. For one error matrix per
+ * observer (test/fit/observer-fit.test.ts): the fit should find Corran's rate near 0.1, Avery's
+ * near 0.
+ */
+export function heathSurveysByObserver(seed = SEED): { surveys: string; assessment: string } {
+  const who = randomStreams(seed).stream('two-observers');
+  const slips = randomStreams(seed).stream('two-observers:mislabels');
+  const youngHeath = STATES.indexOf('young-heath');
+  const grassland = STATES.indexOf('grassland');
+  const recorded = (state: number, observer: string): number =>
+    (observer === MISLABELLER && state === youngHeath && slips.uniform() < MISLABEL_CHANCE ? grassland : state);
+  let surveys = 'site,time,state,observer\n';
+  for (const v of heathRecords(seed, false)) {
+    const observer = TWO_OBSERVERS[who.integer(TWO_OBSERVERS.length)]!;
+    surveys += `${v.site},${v.time},${STATES[recorded(v.state, observer)]},${observer}\n`;
+  }
+  const rows = ['observer,recorded,verified,n'];
+  for (const observer of TWO_OBSERVERS) {
+    const counts = new Map<string, number>();
+    STATES.forEach((_, state) => {
+      for (let n = 0; n < ASSESSED_PER_STATE; n++) {
+        const key = `${STATES[recorded(state, observer)]},${STATES[state]}`;
+        counts.set(key, (counts.get(key) ?? 0) + 1);
+      }
+    });
+    for (const [key, n] of counts) rows.push(`${observer},${key},${n}`);
+  }
+  return { surveys, assessment: rows.join('\n') + '\n' };
+}
+
 /** A late-summer visit day: 25 July plus 0–70 days. */
 function visitDate(year: number, random: RandomStream): string {
   const date = new Date(Date.UTC(year, 6, 25) + random.integer(71) * 86_400_000);
@@ -120,5 +157,8 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
   const withErrors = heathSurveysWithErrors();
   writeFileSync('test/fixtures/heath/surveys-observed.csv', withErrors.surveys);
   writeFileSync('test/fixtures/heath/accuracy.csv', withErrors.assessment);
-  console.log('wrote test/fixtures/heath/surveys.csv, surveys-dated.csv, surveys-observed.csv and accuracy.csv');
+  const byObserver = heathSurveysByObserver();
+  writeFileSync('test/fixtures/heath/surveys-two-observers.csv', byObserver.surveys);
+  writeFileSync('test/fixtures/heath/accuracy-by-observer.csv', byObserver.assessment);
+  console.log('wrote test/fixtures/heath/surveys.csv, surveys-dated.csv, surveys-observed.csv, accuracy.csv, surveys-two-observers.csv and accuracy-by-observer.csv');
 }

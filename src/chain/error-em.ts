@@ -5,7 +5,10 @@ import { patternEmissions, patternLength, type RecordPatterns } from './record-p
 
 /** The maximum-likelihood fit of a chain seen through observer error. */
 export interface ErrorEstimate extends GapEstimate {
-  /** k × k, row = true state, column = recorded state: E[x, r] = P(recorded r | true x). */
+  /**
+   * k × k, row = true state, column = recorded state: E[x, r] = P(recorded r | true x); with one
+   * matrix per observer, M such matrices one after another (fit/error-model.ts: matrix 0 pooled).
+   */
   readonly emission: Float64Array;
   /** The true-state mix at sites' first surveys (π). */
   readonly initial: Float64Array;
@@ -31,6 +34,12 @@ export const ERROR_EM_MAX_ITERATIONS = 5000;
  * mean and is flagged), E row by row from A + expected true→recorded counts, π from the expected
  * first true states.
  *
+ * With one error matrix per observer, `assessment` holds M matrices of counts one after another
+ * (matrix m's counts are complete data on E_m alone) and each survey's emission is its own
+ * matrix's (record-patterns.ts): the E-step adds each survey's expected true→recorded counts to its
+ * matrix, and the M-step normalises every row of every matrix. With M = 1 this is the one-matrix
+ * algorithm, step for step.
+ *
  * Start: P0 as given (the caller's posterior mean of the recorded counts), E0 the assessment's own
  * proportions, π0 uniform. A cell of E that the assessment never saw is zero at the start and, EM
  * keeping zeros, zero at the end: the error model's structural zeros (fit.ts decides this and
@@ -39,14 +48,15 @@ export const ERROR_EM_MAX_ITERATIONS = 5000;
 export function errorMaximumLikelihood(records: RecordPatterns, assessment: Float64Array, alpha: Float64Array, k: number,
   start: Float64Array, maxIterations = ERROR_EM_MAX_ITERATIONS): ErrorEstimate {
   let p: Float64Array = Float64Array.from(start);
-  let e: Float64Array = rowNormalise(assessment, k, new Float64Array(k * k));
+  const rows = assessment.length / k;
+  let e: Float64Array = rowNormalise(assessment, rows, new Float64Array(assessment.length), k);
   let pi: Float64Array = new Float64Array(k).fill(1 / k);
   let iterations = 0;
   let converged = false;
   let step = eStep(records, assessment, pi, p, e, k);
   while (iterations < maxIterations) {
     const next = maximumLikelihood(step.transitions, alpha, k).p;
-    const nextE = rowNormalise(step.records, k, new Float64Array(k * k));
+    const nextE = rowNormalise(step.records, rows, new Float64Array(assessment.length), k);
     const nextPi = rowNormalise(step.first, 1, new Float64Array(k), k);
     iterations += 1;
     const change = Math.max(largestChange(next, p), largestChange(nextE, e), largestChange(nextPi, pi));
@@ -67,7 +77,7 @@ export function errorMaximumLikelihood(records: RecordPatterns, assessment: Floa
 function eStep(records: RecordPatterns, assessment: Float64Array, pi: Float64Array, p: Float64Array, e: Float64Array, k: number):
   { transitions: Float64Array; records: Float64Array; first: Float64Array; logLikelihood: number } {
   const out = { transitions: new Float64Array(k * k), records: Float64Array.from(assessment), first: new Float64Array(k), logLikelihood: 0 };
-  for (let c = 0; c < k * k; c++) if (assessment[c]! > 0) out.logLikelihood += assessment[c]! * Math.log(e[c]!);
+  for (let c = 0; c < assessment.length; c++) if (assessment[c]! > 0) out.logLikelihood += assessment[c]! * Math.log(e[c]!);
   let longest = 0;
   for (let q = 0; q < records.count; q++) longest = Math.max(longest, patternLength(records, q));
   const work = { emissions: new Float64Array(longest * k), alpha: new Float64Array(longest * k), beta: new Float64Array(longest * k), scale: new Float64Array(longest) };
@@ -116,8 +126,8 @@ function addPattern(records: RecordPatterns, q: number, pi: Float64Array, p: Flo
   for (let s = 0; s < k; s++) out.first[s] += n * alpha[s]! * beta[s]!;
   for (let v = records.start[q]!; v < records.start[q + 1]!; v++) {
     const t = records.at[v]!;
-    const r = records.state[v]!;
-    for (let x = 0; x < k; x++) out.records[x * k + r] += n * alpha[t * k + x]! * beta[t * k + x]!;
+    const cell = records.matrix[v]! * k * k + records.state[v]!;
+    for (let x = 0; x < k; x++) out.records[cell + x * k] += n * alpha[t * k + x]! * beta[t * k + x]!;
   }
   for (let t = 0; t + 1 < T; t++) {
     const inv = n / scale[t + 1]!;

@@ -30,6 +30,7 @@ export interface FitFlags {
   timeColumn: string;
   stateColumn: string;
   groupColumn?: string;
+  observerColumn?: string;
   xColumn?: string;
   yColumn?: string;
   /** A side, or `auto` (chosen from the data; for a raster stack, count it in blocks). */
@@ -41,7 +42,7 @@ export interface FitFlags {
 }
 
 /** The option keys withFitOptions adds, to tell whether any was given. */
-export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels', 'errors'] as const;
+export const FIT_FLAG_KEYS = ['step', 'states', 'prior', 'impossible', 'siteColumn', 'timeColumn', 'stateColumn', 'groupColumn', 'observerColumn', 'xColumn', 'yColumn', 'blockSize', 'wide', 'sheet', 'labels', 'errors'] as const;
 
 /** One time unit per step, unless --step says otherwise. */
 export const DEFAULT_STEP = 1;
@@ -56,6 +57,7 @@ export function withFitOptions(command: Command): Command {
     .option('--time-column <name>', 'column holding the survey time (whole numbers)', 'time')
     .option('--state-column <name>', 'column holding the state', 'state')
     .option('--group-column <name>', 'optional column holding a group (soil type, management unit)')
+    .option('--observer-column <name>', 'with --errors: the column naming who made each survey, for one error matrix per observer named in the assessment (default: a column named observer, if any)')
     .option('--x-column <name>', 'optional column holding each site\'s easting (projected units, e.g. metres); with --y-column the bootstrap resamples spatial blocks')
     .option('--y-column <name>', 'optional column holding each site\'s northing (projected units)')
     .option('--block-size <n>', 'side of the spatial bootstrap\'s square blocks, in the positions\' units (pixels for a raster stack); default (or auto): twice the range of spatial autocorrelation of the latest states; a raster stack is counted in blocks only with this flag', blockSizeFlag)
@@ -75,6 +77,7 @@ export function fitSettingsFrom(opts: FitFlags): FitSettings {
     impossible: parseImpossible(opts.impossible ?? [], { path: '--impossible' }),
     columns: {
       site: opts.siteColumn, time: opts.timeColumn, state: opts.stateColumn, group: opts.groupColumn,
+      ...(opts.observerColumn !== undefined ? { observer: opts.observerColumn } : {}),
       ...(opts.xColumn !== undefined ? { x: opts.xColumn } : {}), ...(opts.yColumn !== undefined ? { y: opts.yColumn } : {}),
     },
     ...(typeof opts.blockSize === 'number' ? { blockSize: opts.blockSize } : {}),

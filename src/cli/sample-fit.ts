@@ -6,6 +6,7 @@ import type { Io } from './io.js';
 import { seedFlag, wholeNumber } from './parse-options.js';
 import { flagSeed } from './seed.js';
 import { LIMITS } from '../limits.js';
+import { observerNotes } from '../report/error-table.js';
 
 export interface SamplerFlags {
   seed?: number;
@@ -32,9 +33,12 @@ export function withSamplerOptions(command: Command): Command {
  */
 export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
   if (!needsSampler(fit)) return fit;
+  // Surveyed observers without their own error matrix: said before the (long) sampler runs.
+  const observers = fit.errorModel?.observers;
+  if (observers) for (const line of observerNotes(observers)) if (line.startsWith('warning: ')) io.stderr(`sere: ${line}\n`);
   // Picked once: with --by, every group's sampler uses the seed announced, so the run repeats.
   const seed = flags.seed ??= flagSeed(undefined, io);
   const latentSample = sampleLatent(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
-  for (const line of augmentationWarnings(latentSample, fit.states)) io.stderr(`sere: warning: ${line}\n`);
+  for (const line of augmentationWarnings(latentSample, fit.states, fit.errorModel?.observers?.names)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }

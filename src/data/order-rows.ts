@@ -51,6 +51,7 @@ export function orderRows(store: RowStore, sites: number, earlier: (a: number, b
     return out;
   };
   const grouped = store.group !== undefined;
+  const observed = store.observer !== undefined;
   const columns = store.release();
   const ordered: SurveyRows = {
     count: keep.length,
@@ -59,6 +60,7 @@ export function orderRows(store: RowStore, sites: number, earlier: (a: number, b
     site: gather(columns.take('site')),
     state: gather(columns.take('state')),
     ...(grouped ? { group: gather(columns.take('group')!) } : {}),
+    ...(observed ? { observer: gather(columns.take('observer')!) } : {}),
   };
   return conflict ? { rows: ordered, repeated, conflict } : { rows: ordered, repeated };
 }

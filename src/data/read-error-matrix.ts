@@ -1,6 +1,6 @@
 import { csvRecords } from './read-csv-records.js';
 import { SereError, quote, type Place } from '../errors.js';
-import { normaliseLabel } from './labels.js';
+import { labelProblem, lookAlikeKey, normaliseLabel } from './labels.js';
 import type { LabelMap } from './label-map.js';
 import { readTextFile } from './read-text-file.js';
 import { settingName } from '../setting-name.js';
@@ -18,7 +18,22 @@ export interface ErrorMatrix {
   readonly counts: Float64Array;
   /** Rows left out because the label map sends one of their labels to skip. */
   readonly droppedRows: number;
+  /**
+   * With an `observer` column: the observers in order of first appearance, each one's counts
+   * (observers × k × k, same orientation; `counts` is then their sum, the pooled matrix) and the
+   * line each is first named on.
+   */
+  readonly observers?: AssessedObservers;
 }
+
+export interface AssessedObservers {
+  readonly names: readonly string[];
+  readonly counts: Float64Array;
+  readonly lines: readonly number[];
+}
+
+/** The optional column naming who made each assessed record: one error matrix per observer. */
+export const OBSERVER_COLUMN = 'observer';
 
 /** The three columns of the one format accepted: long, one row per (recorded, verified) cell. */
 export const ERROR_MATRIX_COLUMNS = ['recorded', 'verified', 'n'] as const;
@@ -45,11 +60,7 @@ export function readErrorMatrix(file: string, states: readonly string[], labels?
   const header = records[0]!.record.map(normaliseLabel);
   const headerLine = records[0]!.info.lines;
   header.forEach((name, c) => {
-    if (name === 'observer') {
-      throw new SereError('BAD_ERROR_MATRIX', 'one error matrix per observer is not supported yet', { file, line: headerLine, column: c + 1 },
-        'pool the assessment of every observer into one matrix (drop the observer column and add up the counts)');
-    }
-    if (!(ERROR_MATRIX_COLUMNS as readonly string[]).includes(name)) {
+    if (!(ERROR_MATRIX_COLUMNS as readonly string[]).includes(name) && name !== OBSERVER_COLUMN) {
       throw new SereError('BAD_ERROR_MATRIX', `unexpected column ${quote(name)}`, { file, line: headerLine, column: c + 1 }, HINT);
     }
     if (header.indexOf(name) !== c) {
@@ -62,8 +73,10 @@ export function readErrorMatrix(file: string, states: readonly string[], labels?
   }
   const k = states.length;
   const index = new Map(states.map((s, i) => [s, i] as const));
-  const col = { recorded: header.indexOf('recorded'), verified: header.indexOf('verified'), n: header.indexOf('n') };
+  const col = { recorded: header.indexOf('recorded'), verified: header.indexOf('verified'), n: header.indexOf('n'), observer: header.indexOf(OBSERVER_COLUMN) };
   const counts = new Float64Array(k * k);
+  const observers = col.observer >= 0 ? new ObserverNames(file, col.observer + 1) : undefined;
+  const observerCounts: Float64Array[] = [];
   const cellLine = new Map<number, number>();
   let droppedRows = 0;
   let rows = 0;
@@ -91,18 +104,20 @@ export function readErrorMatrix(file: string, states: readonly string[], labels?
     }
     const recorded = state('recorded');
     const verified = state('verified');
+    const observer = observers ? observers.id(record[col.observer]!, line) : 0;
     if (recorded < 0 || verified < 0) {
       droppedRows += 1;
       continue;
     }
     const cell = verified * k + recorded;
-    const first = cellLine.get(cell);
+    const first = cellLine.get(observer * k * k + cell);
     if (first !== undefined) {
-      throw new SereError('DUPLICATE_KEY', `recorded ${quote(states[recorded]!)}, verified ${quote(states[verified]!)} is given twice (first on line ${first})`,
+      throw new SereError('DUPLICATE_KEY', `recorded ${quote(states[recorded]!)}, verified ${quote(states[verified]!)}${observers ? ` by ${quote(observers.names[observer]!)}` : ''} is given twice (first on line ${first})`,
         { file, line }, 'keep one row per cell, with the counts added up');
     }
-    cellLine.set(cell, line);
-    counts[cell] = n;
+    cellLine.set(observer * k * k + cell, line);
+    counts[cell] += n;
+    if (observers) (observerCounts[observer] ??= new Float64Array(k * k))[cell] = n;
     rows += 1;
   }
   if (rows === 0) throw new SereError('EMPTY_FILE', 'the error matrix has a header but no rows', { file }, HINT);
@@ -114,5 +129,55 @@ export function readErrorMatrix(file: string, states: readonly string[], labels?
         { file }, `verify some sites found in ${quote(states[x]!)} and add their rows (verified ${quote(states[x]!)})`);
     }
   }
-  return { file, sha256, counts, droppedRows };
+  if (!observers) return { file, sha256, counts, droppedRows };
+  const names = observers.names;
+  const perObserver = new Float64Array(names.length * k * k);
+  names.forEach((_, o) => { if (observerCounts[o]) perObserver.set(observerCounts[o]!, o * k * k); });
+  return { file, sha256, counts, droppedRows, observers: { names, counts: perObserver, lines: observers.lines } };
+}
+
+/**
+ * The observers named in an assessment, numbered in order of first appearance. A name is trimmed
+ * and NFC like a label; an empty cell is refused (whose matrix would it be?), and so is a name that
+ * is another one typed differently — the same after case folding, look-alike letters and runs of
+ * white space (`observerKey`) — since it would silently become an observer of its own.
+ */
+class ObserverNames {
+  readonly names: string[] = [];
+  readonly lines: number[] = [];
+  private readonly ids = new Map<string, number>();
+  private readonly keys = new Map<string, number>();
+
+  constructor(private readonly file: string, private readonly column: number) {}
+
+  id(raw: string, line: number): number {
+    const name = normaliseLabel(raw);
+    const place = { file: this.file, line, column: this.column };
+    if (name === '') throw new SereError('EMPTY_VALUE', 'observer is empty', place, 'name the observer who made these records, or drop the observer column to pool every observer');
+    const known = this.ids.get(name);
+    if (known !== undefined) return known;
+    const problem = labelProblem(name, () => `observer ${quote(name)}`);
+    if (problem) throw new SereError(problem.code, problem.what, place, problem.hint);
+    const key = observerKey(name);
+    const clash = this.keys.get(key);
+    if (clash !== undefined) {
+      throw new SereError('OBSERVER_LOOK_ALIKE', `observer ${quote(name)} looks like ${quote(this.names[clash]!)} (line ${this.lines[clash]}) but is spelled differently`,
+        place, 'spell each observer\'s name the same way on every row');
+    }
+    const id = this.names.length;
+    this.names.push(name);
+    this.lines.push(line);
+    this.ids.set(name, id);
+    this.keys.set(key, id);
+    return id;
+  }
+}
+
+/**
+ * Two observer names with the same key are probably one person typed two ways: the label
+ * look-alike key (case, compatibility forms, look-alike letters; labels.ts) with runs of white space
+ * made one space.
+ */
+export function observerKey(name: string): string {
+  return lookAlikeKey(name).replace(/\s+/gu, ' ');
 }

@@ -26,6 +26,8 @@ export interface ReadSurveyOptions {
   readonly labels?: LabelMap;
   /** The time column holds ISO dates (YYYY-MM-DD), rounded to yearly seasons (seasons.ts); otherwise whole numbers. */
   readonly dates?: boolean;
+  /** With an error matrix: read a column named `observer` as the observer's when no observer column is named (survey-header.ts). */
+  readonly detectObserver?: boolean;
   /** Bytes read at a time (tests set it small, to cross block boundaries everywhere). */
   readonly blockSize?: number;
 }

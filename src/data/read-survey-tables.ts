@@ -56,7 +56,7 @@ export function readSurveyTables(files: readonly string[], options: ReadSurveyOp
 interface RowAt { readonly file: string; readonly row: GivenRow }
 
 /**
- * The tables' rows as one table: sites, states and groups renumbered into their unions, every
+ * The tables' rows as one table: sites, states, groups and observers renumbered into their unions, every
  * (site, time) kept once — the first file's row — and the first contradiction found, by file and
  * then line.
  */
@@ -67,15 +67,22 @@ function concatenate(tables: readonly SurveyTable[], states: readonly string[]):
   const grouped = tables.every((t) => t.groups !== undefined);
   const groups = grouped ? [...new Set(tables.flatMap((t) => t.groups!))] : undefined;
   const groupIndex = new Map(groups?.map((g, i) => [g, i] as const));
-  const store = new RowStore(grouped);
+  // Observers likewise (observer error), kept when every table has an observer column.
+  const observed = tables.every((t) => t.observers !== undefined);
+  const observers = observed ? [...new Set(tables.flatMap((t) => t.observers!))] : undefined;
+  const observerIndex = new Map(observers?.map((o, i) => [o, i] as const));
+  const store = new RowStore(grouped, observed);
   store.reserve(tables.reduce((n, t) => n + t.rows.count, 0));
   const fileOf: number[] = [];
   tables.forEach((t) => {
     const site = Int32Array.from(t.sites, (s) => siteIndex.get(s)!);
     const state = Uint8Array.from(t.states, (s) => stateIndex.get(s)!);
     const group = Int32Array.from(t.groups ?? [], (g) => groupIndex.get(g)!);
+    const observer = Int32Array.from(t.observers ?? [], (o) => observerIndex.get(o)!);
     const r = t.rows;
-    for (let n = 0; n < r.count; n++) store.push(site[r.site[n]!]!, r.time[n]!, state[r.state[n]!]!, r.line[n]!, r.group ? group[r.group[n]!]! : 0);
+    for (let n = 0; n < r.count; n++) {
+      store.push(site[r.site[n]!]!, r.time[n]!, state[r.state[n]!]!, r.line[n]!, r.group ? group[r.group[n]!]! : 0, r.observer && observed ? observer[r.observer[n]!]! : 0);
+    }
     fileOf.push(store.count);
   });
   const file = (row: number): number => fileOf.findIndex((end) => row < end);
@@ -86,7 +93,10 @@ function concatenate(tables: readonly SurveyTable[], states: readonly string[]):
   };
   const ordered = orderRows(store, sites.length, earlier);
   const repeatedRows = ordered.repeated + tables.reduce((n, t) => n + t.repeatedRows, 0);
-  const table: SurveyTable = { file: '', states, sites, rows: ordered.rows, repeatedRows, sha256: '', ...(groups ? { groups } : {}) };
+  const table: SurveyTable = {
+    file: '', states, sites, rows: ordered.rows, repeatedRows, sha256: '', ...(groups ? { groups } : {}),
+    ...(observers ? { observers, observerColumn: { name: tables[0]!.observerColumn!.name } } : {}),
+  };
   if (!ordered.conflict) return { table };
   const at = (row: GivenRow): RowAt => ({ file: tables[file(row.index)]!.file, row });
   return { table, conflict: { first: at(ordered.conflict.first), later: at(ordered.conflict.later) } };

@@ -9,12 +9,14 @@ export class RowStore {
   state = new Uint8Array(1024);
   line = new Float64Array(1024);
   group: Int32Array | undefined;
+  observer: Int32Array | undefined;
 
-  constructor(withGroups: boolean) {
+  constructor(withGroups: boolean, withObservers = false) {
     if (withGroups) this.group = new Int32Array(1024);
+    if (withObservers) this.observer = new Int32Array(1024);
   }
 
-  push(site: number, time: number, state: number, line: number, group: number): void {
+  push(site: number, time: number, state: number, line: number, group: number, observer = 0): void {
     const n = this.count;
     if (n === this.site.length) this.reserve(n * 2);
     this.site[n] = site;
@@ -22,6 +24,7 @@ export class RowStore {
     this.state[n] = state;
     this.line[n] = line;
     if (this.group) this.group[n] = group;
+    if (this.observer) this.observer[n] = observer;
     this.count = n + 1;
   }
 
@@ -38,21 +41,24 @@ export class RowStore {
     this.state = grow(this.state, (n) => new Uint8Array(n));
     this.line = grow(this.line, (n) => new Float64Array(n));
     if (this.group) this.group = grow(this.group, (n) => new Int32Array(n));
+    if (this.observer) this.observer = grow(this.observer, (n) => new Int32Array(n));
   }
 
   /**
    * Hand the columns over, trimmed to the count, one at a time: each `take` drops the store's
    * reference, so a column can be freed as soon as its user is done with it.
    */
-  release(): { take<K extends 'site' | 'time' | 'state' | 'line' | 'group'>(column: K): RowStore[K] } {
+  release(): { take<K extends 'site' | 'time' | 'state' | 'line' | 'group' | 'observer'>(column: K): RowStore[K] } {
     const n = this.count;
-    const columns: Partial<Pick<RowStore, 'site' | 'time' | 'state' | 'line' | 'group'>> = {
+    const columns: Partial<Pick<RowStore, 'site' | 'time' | 'state' | 'line' | 'group' | 'observer'>> = {
       site: this.site.subarray(0, n), time: this.time.subarray(0, n), state: this.state.subarray(0, n), line: this.line.subarray(0, n),
       ...(this.group ? { group: this.group.subarray(0, n) } : {}),
+      ...(this.observer ? { observer: this.observer.subarray(0, n) } : {}),
     };
     this.count = 0;
     this.site = new Int32Array(0); this.time = new Float64Array(0); this.state = new Uint8Array(0); this.line = new Float64Array(0);
     if (this.group) this.group = new Int32Array(0);
+    if (this.observer) this.observer = new Int32Array(0);
     return {
       take(column) {
         const out = columns[column];

@@ -74,6 +74,7 @@ export class SurveyCollector implements RowSink {
   private readonly sites: LabelColumn;
   private readonly stateLabels: LabelColumn;
   private readonly groups: LabelColumn;
+  private readonly observers: LabelColumn;
   private stateIds = new Int16Array(64).fill(-1);
   private readonly states: StateLabels;
   private readonly store: RowStore;
@@ -87,8 +88,9 @@ export class SurveyCollector implements RowSink {
     this.sites = new LabelColumn(trim);
     this.stateLabels = new LabelColumn(trim);
     this.groups = new LabelColumn(trim);
+    this.observers = new LabelColumn(trim);
     this.states = new StateLabels(file, options.states, options.partOfSeveral ? 1 : 2, options.statesPlace);
-    this.store = new RowStore(options.columns.group !== undefined);
+    this.store = new RowStore(options.columns.group !== undefined, options.columns.observer !== undefined || options.detectObserver === true);
     this.declared = new Set((options.states ?? []).map((s) => normaliseLabel(s.trim())));
     if (options.columns.x !== undefined) {
       this.positions = new Float64Array(2048).fill(Number.NaN);
@@ -109,7 +111,7 @@ export class SurveyCollector implements RowSink {
       this.header = Array.from({ length: fields }, (_, n) => this.text(bytes, starts[n]!, ends[n]!));
       this.headerLine = line;
       try {
-        this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout);
+        this.layout = headerIndex(this.file, this.header, line, this.options.columns, this.options.layout, this.options.detectObserver);
         if (this.layout.layout === 'wide' && this.options.dates) {
           throw new SereError('BAD_OPTION', 'a wide table is headed by survey times, not dates: --step 1y reads dates in a long table\'s time column',
             { file: this.file, line }, `head the columns by survey year and give the step as a number: ${settingName('--step 1', 'fit.step: 1')}`);
@@ -134,6 +136,7 @@ export class SurveyCollector implements RowSink {
     const site = this.siteOf(bytes, starts, ends, line, index.site);
     const state = this.stateLabels.id(bytes, starts[index.state]!, ends[index.state]!);
     const group = this.groupOf(bytes, starts, ends, line, index.group);
+    const observer = this.observerOf(bytes, starts, ends, line, index.observer);
     if (this.stage <= VALUE) return;
 
     const time = (this.options.dates ? parseDate : parseTime)(bytes, starts[index.time]!, ends[index.time]!, this.trim);
@@ -166,7 +169,7 @@ export class SurveyCollector implements RowSink {
     // The cached id inline (most rows): the call is for a label's first row, or a skipped one.
     const cached = state < this.stateIds.length ? this.stateIds[state]! : NEW;
     const stateId = cached >= 0 ? cached : this.stateIdOf(state, line, index.state);
-    if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group);
+    if (stateId >= 0 && this.stage === Infinity) this.store.push(site, time.value, stateId, line, group, observer);
   }
 
   /**
@@ -215,6 +218,20 @@ export class SurveyCollector implements RowSink {
     const site = this.sites.id(bytes, starts[at]!, ends[at]!);
     if (site === known) this.checkLabel('site', this.sites.labels[site]!, line, at);
     return site;
+  }
+
+  /**
+   * The observer's id (0 without an observer column); a new name is checked like a site id. An
+   * empty cell is kept as the name '' here: it is refused only where observers are used, when the
+   * error matrix names observers (fit/observer-matrices.ts) — the column may be read without being
+   * used (an error matrix without observers), and then an empty cell is no problem.
+   */
+  private observerOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
+    if (at === undefined) return 0;
+    const known = this.observers.labels.length;
+    const observer = this.observers.id(bytes, starts[at]!, ends[at]!);
+    if (observer === known && this.observers.labels[observer] !== '') this.checkLabel('observer', this.observers.labels[observer]!, line, at);
+    return observer;
   }
 
   private groupOf(bytes: Buffer, starts: Int32Array, ends: Int32Array, line: number, at: number | undefined): number {
@@ -375,6 +392,8 @@ export class SurveyCollector implements RowSink {
       file, states, sites, rows: ordered.rows, repeatedRows: ordered.repeated, sha256,
       ...(positions ? { positions } : {}),
       ...(this.layout?.index.group !== undefined ? { groups: this.groups.labels } : {}),
+      ...(this.layout?.layout === 'long' && this.layout.index.observer !== undefined
+        ? { observers: this.observers.labels, observerColumn: { name: this.header![this.layout.index.observer]!, column: this.layout.index.observer + 1 } } : {}),
       ...(this.options.labels ? { labels: { file: this.options.labels.file, sha256: this.options.labels.sha256, droppedRows: this.dropped } } : {}),
       ...(seasons ? { seasons } : {}),
     };
@@ -422,7 +441,7 @@ export class SurveyCollector implements RowSink {
     return new SereError(err.code, `${err.message} (in the ${time} column)`, err.place, err.hint);
   }
 
-  private checkLabel(role: 'site' | 'group', label: string, line: number, at: number): void {
+  private checkLabel(role: 'site' | 'group' | 'observer', label: string, line: number, at: number): void {
     const problem = labelProblem(label, () => `${role} ${quote(label)}`);
     if (problem) this.fail(LABEL, new SereError(problem.code, problem.what, { file: this.file, line, column: at + 1 }, problem.hint));
   }

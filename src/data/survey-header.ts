@@ -4,14 +4,17 @@ import { isCountsHeader } from './counts-table.js';
 import type { SurveyColumns } from './survey.js';
 import { settingName } from '../setting-name.js';
 
+/** The observer column used when none is named, with an error matrix (observer error). */
+export const DEFAULT_OBSERVER_COLUMN = 'observer';
+
 /** Which field of a row holds what. */
-export type ColumnIndex = { site: number; time: number; state: number; group?: number; x?: number; y?: number };
+export type ColumnIndex = { site: number; time: number; state: number; group?: number; observer?: number; x?: number; y?: number };
 
 /** A column's role, as messages and flags name it (`--x-column`). */
-export type ColumnRole = 'site' | 'time' | 'state' | 'group' | 'x' | 'y';
+export type ColumnRole = 'site' | 'time' | 'state' | 'group' | 'observer' | 'x' | 'y';
 
 /** The columns named in a header row (fields as read), or the error that says which is missing or repeated. */
-export function columnIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns): ColumnIndex {
+export function columnIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns, detectObserver = false): ColumnIndex {
   const header = headerNames(file, fields, line);
   const find = (role: ColumnRole, wanted: string): number => findColumn(file, header, line, role, wanted);
   const index: ColumnIndex = {
@@ -20,6 +23,9 @@ export function columnIndex(file: string, fields: readonly string[], line: numbe
     state: find('state', columns.state),
   };
   if (columns.group !== undefined) index.group = find('group', columns.group);
+  if (columns.observer !== undefined) index.observer = find('observer', columns.observer);
+  // With an error matrix and no observer column named, a column named `observer` is the observer's.
+  else if (detectObserver && header.includes(DEFAULT_OBSERVER_COLUMN)) index.observer = header.indexOf(DEFAULT_OBSERVER_COLUMN);
   if (columns.x !== undefined) index.x = find('x', columns.x);
   if (columns.y !== undefined) index.y = find('y', columns.y);
   return index;

@@ -29,12 +29,19 @@ export type HeaderIndex =
  * empty names) is wide; anything else is read as long, so its error names the missing column —
  * with a hint to pass --wide when the header looks like a wide table's with one stray column.
  */
-export function headerIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns, layout?: SurveyLayout): HeaderIndex {
+export function headerIndex(file: string, fields: readonly string[], line: number, columns: SurveyColumns, layout?: SurveyLayout, detectObserver = false): HeaderIndex {
   const header = headerNames(file, fields, line);
   const chosen = layout ?? detectLayout(header, columns);
-  if (chosen === 'wide') return { layout: 'wide', index: wideIndex(file, header, line, columns) };
+  if (chosen === 'wide') {
+    if (columns.observer !== undefined) {
+      // A wide row is one site over several times: it cannot say who made each survey.
+      throw new SereError('BAD_OPTION', 'an observer column needs a long table (one row per site and survey), and this one is wide',
+        { file, line }, 'write the table long, with site, time, state and observer columns');
+    }
+    return { layout: 'wide', index: wideIndex(file, header, line, columns) };
+  }
   try {
-    return { layout: 'long', index: columnIndex(file, fields, line, columns) };
+    return { layout: 'long', index: columnIndex(file, fields, line, columns, detectObserver) };
   } catch (err) {
     if (err instanceof SereError && err.code === 'MISSING_COLUMN' && layout === undefined && looksWide(header, columns)) {
       throw new SereError(err.code, err.message, err.place,
@@ -66,7 +73,7 @@ function looksWide(header: readonly string[], columns: SurveyColumns): boolean {
 
 /** Header names other than the site, group and position columns and empty ones. */
 function otherColumns(header: readonly string[], columns: SurveyColumns): string[] {
-  const named = new Set([columns.site, columns.group, columns.x, columns.y].filter((c) => c !== undefined).map(normaliseLabel));
+  const named = new Set([columns.site, columns.group, columns.observer, columns.x, columns.y].filter((c) => c !== undefined).map(normaliseLabel));
   return header.filter((name) => name !== '' && !named.has(name));
 }
 

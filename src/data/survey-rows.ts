@@ -16,6 +16,7 @@ export function selectRows(table: SurveyTable, keep: (n: number) => boolean): Su
   const selected: SurveyRows = {
     count: chosen.length, site: pick(rows.site), time: pick(rows.time), state: pick(rows.state), line: pick(rows.line),
     ...(rows.group ? { group: pick(rows.group) } : {}),
+    ...(rows.observer ? { observer: pick(rows.observer) } : {}),
   };
   return { ...table, rows: selected };
 }
@@ -39,15 +40,24 @@ export function tableFromRecords(file: string, states: readonly string[], record
   const grouped = records.length > 0 && records.every((r) => r.group !== undefined);
   const groups = grouped ? [...new Set(records.map((r) => r.group!))] : undefined;
   const groupIndex = new Map(groups?.map((g, i) => [g, i] as const));
-  const store = new RowStore(grouped);
-  for (const r of records) store.push(siteIndex.get(r.site)!, r.time, r.state, r.line, grouped ? groupIndex.get(r.group!)! : 0);
+  // Observers likewise (observer error): kept when every record names one.
+  const observed = records.length > 0 && records.every((r) => r.observer !== undefined);
+  const observers = observed ? [...new Set(records.map((r) => r.observer!))] : undefined;
+  const observerIndex = new Map(observers?.map((o, i) => [o, i] as const));
+  const store = new RowStore(grouped, observed);
+  for (const r of records) {
+    store.push(siteIndex.get(r.site)!, r.time, r.state, r.line, grouped ? groupIndex.get(r.group!)! : 0, observed ? observerIndex.get(r.observer!)! : 0);
+  }
   const ordered = orderRows(store, sites.length);
   if (ordered.conflict || ordered.repeated > 0) throw new Error('internal: records repeat a (site, time)');
   // Positions are kept when every record has one (a site's last record's, for tables made in memory).
   const placed = records.length > 0 && records.every((r) => r.x !== undefined && r.y !== undefined);
   const positions = placed ? new Float64Array(2 * sites.length) : undefined;
   if (positions) for (const r of records) positions.set([r.x!, r.y!], 2 * siteIndex.get(r.site)!);
-  return { file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}), ...(positions ? { positions } : {}) };
+  return {
+    file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}), ...(positions ? { positions } : {}),
+    ...(observers ? { observers, observerColumn: { name: 'observer' } } : {}),
+  };
 }
 
 /**

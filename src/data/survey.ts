@@ -19,6 +19,8 @@ export interface SurveyRows {
   readonly line: Float64Array;
   /** Index into the table's `groups`, when the table has a group column. */
   readonly group?: Int32Array;
+  /** Index into the table's `observers`, when the table has an observer column (observer error). */
+  readonly observer?: Int32Array;
 }
 
 /** One survey record, for tables built in memory (simulations, tests): see survey-rows.ts. */
@@ -28,6 +30,8 @@ export interface SurveyRecord {
   /** Index into the survey table's `states`. */
   readonly state: number;
   readonly group?: string;
+  /** Who made the survey (observer error with one error matrix per observer). */
+  readonly observer?: string;
   readonly line: number;
   /** The site's position (projected units), when the table has x and y columns. */
   readonly x?: number;
@@ -42,6 +46,10 @@ export interface SurveyTable {
   readonly sites: readonly string[];
   /** Distinct values of the group column (indexed by `rows.group`), when there is one. */
   readonly groups?: readonly string[];
+  /** Distinct values of the observer column (indexed by `rows.observer`), when there is one. */
+  readonly observers?: readonly string[];
+  /** The observer column's name as the header has it, and its column (1-based), for messages. */
+  readonly observerColumn?: { readonly name: string; readonly column?: number };
   readonly rows: SurveyRows;
   /** Rows that repeated an earlier (site, time, state) exactly; counted, used once. */
   readonly repeatedRows: number;
@@ -74,6 +82,11 @@ export interface SurveyColumns {
   readonly time: string;
   readonly state: string;
   readonly group?: string;
+  /**
+   * The column naming who made each survey, for one error matrix per observer (observer error);
+   * long tables only.
+   */
+  readonly observer?: string;
   /**
    * Columns holding each site's position in projected units (easting, northing), for the spatial
    * block bootstrap; both or neither. Absent: sites have no positions and nothing changes.

@@ -4,6 +4,7 @@ import type { SurveyTable } from '../data/survey.js';
 import { SereError, quote } from '../errors.js';
 import { errorSupport, type ErrorModel } from './error-model.js';
 import { labelMapAt, type FitSettings } from './settings.js';
+import { observerMatrices } from './observer-matrices.js';
 
 /**
  * Observer error needs each site's own sequence of records: refused, naming the flag or key, where
@@ -16,8 +17,9 @@ export function refuseErrors(settings: FitSettings, what: string, hint = 'fit th
 
 /**
  * The error model of a survey table's fit: the error matrix read against the table's states
- * (through the same label map), each site's record pooled by pattern, and every record checked
- * to be possible under the model's structural zeros.
+ * (through the same label map), one matrix per observer when it names observers
+ * (observer-matrices.ts), each site's record pooled by pattern, and every record checked to be
+ * possible under the model's structural zeros.
  */
 export function errorModelOf(table: SurveyTable, settings: FitSettings, mask: Uint8Array): ErrorModel {
   const file = settings.errors!;
@@ -32,10 +34,13 @@ export function errorModelOf(table: SurveyTable, settings: FitSettings, mask: Ui
     }
     throw err;
   }
-  const records = recordPatterns(table.rows, settings.step);
+  const { observers, matrixOfObserver } = observerMatrices(table, matrix);
+  const records = recordPatterns(table.rows, settings.step, matrixOfObserver);
   let trueTransitions = 0;
   for (let q = 0; q < records.count; q++) trueTransitions += records.sites[q]! * (patternLength(records, q) - 1 + Math.max(0, records.extend[q]!));
-  const model: ErrorModel = { file, sha256: matrix.sha256, assessment: matrix.counts, droppedRows: matrix.droppedRows, records, trueTransitions };
+  const model: ErrorModel = {
+    file, sha256: matrix.sha256, assessment: matrix.counts, droppedRows: matrix.droppedRows, records, trueTransitions, ...(observers ? { observers } : {}),
+  };
   checkRecordsPossible(records, errorSupport(model), mask, table);
   return model;
 }

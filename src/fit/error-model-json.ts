@@ -22,12 +22,21 @@ export function errorModelJson(fit: Fit, mle: GapEstimate): object | null {
     file: model.file,
     sha256: model.sha256,
     orientation: ERROR_ORIENTATION,
-    // One pooled matrix: every observer is assumed to err alike.
-    observers: null,
+    // null: one shared matrix, every observer assumed to err alike. Otherwise each assessed
+    // observer's own matrix; `assessment` and `probabilities` below are then the pooled matrix's,
+    // which the observers in `pooled_for` are read through.
+    observers: model.observers ? model.observers.names.map((name, o) => ({
+      name,
+      assessment: toRows(model.observers!.assessments.subarray(o * k * k, (o + 1) * k * k), k),
+      probabilities: toRows(estimate.emission.subarray((1 + o) * k * k, (2 + o) * k * k), k),
+    })) : null,
+    ...(model.observers ? {
+      pooled_for: model.observers.unassessed, pooled_surveys: model.observers.pooledSurveys, not_surveyed: model.observers.notSurveyed,
+    } : {}),
     assessment: toRows(model.assessment, k),
     dropped_rows: model.droppedRows,
     prior: { name: 'jeffreys', pseudo_count: ERROR_PRIOR, cells: 'those the assessment saw; the others are structural zeros' },
-    probabilities: toRows(estimate.emission, k),
+    probabilities: toRows(estimate.emission.subarray(0, k * k), k),
     initial: Array.from(estimate.initial),
     record_patterns: records ? records.count : null,
     true_transitions: model.trueTransitions,
@@ -46,5 +55,19 @@ export function errorSweepsJson(s: LatentSample, e: ErrorSweeps, k: number): obj
     error_ess: toRows(Array.from(e.ess, finite), k),
     error_matrices: Array.from({ length: s.retained }, (_, r) => Array.from(e.emissions.subarray(r * k * k, (r + 1) * k * k))),
     latest_true_counts: Array.from({ length: s.retained }, (_, r) => Array.from(e.latest.subarray(r * k, (r + 1) * k))),
+    ...(e.observers ? observerSweepsJson(s.retained, e.observers, k) : {}),
+  };
+}
+
+/** Each assessed observer's matrices: per retained sweep, one k² list per observer; the diagnostics one k × k grid per observer. */
+function observerSweepsJson(retained: number, o: NonNullable<ErrorSweeps['observers']>, k: number): object {
+  const kk = k * k;
+  const count = o.rhat.length / kk;
+  const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+  const grids = (a: Float64Array): (number | null)[][][] => Array.from({ length: count }, (_, m) => toRows(Array.from(a.subarray(m * kk, (m + 1) * kk), finite), k));
+  return {
+    observer_error_matrices: Array.from({ length: retained }, (_, r) => Array.from({ length: count }, (_, m) => Array.from(o.emissions.subarray((r * count + m) * kk, (r * count + m + 1) * kk)))),
+    observer_error_rhat: grids(o.rhat),
+    observer_error_ess: grids(o.ess),
   };
 }

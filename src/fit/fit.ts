@@ -14,7 +14,7 @@ import { impossibleMask, type FitSettings } from './settings.js';
 import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { chooseBlocks, type SpatialBlocks } from './spatial-blocks.js';
-import type { ErrorModel } from './error-model.js';
+import { stackedAssessment, type ErrorModel } from './error-model.js';
 import { errorMaximumLikelihood } from '../chain/error-em.js';
 import { posteriorMean } from '../chain/estimates.js';
 import { errorModelOf } from './error-fit.js';
@@ -329,7 +329,7 @@ function errorMle(fit: Fit): GapEstimate | undefined {
   if (!model.records) throw new Error('an error model without records or a stored MLE');
   const alpha = fitPrior(fit);
   const recorded = Float64Array.from(fit.counts, (n, c) => (alpha[c]! > 0 ? n : 0));
-  return errorMaximumLikelihood(model.records, model.assessment, alpha, fit.states.length, posteriorMean(recorded, alpha, fit.states.length));
+  return errorMaximumLikelihood(model.records, stackedAssessment(model), alpha, fit.states.length, posteriorMean(recorded, alpha, fit.states.length));
 }
 
 /** Whether the fit has pairs further apart than one step (then EM and data augmentation, not the closed form). */

@@ -34,4 +34,10 @@ export interface ErrorSweeps {
   /** Split-R̂ and bulk ESS of each cell of the error matrix (NaN where it never varies). */
   readonly rhat: Float64Array;
   readonly ess: Float64Array;
+  /**
+   * With one error matrix per observer (fit/error-model.ts): every assessed observer's matrix per
+   * retained sweep (retained × observers × k × k, observer after observer within a sweep) and
+   * their diagnostics (observers × k × k). `emissions` above is then the pooled matrix.
+   */
+  readonly observers?: { readonly emissions: Float64Array; readonly rhat: Float64Array; readonly ess: Float64Array };
 }

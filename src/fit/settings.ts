@@ -63,6 +63,8 @@ export function surveyReadOptions(settings: FitSettings): ReadSurveyOptions {
     ...(settings.layout ? { layout: settings.layout } : {}),
     ...(settings.sheet !== undefined ? { sheet: settings.sheet, sheetPlace: settings.places?.sheet ?? { path: '--sheet' } } : {}),
     ...(settings.labels !== undefined ? { labels: labelMapAt(settings.labels, settings.places?.labels ?? { path: '--labels' }) } : {}),
+    // With an error matrix a column named `observer` says who made each survey unless another is named.
+    ...(settings.errors !== undefined && settings.columns.observer === undefined ? { detectObserver: true } : {}),
   };
 }
 

@@ -25,6 +25,7 @@ export const fitSettingsSchema = z.strictObject({
     time: z.string().min(1).optional(),
     state: z.string().min(1).optional(),
     group: z.string().min(1).optional(),
+    observer: z.string().min(1).optional().describe('With errors: the column naming who made each survey, for one error matrix per observer named in the assessment. Default: a column named observer, if the table has one.'),
     x: z.string().min(1).optional().describe("The column holding each site's easting (projected units, e.g. metres); with y, the bootstrap resamples spatial blocks."),
     y: z.string().min(1).optional().describe("The column holding each site's northing (projected units)."),
   }).optional(),

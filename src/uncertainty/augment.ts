@@ -86,18 +86,20 @@ export function sampleLatent(fit: Fit, settings: AugmentSettings, random: Random
 }
 
 /** The warning line(s) the user should read when the sampler may not have converged. */
-export function augmentationWarnings(a: LatentSample, states: readonly string[]): string[] {
+export function augmentationWarnings(a: LatentSample, states: readonly string[], observers: readonly string[] = []): string[] {
   const k = states.length;
-  // Cells 0 … k²−1 are P's; with observer error, k² … 2k²−1 are the error matrix's.
-  const rhat = a.errors ? [...a.rhat, ...a.errors.rhat] : Array.from(a.rhat);
-  const ess = a.errors ? [...a.ess, ...a.errors.ess] : Array.from(a.ess);
+  // Cells 0 … k²−1 are P's; with observer error, k² … 2k²−1 are the (pooled) error matrix's, then each observer's.
+  const own = a.errors?.observers;
+  const rhat = a.errors ? [...a.rhat, ...a.errors.rhat, ...(own?.rhat ?? [])] : Array.from(a.rhat);
+  const ess = a.errors ? [...a.ess, ...a.errors.ess, ...(own?.ess ?? [])] : Array.from(a.ess);
   let worstRhat = -1;
   let worstEss = -1;
   for (let c = 0; c < rhat.length; c++) {
     if (rhat[c]! > RHAT_WARNING && (worstRhat < 0 || rhat[c]! > rhat[worstRhat]!)) worstRhat = c;
     if (ess[c]! < ESS_WARNING && (worstEss < 0 || ess[c]! < ess[worstEss]!)) worstEss = c;
   }
-  const cell = (c: number): string => (c < k * k ? '' : 'error matrix, true→recorded ') +
+  const matrix = (c: number): string => (c < 2 * k * k ? (own ? 'pooled error matrix' : 'error matrix') : `error matrix of ${observers[Math.floor(c / (k * k)) - 2] ?? 'an observer'}`);
+  const cell = (c: number): string => (c < k * k ? '' : `${matrix(c)}, true→recorded `) +
     `${states[Math.floor((c % (k * k)) / k)]}→${states[c % k]}`;
   const lines: string[] = [];
   if (a.chains < 2) lines.push('sampler: one chain only, so convergence cannot be checked (R̂ compares chains): refit with --chains 4');

@@ -5,7 +5,7 @@ import type { Multinomial } from './multinomial.js';
 export interface CompletedRecords {
   /** k × k one-step transitions of the true paths, first survey to the latest survey time. */
   readonly transitions: Float64Array;
-  /** k × k, row = true, column = recorded: each survey's true state against what was recorded. */
+  /** k × k per error matrix (M of them, one after another), row = true, column = recorded: each survey's true state against what was recorded, added to the matrix it was recorded through. */
   readonly recorded: Float64Array;
   /** k: the true state at each site's first survey. */
   readonly first: Float64Array;
@@ -28,7 +28,8 @@ export function pathScratch(k: number): PathScratch {
 }
 
 /**
- * Draw the true paths of every site of one record pattern given (π, P, E), and add their
+ * Draw the true paths of every site of one record pattern given (π, P, E) — E the error
+ * matrices one after another, each survey emitting through its own (record-patterns.ts) — and add their
  * transitions, true-against-recorded counts, first and latest true states into `out`.
  *
  * Forward filtering, backward sampling (Carter & Kohn 1994; Frühwirth-Schnatter 1994): the
@@ -55,7 +56,8 @@ export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float
   for (let t = 0; t < T; t++) {
     let total = 0;
     const surveyed = s < end && records.at[s] === t;
-    const r = surveyed ? records.state[s]! : 0;
+    // Column r of the matrix this survey was recorded through (record-patterns.ts).
+    const r = surveyed ? records.matrix[s]! * k * k + records.state[s]! : 0;
     for (let x = 0; x < k; x++) {
       let v: number;
       if (t === 0) v = pi[x]!;
@@ -63,7 +65,7 @@ export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float
         v = 0;
         for (let a = 0; a < k; a++) v += filter[(t - 1) * k + a]! * p[a * k + x]!;
       }
-      if (surveyed) v *= e[x * k + r]!;
+      if (surveyed) v *= e[r + x * k]!;
       filter[t * k + x] = v;
       total += v;
     }
@@ -79,8 +81,8 @@ export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float
   s = end - 1;
   for (let t = T - 1; ; t--) {
     if (s >= first && records.at[s] === t) {
-      const r = records.state[s]!;
-      for (let x = 0; x < k; x++) out.recorded[x * k + r] += here[x]!;
+      const r = records.matrix[s]! * k * k + records.state[s]!;
+      for (let x = 0; x < k; x++) out.recorded[r + x * k] += here[x]!;
       s -= 1;
     }
     if (t === 0) break;
