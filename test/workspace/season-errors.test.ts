@@ -4,6 +4,8 @@ import { join } from 'node:path';
 import { parse } from 'yaml';
 import { describe, expect, it } from 'vitest';
 import { sere } from '../cli/binary.js';
+import { loadWorkspace } from '../../src/workspace/workspace.js';
+import { SereError } from '../../src/errors.js';
 
 // The invented heath surveys, recorded by observers of whom one mislabels young heath as grassland,
 // and their accuracy assessment (scripts/heath-fixture.ts).
@@ -101,4 +103,20 @@ describe('a workspace with an error table (built binary)', () => {
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
     expect(existsSync(join(dir, 'records', '2025-01-01'))).toBe(false);
   }, 120_000);
+
+  it('an error table outside the workspace is refused at fit.errors with its line (a record could not copy it)', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sere-ws-outside-'));
+    writeFileSync(join(dir, 'sere-workspace.yaml'), ['name: outside', 'surveys: [s.csv]', 'fit: { errors: ../accuracy.csv }', 'scenarios: [a.yaml]'].join('\n') + '\n');
+    let caught: unknown;
+    try {
+      loadWorkspace(dir);
+    } catch (err) {
+      caught = err;
+    }
+    expect(caught).toBeInstanceOf(SereError);
+    const err = caught as SereError;
+    expect(err.code).toBe('BAD_WORKSPACE');
+    expect(err.place.path).toBe('fit.errors');
+    expect(err.place.line).toBe(3);
+  });
 });
