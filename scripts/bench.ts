@@ -27,6 +27,8 @@
  *    count, EM, the data-augmentation sampler (1,000 retained sweeps) and 1,000 matrix draws.
  * 13. Observer error (`npm run bench -- observer`, only when named; scripts/bench/observer.ts): the same size seen through an error matrix — fit,
  *    EM, the forward-filtering backward-sampling sampler, draws; draws/s and ESS/s.
+ * 14. Recorded-scale scores (`npm run bench -- recorded-scores`, only when named; scripts/bench/recorded-scores.ts):
+ *    2,000 sites × 12 surveys × 5 states × 1,000 draws scored through an error matrix and from the last record.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -53,6 +55,7 @@ import { benchRaster } from './bench/raster.js';
 import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
 import { benchGaps } from './bench/gaps.js';
 import { benchObserver } from './bench/observer.js';
+import { benchRecordedScores } from './bench/recorded-scores.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -372,3 +375,5 @@ if (only === 'numpy') {
 
 if (want('gaps')) benchGaps();
 if (only === 'observer') benchObserver();
+// Only when named: scoring sites on the recorded scale against scoring them from their last record (scripts/bench/recorded-scores.ts).
+if (only === 'recorded-scores') benchRecordedScores();

@@ -29,6 +29,13 @@ export function registerEffort(program: Command, io: Io): void {
         throw new SereError('BAD_ZONES', 'sere effort plans surveys of one pooled chain, and this scenario is stratified by zone', { file, path: 'fit.pooling' },
           'run sere effort on a copy of the scenario without fit.pooling and areas (a pooled fit)');
       }
+      if (scenario.fit.errorModel) {
+        // The preposterior adds simulated surveys to the counts and redraws the posterior; with an
+        // error table the posterior comes from the sampler's true paths, which added counts do not
+        // reach — every cell would equal "now". Rerunning the sampler per cell and replicate is not built.
+        throw new SereError('BAD_OPTION', 'sere effort adds simulated surveys to recorded counts, and this chain is fitted through an error table',
+          { file, path: 'fit.errors' }, 'run sere effort on a copy of the scenario without fit.errors (its widths then take the records as the truth)');
+      }
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);

@@ -1,4 +1,3 @@
-import { refuseErrors } from '../fit/error-fit.js';
 import type { Command } from 'commander';
 import { surveyReadOptions } from '../fit/settings.js';
 import { readSurveyCsv } from '../data/read-survey-csv.js';
@@ -39,8 +38,7 @@ export function registerHindcast(program: Command, io: Io): void {
           'run the hindcast on a survey table (site,time,state); for maps, sample pixels into such a table first');
       }
       const settings = fitSettingsFrom(opts);
-      // Scored against recorded surveys, forecasts of the true mix would be unfair: that needs predictions as recorded.
-      refuseErrors(settings, 'a hindcast scores against recorded surveys, which needs predictions "as recorded" (not built yet)', 'run the hindcast without --errors');
+      // With --errors each origin fits the observer-error model and scores on the recorded scale (evaluation/hindcast.ts).
       for (const y of opts.years) {
         if (y % settings.step !== 0) throw new SereError('BAD_OPTION', `${y} years is not a whole number of ${settings.step}-year steps`, { path: '--years' }, `use multiples of ${settings.step}`);
       }
@@ -53,7 +51,7 @@ export function registerHindcast(program: Command, io: Io): void {
         (io.notice ?? io.stderr)(`sere: ${file} has more survey times than the hindcast limit: the ${originsLeftOut} earliest were not used as forecast origins\n`);
       }
       io.stdout(opts.json
-        ? hindcastJson({ file, seed, level: opts.level, step: settings.step, originsLeftOut, summary, cases })
-        : hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color)));
+        ? hindcastJson({ file, seed, level: opts.level, step: settings.step, originsLeftOut, summary, cases, errors: settings.errors })
+        : hindcastTable(file, summary, cases, opts.level, settings.step, makeStyle(io.color), settings.errors));
     });
 }

@@ -98,6 +98,12 @@ export interface ForecastResult {
   /** A stratified forecast's zones, each alone (zone-forecast.ts), when asked for (`--zones`); else null. */
   readonly zones: readonly ZoneForecast[] | null;
   readonly notes: readonly string[];
+  /**
+   * With observer error and `start: latest`: the start the forecast used, the posterior mean over
+   * the draws of each draw's true starting mix (MatrixDraws.starts) — not the recorded mix, which
+   * the scenario's `start.shares` holds. Absent otherwise.
+   */
+  readonly trueStart?: readonly number[];
 }
 
 /** Run one scenario end to end: draw matrices, simulate, summarise. */
@@ -158,7 +164,15 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     variation: variationSummary(matrices, level),
     zones: null,
     notes: sim.notes,
+    ...(matrices.starts && scenario.start.from === 'latest' && !scenario.zones ? { trueStart: meanStart(matrices.starts, k, matrices.count) } : {}),
   };
+}
+
+/** The mean over D draws of their starting mixes (D × k, draw-major). */
+function meanStart(starts: Float64Array, k: number, D: number): number[] {
+  const mean = new Array<number>(k).fill(0);
+  for (let d = 0; d < D; d++) for (let s = 0; s < k; s++) mean[s] += starts[d * k + s]! / D;
+  return mean;
 }
 
 /**

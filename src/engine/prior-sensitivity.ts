@@ -1,7 +1,7 @@
 import { posteriorMean } from '../chain/estimates.js';
 import { rowsRestingOnPrior, type PriorReliance } from '../chain/prior-reliance.js';
 import { stationaryMix } from '../chain/stationary.js';
-import { fitPrior, type Fit } from '../fit/fit.js';
+import { fitMle, fitPrior, type Fit } from '../fit/fit.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { simulate } from './simulate.js';
@@ -30,11 +30,12 @@ export interface PriorSensitivity {
 export function priorSensitivity(scenario: Scenario, random: RandomStream): PriorSensitivity[] {
   const { fit } = scenario;
   const k = fit.states.length;
-  const flagged = rowsRestingOnPrior(fit.counts, fitPrior(fit), k);
+  const counts = evidenceCounts(fit);
+  const flagged = rowsRestingOnPrior(counts, fitPrior(fit), k);
   if (flagged.length === 0) return [];
   const runs = SENSITIVITY_PRIORS.map((prior) => {
     const withPrior: Fit = { ...fit, prior };
-    const mean = posteriorMean(fit.counts, fitPrior(withPrior), k);
+    const mean = posteriorMean(counts, fitPrior(withPrior), k);
     // A stratified forecast runs the pooled fit's mean matrix in every zone: the prior is the pooled fit's.
     const Z = scenario.zones?.names.length ?? 1;
     const data = Z === 1 ? mean : Float64Array.from({ length: Z * k * k }, (_, c) => mean[c % (k * k)]!);
@@ -55,10 +56,21 @@ export function priorSensitivity(scenario: Scenario, random: RandomStream): Prio
 /** A state's long-run share under each of SENSITIVITY_PRIORS, for `sere fit` (no scenario, so no horizon). */
 export function longRunUnderPriors(fit: Fit): { readonly reliance: PriorReliance; readonly longRun: readonly (number | null)[] }[] {
   const k = fit.states.length;
-  const flagged = rowsRestingOnPrior(fit.counts, fitPrior(fit), k);
+  const counts = evidenceCounts(fit);
+  const flagged = rowsRestingOnPrior(counts, fitPrior(fit), k);
   const mixes = SENSITIVITY_PRIORS.map((prior) => {
-    const s = stationaryMix(posteriorMean(fit.counts, fitPrior({ ...fit, prior }), k), k);
+    const s = stationaryMix(posteriorMean(counts, fitPrior({ ...fit, prior }), k), k);
     return s.unique ? s.mix : null;
   });
   return flagged.map((reliance) => ({ reliance, longRun: mixes.map((m) => (m ? m[reliance.state]! : null)) }));
+}
+
+/**
+ * The transitions a row's evidence is counted in. With observer error the chain is of the true
+ * states, and the recorded counts are not its evidence: the true transitions expected at the MLE
+ * (EM's completed counts, fitMle(fit).expected) stand for them — whole sites' paths, fractional.
+ * Otherwise the one-step counts, as before.
+ */
+function evidenceCounts(fit: Fit): Float64Array {
+  return fit.errorModel ? fitMle(fit).expected : fit.counts;
 }

@@ -1,6 +1,8 @@
 import type { SurveyTable } from '../data/survey.js';
 import { recordsOf, selectRows } from '../data/survey-rows.js';
-import { fitSurvey } from '../fit/fit.js';
+import { fitMle, fitSurvey, type Fit } from '../fit/fit.js';
+import type { ErrorEstimate } from '../chain/error-em.js';
+import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import type { FitSettings } from '../fit/settings.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import { LIMITS } from '../limits.js';
@@ -32,7 +34,9 @@ export interface HindcastSettings {
  * to T − h, and score the state of every site surveyed at T from its own last survey by then —
  * the chain's posterior predictive beside persistence and climatology (site-scores.ts) — with
  * plot-count prediction bands for those sites' mix. Skill above 0 and coverage near the level say
- * how far ahead the chain can be trusted.
+ * how far ahead the chain can be trusted. With an error table (`settings.errors`) each origin's fit
+ * is the observer-error model on the surveys up to it, and its sites are scored on the recorded
+ * scale (recorded-predictive.ts).
  */
 export function hindcast(table: SurveyTable, settings: FitSettings, options: HindcastSettings):
   { cases: HindcastCase[]; summary: HindcastSummary[]; originsLeftOut: number } {
@@ -46,19 +50,24 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
   const records = recordsOf(table); // once: each origin and horizon scores from the same surveys
   for (const origin of times) {
     const past = selectRows(table, (n) => table.rows.time[n]! <= origin);
-    let fit;
+    let fit: Fit;
     try {
       fit = fitSurvey(past, settings);
     } catch {
       continue; // no transitions yet before this origin
     }
+    // With observer error the sampler runs once per origin, on the origin's own stream, and every
+    // horizon draws from it: the fit on the past, with the same error table. (With gaps alone each
+    // horizon still runs its own, as before, so those seeded hindcasts keep their values.)
+    if (fit.errorModel) fit = { ...fit, latentSample: sampleLatent(fit, DEFAULT_AUGMENT, options.random.stream(`hindcast:${origin}`).stream('augment')) };
+    const initial = fit.errorModel ? (fitMle(fit) as ErrorEstimate).initial : undefined;
     for (const steps of options.horizons) {
       const target = origin + steps * settings.step;
       if (!observed.has(target)) continue;
       const random = options.random.stream(`hindcast:${origin}:${steps}`);
       const matrices = drawMatrices(fit, 'posterior', options.draws, random.stream('matrices'));
       const scored = scoreSites(matrices, records,
-        { origin, target, step: settings.step, originCounts: observed.get(origin)!.counts, level: options.level }, random.stream('sites'));
+        { origin, target, step: settings.step, originCounts: observed.get(origin)!.counts, level: options.level, ...(initial ? { initial } : {}) }, random.stream('sites'));
       if (scored) cases.push({ origin, target, steps, ...scored });
     }
   }

@@ -7,6 +7,8 @@ import { checkCoverage, type CoverageCheck } from './binomial-test.js';
 import { covered, skill } from './scores.js';
 import { siteCases } from './site-cases.js';
 import { sitePredictive } from './site-predictive.js';
+import { recordedPredictive } from './recorded-predictive.js';
+import { siteHistories } from './site-histories.js';
 
 /** Mean log score (nats) and mean Brier score per site; lower is better. */
 export interface ScoreSet {
@@ -29,6 +31,12 @@ export interface ScoredCase {
   readonly high: readonly number[];
   /** States whose observed count fell inside its band (ends included). */
   readonly covered: number;
+  /**
+   * Only with an error model: `recorded` — the chain's predictions went through the error matrix,
+   * the scale of the records they are scored against (recorded-predictive.ts). Absent otherwise:
+   * the records are taken as the truth.
+   */
+  readonly scale?: 'recorded';
 }
 
 export interface ScoreOrigin {
@@ -38,6 +46,11 @@ export interface ScoreOrigin {
   /** Sites in each state surveyed at the origin: climatology, and the weight of persistence's smoothing. */
   readonly originCounts: readonly number[];
   readonly level: number;
+  /**
+   * With observer error (the draws carry error matrices): the mix of true states at a site's first
+   * survey, π, which starts each site's forward filter (recorded-predictive.ts).
+   */
+  readonly initial?: ArrayLike<number>;
 }
 
 /** Log and Brier score of one categorical forecast p (k values from `offset`) for the observed state. */
@@ -51,14 +64,28 @@ function scoreOne(p: ArrayLike<number>, offset: number, k: number, observed: num
  * Score each surveyed site's state at `target` from its own last recorded state at or before
  * `origin`: the chain's posterior predictive probability (mean over the matrix draws of the row of
  * P^gap), beside persistence and climatology (baselines.ts), with log and Brier scores — strictly
- * proper (Gneiting & Raftery 2007) — and plot-count prediction bands for the same sites. Null when
- * no site can be scored.
+ * proper (Gneiting & Raftery 2007) — and plot-count prediction bands for the same sites. With an
+ * error model (the draws carry error matrices) the chain's side is on the recorded scale, filtered
+ * over each site's whole record (recorded-predictive.ts); persistence and climatology are made of
+ * records already. Null when no site can be scored.
  */
 export function scoreSites(matrices: MatrixDraws, records: readonly SurveyRecord[], at: ScoreOrigin, random: RandomStream): ScoredCase | null {
   const k = matrices.k;
-  const { cases, unscored } = siteCases(records, at.origin, at.target, at.step);
+  let { cases, unscored } = siteCases(records, at.origin, at.target, at.step);
+  let histories: (Int32Array | null)[] = [];
+  if (matrices.emissions) {
+    // With observer error each site is scored as recorded, from the filter over its whole record;
+    // a site whose surveys are not whole steps apart cannot be filtered and is counted, not scored.
+    if (!at.initial) throw new Error('internal: recorded-scale scores need the first-survey mix');
+    histories = siteHistories(records, cases, at.origin, at.step);
+    unscored += histories.filter((h) => h === null).length;
+    cases = cases.filter((_, index) => histories[index] !== null);
+    histories = histories.filter((h) => h !== null);
+  }
   if (cases.length === 0) return null;
-  const predictive = sitePredictive(matrices, cases, random);
+  const predictive = matrices.emissions
+    ? recordedPredictive(matrices, cases, histories as Int32Array[], at.initial!, random)
+    : sitePredictive(matrices, cases, random);
   const originSites = at.originCounts.reduce((a, b) => a + b, 0);
   const climatology = climatologyForecast(at.originCounts);
   const sum = { chain: { log: 0, brier: 0 }, persistence: { log: 0, brier: 0 }, climatology: { log: 0, brier: 0 } };
@@ -82,6 +109,7 @@ export function scoreSites(matrices: MatrixDraws, records: readonly SurveyRecord
   return {
     sites: cases.length, unscored, chain: mean(sum.chain), persistence: mean(sum.persistence), climatology: mean(sum.climatology),
     observed, low, high, covered: covered(observed, low, high),
+    ...(matrices.emissions ? { scale: 'recorded' as const } : {}),
   };
 }
 
@@ -98,6 +126,8 @@ export interface ScoreSummary {
   };
   /** Bands that covered, of all (case, state) bands, with the exact binomial check against the level. */
   readonly coverage: CoverageCheck;
+  /** `recorded` when the cases were scored through an error matrix (ScoredCase.scale); absent otherwise. */
+  readonly scale?: 'recorded';
 }
 
 /**
@@ -121,5 +151,6 @@ export function summariseScores(list: readonly ScoredCase[], level: number): Sco
       brier: { persistence: skill(chain.brier, persistence.brier), climatology: skill(chain.brier, climatology.brier) },
     },
     coverage: checkCoverage(list.reduce((a, c) => a + c.covered, 0), bands, level),
+    ...(list.some((c) => c.scale === 'recorded') ? { scale: 'recorded' as const } : {}),
   };
 }

@@ -22,6 +22,8 @@ export function checkJson(r: CheckResult): object {
     level: r.settings.level,
     posterior_draws: r.settings.draws,
     seed: r.seed,
+    // Only with an error table, so other checks keep their bytes: the tests read the records, the properties the true chain.
+    ...(fit.errorModel ? { scales: { tests: 'recorded', properties: 'true' } } : {}),
     tests: {
       order: tests.order.map(testJson),
       order_selection: tests.orderSelection,

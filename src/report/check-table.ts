@@ -7,6 +7,15 @@ import { makeTable } from './style.js';
 import { standoutLine, verdict } from './check-verdicts.js';
 
 /** The terminal report of `sere check`. */
+/**
+ * With an error table: the tests above read the recorded counts (the chain's own counts are of
+ * hidden true states), and a mislabel looks like a change and back, so observer error alone can
+ * make the records fail them; the properties below are of the fitted true chain.
+ */
+export const RECORDS_TESTED = 'with an error table these tests read the records, not the true states: observer error alone makes records look less ' +
+  'Markov (a mislabel looks like a change and back), so a small p may be the observers, not the chain; passage times, settling and ' +
+  'sensitivities below are of the fitted true chain';
+
 export function checkTable(r: CheckResult, style: ChalkInstance): string {
   const { fit, settings, tests, properties: pr } = r;
   const states = fit.states;
@@ -40,6 +49,7 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
     lines.push(style.dim(`${tests.periodBlocks.periods} survey periods with few transitions each, tested as ${tests.periodBlocks.blocks} blocks of consecutive periods (--periods to choose others)`));
   }
   for (const why of tests.unavailable) lines.push(style.yellow(`not tested — ${why}`));
+  if (fit.errorModel) lines.push(style.yellow(RECORDS_TESTED));
   lines.push(style.dim('A small p-value (below 0.05, say) is evidence against the assumption in that row; ' +
     '"p (sim.)" is a parametric-bootstrap p-value, given when expected counts are small.'));
   if (tests.periodStandout) {

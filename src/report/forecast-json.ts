@@ -33,7 +33,10 @@ export function scenarioJson(r: ForecastResult): object {
     },
     level: sc.level,
     start: {
-      year: sc.start.year, from: sc.start.from, shares: byState((s) => sc.start.shares[s]!),
+      year: sc.start.year, from: sc.start.from,
+      // With observer error: the true start the draws used (their posterior mean), and the records' mix beside it.
+      shares: byState((s) => (r.trueStart ?? sc.start.shares)[s]!),
+      ...(r.trueStart ? { recorded_shares: byState((s) => fit.latest.shares[s]!) } : {}),
       // Only when some sites were carried forward, so that outputs without them keep their bytes.
       ...(sc.start.carried?.length ? { carried: sc.start.carried.map((c) => ({ state: fit.states[c.state]!, steps: c.steps, sites: c.sites })) } : {}),
     },

@@ -1,11 +1,12 @@
 import type { ChalkInstance } from 'chalk';
 import type { HindcastCase, HindcastSummary } from '../evaluation/hindcast.js';
 import { makeTable } from './style.js';
-import { coverageWords, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
+import { coverageWords, recordedScaleNote, SCORE_HEADINGS, SCORE_NOTE, scoreRows } from './score-words.js';
 
 /** Hindcast skill by horizon: per-site scores against persistence and climatology, and band coverage. */
-export function hindcastTable(file: string, summary: readonly HindcastSummary[], cases: readonly HindcastCase[], level: number, step: number, style: ChalkInstance): string {
+export function hindcastTable(file: string, summary: readonly HindcastSummary[], cases: readonly HindcastCase[], level: number, step: number, style: ChalkInstance, errors?: string): string {
   const lines = [style.bold(`Hindcast of ${file}: fit on the surveys up to T − h, forecast each site surveyed at T, compare with what was seen`)];
+  if (errors !== undefined) lines.push(recordedScaleNote(errors));
   const t = makeTable(['years ahead', 'forecasts', 'sites', ...SCORE_HEADINGS], style,
     ['right', 'right', 'right', 'left', ...SCORE_HEADINGS.slice(1).map(() => 'right' as const)]);
   for (const s of summary) {

@@ -33,3 +33,8 @@ export function scoreRows(s: ScoreSummary): [string[], string[]] {
 export const SCORE_NOTE = 'Each surveyed site scored from its own last recorded state: log score (nats) and Brier score per site, lower is better; ' +
   'skill = 1 − score / reference, above 0 beats the reference (Gneiting & Raftery 2007). Persistence: the site stays; ' +
   'climatology: the landscape mix at the origin (both smoothed by ½ per state).';
+
+/** The line that says which scale was scored when the chain was fitted with an error table. */
+export function recordedScaleNote(errors: string): string {
+  return `scored on the recorded scale: each site's forecast is its filtered true state carried forward and recorded through the error matrix (${errors}), set against what was recorded`;
+}

@@ -53,6 +53,14 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
     lines.push(c.dataChanged
       ? `data changed: ${signed(c.transitions.now - c.transitions.before)} transitions, ${c.sites.now === c.sites.before ? 'no new sites' : `${signed(c.sites.now - c.sites.before)} sites`}`
       : 'data unchanged (same SHA-256): any difference below comes from settings, scenarios or the tool version');
+    if (c.error_table) {
+      const e = c.error_table;
+      lines.push(!e.changed ? 'error table unchanged (same SHA-256)'
+        : e.before === null ? 'error table added: the chain is now fitted to the true states behind the records'
+          : e.now === null ? 'error table removed: the records are now taken as the truth'
+            : 'error table changed (new SHA-256): the fit moves with the new accuracy assessment as well as with any new surveys');
+      if (e.now !== null) lines.push(style.dim('with an error table each draw starts from its own true mix, so the move is not split into new data and moving the start'));
+    }
     const moved = c.forecasts.filter((f) => f.before.median !== f.now.median || f.before.low !== f.now.low || f.before.high !== f.now.high);
     if (moved.length === 0) {
       lines.push('forecasts: no median or band moved in the years both records forecast');
@@ -87,6 +95,7 @@ export function seasonTable(run: SeasonRun, recordPath: string, workspace: strin
     for (const r of run.scores) {
       const words = `${r.record}: plot-count prediction bands for the sites surveyed: ${coverageWords(r.summary.coverage)}`;
       lines.push(r.summary.coverage.flag ? style.yellow(words) : words);
+      if (r.summary.scale === 'recorded') lines.push(style.dim('  scored on the recorded scale: each site filtered over its record, carried forward and recorded through the record\'s error matrices'));
       const unscored = r.years.reduce((a, y) => a + y.unscored, 0);
       if (unscored > 0) lines.push(style.dim(`  ${count(unscored, 'site')} surveyed since could not be scored (not surveyed by ${r.years[0]!.origin}, or in a state the record did not know)`));
       lines.push(style.dim(`  ${r.scenarios.length > 0 ? `forecast by: ${r.scenarios.join('; ')}` : 'no scenario of this record forecasts the chain alone (all have a given start, treatments or events)'}`));

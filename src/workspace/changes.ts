@@ -40,6 +40,11 @@ export interface Changes {
   readonly transitions: { readonly before: number; readonly now: number };
   /** Per scenario and state: the share in the latest year both records forecast. */
   readonly forecasts: readonly ForecastChange[];
+  /**
+   * Only when either record was fitted with an error table: the SHA-256 of each record's table (null
+   * without one) and whether it changed — a new accuracy assessment moves the fit as new surveys do.
+   */
+  readonly error_table?: { readonly before: string | null; readonly now: string | null; readonly changed: boolean };
   /** The fitted (MLE) transition probabilities that moved most, with the new transitions out of their from-state. */
   readonly moved: readonly { readonly from: string; readonly to: string; readonly before: number; readonly now: number; readonly newTransitions: number }[];
 }
@@ -108,9 +113,17 @@ export function changesSince(previous: string, before: { chain: Fit; forecasts: 
     format_version: 2,
     previous,
     dataChanged: earlier.input.sha256 !== fit.input.sha256,
+    ...(earlier.errorModel || fit.errorModel ? { error_table: errorTableChange(earlier, fit) } : {}),
     sites: { before: siteCount(earlier), now: siteCount(fit) },
     transitions: { before: earlier.transitions, now: fit.transitions },
     forecasts,
     moved: moved.filter((m) => m.now !== m.before).slice(0, MOVED_SHOWN),
   };
+}
+
+/** The error tables of two records by their SHA-256 (null without one), and whether they differ. */
+function errorTableChange(earlier: Fit, fit: Fit): NonNullable<Changes['error_table']> {
+  const before = earlier.errorModel?.sha256 ?? null;
+  const now = fit.errorModel?.sha256 ?? null;
+  return { before, now, changed: before !== now };
 }

@@ -1,4 +1,3 @@
-import { refuseErrors } from '../fit/error-fit.js';
 import { readFileSync } from 'node:fs';
 import { basename, resolve } from 'node:path';
 import { Document } from 'yaml';
@@ -21,7 +20,6 @@ export const INIT_HORIZON_YEARS = 20;
  */
 export function initWorkspaceFrom(dir: string, survey: string, settings: FitSettings, seed: number): string[] {
   refuseUsedFolder(dir);
-  refuseErrors(settings, 'a workspace does not carry an error matrix yet', 'fit with sere fit --errors and forecast with a scenario instead');
   const table = readSurveyTables([survey], surveyReadOptions(settings));
   const fit = fitSurvey(table, settings);
   const name = basename(resolve(dir));
@@ -30,6 +28,11 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
   const labelsName = settings.labels === undefined ? undefined : `surveys/${basename(settings.labels)}`;
   if (labelsName === tableName) {
     throw new SereError('BAD_OPTION', 'the label map and the survey table have the same file name', { path: '--labels' }, 'rename one of the two files');
+  }
+  // The error table too: a later season's changed copy is a change the season reports (changes.ts).
+  const errorsName = settings.errors === undefined ? undefined : `surveys/${basename(settings.errors)}`;
+  if (errorsName !== undefined && (errorsName === tableName || errorsName === labelsName)) {
+    throw new SereError('BAD_OPTION', `the error table has the same file name as the ${errorsName === tableName ? 'survey table' : 'label map'}`, { path: '--errors' }, 'rename one of the files');
   }
   const columns = Object.fromEntries(Object.entries(settings.columns)
     .filter(([key, value]) => value !== undefined && value !== (DEFAULT_COLUMNS as unknown as Record<string, string>)[key]));
@@ -42,6 +45,7 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
     ...(settings.layout ? { layout: settings.layout } : {}),
     ...(settings.sheet !== undefined ? { sheet: settings.sheet } : {}),
     ...(labelsName !== undefined ? { labels: labelsName } : {}),
+    ...(errorsName !== undefined ? { errors: errorsName } : {}),
   };
   const workspace = new Document({
     name, surveys: [tableName], fit: fitBlock, scenarios: ['scenarios/do-nothing.yaml'], records: 'records', seed,
@@ -62,6 +66,7 @@ export function initWorkspaceFrom(dir: string, survey: string, settings: FitSett
   // The exact bytes: the record's SHA-256 is of the file as surveyed.
   files.set(tableName, readFileSync(survey));
   if (labelsName !== undefined) files.set(labelsName, readFileSync(settings.labels!));
+  if (errorsName !== undefined) files.set(errorsName, readFileSync(settings.errors!));
   files.set('scenarios/do-nothing.yaml', scenario.toString());
   files.set('scenario.schema.json', readFileSync(installed('schema/scenario.schema.json'), 'utf8'));
   writeWorkspace(dir, files);

@@ -1,5 +1,6 @@
 import type { SurveyRecord } from '../data/survey.js';
-import type { Fit } from '../fit/fit.js';
+import { fitMle, type Fit } from '../fit/fit.js';
+import type { ErrorEstimate } from '../chain/error-em.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
 import { drawZoneMatrices } from '../uncertainty/zone-draws.js';
 import { zoneView } from '../engine/scenario-draws.js';
@@ -73,9 +74,12 @@ export function scoreRecord(record: ScorableRecord, current: { readonly states: 
   const scenarios = record.forecasts.filter((f) => f.start.from === 'latest' && f.treatments.length === 0 && f.events.length === 0).map((f) => f.name);
   if (chain.zones) return scoreZones(record.name, chain, known, years, unknownAt, scenarios, own);
   const draws = posteriorDraws(chain, SCORE_DRAWS, own.stream('matrices'));
+  // With an error table the record's fit.json keeps the sampler's sweeps (each with its error
+  // matrix): the sites are scored as recorded, each filtered from the first-survey mix π it fitted.
+  const initial = chain.errorModel ? { initial: (fitMle(chain) as ErrorEstimate).initial } : {};
   const scored: RecordScore[] = [];
   for (const year of years) {
-    const s = scoreSites(draws, known, { origin, target: year, step: chain.step, originCounts: chain.latest.counts, level: SCORE_LEVEL },
+    const s = scoreSites(draws, known, { origin, target: year, step: chain.step, originCounts: chain.latest.counts, level: SCORE_LEVEL, ...initial },
       own.stream(`sites:${year}`));
     if (s) scored.push({ record: record.name, origin, year, ...s, unscored: s.unscored + (unknownAt.get(year) ?? 0) });
   }

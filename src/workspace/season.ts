@@ -1,12 +1,11 @@
-import { refuseErrors } from '../fit/error-fit.js';
 import { readFileSync } from 'node:fs';
 import { surveyReadOptions } from '../fit/settings.js';
 import { join, relative } from 'node:path';
 import { readSurveyTables } from '../data/read-survey-tables.js';
 import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
-import { fitSurvey, hasGaps, type Fit } from '../fit/fit.js';
-import { augment, DEFAULT_AUGMENT } from '../uncertainty/augment.js';
+import { fitSurvey, needsSampler, type Fit } from '../fit/fit.js';
+import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import { groupOf, zonedPooling } from '../fit/fit-from-file.js';
 import { fitZoned } from '../fit/zones.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
@@ -47,7 +46,7 @@ export interface SeasonRun {
   /** Earlier records scored. */
   readonly scored: readonly string[];
   readonly scoresSeed: number | null;
-  /** The exact inputs, by workspace path: the workspace file, survey tables, label map and scenario files (workbooks as bytes). */
+  /** The exact inputs, by workspace path: the workspace file, survey tables, label map, error table and scenario files (workbooks as bytes). */
   readonly inputs: ReadonlyMap<string, string | Buffer>;
   readonly fit: Fit;
   readonly estimates: FitEstimates;
@@ -67,7 +66,6 @@ export interface SeasonRun {
  */
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
   const settings = ws.fitSettings;
-  refuseErrors(settings, 'a workspace does not carry an error matrix yet', 'fit with sere fit --errors and forecast with a scenario instead');
   const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
   const pooling = zonedPooling(surveyPaths[0]!, settings);
   let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
@@ -77,7 +75,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   // Paths as the workspace names them, so a record replayed from its own inputs/ writes the same fit.
   // The zones' own fits too: each names the same input.
   const asNamed = (f: Fit): Fit => ({ ...f, input: { file: ws.surveys.join(', '), sha256: f.input.sha256 },
-    ...(f.labels && ws.labels !== undefined ? { labels: { ...f.labels, file: ws.labels } } : {}) });
+    ...(f.labels && ws.labels !== undefined ? { labels: { ...f.labels, file: ws.labels } } : {}),
+    ...(f.errorModel && ws.errors !== undefined ? { errorModel: { ...f.errorModel, file: ws.errors } } : {}) });
   const unsampled: Fit = { ...asNamed(fitted),
     ...(fitted.zones ? { zones: { ...fitted.zones, zones: fitted.zones.zones.map((z) => ({ ...z, fit: asNamed(z.fit) })) } } : {}) };
 
@@ -91,10 +90,12 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     seeds[rel] = seed;
     return { file: rel, scenarios };
   });
-  // With pairs further apart than one step, one run of the posterior sampler (on the first scenario
-  // file's seed, so a replay repeats it) serves the record's fit summary and every scenario.
-  const fit: Fit = hasGaps(unsampled) && byFile.length > 0
-    ? { ...unsampled, latentSample: augment(unsampled, DEFAULT_AUGMENT, randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler')) }
+  // With pairs further apart than one step, or an error table, one run of the posterior sampler (on
+  // the first scenario file's seed, so a replay repeats it) serves the record's fit summary and
+  // every scenario; the record's fit.json keeps its sweeps, so a later season scores this record
+  // with the same posterior (score-records.ts).
+  const fit: Fit = needsSampler(unsampled) && byFile.length > 0
+    ? { ...unsampled, latentSample: sampleLatent(unsampled, DEFAULT_AUGMENT, randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler')) }
     : unsampled;
   for (const b of byFile) b.scenarios = b.scenarios.map((s) => ({ ...s, fit }));
   const estimates = estimateFit(fit, 0.9);
@@ -122,7 +123,7 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   const scores = earlier.flatMap((r) => scoreRecord(r, current, scoring!) ?? []);
 
   const inputs = new Map<string, string | Buffer>();
-  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...(ws.labels !== undefined ? [ws.labels] : []), ...ws.scenarios]) inputs.set(rel, WORKBOOK.test(rel) ? readFileSync(join(ws.root, rel)) : readFileSync(join(ws.root, rel), 'utf8'));
+  for (const rel of [WORKSPACE_FILE, ...ws.surveys, ...(ws.labels !== undefined ? [ws.labels] : []), ...(ws.errors !== undefined ? [ws.errors] : []), ...ws.scenarios]) inputs.set(rel, WORKBOOK.test(rel) ? readFileSync(join(ws.root, rel)) : readFileSync(join(ws.root, rel), 'utf8'));
   return {
     workspace: { name: ws.name, surveys: ws.surveys, scenarios: ws.scenarios }, date: options.date,
     previous: options.previous?.name ?? null, scored: earlier.map((r) => r.name), scoresSeed: scoresSeed ?? null,
@@ -138,6 +139,9 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
  */
 function fromPreviousStart(ws: Workspace, fit: Fit, previous: Fit, seeds: Readonly<Record<string, number>>,
   current: readonly ForecastResult[]): readonly ForecastResult[] {
+  // With an error table each draw starts from its own sweep's true mix, which the previous record's
+  // recorded mix cannot stand in for: the move is not split (changes.json then has null effects).
+  if (fit.errorModel) return [];
   const moved = movedStart(previous, fit);
   if (!moved) return [];
   if (moved === fit) return current;

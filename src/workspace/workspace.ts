@@ -39,6 +39,8 @@ export interface Workspace {
   readonly fitSettings: FitSettings;
   /** The label map named by fit.labels, relative to the workspace folder: an input of every record. */
   readonly labels?: string;
+  /** The error table (accuracy assessment) named by fit.errors, relative to the workspace folder: an input of every record. */
+  readonly errors?: string;
 }
 
 /** Read `sere-workspace.yaml` in `root`, checking that every file it names exists inside the folder. */
@@ -75,6 +77,7 @@ export function loadWorkspace(root: string): Workspace {
     seed: w.seed,
     fitSettings,
     ...(w.fit?.labels !== undefined ? { labels: inside(w.fit.labels, ['fit', 'labels']) } : {}),
+    ...(w.fit?.errors !== undefined ? { errors: inside(w.fit.errors, ['fit', 'errors']) } : {}),
   };
 }
 

@@ -63,6 +63,15 @@ describe('--errors on sere fit and sere check, fit.errors in a scenario', () => 
     // The start is each draw's true mix: the 2024 band has width, which the recorded mix alone would not give.
     const json = JSON.parse(r.stdout);
     expect(JSON.stringify(json)).toContain('young-heath');
+    // start.shares is the true start the draws used: their mean, which is also the mean share in the start year.
+    const sc = json.scenarios[0];
+    for (const state of json.scenarios[0].states ?? Object.keys(sc.start.shares)) {
+      expect(sc.start.shares[state]).toBeCloseTo(sc.shares[state].mean[0], 12);
+    }
+    // …and the recorded mix beside it: the 132 sites surveyed in 2024 (scripts/heath-fixture.ts), as sere fit reports it.
+    const fitted = JSON.parse((await sereInProcess(['fit', SURVEYS, '--json'])).stdout);
+    expect(sc.start.recorded_shares).toEqual(Object.fromEntries(fitted.states.map((s: string, i: number) => [s, fitted.latest.shares[i]])));
+    expect(sc.start.shares['young-heath']).not.toBeCloseTo(sc.start.recorded_shares['young-heath'], 3);
     const missing = write('m.yaml', 'name: m\ndata: ' + join(process.cwd(), SURVEYS) + '\nfit: { errors: nowhere.csv }\nhorizon: { years: 5 }\n');
     const m = await sereInProcess(['forecast', missing, '--debug']);
     expect(m.code).toBe(1);
@@ -145,10 +154,54 @@ describe('the site bootstrap with observer error', () => {
 });
 
 describe('sere hindcast with --errors', () => {
-  it('is refused in one line naming the flag (scoring needs predictions as recorded, not built yet)', async () => {
-    const r = await sereInProcess(['hindcast', SURVEYS, '--errors', ACCURACY, '--debug']);
+  it('fits each origin with the same error table and scores on the recorded scale, saying so in the JSON and the table', async () => {
+    // The heath surveys from 2020 on: three origins with transitions, each one sampler run.
+    const lines = readFileSync(SURVEYS, 'utf8').trim().split('\n');
+    const recent = write('recent.csv', [lines[0], ...lines.slice(1).filter((l) => Number(l.split(',')[1]) >= 2020)].join('\n') + '\n');
+    const r = await sereInProcess(['hindcast', recent, '--errors', ACCURACY, '--years', '1', '--draws', '200', '--seed', '9', '--json']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect(json.scale).toBe('recorded');
+    expect(json.errors).toBe(ACCURACY);
+    // Origins 2021, 2022 and 2023 (2020 alone has no transition), each scored a year later.
+    expect(json.cases.map((c: { origin: number }) => c.origin)).toEqual([2021, 2022, 2023]);
+    for (const c of json.cases) {
+      expect(c.scale).toBe('recorded');
+      expect(c.observed.reduce((a: number, b: number) => a + b, 0)).toBe(c.sites);
+      expect(c.chain.log).toBeGreaterThan(0);
+    }
+    expect(json.summary[0].scale).toBe('recorded');
+    expect(json.summary[0].coverage.bands).toBe(3 * 5);
+    const table = await sereInProcess(['hindcast', recent, '--errors', ACCURACY, '--years', '1', '--draws', '200', '--seed', '9']);
+    expect(table.stdout).toContain('scored on the recorded scale');
+    // Without the error table: no scale key (the records are the truth), and other numbers.
+    const plain = JSON.parse((await sereInProcess(['hindcast', recent, '--years', '1', '--draws', '200', '--seed', '9', '--json'])).stdout);
+    expect(plain.scale).toBeUndefined();
+    expect(plain.cases[0].scale).toBeUndefined();
+    expect(plain.cases[0].chain.log).not.toBe(json.cases[0].chain.log);
+  }, 180_000);
+});
+
+describe('sere effort and sere check with an error table', () => {
+  it('effort is refused in one line naming fit.errors (added surveys would not reach the sampler\'s true paths)', async () => {
+    write('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
+    const scenario = write('effort.yaml', ['name: effort', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }',
+      'horizon: { years: 5 }', 'variation: none', 'uncertainty: { source: posterior, draws: 100, seed: 3 }'].join('\n') + '\n');
+    const r = await sereInProcess(['effort', scenario, '--debug']);
     expect(r.code).toBe(1);
     expect(r.stderr).toContain('[BAD_OPTION]');
-    expect(r.stderr).toContain('--errors');
+    expect(r.stderr).toContain('fit.errors');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
   });
+
+  it('check says its tests read the records and its chain properties are of the true chain', async () => {
+    const r = await sereInProcess(['check', SURVEYS, '--errors', ACCURACY, '--draws', '100', '--replicates', '19', '--seed', '2', '--json']);
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.stdout).scales).toEqual({ tests: 'recorded', properties: 'true' });
+    const plain = await sereInProcess(['check', SURVEYS, '--draws', '100', '--replicates', '19', '--seed', '2', '--json']);
+    expect(JSON.parse(plain.stdout).scales).toBeUndefined();
+    const table = await sereInProcess(['check', SURVEYS, '--errors', ACCURACY, '--draws', '100', '--replicates', '19', '--seed', '2']);
+    expect(table.stdout).toContain('these tests read the records');
+  }, 120_000);
 });

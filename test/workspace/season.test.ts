@@ -95,7 +95,7 @@ describe('sere season (built binary)', () => {
     expect(Math.abs(scores.records[1].summary.chain.log - scored.summary.chain.log)).toBeLessThan(0.02);
     expect(next.stdout).toContain('Were earlier forecasts any good?');
     expect(sere(['season', '--replay', join(dir, 'records', '2026-09-30')]).code).toBe(0);
-  });
+  }, 180_000); // six runs of the built binary (three seasons, two replays): about 50 s on a machine at load 7, over 60 s at load 12
 
   it('leaves earlier records untouched and writes nothing when the input is bad', () => {
     const dir = workspace();
