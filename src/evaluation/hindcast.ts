@@ -6,6 +6,7 @@ import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import type { FitSettings } from '../fit/settings.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
 import { LIMITS } from '../limits.js';
+import { SereError } from '../errors.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { observedMixes } from './observed.js';
 import { scoreSites, summariseScores, type ScoredCase, type ScoreSummary } from './site-scores.js';
@@ -53,8 +54,11 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
     let fit: Fit;
     try {
       fit = fitSurvey(past, settings);
-    } catch {
-      continue; // no transitions yet before this origin
+    } catch (err) {
+      // No transitions yet before this origin: skip it. Anything else (an error table that cannot
+      // be read, say) is the user's to hear, not an origin silently left out.
+      if (err instanceof SereError && err.code === 'NO_TRANSITIONS') continue;
+      throw err;
     }
     // With observer error the sampler runs once per origin, on the origin's own stream, and every
     // horizon draws from it: the fit on the past, with the same error table. (With gaps alone each

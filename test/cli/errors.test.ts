@@ -183,6 +183,15 @@ describe('sere hindcast with --errors', () => {
   }, 180_000);
 });
 
+describe('sere hindcast with an error table it cannot read', () => {
+  it('says so in one line, instead of leaving every origin out (a trial found 0 forecasts and exit 0)', async () => {
+    const r = await sereInProcess(['hindcast', SURVEYS, '--errors', join(dir, 'no-such-table.csv'), '--years', '1', '--draws', '50', '--seed', '9', '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[FILE_NOT_FOUND]');
+    expect(r.stdout).toBe('');
+  });
+});
+
 describe('sere effort and sere check with an error table', () => {
   it('effort is refused in one line naming fit.errors (added surveys would not reach the sampler\'s true paths)', async () => {
     write('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
