@@ -4,7 +4,7 @@ import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
-import { sampleYearMatrix, startYearStreams } from './year-matrix.js';
+import { startYearStreams } from './year-matrix.js';
 import { yearKernel } from '../uncertainty/year-kernel.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
@@ -107,7 +107,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const zoneStride = D * k2;
   const eventIn = plan?.eventIn;
   const year = variation ? new Float64Array(Z * k2) : undefined;
-  const kernel = variation ? yearKernel(k, to - from) : undefined;
+  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
   const G = plan ? plan.subPopulations.length : 1;
@@ -131,6 +131,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
     if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
     if (kernel && (d === d0 || d % DRAW_BLOCK === 0)) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
+    if (kernel) for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
     built.fill(-1);
     const M = ws ? ws.matrices : variation ? year! : P;
     const hitRow = d * steps;
@@ -150,9 +151,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
       } else {
         if (kernel) {
           // Each zone's year matrix around its own draw, from the same stream one zone after another.
-          for (let zone = 0; zone < Z; zone++) {
-            sampleYearMatrix(kernel, t - from, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k, year!, zone * k2);
-          }
+          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone, year!, zone * k2);
         }
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;

@@ -3,18 +3,14 @@ import { keyOf, type RandomStream } from '../uncertainty/random.js';
 import type { YearKernel } from '../uncertainty/year-kernel.js';
 
 /**
- * One year's matrix around a drawn one (year-to-year variation): row i ~ Dirichlet(κᵢ · Pᵢ), so
- * the year's row has the drawn row as its mean and cell variance Pᵢⱼ(1 − Pᵢⱼ)/(κᵢ + 1). A row with
- * κᵢ = Infinity is copied (it does not vary); structural zeros (Pᵢⱼ = 0) stay zero. Draws k
- * gamma variates per varying row from stream n of `kernel` (the WebAssembly year kernel,
- * uncertainty/year-kernel.ts) — always every row, whatever the mix, so alternatives run on the same
- * streams meet the same years (common random numbers).
+ * Year-to-year variation: each year's matrix is drawn around the draw's, row i ~ Dirichlet(κᵢ · Pᵢ),
+ * so the year's row has the drawn row as its mean and cell variance Pᵢⱼ(1 − Pᵢⱼ)/(κᵢ + 1). A row
+ * with κᵢ = Infinity is copied (it does not vary); structural zeros (Pᵢⱼ = 0) stay zero. The
+ * WebAssembly year kernel (uncertainty/year-kernel.ts) draws them: the draw's matrix is set once
+ * (`setDraw`), then each year's from that step's stream (`sample`), k gamma variates per varying row —
+ * always every row, whatever the mix, so alternatives run on the same streams meet the same years
+ * (common random numbers).
  */
-export function sampleYearMatrix(kernel: YearKernel, n: number, P: Float64Array, offset: number,
-  concentration: Float64Array, cOffset: number, out: Float64Array, outOffset: number): void {
-  kernel.sample(n, P, offset, concentration, cOffset, out, outOffset);
-}
-
 /**
  * The keys of the year-matrix streams: block b of draws (draw-blocks.ts), step t, from
  * `random.stream('block:b').stream('step:t')`, at `(b*(horizon+1) + t)*8`. One stream per block

@@ -13,11 +13,12 @@ export interface YearKernel {
   /** Start stream n (0 … streams − 1) from its key, `keys[at … at + 8)` (random.ts keyOf). */
   startStream(n: number, keys: Uint32Array, at: number): void;
   /**
-   * One year's matrix around `P[pOffset …]` (k × k) with row concentrations `concentration[cOffset …]`
-   * (Infinity: the row is copied), drawn from stream n, into `out[outOffset …]`.
+   * Hold a drawn matrix in slot z (0 … slots − 1): `P[pOffset …]` (k × k) with row concentrations
+   * `concentration[cOffset …]` (Infinity: the row does not vary). Copied in once per draw, not per year.
    */
-  sample(n: number, P: Float64Array, pOffset: number, concentration: Float64Array, cOffset: number,
-    out: Float64Array, outOffset: number): void;
+  setDraw(z: number, P: Float64Array, pOffset: number, concentration: Float64Array, cOffset: number): void;
+  /** One year's matrix around slot z's draw, from stream n, into `out[outOffset …]` (k × k). */
+  sample(n: number, z: number, out: Float64Array, outOffset: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
 }
@@ -61,14 +62,14 @@ function kernelInstance(): Instance {
 }
 
 /**
- * A kernel for k states and `streams` streams. It owns this thread's area until the next call:
+ * A kernel for k states, `streams` streams and `slots` drawn matrices (one per zone). It owns this thread's area until the next call:
  * the engine makes one per call of its kernels, which run synchronously one at a time.
  */
-export function yearKernel(k: number, streams: number): YearKernel {
+export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const inst = kernelInstance();
   const k2 = k * k;
-  // In 8-byte words: stream states (4 each), P, κ, the year matrix, α scratch, the gammas' scratch.
-  const words = 4 * streams + k2 + k + k2 + k + GAMMA_CHUNK;
+  // In 8-byte words: stream states (4 each), P and κ per slot, the year matrix, α scratch, the gammas' scratch.
+  const words = 4 * streams + slots * (k2 + k) + k2 + k + GAMMA_CHUNK;
   if (inst.bytes < words * 8) {
     inst.bytes = Math.max(words * 8, 2 * inst.bytes);
     inst.at = inst.exports.reserve(inst.bytes);
@@ -78,8 +79,8 @@ export function yearKernel(k: number, streams: number): YearKernel {
   const base = inst.at / 8;
   const states = base;
   const pAt = states + 4 * streams;
-  const kappaAt = pAt + k2;
-  const outAt = kappaAt + k;
+  const kappaAt = pAt + slots * k2;
+  const outAt = kappaAt + slots * k;
   const alphaAt = outAt + k2;
   const gammaAt = alphaAt + k;
   // The memory grows only in reserve, so these views stay attached until the next yearKernel.
@@ -89,16 +90,24 @@ export function yearKernel(k: number, streams: number): YearKernel {
     if (inst.owner !== owner) throw new Error('a year kernel was used after another took its memory');
     if (!(n >= 0 && n < streams)) throw new Error(`stream ${n} is outside 0 … ${streams - 1}`);
   };
+  const checkSlot = (z: number): void => {
+    if (!(z >= 0 && z < slots)) throw new Error(`slot ${z} is outside 0 … ${slots - 1}`);
+  };
   return {
     startStream(n, keys, at) {
       check(n);
       u32.set(xoshiroStart(keys.subarray(at, at + 8)), (states + 4 * n) * 2);
     },
-    sample(n, P, pOffset, concentration, cOffset, out, outOffset) {
+    setDraw(z, P, pOffset, concentration, cOffset) {
+      check(0);
+      checkSlot(z);
+      f64.set(P.subarray(pOffset, pOffset + k2), pAt + z * k2);
+      f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
+    },
+    sample(n, z, out, outOffset) {
       check(n);
-      for (let c = 0; c < k2; c++) f64[pAt + c] = P[pOffset + c]!;
-      for (let i = 0; i < k; i++) f64[kappaAt + i] = concentration[cOffset + i]!;
-      exports.yearMatrix((states + 4 * n) * 8, pAt * 8, kappaAt * 8, k, outAt * 8, alphaAt * 8);
+      checkSlot(z);
+      exports.yearMatrix((states + 4 * n) * 8, (pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, outAt * 8, alphaAt * 8);
       for (let c = 0; c < k2; c++) out[outOffset + c] = f64[outAt + c]!;
     },
     gammas(n, shape, out) {

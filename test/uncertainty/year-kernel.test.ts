@@ -42,14 +42,15 @@ describe('the WebAssembly year kernel', () => {
         const { P, kappa } = caseOf(seed * 13 + k, k);
         const keys = new Uint32Array(4 * 8);
         for (let n = 0; n < 4; n++) keys.set(streamKey(seed, `years:${k}:${n}`), 8 * n);
-        const kernel = yearKernel(k, 4);
+        const kernel = yearKernel(k, 4, 2);
+        kernel.setDraw(1, P, 0, kappa, 0);
         const js = [0, 1, 2, 3].map((n) => generatorOfKey(keys, 8 * n).gamma);
         for (let n = 0; n < 4; n++) kernel.startStream(n, keys, 8 * n);
         const a = new Float64Array(k * k + 3);
         const b = new Float64Array(k * k);
         for (let rep = 0; rep < 12; rep++) {
           const n = (rep * 7 + seed) % 4; // streams taken in a shuffled order, as blocks and steps take them
-          kernel.sample(n, P, 0, kappa, 0, a, 3);
+          kernel.sample(n, 1, a, 3);
           referenceYearMatrix(P, k, kappa, js[n]!, b);
           expect(bitsEqual(a.subarray(3), b), `seed ${seed}, k ${k}, draw ${rep}`).toBe(true);
           matrices += 1;
@@ -67,12 +68,13 @@ describe('the WebAssembly year kernel', () => {
     for (const key of [streamKey(5, 'tiny'), new Uint32Array(8)]) {
       const kernel = yearKernel(k, 1);
       kernel.startStream(0, key, 0);
+      kernel.setDraw(0, P, 0, kappa, 0);
       const gamma = generatorOfKey(key).gamma;
       const a = new Float64Array(k * k);
       const b = new Float64Array(k * k);
       let corners = 0;
       for (let rep = 0; rep < 200; rep++) {
-        kernel.sample(0, P, 0, kappa, 0, a, 0);
+        kernel.sample(0, 0, a, 0);
         referenceYearMatrix(P, k, kappa, gamma, b);
         expect(bitsEqual(a, b)).toBe(true);
         corners += a.filter((x) => x === 1).length;
@@ -110,6 +112,7 @@ describe('the WebAssembly year kernel', () => {
     const first = yearKernel(3, 2);
     expect(() => first.startStream(2, new Uint32Array(8), 0)).toThrow(/outside/);
     yearKernel(3, 2);
-    expect(() => first.sample(0, new Float64Array(9), 0, new Float64Array(3), 0, new Float64Array(9), 0)).toThrow(/another/);
+    expect(() => first.sample(0, 0, new Float64Array(9), 0)).toThrow(/another/);
+    expect(() => yearKernel(3, 2).sample(0, 1, new Float64Array(9), 0)).toThrow(/slot/);
   });
 });
