@@ -66,8 +66,8 @@ function normal(): f64 {
     const i = b >> 1;
     const u = v - <f64>b;
     const z = u * load<f64>(xTable + (<usize>i << 3));
-    // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit was mispredicted
-    // half the time, and V8 compiles a wasm f64 select to a branch (measured: 11.2 → see DEVELOPERS.md).
+    // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
+    // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
     const sign = <u64>(b & 1) << 63;
     if (u < load<f64>(ratioTable + (<usize>i << 3))) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
     if (i == 0) {
