@@ -3,7 +3,8 @@ import type { Multinomial } from '../uncertainty/multinomial.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
 import type { ProjectionInputs } from './project-chunk.js';
-import { sampleYearMatrix, yearStreams, type YearStream } from './year-matrix.js';
+import { startYearStreams } from './year-matrix.js';
+import { yearKernel } from '../uncertainty/year-kernel.js';
 import type { DrawLayout } from './layout.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { largestRemainder } from '../scenario/largest-remainder.js';
@@ -43,9 +44,8 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const steps = horizon + 1;
   const { record, hits, multinomialOf, variation } = options;
   const year = new Float64Array(k2);
-  const alpha = new Float64Array(k);
   const built = new Int32Array(plan.plans.length);
-  let streams: YearStream[] = [];
+  const kernel = variation ? yearKernel(k, steps) : undefined;
   const slotOf = new Int32Array(steps).fill(-1);
   record.forEach((t, r) => { slotOf[t] = r; });
   const R = record.length;
@@ -71,7 +71,8 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
       recording = through?.multinomialOf(d / DRAW_BLOCK);
     }
     const first = options.starts ? largestRemainder(Array.from(options.starts.subarray(d * k, (d + 1) * k)), total) : start;
-    if (variation && d % DRAW_BLOCK === 0) streams = yearStreams(variation.keys, d / DRAW_BLOCK, horizon, 0, steps);
+    if (kernel && d % DRAW_BLOCK === 0) startYearStreams(kernel, variation!.keys, d / DRAW_BLOCK, horizon, 0, steps);
+    if (kernel) kernel.setDraw(0, P, d * k2, variation!.concentration, d * k);
     if (!plan.trivial && !variation) fillPlanMatrices(plan, P, d * k2, ws);
     built.fill(-1);
     now.fill(0);
@@ -83,7 +84,7 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
     for (let t = 0; t < steps; t++) {
       if (t > 0) {
         next.fill(0);
-        if (variation) sampleYearMatrix(P, d * k2, k, variation.concentration, d * k, streams[t]!, alpha, year);
+        if (kernel) kernel.sample(t, 0, year, 0);
         for (let g = 0; g < G; g++) {
           const recipe = plan.trivial ? -1 : plan.planOf[t * G + g]!;
           if (variation && recipe >= 0 && built[recipe] !== t) { fillRecipe(plan, recipe, year, 0, ws); built[recipe] = t; }

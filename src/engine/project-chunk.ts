@@ -4,7 +4,8 @@ import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
-import { sampleYearMatrix, yearStreams, type YearStream } from './year-matrix.js';
+import { startYearStreams } from './year-matrix.js';
+import { yearKernel } from '../uncertainty/year-kernel.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
@@ -106,11 +107,9 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const zoneStride = D * k2;
   const eventIn = plan?.eventIn;
   const year = variation ? new Float64Array(Z * k2) : undefined;
-  const yearOf = year ? Array.from({ length: Z }, (_, zone) => year.subarray(zone * k2, (zone + 1) * k2)) : [];
-  const alpha = new Float64Array(k);
+  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
-  let streams: YearStream[] = [];
   const G = plan ? plan.subPopulations.length : 1;
   const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
   const planOf = plan?.planOf;
@@ -131,7 +130,8 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     const b = (d - d0) % OUTPUT_BLOCK;
     const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
     if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
-    if (variation && (d === d0 || d % DRAW_BLOCK === 0)) streams = yearStreams(variation.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
+    if (kernel && (d === d0 || d % DRAW_BLOCK === 0)) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
+    if (kernel) for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
     built.fill(-1);
     const M = ws ? ws.matrices : variation ? year! : P;
     const hitRow = d * steps;
@@ -149,11 +149,9 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
           for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
         }
       } else {
-        if (variation) {
+        if (kernel) {
           // Each zone's year matrix around its own draw, from the same stream one zone after another.
-          for (let zone = 0; zone < Z; zone++) {
-            sampleYearMatrix(P, zone * zoneStride + d * k2, k, variation.concentration, (zone * D + d) * k, streams[t - from]!, alpha, yearOf[zone]!);
-          }
+          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone, year!, zone * k2);
         }
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;

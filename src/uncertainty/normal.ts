@@ -60,6 +60,6 @@ X[1] = R;
 for (let i = 1; i < ZIGGURAT_LAYERS - 1; i++) X[i + 1] = Math.sqrt(-2 * Math.log(ZIGGURAT_V / X[i]! + density(X[i]!)));
 X[ZIGGURAT_LAYERS] = 0;
 /** f(X[i]). */
-const F = X.map(density);
+export const F = X.map(density);
 /** X[i+1] / X[i]: a point of strip i below this share of its width lies under the strip above too. */
-const RATIO = Float64Array.from({ length: ZIGGURAT_LAYERS }, (_, i) => X[i + 1]! / X[i]!);
+export const RATIO = Float64Array.from({ length: ZIGGURAT_LAYERS }, (_, i) => X[i + 1]! / X[i]!);

@@ -12,10 +12,9 @@
  * them out one by one. Why this and not MT19937: see `random.ts` (measured).
  */
 export function xoshiroUniforms(key: Uint32Array): () => number {
-  if (key.length !== 8) throw new Error('xoshiro256** takes a key of eight 32-bit words');
+  const w = xoshiroStart(key);
   // [hi, lo] of s0, s1, s2, s3.
-  const s = Int32Array.of(key[1]!, key[0]!, key[3]!, key[2]!, key[5]!, key[4]!, key[7]!, key[6]!);
-  if (s.every((w) => w === 0)) s[1] = 1;
+  const s = Int32Array.of(w[1]!, w[0]!, w[3]!, w[2]!, w[5]!, w[4]!, w[7]!, w[6]!);
   const block = new Float64Array(BLOCK);
   let next = BLOCK;
 
@@ -53,6 +52,18 @@ export function xoshiroUniforms(key: Uint32Array): () => number {
     if (next === BLOCK) refill();
     return block[next++]!;
   };
+}
+
+/**
+ * The generator's starting state from a key: the key itself (four little-endian 64-bit words, low
+ * half first), except that the forbidden all-zero state becomes s0 = 1. The WebAssembly year kernel
+ * (year-kernel.ts) starts its streams from these same words.
+ */
+export function xoshiroStart(key: ArrayLike<number>): Uint32Array {
+  if (key.length !== 8) throw new Error('xoshiro256** takes a key of eight 32-bit words');
+  const w = Uint32Array.from(key);
+  if (w.every((x) => x === 0)) w[0] = 1;
+  return w;
 }
 
 /** Uniforms made per refill: large enough to amortise the call, small enough for a stream used once. */

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { simulate } from '../../src/engine/simulate.js';
-import { sampleYearMatrix } from '../../src/engine/year-matrix.js';
+import { yearKernel } from '../../src/uncertainty/year-kernel.js';
 import { drawMatrices } from '../../src/uncertainty/draw-matrices.js';
-import { randomStreams } from '../../src/uncertainty/random.js';
+import { keyOf, randomStreams } from '../../src/uncertainty/random.js';
 import { bandOf } from '../../src/engine/quantiles.js';
 import { fitWithCounts, scenarioFor, treatmentOf } from '../helpers.js';
 
@@ -14,15 +14,16 @@ describe('a year matrix around a drawn one', () => {
   it('has the drawn row as mean and variance p(1 − p)/(κ + 1) in every cell (Dirichlet moments; BDA3 appendix A)', () => {
     const P = Float64Array.of(0.8, 0.2, 0, 0.1, 0.6, 0.3, 0.05, 0.15, 0.8);
     const kappa = Float64Array.of(5, 40, Infinity);
-    const random = randomStreams(31);
+    const kernel = yearKernel(3, 1);
+    kernel.startStream(0, keyOf(randomStreams(31)), 0);
+    kernel.setDraw(0, P, 0, kappa, 0);
     const n = 20_000;
     const out = new Float64Array(9);
-    const alpha = new Float64Array(3);
     const sum = new Float64Array(9);
     const sum2 = new Float64Array(9);
     const sum4 = new Float64Array(9);
     for (let r = 0; r < n; r++) {
-      sampleYearMatrix(P, 0, 3, kappa, 0, random, alpha, out);
+      kernel.sample(0, 0, out, 0);
       for (let c = 0; c < 9; c++) { sum[c] += out[c]!; sum2[c] += out[c]! ** 2; sum4[c] += out[c]! ** 4; }
       expect(out[2]).toBe(0); // a structural zero stays zero
       for (let c = 6; c < 9; c++) expect(out[c]).toBe(P[c]); // κ = ∞: the row is copied

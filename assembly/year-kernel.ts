@@ -1,0 +1,181 @@
+/**
+ * The year matrices of year-to-year variation in WebAssembly (AssemblyScript, compiled by
+ * `npm run build` through scripts/build-wasm.mjs into src/uncertainty/year-kernel-wasm.ts).
+ *
+ * Why: with variation every draw, year and row gets a fresh Dirichlet row, one gamma variate per cell.
+ * In JavaScript a xoshiro256** uniform costs about 10 ns (64-bit words as 32-bit halves); here the
+ * words are native i64 (DEVELOPERS.md, Benchmarks, for the measured gain).
+ *
+ * The numbers are those of the JavaScript generator, bit for bit (test/uncertainty/year-kernel.test.ts):
+ * the same xoshiro256** stream and 53-bit uniforms (Blackman & Vigna 2021; src/uncertainty/xoshiro.ts),
+ * the same 256-strip ziggurat (Marsaglia & Tsang 2000; its tables are src/uncertainty/normal.ts's,
+ * copied in by the host), the same Marsaglia & Tsang (2000) gamma with the boost exp(ln U / a) for
+ * shape a < 1 (gamma.ts), the same Dirichlet redraws (dirichlet.ts) — every operation in the same
+ * order, and exp and log imported from the host's Math, so no libm of our own can round differently.
+ * sqrt, +, −, ×, ÷ are correctly rounded IEEE 754 operations in both.
+ *
+ * Memory is laid out by the host (src/uncertainty/year-kernel.ts); this module only computes.
+ */
+
+@external("env", "exp") declare function exp(x: f64): f64;
+@external("env", "log") declare function log(x: f64): f64;
+
+/** Ziggurat tables (normal.ts): X[0 … 256], F[0 … 256] = f(X[i]), RATIO[0 … 255] = X[i+1]/X[i]; and R. */
+let xTable: usize = 0;
+let fTable: usize = 0;
+let ratioTable: usize = 0;
+let tailStart: f64 = 0;
+
+/** The current stream's xoshiro256** state, loaded from and stored back to the host's memory by yearMatrix. */
+let s0: u64 = 0;
+let s1: u64 = 0;
+let s2: u64 = 0;
+let s3: u64 = 0;
+
+/** Bytes for the host's arrays (never freed: the host keeps one area per thread and grows it by doubling). */
+export function reserve(bytes: usize): usize {
+  return heap.alloc(bytes);
+}
+
+export function setTables(x: usize, f: usize, ratio: usize, r: f64): void {
+  xTable = x;
+  fTable = f;
+  ratioTable = ratio;
+  tailStart = r;
+}
+
+// @ts-ignore: decorator
+@inline function uniform(): f64 {
+  // xoshiro256**: result = rotl(s1 · 5, 7) · 9; then the state's linear step. Top 53 bits · 2⁻⁵³.
+  const result = rotl<u64>(s1 * 5, 7) * 9;
+  const t = s1 << 17;
+  s2 ^= s0;
+  s3 ^= s1;
+  s1 ^= s2;
+  s0 ^= s3;
+  s2 ^= t;
+  s3 = rotl<u64>(s3, 45);
+  return <f64>(result >> 11) * 1.1102230246251565e-16;
+}
+
+/** A standard normal by the ziggurat, as normal.ts: strip, sign and position from one uniform. */
+function normal(): f64 {
+  while (true) {
+    const v = uniform() * 512;
+    const b = <i32>v;
+    const i = b >> 1;
+    const u = v - <f64>b;
+    const z = u * load<f64>(xTable + (<usize>i << 3));
+    // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
+    // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
+    const sign = <u64>(b & 1) << 63;
+    if (u < load<f64>(ratioTable + (<usize>i << 3))) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
+    if (i == 0) {
+      // The tail beyond R (Marsaglia 1964).
+      let a: f64;
+      let e: f64;
+      do {
+        a = -log(1 - uniform()) / tailStart;
+        e = -log(1 - uniform());
+      } while (e + e < a * a);
+      return reinterpret<f64>(reinterpret<u64>(tailStart + a) ^ sign);
+    }
+    const fi = load<f64>(fTable + (<usize>i << 3));
+    const fNext = load<f64>(fTable + (<usize>(i + 1) << 3));
+    if (fi + uniform() * (fNext - fi) < exp(-0.5 * z * z)) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
+  }
+}
+
+/** Gamma(shape ≥ 1) by Marsaglia & Tsang (2000), as gamma.ts. */
+function atLeastOne(shape: f64): f64 {
+  const d = shape - 1.0 / 3.0;
+  const c = 1 / Math.sqrt(9 * d);
+  while (true) {
+    let x: f64;
+    let v: f64;
+    do {
+      x = normal();
+      v = 1 + c * x;
+    } while (v <= 0);
+    v = v * v * v;
+    const u = uniform();
+    const x2 = x * x;
+    if (u < 1 - 0.0331 * x2 * x2) return d * v;
+    if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) return d * v;
+  }
+}
+
+// @ts-ignore: decorator
+@inline function gamma(shape: f64): f64 {
+  if (shape >= 1) return atLeastOne(shape);
+  const g = atLeastOne(shape + 1);
+  return g * exp(log(uniform()) / shape);
+}
+
+/** Redraws of a row whose every variate underflowed (dirichlet.ts MAX_REDRAWS). */
+const MAX_REDRAWS = 16;
+
+/**
+ * One year's matrix around a drawn one, as year-matrix.ts describes: row i ~ Dirichlet(κᵢ·Pᵢ) into
+ * `out` (k × k), rows with κᵢ = ∞ copied, zero cells left zero; from the stream whose 256-bit state
+ * is at `state` (advanced in place). `alpha` is k numbers of scratch.
+ */
+export function yearMatrix(state: usize, p: usize, kappa: usize, k: i32, out: usize, alpha: usize): void {
+  s0 = load<u64>(state);
+  s1 = load<u64>(state, 8);
+  s2 = load<u64>(state, 16);
+  s3 = load<u64>(state, 24);
+  for (let i = 0; i < k; i++) {
+    const kap = load<f64>(kappa + (<usize>i << 3));
+    const row = p + (<usize>(i * k) << 3);
+    const to = out + (<usize>(i * k) << 3);
+    if (kap == Infinity) {
+      memory.copy(to, row, <usize>k << 3);
+      continue;
+    }
+    for (let j = 0; j < k; j++) store<f64>(alpha + (<usize>j << 3), kap * load<f64>(row + (<usize>j << 3)));
+    dirichlet(alpha, k, to);
+  }
+  store<u64>(state, s0);
+  store<u64>(state, s1, 8);
+  store<u64>(state, s2, 16);
+  store<u64>(state, s3, 24);
+}
+
+/** n Gamma(shape) variates into `out` from the stream at `state` (advanced in place): for tests and the bench. */
+export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
+  s0 = load<u64>(state);
+  s1 = load<u64>(state, 8);
+  s2 = load<u64>(state, 16);
+  s3 = load<u64>(state, 24);
+  for (let m = 0; m < n; m++) store<f64>(out + (<usize>m << 3), gamma(shape));
+  store<u64>(state, s0);
+  store<u64>(state, s1, 8);
+  store<u64>(state, s2, 16);
+  store<u64>(state, s3, 24);
+}
+
+/** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts. */
+function dirichlet(alpha: usize, n: i32, out: usize): void {
+  for (let attempt = 0; attempt < MAX_REDRAWS; attempt++) {
+    let total: f64 = 0;
+    for (let j = 0; j < n; j++) {
+      const a = load<f64>(alpha + (<usize>j << 3));
+      const g = a > 0 ? gamma(a) : 0;
+      store<f64>(out + (<usize>j << 3), g);
+      total += g;
+    }
+    if (total > 0 && isFinite(total)) {
+      for (let j = 0; j < n; j++) {
+        const at = out + (<usize>j << 3);
+        store<f64>(at, load<f64>(at) / total);
+      }
+      return;
+    }
+  }
+  let best = 0;
+  for (let j = 1; j < n; j++) if (load<f64>(alpha + (<usize>j << 3)) > load<f64>(alpha + (<usize>best << 3))) best = j;
+  for (let j = 0; j < n; j++) store<f64>(out + (<usize>j << 3), j == best ? 1.0 : 0.0);
+}
+
+

@@ -1,0 +1,122 @@
+import { F, RATIO, X, ZIGGURAT_R } from './normal.js';
+import { xoshiroStart } from './xoshiro.js';
+import { YEAR_KERNEL_WASM } from './year-kernel-wasm.js';
+
+/**
+ * The host of the WebAssembly year kernel (assembly/year-kernel.ts): one instance per thread, made on
+ * first use, and one area of its memory that the latest `yearKernel` lays out as its own. The kernel
+ * draws year matrices — Dirichlet(κᵢ·Pᵢ) rows — from xoshiro256** streams whose state lives in that
+ * memory, giving exactly the numbers `generatorOfKey(key).gamma` and `sampleDirichlet` give in
+ * JavaScript (test/uncertainty/year-kernel.test.ts), several times faster (DEVELOPERS.md, Benchmarks).
+ */
+export interface YearKernel {
+  /** Start stream n (0 … streams − 1) from its key, `keys[at … at + 8)` (random.ts keyOf). */
+  startStream(n: number, keys: Uint32Array, at: number): void;
+  /**
+   * Hold a drawn matrix in slot z (0 … slots − 1): `P[pOffset …]` (k × k) with row concentrations
+   * `concentration[cOffset …]` (Infinity: the row does not vary). Copied in once per draw, not per year.
+   */
+  setDraw(z: number, P: Float64Array, pOffset: number, concentration: Float64Array, cOffset: number): void;
+  /** One year's matrix around slot z's draw, from stream n, into `out[outOffset …]` (k × k). */
+  sample(n: number, z: number, out: Float64Array, outOffset: number): void;
+  /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
+  gammas(n: number, shape: number, out: Float64Array): void;
+}
+
+interface Exports {
+  readonly memory: WebAssembly.Memory;
+  reserve(bytes: number): number;
+  setTables(x: number, f: number, ratio: number, r: number): void;
+  yearMatrix(state: number, p: number, kappa: number, k: number, out: number, alpha: number): void;
+  gammas(state: number, shape: number, n: number, out: number): void;
+}
+
+/** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
+const GAMMA_CHUNK = 1024;
+
+interface Instance {
+  readonly exports: Exports;
+  /** The area's start (bytes) and size; a larger need reserves a new, doubled area. */
+  at: number;
+  bytes: number;
+  /** Bumped whenever a kernel takes the area, so a kernel laid out before can tell it is stale. */
+  owner: number;
+}
+
+let instance: Instance | undefined;
+
+function kernelInstance(): Instance {
+  if (instance) return instance;
+  const module = new WebAssembly.Module(Buffer.from(YEAR_KERNEL_WASM, 'base64'));
+  // exp and log are the host's own, so both generators round them the same (see the kernel).
+  const imports = { env: { exp: Math.exp, log: Math.log, abort: () => { throw new Error('the year kernel ran out of memory'); } } };
+  const exports = new WebAssembly.Instance(module, imports).exports as unknown as Exports;
+  const tables = exports.reserve((X.length + F.length + RATIO.length) * 8);
+  const view = new Float64Array(exports.memory.buffer);
+  view.set(X, tables / 8);
+  view.set(F, tables / 8 + X.length);
+  view.set(RATIO, tables / 8 + X.length + F.length);
+  exports.setTables(tables, tables + X.length * 8, tables + (X.length + F.length) * 8, ZIGGURAT_R);
+  instance = { exports, at: 0, bytes: 0, owner: 0 };
+  return instance;
+}
+
+/**
+ * A kernel for k states, `streams` streams and `slots` drawn matrices (one per zone). It owns this thread's area until the next call:
+ * the engine makes one per call of its kernels, which run synchronously one at a time.
+ */
+export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
+  const inst = kernelInstance();
+  const k2 = k * k;
+  // In 8-byte words: stream states (4 each), P and κ per slot, the year matrix, α scratch, the gammas' scratch.
+  const words = 4 * streams + slots * (k2 + k) + k2 + k + GAMMA_CHUNK;
+  if (inst.bytes < words * 8) {
+    inst.bytes = Math.max(words * 8, 2 * inst.bytes);
+    inst.at = inst.exports.reserve(inst.bytes);
+  }
+  const owner = ++inst.owner;
+  const { exports } = inst;
+  const base = inst.at / 8;
+  const states = base;
+  const pAt = states + 4 * streams;
+  const kappaAt = pAt + slots * k2;
+  const outAt = kappaAt + slots * k;
+  const alphaAt = outAt + k2;
+  const gammaAt = alphaAt + k;
+  // The memory grows only in reserve, so these views stay attached until the next yearKernel.
+  const f64 = new Float64Array(exports.memory.buffer);
+  const u32 = new Uint32Array(exports.memory.buffer);
+  const check = (n: number): void => {
+    if (inst.owner !== owner) throw new Error('a year kernel was used after another took its memory');
+    if (!(n >= 0 && n < streams)) throw new Error(`stream ${n} is outside 0 … ${streams - 1}`);
+  };
+  const checkSlot = (z: number): void => {
+    if (!(z >= 0 && z < slots)) throw new Error(`slot ${z} is outside 0 … ${slots - 1}`);
+  };
+  return {
+    startStream(n, keys, at) {
+      check(n);
+      u32.set(xoshiroStart(keys.subarray(at, at + 8)), (states + 4 * n) * 2);
+    },
+    setDraw(z, P, pOffset, concentration, cOffset) {
+      check(0);
+      checkSlot(z);
+      f64.set(P.subarray(pOffset, pOffset + k2), pAt + z * k2);
+      f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
+    },
+    sample(n, z, out, outOffset) {
+      check(n);
+      checkSlot(z);
+      exports.yearMatrix((states + 4 * n) * 8, (pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, outAt * 8, alphaAt * 8);
+      for (let c = 0; c < k2; c++) out[outOffset + c] = f64[outAt + c]!;
+    },
+    gammas(n, shape, out) {
+      check(n);
+      for (let m = 0; m < out.length; m += GAMMA_CHUNK) {
+        const count = Math.min(GAMMA_CHUNK, out.length - m);
+        exports.gammas((states + 4 * n) * 8, shape, count, gammaAt * 8);
+        out.set(f64.subarray(gammaAt, gammaAt + count), m);
+      }
+    },
+  };
+}
