@@ -1,3 +1,4 @@
+import digamma from '@stdlib/math-base-special-digamma';
 import { logRising } from './dirichlet-multinomial.js';
 import type { RowPeriods } from './row-periods.js';
 
@@ -7,8 +8,9 @@ import type { RowPeriods } from './row-periods.js';
  *
  *   aⱼ ← aⱼ · Σₜ [ψ(nₜⱼ + aⱼ) − ψ(aⱼ)] / Σₜ [ψ(Nₜ + A) − ψ(A)],
  *
- * which increases the likelihood at every step. Counts are whole numbers, so each digamma
- * difference is the finite sum Σ_{m<n} 1/(a + m), exact. When the periods agree no better than
+ * which increases the likelihood at every step. For whole counts each digamma difference is the
+ * finite sum Σ_{m<n} 1/(a + m), exact; fractional counts (zones with gaps) take the digamma for the
+ * fraction. When the periods agree no better than
  * multinomial sampling allows, the likelihood keeps rising as κ grows and the maximum is at
  * κ = ∞ (no year-to-year variation): reported as Infinity once κ passes KAPPA_INFINITE.
  */
@@ -69,10 +71,17 @@ function logLikelihood(r: RowPeriods, a: Float64Array, scale: number): number {
   return value;
 }
 
-/** ψ(a + n) − ψ(a) for whole n: Σ_{m<n} 1/(a + m). */
+/**
+ * ψ(a + n) − ψ(a): for whole n the finite sum Σ_{m<n} 1/(a + m), exact; a fractional n (a zone's
+ * completed counts with gaps hold expected transitions) adds ψ(a + n) − ψ(a + ⌊n⌋) by stdlib's digamma.
+ */
 function digammaDifference(a: number, n: number): number {
+  const whole = Math.floor(n);
   let s = 0;
-  for (let m = 0; m < n; m++) s += 1 / (a + m);
+  for (let m = 0; m < whole; m++) s += 1 / (a + m);
+  // ψ is increasing, so the fraction's part is ≥ 0; for a tiny fraction the difference of two
+  // nearly equal digammas can round below zero, which would turn aⱼ negative.
+  if (n > whole) s += Math.max(0, digamma(a + n) - digamma(a + whole));
   return s;
 }
 

@@ -50,8 +50,9 @@ export function dirichletMultinomialMoments(N: number, a: ArrayLike<number>): { 
 }
 
 /**
- * log Γ(a + n) − log Γ(a), the rising factorial's logarithm, for whole n. Three exact-enough paths:
- * a sum of logs for small n; for a ≥ STIRLING_FROM the difference of Stirling's series written so
+ * log Γ(a + n) − log Γ(a), the rising factorial's logarithm, for n ≥ 0 (whole, or fractional as
+ * the zones' completed counts with gaps are: expected transitions inside bridges). Three exact-enough paths:
+ * a sum of logs for small whole n; for a ≥ STIRLING_FROM the difference of Stirling's series written so
  * nothing large cancels, (a − ½)·log1p(n/a) + n·log(a + n) − n + c(a + n) − c(a) with
  * c(x) = 1/(12x) − 1/(360x³) + 1/(1260x⁵) (Abramowitz & Stegun 6.1.41; the next term is below
  * 1e-17 there) — the difference of two log-gammas of 2e10 would keep only five digits; otherwise
@@ -59,7 +60,7 @@ export function dirichletMultinomialMoments(N: number, a: ArrayLike<number>): { 
  */
 export function logRising(a: number, n: number): number {
   if (n === 0) return 0;
-  if (n <= RISING_BY_SUM) {
+  if (n <= RISING_BY_SUM && Number.isInteger(n)) {
     let s = 0;
     for (let m = 0; m < n; m++) s += Math.log(a + m);
     return s;

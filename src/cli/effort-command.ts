@@ -1,7 +1,7 @@
-import { SereError } from '../errors.js';
 import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
+import { zoneSurveyEffort } from '../evaluation/zone-effort.js';
 import { effortTable } from '../report/effort-table.js';
 import { effortJson } from '../report/effort-json.js';
 import { makeStyle } from '../report/style.js';
@@ -24,11 +24,6 @@ export function registerEffort(program: Command, io: Io): void {
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
       const scenario = loadScenario(file);
-      if (scenario.zones) {
-        // Simulated future surveys refit one chain; zones would need them placed by zone.
-        throw new SereError('BAD_ZONES', 'sere effort plans surveys of one pooled chain, and this scenario is stratified by zone', { file, path: 'fit.pooling' },
-          'run sere effort on a copy of the scenario without fit.pooling and areas (a pooled fit)');
-      }
       if (scenario.fit.errorModel) {
         // The preposterior adds simulated surveys to the counts and redraws the posterior; with an
         // error table the posterior comes from the sampler's true paths, which added counts do not
@@ -39,7 +34,10 @@ export function registerEffort(program: Command, io: Io): void {
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
       const seed = chooseSeed(scenario, opts.seed, io);
-      const effort = surveyEffort(scenario, { sites, seasons: opts.seasons }, { replicates: opts.replicates, draws: opts.draws, random: randomStreams(seed) });
+      const grid = { sites, seasons: opts.seasons };
+      const options = { replicates: opts.replicates, draws: opts.draws, random: randomStreams(seed) };
+      // A stratified scenario plans surveys by zone: sites split by area, each zone refitted (zone-effort.ts).
+      const effort = scenario.zones ? zoneSurveyEffort(scenario, grid, options) : surveyEffort(scenario, grid, options);
       io.stdout(opts.json ? effortJson(scenario, effort, seed) : effortTable(scenario, effort, makeStyle(io.color)));
     });
 }

@@ -25,7 +25,7 @@ import { level } from './parse-options.js';
 import { fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { writeFileAtomic } from './write-file.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
-import { fitRasterCounts } from '../fit/fit-from-raster.js';
+import { fitRasterCounts, fitRasterZoned } from '../fit/fit-from-raster.js';
 import { sampleFit, withSamplerOptions, type SamplerFlags } from './sample-fit.js';
 
 interface FitOptions extends FitFlags, SamplerFlags {
@@ -68,10 +68,11 @@ export function registerFit(program: Command, io: Io): void {
           'map class codes to states under labels: in the stack file');
       }
       // The raster code (and the geotiff package) is loaded only for a stack.
-      // Pooling is refused for a stack before its (slow) counting starts.
+      // Pooling's own refusals come before a stack's (slow) counting starts; a stack without a zone raster is refused after it.
       const pooling = zonedPooling(file, settings);
       const counted = raster ? await (await import('./count-blocks.js')).countStack(file, opts.blockSize, { path: '--block-size' }, io.progress) : undefined;
-      const fit = sampleZones(sampleFit(pooling ? fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, pooling, { path: '--pooling' })
+      const fit = sampleZones(sampleFit(pooling && counted ? fitRasterZoned(counted, settings, pooling, { path: '--pooling' })
+        : pooling ? fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, pooling, { path: '--pooling' })
         : counted ? fitRasterCounts(counted, settings)
           : isCountsFile(file) ? fitCounts(readCountsCsv(file, { states: opts.states }), settings)
             : fitSurvey(readSurveyCsv(file, surveyReadOptions(settings)), settings), opts, io), opts, io);

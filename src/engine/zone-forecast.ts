@@ -20,9 +20,10 @@ export interface ZoneForecast {
  * same share of this one) — on the same random streams as the landscape run. Draw d of a zone is
  * the landscape run's draw d of that zone; the year matrices are the landscape run's for the first
  * zone and drawn afresh (same distribution) for the others, so a zone's bands are its forecast,
- * not a slice of the landscape run draw by draw.
+ * not a slice of the landscape run draw by draw. `record`: the steps whose bands are kept (default every step).
  */
-export function zoneForecasts(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, engine: EngineOptions = {}): ZoneForecast[] {
+export function zoneForecasts(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, engine: EngineOptions = {},
+  record?: readonly number[]): ZoneForecast[] {
   const zones = scenario.zones!;
   const k = scenario.fit.states.length;
   return zones.names.map((name, z) => {
@@ -40,7 +41,7 @@ export function zoneForecasts(scenario: Scenario, matrices: MatrixDraws, random:
       },
     };
     const view = { ...zoneView(matrices, z), zones: 1 };
-    const sim = simulate(alone, view, random, { switches: { noPlots: true }, chunkBytes: engine.chunkBytes, threads: engine.threads });
+    const sim = simulate(alone, view, random, { switches: { noPlots: true }, chunkBytes: engine.chunkBytes, threads: engine.threads, ...(record ? { record } : {}) });
     return { name, share: zones.shares[z]!, shares: sim.shares };
   });
 }

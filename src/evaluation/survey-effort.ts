@@ -75,14 +75,14 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
   return { current, cells, replicates: options.replicates };
 }
 
-/** Each site makes `seasons` transitions under `truth`; the transitions are added to `counts`. */
-function simulateSurveys(truth: Float64Array, k: number, states: number[], seasons: number, counts: Float64Array, random: RandomStream): void {
+/** Each site makes `seasons` transitions under `truth` (k×k at `at`); the transitions are added to `counts`. */
+export function simulateSurveys(truth: Float64Array, k: number, states: number[], seasons: number, counts: Float64Array, random: RandomStream, at = 0): void {
   for (let s = 0; s < states.length; s++) {
     let state = states[s]!;
     for (let y = 0; y < seasons; y++) {
       let u = random.uniform();
       let next = 0;
-      while (next < k - 1 && (u -= truth[state * k + next]!) >= 0) next += 1;
+      while (next < k - 1 && (u -= truth[at + state * k + next]!) >= 0) next += 1;
       counts[state * k + next] += 1;
       state = next;
     }

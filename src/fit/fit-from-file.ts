@@ -9,7 +9,7 @@ import { loadFit } from './load-fit.js';
 import { surveyReadOptions, type FitSettings } from './settings.js';
 import { isRasterStackFile } from '../data/raster/stack-file.js';
 import type { RasterCounts } from '../data/raster/count-stack.js';
-import { fitRasterCounts } from './fit-from-raster.js';
+import { fitRasterCounts, fitRasterZoned } from './fit-from-raster.js';
 import { fitCounts } from './fit-counts.js';
 import { isCountsFile } from '../data/counts-table.js';
 import { readCountsCsv } from '../data/read-counts-csv.js';
@@ -25,7 +25,7 @@ export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true,
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS, rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
   const zoned = zonedPooling(file, settings);
-  if (zoned) return fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, zoned, settings.places?.pooling ?? { path: '--pooling' });
+  if (zoned && !isRasterStackFile(file)) return fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, zoned, settings.places?.pooling ?? { path: '--pooling' });
   if (isRasterStackFile(file)) {
     if (settings.labels !== undefined || settings.sheet !== undefined || settings.layout !== undefined) {
       throw new SereError('BAD_OPTION', 'a raster stack names its class-code labels in the stack file, and has no sheets or layout',
@@ -36,7 +36,7 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
       throw new SereError('BAD_OPTION', 'this command reads survey tables and fit files, not raster stacks', { file },
         'fit the stack first (sere fit STACK.yaml --out fit.json) and name fit.json as data, or run sere forecast');
     }
-    return fitRasterCounts(counted, settings);
+    return zoned ? fitRasterZoned(counted, settings, zoned, settings.places?.pooling ?? { path: '--pooling' }) : fitRasterCounts(counted, settings);
   }
   if (isCountsFile(file)) return fitCounts(readCountsCsv(file, { states: settings.states, statesPlace: settings.places?.states }), settings);
   const table = readSurveyCsv(file, surveyReadOptions(settings));
@@ -45,15 +45,16 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
 
 /**
  * `pooling: partial | none` (zones.ts), or undefined for one pooled fit. Zones are the values of a
- * survey table's group column: a counts table or raster stack, or one group picked by `group`, is
- * refused in one line.
+ * survey table's group column or a raster stack's zone raster (checked once it is counted:
+ * fit-from-raster.ts `fitRasterZoned`): a counts table, or one group picked by `group`, is refused
+ * in one line.
  */
 export function zonedPooling(file: string, settings: FitSettings): 'partial' | 'none' | undefined {
   const pooling = settings.pooling;
   if (pooling === undefined || pooling === 'complete') return undefined;
   const place = settings.places?.pooling ?? { path: '--pooling' };
-  if (isRasterStackFile(file) || isCountsFile(file)) {
-    throw new SereError('BAD_ZONES', `pooling: ${pooling} reads each site's zone from a survey table's zone column`, { file, path: place.path },
+  if (isCountsFile(file)) {
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} reads each site's zone from a survey table's zone column or a stack's zone raster`, { file, path: place.path },
       'fit the survey table itself with its zone column (columns.group / --group-column)');
   }
   if (settings.group !== undefined) {

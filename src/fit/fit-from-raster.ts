@@ -40,6 +40,38 @@ export function rasterSourceOf(fit: Fit): RasterSource | undefined {
   return sources.get(fit);
 }
 
+/**
+ * A zoned fit of a raster stack with a zone raster (`--pooling partial | none`): the pooled fit
+ * (with its blocks when the stack was counted in blocks) carrying one fit per zone, each from the
+ * zone's own tally — the counts a survey table of the same pixels with a zone column gives, so the
+ * pooling (fit/zones.ts, chain/zone-pooling.ts) is the survey table's. Zones are named by their
+ * codes. `place` names the pooling setting for errors.
+ */
+export function fitRasterZoned(counted: RasterCounts, settings: FitSettings, pooling: 'partial' | 'none', place: Place): Fit {
+  if (counted.zones === null) {
+    throw new SereError('BAD_ZONES', `pooling: ${pooling} needs the stack's zone raster`, place, 'add zones: zones.tif to the stack file, or drop pooling');
+  }
+  if (pooling === 'partial' && counted.zones.length < 2) {
+    throw new SereError('BAD_ZONES', `pooling: partial needs at least two zones; the zone raster holds ${counted.zones.length === 0 ? 'none' : `only zone ${counted.zones[0]}`}`,
+      place, 'use pooling: complete (one fit), or a zone raster with two or more zones');
+  }
+  const whole = fitRasterCounts(counted, settings);
+  const zones = counted.zones.map((code, z) => {
+    try {
+      return { name: String(code), fit: fitTally(counted, counted.tallies[z]!, settings) };
+    } catch (err) {
+      if (err instanceof SereError && err.code === 'NO_TRANSITIONS') {
+        throw new SereError('BAD_ZONES', `zone ${code} has no pixel with two valid years a step apart: its chain cannot be fitted`,
+          { file: counted.stack.file, path: 'zones' }, 'merge it into another zone in the zone raster, or drop pooling');
+      }
+      throw err;
+    }
+  });
+  const fit: Fit = { ...whole, zones: { column: 'zones', pooling, zones } };
+  sources.set(fit, { counted, settings });
+  return fit;
+}
+
 /** One fit per zone (same states and settings), for maps that give each zone its own chain. */
 export function fitRasterZones(counted: RasterCounts, settings: FitSettings): { zone: number; fit: Fit }[] {
   return (counted.zones ?? []).map((zone, z) => ({ zone, fit: fitTally(counted, counted.tallies[z]!, settings, true) }));

@@ -59,14 +59,33 @@ export function fitZoned(table: SurveyTable, settings: FitSettings, pooling: 'pa
   return { ...whole, zones: { column, pooling, zones } };
 }
 
-/** The partial-pooling point estimate of a zoned fit, made once per fit. */
+/**
+ * The partial-pooling point estimate of a zoned fit, made once per fit. Each zone hands over its
+ * completed counts at its own maximum-likelihood matrix — its one-step counts plus the expected
+ * one-step transitions inside its bridges (the E-step of gap-em.ts at the converged EM fit) — so a
+ * zone's `own_probabilities` are exactly the proportions the pooled model starts from; without gaps
+ * these are its one-step counts. A plug-in (one E-step at each zone's own fit, not a joint
+ * maximisation over the pooled model), stated as such in the README; the posterior draws join the
+ * gaps properly (uncertainty/zone-augment.ts).
+ */
 const pooled = new WeakMap<Fit, PartialPooling>();
 export function zonePooling(fit: Fit): PartialPooling {
   let p = pooled.get(fit);
   if (!p) {
     const zones = fit.zones!.zones;
-    p = partialPoolingMle(zones.map((z) => z.fit.counts), fitMask(fit), fit.states.length, fitMle(fit).p);
+    p = partialPoolingMle(zones.map((z) => completedCounts(fitMle(z.fit).expected)), fitMask(fit), fit.states.length, fitMle(fit).p);
     pooled.set(fit, p);
   }
   return p;
+}
+
+/**
+ * Below this an expected count is EM still creeping toward a zero on the boundary (it converges
+ * slowly there: 10⁻³⁰ of a transition is common), taken as zero: the concentration's fixed point
+ * cannot tell such a cell from an empty one, and ψ(a + n) − ψ(a) for n near 10⁻³⁰ is rounding alone.
+ */
+export const EXPECTED_COUNT_FLOOR = 1e-6;
+
+function completedCounts(expected: Float64Array): Float64Array {
+  return Float64Array.from(expected, (n) => (n < EXPECTED_COUNT_FLOOR ? 0 : n));
 }

@@ -1,15 +1,20 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { SurveyEffort } from '../evaluation/survey-effort.js';
+import type { ZoneEffort } from '../evaluation/zone-effort.js';
 import { TOOL_VERSION } from '../version.js';
 
 /** `sere effort --json`: band widths by state, now and in every cell of the grid (README, "JSON"). */
-export function effortJson(scenario: Scenario, effort: SurveyEffort, seed: number): string {
+export function effortJson(scenario: Scenario, effort: SurveyEffort | ZoneEffort, seed: number): string {
   const states = scenario.fit.states;
   // Object.fromEntries defines own properties, so a state called __proto__ is an ordinary key.
+  const names = 'names' in effort ? effort.names : [];
   const byState = (w: readonly number[]): Record<string, number> => Object.fromEntries(states.map((s, i) => [s, w[i]!]));
   return JSON.stringify({
     format: 'sere-effort', format_version: 1, tool_version: TOOL_VERSION, scenario: scenario.name, seed,
     level: scenario.level, horizon_year: scenario.start.year + scenario.horizonSteps * scenario.fit.step, replicates: effort.replicates,
-    current: byState(effort.current), cells: effort.cells.map((c) => ({ sites: c.sites, seasons: c.seasons, widths: byState(c.widths) })),
+    current: byState(effort.current), cells: effort.cells.map((c) => ({ sites: c.sites, seasons: c.seasons, widths: byState(c.widths),
+      ...('zones' in c ? { zones: c.zones.map((p, z) => ({ name: names[z], sites: p.sites, widths: byState(p.widths) })) } : {}) })),
+    // A stratified scenario: each zone's share of the area and its own widths now (its cells' widths are in `cells[].zones`).
+    ...('names' in effort ? { zones: effort.names.map((name, z) => ({ name, share: effort.shares[z], current: byState(effort.currentZones[z]!) })) } : {}),
   }, null, 2) + '\n';
 }

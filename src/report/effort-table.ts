@@ -1,10 +1,11 @@
 import type { ChalkInstance } from 'chalk';
 import type { SurveyEffort } from '../evaluation/survey-effort.js';
+import type { ZoneEffort } from '../evaluation/zone-effort.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { makeTable } from './style.js';
 
 /** Band widths at the horizon on a grid of future survey effort. */
-export function effortTable(scenario: Scenario, effort: SurveyEffort, style: ChalkInstance): string {
+export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffort, style: ChalkInstance): string {
   const states = scenario.fit.states;
   const shown = scenario.target ? scenario.target.states : states.map((_, s) => s);
   const year = scenario.start.year + scenario.horizonSteps * scenario.fit.step;
@@ -20,6 +21,22 @@ export function effortTable(scenario: Scenario, effort: SurveyEffort, style: Cha
         ...seasons.map((y) => (effort.cells.find((c) => c.sites === n && c.seasons === y)!.widths[s]! * 100).toFixed(1))]);
     }
     lines.push(t.toString());
+  }
+  if ('names' in effort) {
+    // Per zone: its own band (shares of the zone) with its part of the sites, split by area.
+    lines.push(`by zone, sites split by area (${effort.names.map((n, z) => `${n} ${(effort.shares[z]! * 100).toFixed(0)}%`).join(', ')}); widths of each zone's own band`);
+    effort.names.forEach((name, z) => {
+      for (const s of shown) {
+        const t = makeTable([`${name}: ${states[s]} — zone's sites each season`, 'now', ...seasons.map((y) => `+${y} season${y === 1 ? '' : 's'}`)], style,
+          ['left', 'right', ...seasons.map(() => 'right' as const)]);
+        for (const n of sites) {
+          const cellOf = (y: number): ZoneEffort['cells'][number] => effort.cells.find((c) => c.sites === n && c.seasons === y)!;
+          t.push([String(cellOf(seasons[0]!).zones[z]!.sites), (effort.currentZones[z]![s]! * 100).toFixed(1),
+            ...seasons.map((y) => (cellOf(y).zones[z]!.widths[s]! * 100).toFixed(1))]);
+        }
+        lines.push(t.toString());
+      }
+    });
   }
   lines.push(style.dim('Preposterior analysis: future surveys simulated from the current posterior, then refitted. ' +
     'Only the part of the band due to the fitted matrix shrinks; events and plot-level chance do not.'));

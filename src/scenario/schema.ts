@@ -31,7 +31,7 @@ export const fitSettingsSchema = z.strictObject({
   }).optional(),
   group: z.string().min(1).optional().describe("Fit only the sites of this group (the value in columns.group), e.g. a soil type's own fit."),
   pooling: z.enum(['complete', 'partial', 'none'], { error: 'pooling must be complete, partial or none' }).optional()
-    .describe('How the zones of columns.group share a chain: complete (one pooled fit; the default), partial (each zone its own matrix, its rows shrunk toward shared rows), none (each zone its own fit). With partial or none the forecast is stratified by zone.'),
+    .describe('How the zones of columns.group (or of a raster stack\'s zone raster) share a chain: complete (one pooled fit; the default), partial (each zone its own matrix, its rows shrunk toward shared rows), none (each zone its own fit). With partial or none the forecast is stratified by zone.'),
   layout: z.enum(['long', 'wide'], { error: 'layout must be long or wide' }).optional()
     .describe('long: one row per site and survey; wide: one row per site, one column per survey time. Default: detected from the header.'),
   sheet: z.string().min(1).optional().describe('The worksheet of a spreadsheet (.xlsx) to read. Default: the first.'),

@@ -39,6 +39,12 @@ export interface RowConcentrationSamples {
   readonly mean: Float64Array;
 }
 
+/** Where a row's chain stands: κ and the mean row over its possible cells. */
+export interface ConcentrationState {
+  readonly kappa: number;
+  readonly mean: ArrayLike<number>;
+}
+
 /** Log prior density of κ (log-logistic, scale κ₀), on κ itself. */
 export function logKappaPrior(kappa: number): number {
   return Math.log(KAPPA_PRIOR_SCALE) - 2 * Math.log(KAPPA_PRIOR_SCALE + kappa);
@@ -46,10 +52,13 @@ export function logKappaPrior(kappa: number): number {
 
 /**
  * `samples` posterior draws of (κ, p) for one row, from `random`. `alpha` is the prior on the
- * row's possible cells (length m = r.cells.length ≥ 2).
+ * row's possible cells (length m = r.cells.length ≥ 2). `start` continues a chain from where an
+ * earlier call left it (its κ and mean row over the same cells), as the zones' data augmentation
+ * does when the counts change between its sweeps (zone-augment.ts); without it the chain starts at
+ * κ = κ₀ around the smoothed pooled row.
  */
 export function sampleRowConcentration(r: RowPeriods, alpha: ArrayLike<number>, samples: number, random: RandomStream,
-  schedule: { readonly burnIn?: number; readonly thin?: number } = {}): RowConcentrationSamples {
+  schedule: { readonly burnIn?: number; readonly thin?: number; readonly start?: ConcentrationState } = {}): RowConcentrationSamples {
   const burnIn = schedule.burnIn ?? BURN_IN;
   const thin = schedule.thin ?? THIN;
   const m = r.cells.length;
@@ -76,9 +85,10 @@ export function sampleRowConcentration(r: RowPeriods, alpha: ArrayLike<number>, 
 
   // z[0] = log κ; z[1 + c] = log(p_c / p_ref) for c ≠ ref (z[1 + ref] stays 0).
   const z = new Float64Array(m + 1);
-  z[0] = Math.log(KAPPA_PRIOR_SCALE);
+  const start = schedule.start;
+  z[0] = Math.log(start ? start.kappa : KAPPA_PRIOR_SCALE);
   for (let c = 0; c < m; c++) {
-    z[1 + c] = Math.log((pooled[c]! + alpha[c]!) / (pooled[ref]! + alpha[ref]!));
+    z[1 + c] = start ? Math.log(start.mean[c]! / start.mean[ref]!) : Math.log((pooled[c]! + alpha[c]!) / (pooled[ref]! + alpha[ref]!));
   }
   const logP = new Float64Array(m);
   let cachedKappa = NaN;

@@ -3,7 +3,9 @@ import type { Fit } from '../fit/fit.js';
 import { fitMask, fitPrior } from '../fit/fit.js';
 import { zonePooling } from '../fit/zones.js';
 import { zoneRows } from '../chain/zone-pooling.js';
-import { sampleRowConcentration } from './concentration.js';
+import { sampleRowConcentration, type RowConcentrationSamples } from './concentration.js';
+import { augmentZones } from './zone-augment.js';
+import type { GapCell } from '../chain/counts.js';
 import { sampleDirichlet } from './dirichlet.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
 import { drawMatrices, withVariation } from './draw-matrices.js';
@@ -18,7 +20,8 @@ import { VARIATION_SAMPLES, type VariationSpec } from './variation.js';
  * none: each zone from its own fit, by the sampler its source names (drawMatrices) — the first zone
  * on `random` itself, the others on `random.stream('zone:NAME')`; so one zone is the unzoned run.
  * partial (Gelman et al. 2013, BDA3 ch. 5): per row, posterior samples of the shared (κᵢ, pᵢ) from
- * the zones' counts by the variation model's sampler (concentration.ts, stream `zones` / `row:i`),
+ * the zones' counts by the variation model's sampler (concentration.ts, stream `zones` / `row:i`;
+ * with pairs further apart than one step, by data augmentation over the zones' bridges: zone-augment.ts),
  * then draw d takes sample d mod VARIATION_SAMPLES and every zone's row from its conditional
  * posterior Dirichlet(κᵢpᵢ + n_zi) (stream `block:b` / `zones`) — all zones in draw d share the
  * same (κ, p). A point forecast takes the point estimate (κ̂, p̂ by maximum likelihood). Year-to-year
@@ -68,24 +71,41 @@ function pointZones(fit: Fit, count: number): Float64Array {
 }
 
 function posteriorZones(fit: Fit, count: number, random: RandomStream): Float64Array {
-  return zoneRowDraws(fit.zones!.zones.map((z) => z.fit.counts), fitMask(fit), fitPrior(fit), fit.states.length, count, random).data;
+  const zones = fit.zones!.zones;
+  return zoneRowDraws(zones.map((z) => z.fit.counts), fitMask(fit), fitPrior(fit), fit.states.length, count, random,
+    zones.map((z) => z.fit.gapCounts ?? [])).data;
 }
 
 /**
  * The partial-pooling posterior from the zones' one-step counts (k×k each), the structural zeros
  * and the prior (k×k): `data[(z*count + d)*k² + i*k + j]`, and per row the κ of each draw (null for a
- * row with one possible cell). Draw d takes sample d mod VARIATION_SAMPLES of the row's (κ, p).
+ * row with one possible cell). Draw d takes sample s = d mod VARIATION_SAMPLES of the row's (κ, p)
+ * and every zone's row from Dirichlet(κp + c_z), c_z the zone's counts in that sample.
+ *
+ * Without pairs further apart than one step (`zoneGaps` absent or empty) the (κ, p) samples come
+ * from the slice sampler on the zones' one-step counts, and c_z is those counts. With gaps they
+ * come from data augmentation (zone-augment.ts), and c_z is the zone's completed counts of sample s.
  */
 export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Array, prior: Float64Array, k: number, count: number,
-  random: RandomStream): { data: Float64Array; kappa: (Float64Array | null)[] } {
+  random: RandomStream, zoneGaps: readonly (readonly GapCell[])[] = []): { data: Float64Array; kappa: (Float64Array | null)[] } {
   const k2 = k * k;
   const Z = zoneCounts.length;
-  // Per row: the cells it may reach and its samples of (κ, p); null for a row with one possible cell.
-  const rows = zoneRows(zoneCounts, mask, k).map((r, i) => {
-    if (r.cells.length < 2) return { cells: r.cells, samples: null };
-    const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
-    return { cells: r.cells, samples: sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream('zones').stream(`row:${i}`)) };
-  });
+  const cellsOf = (i: number): Int32Array => Int32Array.from(Array.from({ length: k }, (_, j) => j).filter((j) => !mask[i * k + j]));
+  let samples: (RowConcentrationSamples | null)[];
+  let countsOf: (s: number, z: number) => Float64Array;
+  if (zoneGaps.some((g) => g.length > 0)) {
+    const augmented = augmentZones(zoneCounts, zoneGaps, mask, prior, k, VARIATION_SAMPLES, random);
+    samples = augmented.rows;
+    countsOf = (s, z) => augmented.completed.subarray((s * Z + z) * k2, (s * Z + z + 1) * k2);
+  } else {
+    samples = zoneRows(zoneCounts, mask, k).map((r, i) => {
+      if (r.cells.length < 2) return null;
+      const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
+      return sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream('zones').stream(`row:${i}`));
+    });
+    countsOf = (_, z) => zoneCounts[z]!;
+  }
+  const rows = samples.map((r, i) => ({ cells: cellsOf(i), samples: r }));
   const data = new Float64Array(Z * count * k2);
   const a = new Float64Array(k);
   for (let b = 0; b < blockCount(count); b++) {
@@ -93,6 +113,7 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
     for (let d = b * DRAW_BLOCK; d < Math.min(count, (b + 1) * DRAW_BLOCK); d++) {
       const s = d % VARIATION_SAMPLES;
       for (let z = 0; z < Z; z++) {
+        const n = countsOf(s, z);
         for (let i = 0; i < k; i++) {
           const { cells, samples } = rows[i]!;
           const at = (z * count + d) * k2 + i * k;
@@ -100,7 +121,7 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
           a.fill(0);
           const m = cells.length;
           const kappa = samples.kappa[s]!;
-          for (let c = 0; c < m; c++) a[cells[c]!] = kappa * samples.mean[s * m + c]! + zoneCounts[z]![i * k + cells[c]!]!;
+          for (let c = 0; c < m; c++) a[cells[c]!] = kappa * samples.mean[s * m + c]! + n[i * k + cells[c]!]!;
           sampleDirichlet(stream, a, 0, k, data, at);
         }
       }

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { lgamma } from 'mathjs';
 import { dirichletMultinomialLogPmf, dirichletMultinomialMoments, logRising } from '../../src/chain/dirichlet-multinomial.js';
 import { concentrationMle } from '../../src/chain/concentration-mle.js';
 import type { RowPeriods } from '../../src/chain/row-periods.js';
@@ -64,6 +65,25 @@ describe('Dirichlet–multinomial likelihood and moments', () => {
         expect(Math.abs(logRising(a, n) - direct)).toBeLessThan(1e-12 * Math.max(1, Math.abs(direct)));
       }
     }
+  });
+});
+
+describe('fractional counts (a zone\'s completed counts with gaps hold expected transitions)', () => {
+  it('logRising(a, n) for fractional n is log Γ(a+n) − log Γ(a) by mathjs lgamma (mathjs 15.2.0)', () => {
+    for (const a of [0.3, 2.5, 99, 150, 1e4]) {
+      for (const n of [0.25, 2.5, 7.9, 40.5]) {
+        const reference = lgamma(a + n) - lgamma(a);
+        expect(Math.abs(logRising(a, n) - reference)).toBeLessThan(1e-9 * Math.max(1, Math.abs(reference)));
+      }
+    }
+  });
+
+  it("Minka's fixed point is continuous in the counts: adding 10⁻⁹ to every count moves κ̂ and p̂ by under 10⁻⁶", () => {
+    const { periods } = reference.mle;
+    const whole = concentrationMle(periodsOf(periods));
+    const nudged = concentrationMle(periodsOf(periods.map((r) => r.map((n) => n + 1e-9))));
+    expect(Math.abs(nudged.kappa / whole.kappa - 1)).toBeLessThan(1e-6);
+    whole.mean.forEach((p, c) => expect(Math.abs(nudged.mean[c]! - p)).toBeLessThan(1e-6));
   });
 });
 

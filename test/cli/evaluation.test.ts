@@ -25,5 +25,15 @@ describe('sere hindcast and sere effort (built binary)', () => {
     expect(j.cells.map((c: { sites: number; seasons: number }) => [c.sites, c.seasons])).toEqual([[30, 2], [120, 2]]);
     expect(j.seed).toBe(7);
     expect(sere(['effort', 'scenarios/brenhollow/new-cell.yaml', '--sites', 'many']).code).toBe(2);
+    expect(j.zones).toBeUndefined();
+  });
+
+  it('effort on a stratified scenario gives the landscape and each zone, sites split by area', () => {
+    const r = sere(['effort', 'scenarios/brenhollow/zoned.yaml', '--sites', '30', '--seasons', '1', '--replicates', '2', '--draws', '100', '--seed', '3', '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.zones.map((z: { name: string; share: number }) => [z.name, z.share])).toEqual([['creekside', 120 / 425], ['landward', 95 / 425], ['midmarsh', 210 / 425]]);
+    expect(j.cells[0].zones.map((z: { name: string; sites: number }) => [z.name, z.sites])).toEqual([['creekside', 8], ['landward', 7], ['midmarsh', 15]]);
+    expect(Object.keys(j.zones[0].current)).toEqual(['mudflat', 'pioneer', 'low-marsh', 'high-marsh', 'rank-grass']);
   });
 });

@@ -88,12 +88,13 @@ describe('sere fit --pooling', () => {
 });
 
 describe('commands on a zoned scenario', () => {
-  it('compare runs; effort refuses in one line', async () => {
+  it('compare and effort run (effort by zone: sites split 0.4 / 0.6 by the areas)', async () => {
     const c = await sere(['compare', 'test/fixtures/scenarios/zones-good.yaml', 'test/fixtures/scenarios/zones-good.yaml']);
     expect(c.code).toBe(0);
-    const e = await sere(['effort', 'test/fixtures/scenarios/zones-good.yaml']);
-    expect(e.code).toBe(1);
-    expect(e.stderr).toContain('fit.pooling');
-    expect(e.stderr.trim().split('\n')).toHaveLength(1);
+    const e = await sere(['effort', 'test/fixtures/scenarios/zones-good.yaml', '--sites', '5', '--seasons', '1', '--replicates', '2', '--draws', '50', '--seed', '2', '--json']);
+    expect(e.code).toBe(0);
+    const j = JSON.parse(e.stdout);
+    // Quotas 2 and 3 exactly.
+    expect(j.cells[0].zones.map((z: { name: string; sites: number }) => [z.name, z.sites])).toEqual([['clay', 2], ['sand', 3]]);
   });
 });

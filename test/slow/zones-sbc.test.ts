@@ -1,11 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { rankUniformityP } from '../helpers.js';
-import { KAPPA_PRIOR_SCALE } from '../../src/uncertainty/concentration.js';
-import { sampleDirichlet } from '../../src/uncertainty/dirichlet.js';
 import { multinomialSampler } from '../../src/uncertainty/multinomial.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import { VARIATION_SAMPLES } from '../../src/uncertainty/variation.js';
 import { zoneRowDraws } from '../../src/uncertainty/zone-draws.js';
+import { BINS, binRank, K as k, L, MASK as mask, PICKS as picks, PRIOR as prior, sharedRow, zoneRow } from './zone-sbc-records.js';
 
 /**
  * Simulation-based calibration of partial pooling (Talts, Betancourt, Simpson, Vehtari & Gelman
@@ -22,29 +21,20 @@ describe('simulation-based calibration of partial pooling', () => {
   it('ranks of the true κ and of a zone row\'s cell among the forecast\'s draws are uniform (300 records, χ² p > 0.001)', () => {
     const random = randomStreams(2013);
     const RECORDS = 300;
-    const L = 19;
-    const BINS = 10;
     const Z = 4;
     const N = 15;
-    const k = 3;
-    const mask = Uint8Array.from([0, 0, 0, 1, 0, 1, 1, 1, 0]);
-    const prior = Float64Array.from(mask, (m) => (m ? 0 : 0.5));
     const kappaBins = new Array<number>(BINS).fill(0);
     const cellBins = new Array<number>(BINS).fill(0);
-    const picks = Array.from({ length: L }, (_, l) => 25 + l * 50);
     expect(picks[L - 1]! < VARIATION_SAMPLES).toBe(true);
     for (let r = 0; r < RECORDS; r++) {
       const rep = random.stream(`record:${r}`);
-      const u = rep.uniform();
-      const kappa = (KAPPA_PRIOR_SCALE * u) / (1 - u);
-      const p = new Float64Array(3);
-      sampleDirichlet(rep, [0.5, 0.5, 0.5], 0, 3, p, 0);
+      const { kappa, p } = sharedRow(rep);
       const multinomial = multinomialSampler(rep.stream('data'));
       const theta = new Float64Array(3);
       const drawn = new Int32Array(3);
       let truth = 0;
       const zones = Array.from({ length: Z }, (_, z) => {
-        sampleDirichlet(rep, Array.from(p, (x) => x * kappa), 0, 3, theta, 0);
+        zoneRow(rep, kappa, p, theta);
         if (z === 0) truth = theta[0]!;
         drawn.fill(0); // the sampler adds to its output
         multinomial(N, theta, 0, 3, drawn, 0);
@@ -57,8 +47,8 @@ describe('simulation-based calibration of partial pooling', () => {
         if (out.kappa[0]![d]! < kappa) kappaRank += 1;
         if (out.data[d * k * k]! < truth) cellRank += 1;
       }
-      kappaBins[Math.floor(kappaRank / ((L + 1) / BINS))]! += 1;
-      cellBins[Math.floor(cellRank / ((L + 1) / BINS))]! += 1;
+      binRank(kappaBins, kappaRank);
+      binRank(cellBins, cellRank);
     }
     const pKappa = rankUniformityP(kappaBins);
     const pCell = rankUniformityP(cellBins);
