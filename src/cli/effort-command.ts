@@ -10,6 +10,7 @@ import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { drawsFlag, replicatesFlag, seedFlag, wholeNumberList } from './parse-options.js';
 import { LIMITS } from '../limits.js';
+import { SereError } from '../errors.js';
 
 
 export function registerEffort(program: Command, io: Io): void {
