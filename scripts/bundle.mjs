@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { build } from 'esbuild';
 
 // What code this is: a hash of every source file and the lock file, so a cached set of matrix
-// draws (src/uncertainty/draws-cache.ts) made by other code is never read back as this code's.
+// draws (src/uncertainty/sample-cache.ts) made by other code is never read back as this code's.
 function codeId() {
   const hash = createHash('sha256');
   const files = (dir) => readdirSync(dir, { withFileTypes: true }).flatMap((e) => e.isDirectory() ? files(join(dir, e.name)) : [join(dir, e.name)]);

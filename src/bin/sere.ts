@@ -2,8 +2,8 @@
 import { run } from '../cli/run.js';
 import { processIo } from '../cli/io.js';
 import { cacheSettingsFrom } from '../cli/cache-settings.js';
-import { configureDrawsCache } from '../uncertainty/draws-cache.js';
+import { configureSampleCache } from '../uncertainty/sample-cache.js';
 
 const io = processIo();
-configureDrawsCache(cacheSettingsFrom(process.env, (line) => io.stderr(`${line}\n`)));
+configureSampleCache(cacheSettingsFrom(process.env, (line) => io.stderr(`${line}\n`)));
 void run(process.argv.slice(2), io).then((code) => { process.exitCode = code; });

@@ -6,6 +6,7 @@ import type { Io } from './io.js';
 import { seedFlag, wholeNumber } from './parse-options.js';
 import { flagSeed } from './seed.js';
 import { LIMITS } from '../limits.js';
+import { cachedSample } from '../uncertainty/sample-cache.js';
 
 export interface SamplerFlags {
   seed?: number;
@@ -34,7 +35,10 @@ export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
   if (!needsSampler(fit)) return fit;
   // Picked once: with --by, every group's sampler uses the seed announced, so the run repeats.
   const seed = flags.seed ??= flagSeed(undefined, io);
-  const latentSample = sampleLatent(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
+  const settings = { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin };
+  const random = randomStreams(seed).stream('augment');
+  // Fit-time work an earlier run with the same fit, settings and seed may have kept (sample-cache.ts).
+  const latentSample = cachedSample({ sample: 'latent', fit, settings, seed, stream: random.name }, () => sampleLatent(fit, settings, random));
   for (const line of augmentationWarnings(latentSample, fit.states)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }

@@ -3,7 +3,7 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { scenarioDraws } from './scenario-draws.js';
 import { pointDraws } from '../uncertainty/point.js';
-import { cachedDraws } from '../uncertainty/draws-cache.js';
+import { cachedSample } from '../uncertainty/sample-cache.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
 import { drawIndex } from './layout.js';
@@ -93,5 +93,5 @@ function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { wi
  */
 function pointOf(scenario: Scenario, count: number, random: RandomStream): MatrixDraws {
   return scenario.zones ? scenarioDraws({ ...scenario, source: 'point', variation: { kind: 'none' } }, count, random)
-    : cachedDraws({ draws: 'point', fit: scenario.fit, count }, () => pointDraws(scenario.fit, count));
+    : cachedSample({ draws: 'point', fit: scenario.fit, count }, () => pointDraws(scenario.fit, count));
 }

@@ -19,6 +19,7 @@ export function packValue(value: unknown): Buffer {
   const arrays: Typed[] = [];
   let offset = 0;
   const encode = (v: unknown): unknown => {
+    if (v === undefined) throw new NotData('undefined is not packed (JSON would write null)');
     if (v === null || typeof v === 'string' || typeof v === 'boolean') return v;
     if (typeof v === 'number') {
       if (Number.isNaN(v)) return { $n: 'NaN' };

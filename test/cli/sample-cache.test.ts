@@ -24,7 +24,7 @@ describe('sere forecast with the draws cache (built binary)', () => {
       const cold = sere(args, { SERE_CACHE: cache });
       expect(cold.stdout).toBe(none.stdout);
       // The scenario's draws and the uncertainty split's point estimate.
-      expect(readdirSync(cache).filter((f) => f.endsWith('.draws')).length).toBe(2);
+      expect(readdirSync(cache).filter((f) => f.endsWith('.sample')).length).toBe(2);
       for (const t of threads) {
         const warm = sere([...args, '--threads', t], { SERE_CACHE: cache });
         expect(warm.stdout).toBe(none.stdout);

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { loadScenarios } from '../../src/scenario/load-scenario.js';
 import { scenarioDraws } from '../../src/engine/scenario-draws.js';
-import { cachedDraws, configureDrawsCache } from '../../src/uncertainty/draws-cache.js';
+import { cachedSample, configureSampleCache } from '../../src/uncertainty/sample-cache.js';
 import { digestOf } from '../../src/uncertainty/value-digest.js';
 import { packValue, unpackValue } from '../../src/uncertainty/packed-value.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
@@ -18,14 +18,14 @@ let warnings: string[] = [];
 beforeEach(() => {
   dir = mkdtempSync(join(tmpdir(), 'sere-cache-'));
   warnings = [];
-  configureDrawsCache({ dir, codeId: 'test', warn: (line) => { warnings.push(line); } });
+  configureSampleCache({ dir, codeId: 'test', warn: (line) => { warnings.push(line); } });
 });
 afterEach(() => {
-  configureDrawsCache(undefined);
+  configureSampleCache(undefined);
   rmSync(dir, { recursive: true, force: true });
 });
 
-const files = (): string[] => readdirSync(dir).filter((f) => f.endsWith('.draws'));
+const files = (): string[] => readdirSync(dir).filter((f) => f.endsWith('.sample'));
 
 /** The demo's scenarios: gaps (data augmentation) and κ sampling; three zones with partial pooling. */
 const cases = [
@@ -38,9 +38,9 @@ describe('the draws cache', () => {
     it(`gives the same bytes with no cache, a cold cache and a warm one (${file})`, () => {
       const [scenario] = loadScenarios(file);
       const draws = () => scenarioDraws(scenario!, 1500, randomStreams(seed).stream('matrices'));
-      configureDrawsCache(undefined);
+      configureSampleCache(undefined);
       const none = bytesOf(draws());
-      configureDrawsCache({ dir, codeId: 'test', warn: (line) => { warnings.push(line); } });
+      configureSampleCache({ dir, codeId: 'test', warn: (line) => { warnings.push(line); } });
       const cold = bytesOf(draws());
       expect(files()).toHaveLength(1);
       const warm = draws();
@@ -60,7 +60,7 @@ describe('the draws cache', () => {
     scenarioDraws(scenario!, 100, randomStreams(1).stream('other'));
     scenarioDraws({ ...scenario!, source: 'point' }, 100, randomStreams(1).stream('matrices'));
     expect(files()).toHaveLength(5);
-    configureDrawsCache({ dir, codeId: 'other code', warn: (line) => { warnings.push(line); } });
+    configureSampleCache({ dir, codeId: 'other code', warn: (line) => { warnings.push(line); } });
     scenarioDraws(scenario!, 100, randomStreams(1).stream('matrices'));
     expect(files()).toHaveLength(6);
     scenarioDraws(scenario!, 100, randomStreams(1).stream('matrices'));
@@ -98,21 +98,21 @@ describe('the draws cache', () => {
   it('computes without a cache when an input is not data (a function)', () => {
     let made = 0;
     const compute = (): MatrixDraws => { made++; return { k: 1, count: 1, data: new Float64Array([1]), source: 'point', notes: [] }; };
-    cachedDraws({ f: () => 1 }, compute);
-    cachedDraws({ f: () => 1 }, compute);
+    cachedSample({ f: () => 1 }, compute);
+    cachedSample({ f: () => 1 }, compute);
     expect(made).toBe(2);
     expect(files()).toEqual([]);
-    cachedDraws({ f: 1 }, compute);
-    cachedDraws({ f: 1 }, compute);
+    cachedSample({ f: 1 }, compute);
+    cachedSample({ f: 1 }, compute);
     expect(made).toBe(3);
     expect(files()).toHaveLength(1);
   });
 
   it('reads a warm entry instead of computing', () => {
     const one = (value: number) => (): MatrixDraws => ({ k: 1, count: 1, data: new Float64Array([value]), source: 'point', notes: [] });
-    expect(cachedDraws({ x: 1 }, one(0.25)).data[0]).toBe(0.25);
-    expect(cachedDraws({ x: 1 }, one(0.5)).data[0]).toBe(0.25);
-    expect(cachedDraws({ x: 2 }, one(0.5)).data[0]).toBe(0.5);
+    expect(cachedSample({ x: 1 }, one(0.25)).data[0]).toBe(0.25);
+    expect(cachedSample({ x: 1 }, one(0.5)).data[0]).toBe(0.25);
+    expect(cachedSample({ x: 2 }, one(0.5)).data[0]).toBe(0.5);
   });
 });
 

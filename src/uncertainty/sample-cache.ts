@@ -1,26 +1,28 @@
 import { mkdirSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
 import { createHash } from 'node:crypto';
 import { join } from 'node:path';
-import type { MatrixDraws } from './draws.js';
 import { digestOf, NotData } from './value-digest.js';
 import { packValue, unpackValue } from './packed-value.js';
 
 /**
- * Matrix draws kept on disk between runs, so a forecast does not redo fit-time sampling (the gap
- * model's data augmentation, the κ sampler, partial pooling of zones) that the previous run with
- * the same inputs already did. A file holds exactly what the samplers returned, keyed by a SHA-256
- * of everything the draws are a function of — the fit (every field, as data), the source, the
- * number of draws, year-to-year variation, the random stream's seed and name, the code that made
- * them (SERE_CODE_ID, the hash of the sources and lock file written into the bundle) and the Node
- * version — so a run gives the same bytes with or without it. A file whose checksum, length or key
- * does not match is never used: a one-line warning, then the draws are made again and the file
- * rewritten. The cache is set up once, by the executable (bin/sere.ts from SERE_CACHE); runs
- * through `run()` alone (tests, the library) have none unless they configure it.
+ * What the samplers produced, kept on disk between runs, so a forecast or a season does not redo
+ * fit-time work (the gap model's data augmentation, the κ sampler, partial pooling of zones, the
+ * point estimate's EM) that an earlier run with the same inputs already did. It sits where a
+ * sampler's output is handed on — a scenario's matrix draws (engine/scenario-draws.ts), the
+ * uncertainty split's point draws, the gap sampler's retained sweeps at fit time — never inside a
+ * sampler. A file holds exactly what was computed, keyed by a SHA-256 of everything it is a
+ * function of: the inputs the caller names (the fit, every field as data; the source, the number of
+ * draws, year-to-year variation, sampler settings, the random stream's seed and name), the code
+ * that made it (SERE_CODE_ID, the hash of the sources and lock file written into the bundle) and
+ * the Node version — so a run gives the same bytes with or without it. A file whose checksum,
+ * length or key does not match is never used: a one-line warning, then the value is computed again
+ * and the file rewritten. The cache is set up once, by the executable (bin/sere.ts, from
+ * SERE_CACHE); runs through `run()` alone (tests, the library) have none unless configured.
  */
-export interface DrawsCacheSettings {
+export interface SampleCacheSettings {
   /** The folder of cache files (made when first written). */
   readonly dir: string;
-  /** What code made the draws: a hash of the sources and lock file. */
+  /** What code made the values: a hash of the sources and lock file. */
   readonly codeId: string;
   /** Where a damaged file is reported (one line, no newline). */
   readonly warn: (line: string) => void;
@@ -28,27 +30,28 @@ export interface DrawsCacheSettings {
 
 /** Bumped when the file layout changes. */
 export const CACHE_FORMAT = 1;
-/** A set of draws larger than this is not written (10⁵ draws × 10 states is 80 MB). */
+/** A value larger than this is not written (10⁵ matrix draws × 10 states are 80 MB). */
 export const MAX_ENTRY_BYTES = 128 * 2 ** 20;
 /** Files kept in the folder at most; the oldest go first. */
 export const MAX_ENTRIES = 64;
 /** Bytes kept in the folder at most; the oldest files go first. */
 export const MAX_TOTAL_BYTES = 2 ** 30;
-const SUFFIX = '.draws';
+const SUFFIX = '.sample';
 
-let settings: DrawsCacheSettings | undefined;
+let settings: SampleCacheSettings | undefined;
 
 /** Turn the cache on (settings) or off (undefined) for this process. */
-export function configureDrawsCache(next: DrawsCacheSettings | undefined): void {
+export function configureSampleCache(next: SampleCacheSettings | undefined): void {
   settings = next;
 }
 
 /**
- * The draws `compute` makes from `inputs`, read from the cache when a file for exactly these
- * inputs exists and is intact, else computed and written. `inputs` must hold everything the draws
- * depend on besides the code; a tree that is not plain data is computed without a cache.
+ * What `compute` makes from `inputs`, read from the cache when a file for exactly these inputs
+ * exists and is intact, else computed and written. `inputs` must hold everything the value depends
+ * on besides the code; a tree that is not plain data is computed without a cache. The value must be
+ * plain data too (packed-value.ts); its Float64Arrays come back in shared memory.
  */
-export function cachedDraws(inputs: unknown, compute: () => MatrixDraws): MatrixDraws {
+export function cachedSample<T>(inputs: unknown, compute: () => T): T {
   const s = settings;
   if (!s) return compute();
   let key: string;
@@ -60,16 +63,16 @@ export function cachedDraws(inputs: unknown, compute: () => MatrixDraws): Matrix
   }
   const file = join(s.dir, `${key}${SUFFIX}`);
   const found = readEntry(file, key);
-  if (found.draws) return found.draws;
-  if (found.damage) s.warn(`sere: warning: cache file ${file} is damaged (${found.damage}); ignored, the draws are made again and the file rewritten`);
-  const draws = compute();
-  writeEntry(s.dir, file, key, draws);
-  return draws;
+  if (found.value !== undefined) return found.value as T;
+  if (found.damage) s.warn(`sere: warning: cache file ${file} is damaged (${found.damage}); ignored, computed again and rewritten`);
+  const value = compute();
+  writeEntry(s.dir, file, key, value);
+  return value;
 }
 
-interface Found { draws?: MatrixDraws; damage?: string }
+interface Found { value?: unknown; damage?: string }
 
-/** Header line: JSON {format, key, bytes, sha256} and a newline, then the packed draws. */
+/** Header line: JSON {format, key, bytes, sha256} and a newline, then the packed value. */
 function readEntry(file: string, key: string): Found {
   let bytes: Buffer;
   try {
@@ -91,17 +94,17 @@ function readEntry(file: string, key: string): Found {
   if (header.bytes !== payload.length) return { damage: `${payload.length} bytes, not ${String(header.bytes)}` };
   if (header.sha256 !== createHash('sha256').update(payload).digest('hex')) return { damage: 'checksum mismatch' };
   try {
-    return { draws: unpackValue(payload) as MatrixDraws };
+    return { value: unpackValue(payload) };
   } catch {
-    return { damage: 'unreadable draws' };
+    return { damage: 'unreadable value' };
   }
 }
 
 /** Written to a temporary name and renamed, so a reader never sees half a file; failures only cost the cache. */
-function writeEntry(dir: string, file: string, key: string, draws: MatrixDraws): void {
+function writeEntry(dir: string, file: string, key: string, value: unknown): void {
   let payload: Buffer;
   try {
-    payload = packValue(draws);
+    payload = packValue(value);
   } catch (err) {
     if (err instanceof NotData) return;
     throw err;
