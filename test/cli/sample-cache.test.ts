@@ -1,4 +1,4 @@
-import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { cpSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -32,4 +32,35 @@ describe('sere forecast with the draws cache (built binary)', () => {
       }
     }, 120_000);
   }
+});
+
+/** Every file under `root`, by relative path, with its bytes. */
+function tree(root: string): Map<string, string> {
+  const out = new Map<string, string>();
+  for (const entry of readdirSync(root, { recursive: true, withFileTypes: true })) {
+    if (!entry.isFile()) continue;
+    const path = join(entry.parentPath, entry.name);
+    out.set(path.slice(root.length), readFileSync(path, 'latin1'));
+  }
+  return out;
+}
+
+describe('sere season with the sample cache (built binary)', () => {
+  it('writes the same record without a cache, with a cold one and a warm one (the zoned demo workspace)', () => {
+    const fresh = join(dir, 'fresh');
+    expect(sere(['init', fresh, '--zoned'], { SERE_CACHE: 'off' }).code).toBe(0);
+    const cache = join(dir, 'season-cache');
+    const records = ['off', cache, cache].map((setting, i) => {
+      const ws = join(dir, `ws${i}`);
+      cpSync(fresh, ws, { recursive: true });
+      const r = sere(['season', ws], { SERE_CACHE: setting });
+      expect(r.code).toBe(0);
+      return tree(join(ws, 'records'));
+    });
+    // The season's fit-time sampler run, the scenario's draws, the split's point estimate.
+    expect(readdirSync(cache).filter((f) => f.endsWith('.sample')).length).toBe(3);
+    expect(records[0]!.size).toBeGreaterThan(5);
+    expect(records[1]).toEqual(records[0]);
+    expect(records[2]).toEqual(records[0]);
+  }, 180_000);
 });
