@@ -95,7 +95,7 @@ describe('sere season (built binary)', () => {
     expect(Math.abs(scores.records[1].summary.chain.log - scored.summary.chain.log)).toBeLessThan(0.02);
     expect(next.stdout).toContain('Were earlier forecasts any good?');
     expect(sere(['season', '--replay', join(dir, 'records', '2026-09-30')]).code).toBe(0);
-  });
+  }, 180_000); // five season runs (one a replay) of the built binary: 53–69 s at load 8–10 on the shared 2-core machine, over the 60 s default
 
   it('leaves earlier records untouched and writes nothing when the input is bad', () => {
     const dir = workspace();
