@@ -6,7 +6,7 @@ import type { SampleCacheSettings } from '../uncertainty/sample-cache.js';
 declare const SERE_CODE_ID: string | undefined;
 
 /**
- * Where the executable keeps its draws cache (uncertainty/sample-cache.ts): `SERE_CACHE` names the
+ * Where the executable keeps its sample cache (uncertainty/sample-cache.ts): `SERE_CACHE` names the
  * folder, or is `off`; unset, `$XDG_CACHE_HOME/sere`, else `~/.cache/sere`. Without a code hash
  * (the sources run directly, as under the tests) there is no cache: a file could not say which
  * code made it.

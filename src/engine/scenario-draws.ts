@@ -7,7 +7,7 @@ import { cachedSample } from '../uncertainty/sample-cache.js';
 
 /**
  * A scenario's matrix draws: one set for the landscape, or one per zone for a stratified forecast
- * (zone-draws.ts). Read from the draws cache when an earlier run made the same ones
+ * (zone-draws.ts). Read from the sample cache when an earlier run made the same ones
  * (sample-cache.ts): the key holds every input here, and the random stream by seed and name — the
  * samplers take only named sub-streams of it, which start the same whatever ran before.
  */

@@ -89,7 +89,7 @@ function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { wi
 
 /**
  * The fitted matrix alone, every draw: the MLE, or each zone's point estimate for a stratified
- * forecast — through the draws cache, as finding it (gap EM, partial pooling) is fit-time work.
+ * forecast — through the sample cache, as finding it (gap EM, partial pooling) is fit-time work.
  */
 function pointOf(scenario: Scenario, count: number, random: RandomStream): MatrixDraws {
   return scenario.zones ? scenarioDraws({ ...scenario, source: 'point', variation: { kind: 'none' } }, count, random)

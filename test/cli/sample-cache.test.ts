@@ -8,11 +8,11 @@ const dir = mkdtempSync(join(tmpdir(), 'sere-cli-cache-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 /**
- * The built CLI with its draws cache (SERE_CACHE) gives the same bytes as without one, cold or
+ * The built CLI with its sample cache (SERE_CACHE) gives the same bytes as without one, cold or
  * warm, on any number of threads: the demo's gap model and κ sampler, and its three pooled zones
  * (whose uncertainty split also takes the pooled point estimate from the cache).
  */
-describe('sere forecast with the draws cache (built binary)', () => {
+describe('sere forecast with the sample cache (built binary)', () => {
   // 2,100 draws are three blocks of draw-blocks.ts, so three threads each take one.
   const cases = [['scenarios/brenhollow/no-action.yaml', '1200', [], ['1']], ['scenarios/brenhollow/zoned.yaml', '2100', ['--zones'], ['1', '3']]] as const;
   for (const [file, draws, extra, threads] of cases) {

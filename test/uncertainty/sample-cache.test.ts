@@ -33,7 +33,7 @@ const cases = [
   ['scenarios/brenhollow/zoned.yaml', 20261202],
 ] as const;
 
-describe('the draws cache', () => {
+describe('the sample cache', () => {
   for (const [file, seed] of cases) {
     it(`gives the same bytes with no cache, a cold cache and a warm one (${file})`, () => {
       const [scenario] = loadScenarios(file);
