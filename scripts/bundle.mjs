@@ -4,8 +4,19 @@
 // a chunk loaded only by that command — in one file they cost every command ~0.1 s to compile.
 // The bundle's code is exactly the compiled sources and pinned dependencies; `tsc` still
 // type-checks everything first.
-import { rmSync } from 'node:fs';
+import { readdirSync, readFileSync, rmSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { join } from 'node:path';
 import { build } from 'esbuild';
+
+// What code this is: a hash of every source file and the lock file, so a cached set of matrix
+// draws (src/uncertainty/sample-cache.ts) made by other code is never read back as this code's.
+function codeId() {
+  const hash = createHash('sha256');
+  const files = (dir) => readdirSync(dir, { withFileTypes: true }).flatMap((e) => e.isDirectory() ? files(join(dir, e.name)) : [join(dir, e.name)]);
+  for (const file of [...files('src').sort(), 'package-lock.json']) hash.update(`${file}\0`).update(readFileSync(file)).update('\0');
+  return hash.digest('hex');
+}
 
 // Chunks are named by content hash: clear the folder so stale ones do not pile up.
 rmSync('dist/cli', { recursive: true, force: true });
@@ -27,6 +38,7 @@ await build({
   // DuckDB is a native addon (a prebuilt .node per platform): loaded from node_modules at run time,
   // and only by `sere count` on the DuckDB engine (a dynamic import in cli/count-command.ts).
   external: ['@duckdb/node-api', '@duckdb/node-bindings', '@duckdb/node-bindings-*'],
+  define: { SERE_CODE_ID: JSON.stringify(codeId()) },
   // CommonJS dependencies call require(); give the ES module bundle one.
   banner: { js: "import { createRequire as sereCreateRequire } from 'node:module'; const require = sereCreateRequire(import.meta.url);" },
 });

@@ -7,6 +7,7 @@ import { seedFlag, wholeNumber } from './parse-options.js';
 import { flagSeed } from './seed.js';
 import { LIMITS } from '../limits.js';
 import { observerNotes } from '../report/error-table.js';
+import { cachedSample } from '../uncertainty/sample-cache.js';
 
 export interface SamplerFlags {
   seed?: number;
@@ -38,7 +39,10 @@ export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
   if (observers) for (const line of observerNotes(observers)) if (line.startsWith('warning: ')) io.stderr(`sere: ${line}\n`);
   // Picked once: with --by, every group's sampler uses the seed announced, so the run repeats.
   const seed = flags.seed ??= flagSeed(undefined, io);
-  const latentSample = sampleLatent(fit, { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin }, randomStreams(seed).stream('augment'));
+  const settings = { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin };
+  const random = randomStreams(seed).stream('augment');
+  // Fit-time work an earlier run with the same fit, settings and seed may have kept (sample-cache.ts).
+  const latentSample = cachedSample({ sample: 'latent', fit, settings, seed, stream: random.name }, () => sampleLatent(fit, settings, random));
   for (const line of augmentationWarnings(latentSample, fit.states, fit.errorModel?.observers?.names)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }

@@ -3,6 +3,7 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { scenarioDraws } from './scenario-draws.js';
 import { pointDraws } from '../uncertainty/point.js';
+import { cachedSample } from '../uncertainty/sample-cache.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
 import { drawIndex } from './layout.js';
@@ -86,7 +87,11 @@ function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { wi
   });
 }
 
-/** The fitted matrix alone, every draw: the MLE, or each zone's point estimate for a stratified forecast. */
+/**
+ * The fitted matrix alone, every draw: the MLE, or each zone's point estimate for a stratified
+ * forecast — through the sample cache, as finding it (gap EM, partial pooling) is fit-time work.
+ */
 function pointOf(scenario: Scenario, count: number, random: RandomStream): MatrixDraws {
-  return scenario.zones ? scenarioDraws({ ...scenario, source: 'point', variation: { kind: 'none' } }, count, random) : pointDraws(scenario.fit, count);
+  return scenario.zones ? scenarioDraws({ ...scenario, source: 'point', variation: { kind: 'none' } }, count, random)
+    : cachedSample({ draws: 'point', fit: scenario.fit, count }, () => pointDraws(scenario.fit, count));
 }

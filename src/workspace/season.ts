@@ -6,6 +6,7 @@ import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
 import { fitSurvey, needsSampler, type Fit } from '../fit/fit.js';
 import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
+import { cachedSample } from '../uncertainty/sample-cache.js';
 import { groupOf, zonedPooling } from '../fit/fit-from-file.js';
 import { fitZoned } from '../fit/zones.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
@@ -93,9 +94,12 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   // With pairs further apart than one step, or an error table, one run of the posterior sampler (on
   // the first scenario file's seed, so a replay repeats it) serves the record's fit summary and
   // every scenario; the record's fit.json keeps its sweeps, so a later season scores this record
-  // with the same posterior (score-records.ts).
-  const fit: Fit = needsSampler(unsampled) && byFile.length > 0
-    ? { ...unsampled, latentSample: sampleLatent(unsampled, DEFAULT_AUGMENT, randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler')) }
+  // with the same posterior (score-records.ts). Kept between runs by the sample cache when the
+  // same fit was sampled on the same seed before.
+  const sampler = needsSampler(unsampled) && byFile.length > 0 ? randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler') : undefined;
+  const fit: Fit = sampler
+    ? { ...unsampled, latentSample: cachedSample({ sample: 'season-latent', fit: unsampled, settings: DEFAULT_AUGMENT, seed: sampler.seed, stream: sampler.name },
+      () => sampleLatent(unsampled, DEFAULT_AUGMENT, sampler)) }
     : unsampled;
   for (const b of byFile) b.scenarios = b.scenarios.map((s) => ({ ...s, fit }));
   const estimates = estimateFit(fit, 0.9);
