@@ -86,17 +86,7 @@ export const ASSESSED_PER_STATE = 60;
  * table's observer column is for the reader; sere fits one pooled error matrix.
  */
 export function heathSurveysWithErrors(seed = SEED): { surveys: string; assessment: string } {
-  const who = randomStreams(seed).stream('observers');
-  const slips = randomStreams(seed).stream('mislabels');
-  const youngHeath = STATES.indexOf('young-heath');
-  const grassland = STATES.indexOf('grassland');
-  const recorded = (state: number, observer: string): number =>
-    (observer === MISLABELLER && state === youngHeath && slips.uniform() < MISLABEL_CHANCE ? grassland : state);
-  let surveys = 'site,time,state,observer\n';
-  for (const v of heathRecords(seed, false)) {
-    const observer = OBSERVERS[who.integer(OBSERVERS.length)]!;
-    surveys += `${v.site},${v.time},${STATES[recorded(v.state, observer)]},${observer}\n`;
-  }
+  const { who, recorded, surveys } = observedSurveys(seed, 'observers', 'mislabels', OBSERVERS);
   const counts = new Map<string, number>();
   STATES.forEach((_, state) => {
     for (let n = 0; n < ASSESSED_PER_STATE; n++) {
@@ -120,17 +110,7 @@ export const TWO_OBSERVERS = ['Avery', 'Corran'] as const;
  * near 0.
  */
 export function heathSurveysByObserver(seed = SEED): { surveys: string; assessment: string } {
-  const who = randomStreams(seed).stream('two-observers');
-  const slips = randomStreams(seed).stream('two-observers:mislabels');
-  const youngHeath = STATES.indexOf('young-heath');
-  const grassland = STATES.indexOf('grassland');
-  const recorded = (state: number, observer: string): number =>
-    (observer === MISLABELLER && state === youngHeath && slips.uniform() < MISLABEL_CHANCE ? grassland : state);
-  let surveys = 'site,time,state,observer\n';
-  for (const v of heathRecords(seed, false)) {
-    const observer = TWO_OBSERVERS[who.integer(TWO_OBSERVERS.length)]!;
-    surveys += `${v.site},${v.time},${STATES[recorded(v.state, observer)]},${observer}\n`;
-  }
+  const { recorded, surveys } = observedSurveys(seed, 'two-observers', 'two-observers:mislabels', TWO_OBSERVERS);
   const rows = ['observer,recorded,verified,n'];
   for (const observer of TWO_OBSERVERS) {
     const counts = new Map<string, number>();
@@ -143,6 +123,27 @@ export function heathSurveysByObserver(seed = SEED): { surveys: string; assessme
     for (const [key, n] of counts) rows.push(`${observer},${key},${n}`);
   }
   return { surveys, assessment: rows.join('\n') + '\n' };
+}
+
+/**
+ * heathRecords' visits, each made by an observer picked on stream `whoStream`; MISLABELLER records
+ * young heath as grassland with MISLABEL_CHANCE (stream `slipStream`). Returns the survey table,
+ * and the picker and the recording rule for the assessment, which goes on drawing from both streams.
+ */
+function observedSurveys(seed: number, whoStream: string, slipStream: string, observers: readonly string[]):
+  { who: RandomStream; recorded: (state: number, observer: string) => number; surveys: string } {
+  const who = randomStreams(seed).stream(whoStream);
+  const slips = randomStreams(seed).stream(slipStream);
+  const youngHeath = STATES.indexOf('young-heath');
+  const grassland = STATES.indexOf('grassland');
+  const recorded = (state: number, observer: string): number =>
+    (observer === MISLABELLER && state === youngHeath && slips.uniform() < MISLABEL_CHANCE ? grassland : state);
+  let surveys = 'site,time,state,observer\n';
+  for (const v of heathRecords(seed, false)) {
+    const observer = observers[who.integer(observers.length)]!;
+    surveys += `${v.site},${v.time},${STATES[recorded(v.state, observer)]},${observer}\n`;
+  }
+  return { who, recorded, surveys };
 }
 
 /** A late-summer visit day: 25 July plus 0–70 days. */
