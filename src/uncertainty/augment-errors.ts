@@ -69,7 +69,7 @@ export function augmentErrors(fit: Fit, settings: AugmentSettings, random: Rando
       done.recorded.fill(0);
       done.first.fill(0);
       done.latest.fill(0);
-      for (let q = 0; q < records.count; q++) samplePatternPaths(records, q, pi, p, e, k, multinomial, scratch, done);
+      for (let q = 0; q < records.count; q++) samplePatternPaths(records, q, pi, p, e, k, multinomial, stream.uniform, scratch, done);
       drawAll(stream, done.transitions, done.recorded, done.first);
       const after = sweep - settings.warmUp;
       if (after < 0 || (after + 1) % settings.thin !== 0) continue;

@@ -1,5 +1,7 @@
 import { patternLength, type RecordPatterns } from '../chain/record-patterns.js';
 import type { Multinomial } from './multinomial.js';
+import { lastPositive } from './categorical.js';
+import { sampleOnePath } from './one-path.js';
 
 /** Where one sweep of the error-model sampler adds what it drew. */
 export interface CompletedRecords {
@@ -43,42 +45,35 @@ export function pathScratch(k: number): PathScratch {
  *
  * From the last survey the site is carried to the latest survey time through P (no records there),
  * one Multinomial per state and step, so the latest true mix includes sites not surveyed then.
+ * A pattern of one site (almost all of them at the `observer` bench's size) is drawn as one state
+ * carried back (one-path.ts) with the same uniforms: `multinomial` and `uniform` must come from
+ * the same stream.
  */
 export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
-  multinomial: Multinomial, scratch: PathScratch, out: CompletedRecords): void {
+  multinomial: Multinomial, uniform: () => number, scratch: PathScratch, out: CompletedRecords): void {
   const T = patternLength(records, q);
   if (scratch.filter.length < T * k) scratch.filter = new Float64Array(2 * T * k);
+  forwardFilter(records, q, T, pi, p, e, k, scratch.filter);
+  if (records.sites[q] === 1) sampleOnePath(records, q, T, p, k, uniform, scratch.filter, scratch.q, out);
+  else samplePathsTogether(records, q, T, p, k, multinomial, scratch, out);
+}
+
+/**
+ * The backward sampling of samplePatternPaths for all n sites of pattern q at once, given its
+ * filtered laws in `scratch.filter`: k counts carried from step to step, one Multinomial per
+ * occupied state and step. For n = 1 its draws are sampleOnePath's (test/uncertainty/one-path.test.ts).
+ */
+export function samplePathsTogether(records: RecordPatterns, q: number, T: number, p: Float64Array, k: number,
+  multinomial: Multinomial, scratch: PathScratch, out: CompletedRecords): void {
+  const n = records.sites[q]!;
   const { filter, here, next, drawn, q: weights } = scratch;
   const first = records.start[q]!;
   const end = records.start[q + 1]!;
-  // Forward filter: α̂_t ∝ (α̂_{t−1} P) ⊙ e_t, e_t = E[·, recorded] at a survey, ones elsewhere.
-  let s = first;
-  for (let t = 0; t < T; t++) {
-    let total = 0;
-    const surveyed = s < end && records.at[s] === t;
-    // Column r of the matrix this survey was recorded through (record-patterns.ts).
-    const r = surveyed ? records.matrix[s]! * k * k + records.state[s]! : 0;
-    for (let x = 0; x < k; x++) {
-      let v: number;
-      if (t === 0) v = pi[x]!;
-      else {
-        v = 0;
-        for (let a = 0; a < k; a++) v += filter[(t - 1) * k + a]! * p[a * k + x]!;
-      }
-      if (surveyed) v *= e[r + x * k]!;
-      filter[t * k + x] = v;
-      total += v;
-    }
-    if (!(total > 0)) throw new Error('a record pattern has probability 0 under the sampler\'s parameters (checked at fit time)');
-    for (let x = 0; x < k; x++) filter[t * k + x] /= total;
-    if (surveyed) s += 1;
-  }
   // Backward sampling, from the last survey (t = T − 1, always surveyed) to the first.
-  const n = records.sites[q]!;
   here.fill(0);
   multinomial(n, filter, (T - 1) * k, lastPositive(filter, (T - 1) * k, k) + 1, here, 0);
   carryToLatest(records.extend[q]!, p, k, multinomial, scratch, out);
-  s = end - 1;
+  let s = end - 1;
   for (let t = T - 1; ; t--) {
     if (s >= first && records.at[s] === t) {
       const r = records.matrix[s]! * k * k + records.state[s]!;
@@ -103,13 +98,6 @@ export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float
     here.set(next);
   }
   for (let x = 0; x < k; x++) out.first[x] += here[x]!;
-}
-
-/** Index of the last positive entry of `v[offset … offset+k)` (the multinomial gives rounding leftovers to its last state). */
-function lastPositive(v: Float64Array, offset: number, k: number): number {
-  let last = 0;
-  for (let x = 0; x < k; x++) if (v[offset + x]! > 0) last = x;
-  return last;
 }
 
 /**
@@ -140,4 +128,38 @@ function carryToLatest(steps: number, p: Float64Array, k: number, multinomial: M
     now.set(after);
   }
   for (let x = 0; x < k; x++) out.latest[x] += now[x]!;
+}
+
+/**
+ * The filtered laws α̂_t ∝ (α̂_{t−1} P) ⊙ e_t of pattern q into `filter` (T × k), e_t = E[·, recorded]
+ * at a survey, ones elsewhere; each row scaled to sum 1. Where the survey's emission is 0 (a
+ * structural zero of E) the entry is 0 without its sum over a: the product was 0 anyway, so the
+ * values are those of the full product, bit for bit.
+ */
+export function forwardFilter(records: RecordPatterns, q: number, T: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
+  filter: Float64Array): void {
+  const end = records.start[q + 1]!;
+  let s = records.start[q]!;
+  for (let t = 0; t < T; t++) {
+    const row = t * k;
+    const before = row - k;
+    const surveyed = s < end && records.at[s] === t;
+    // Column r of the matrix this survey was recorded through (record-patterns.ts).
+    const r = surveyed ? records.matrix[s]! * k * k + records.state[s]! : 0;
+    let total = 0;
+    for (let x = 0; x < k; x++) {
+      const emit = surveyed ? e[r + x * k]! : 1;
+      let v = 0;
+      if (emit !== 0) {
+        if (t === 0) v = pi[x]!;
+        else for (let a = 0; a < k; a++) v += filter[before + a]! * p[a * k + x]!;
+        if (surveyed) v *= emit;
+      }
+      filter[row + x] = v;
+      total += v;
+    }
+    if (!(total > 0)) throw new Error('a record pattern has probability 0 under the sampler\'s parameters (checked at fit time)');
+    for (let x = 0; x < k; x++) filter[row + x] /= total;
+    if (surveyed) s += 1;
+  }
 }
