@@ -9,7 +9,6 @@ import { LIMITS } from '../limits.js';
 import { SereError } from '../errors.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { observedMixes } from './observed.js';
-import { refuseObserverScoring } from './observer-scoring.js';
 import { scoreSites, summariseScores, type ScoredCase, type ScoreSummary } from './site-scores.js';
 
 export interface HindcastCase extends ScoredCase {
@@ -61,7 +60,6 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
       if (err instanceof SereError && err.code === 'NO_TRANSITIONS') continue;
       throw err;
     }
-    refuseObserverScoring(fit, settings.places?.errors, { path: '--errors' });
     // With observer error the sampler runs once per origin, on the origin's own stream, and every
     // horizon draws from it: the fit on the past, with the same error table. (With gaps alone each
     // horizon still runs its own, as before, so those seeded hindcasts keep their values.)

@@ -20,7 +20,6 @@ import { randomStreams } from '../uncertainty/random.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
 import { movedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredForecast } from './changes.js';
-import { refuseObserverScoring } from '../evaluation/observer-scoring.js';
 import { scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
 
 export interface SeasonOptions {
@@ -121,7 +120,6 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
   }
   const scoring = scoresSeed === undefined ? undefined : randomStreams(scoresSeed);
   const current = { states: table.states, records: recordsOf(table) };
-  for (const r of earlier) refuseObserverScoring(r.chain, settings.places?.errors, { file: ws.file, path: 'fit.errors' });
   const scores = earlier.flatMap((r) => scoreRecord(r, current, scoring!) ?? []);
 
   const inputs = new Map<string, string | Buffer>();
