@@ -16,24 +16,33 @@ import type { SitePredictive } from './site-predictive.js';
  * from its own q — so the band holds the matrix's and the error matrix's uncertainty, and each
  * site's own chance of changing and of being mislabelled.
  *
+ * With one error matrix per observer (MatrixDraws.observerEmissions) every survey of the filter is
+ * weighed by its own observer's E of the draw (the matrix index in its history triple,
+ * site-histories.ts), and q is recorded through the scored survey's own observer's matrix
+ * (`targets`): q = α · Pᵍ · E_obs. Without, every index is 0 and E is the draw's one matrix.
+ *
  * π, the mix of true states at a site's first survey, is the fit's maximum-likelihood value: the
  * sampler's sweeps keep P, E and the latest true mix, not π (its effect fades after a site's first
  * few surveys). A record that a draw's structural zeros cannot explain (filtered mass 0 — not
  * possible for records the fit was made from) keeps the filter's prediction without that survey.
  *
- * Sites with the same history and gap share q: it is computed once per draw for each distinct one.
+ * Sites with the same history, gap and scored survey's matrix share q: it is computed once per
+ * draw for each distinct one.
  */
 export function recordedPredictive(matrices: MatrixDraws, cases: readonly SiteCase[], histories: readonly Int32Array[],
-  initial: ArrayLike<number>, random: RandomStream): SitePredictive {
-  const { k, count: D, data, emissions } = matrices;
+  targets: Int32Array, initial: ArrayLike<number>, random: RandomStream): SitePredictive {
+  const { k, count: D, data } = matrices;
+  const emissions = matrices.observerEmissions ?? matrices.emissions;
   if (!emissions) throw new Error('internal: recorded-scale predictions need the draws\' error matrices');
+  // Matrices per draw: 1 + observers with one per observer, else the one shared matrix.
+  const m = matrices.observerEmissions ? 1 + matrices.observers!.length : 1;
   const k2 = k * k;
   const n = cases.length;
   const probabilities = new Float64Array(n * k);
   const counts = new Int32Array(k * D);
   const keyOf = new Map<string, number>();
   const group = cases.map((c, index) => {
-    const key = `${c.gap}|${histories[index]!.join(',')}`;
+    const key = `${c.gap}|${targets[index]}|${histories[index]!.join(',')}`;
     let g = keyOf.get(key);
     if (g === undefined) keyOf.set(key, g = keyOf.size);
     return g;
@@ -46,20 +55,22 @@ export function recordedPredictive(matrices: MatrixDraws, cases: readonly SiteCa
   const uniform = random.uniform;
   for (let d = 0; d < D; d++) {
     const p = d * k2;
+    const e = d * m * k2;
     for (let g = 0; g < keyOf.size; g++) {
       const index = firstOf[g]!;
       const history = histories[index]!;
       for (let x = 0; x < k; x++) alpha[x] = initial[x]!;
       let at = 0;
-      for (let s = 0; s < history.length; s += 2) {
+      for (let s = 0; s < history.length; s += 3) {
         stepForward(alpha, next, data, p, k, history[s]! - at);
         at = history[s]!;
-        observe(alpha, emissions, p, k, history[s + 1]!);
+        observe(alpha, emissions, e + history[s + 2]! * k2, k, history[s + 1]!);
       }
       stepForward(alpha, next, data, p, k, cases[index]!.gap);
+      const through = e + targets[index]! * k2;
       for (let r = 0; r < k; r++) {
         let sum = 0;
-        for (let x = 0; x < k; x++) sum += alpha[x]! * emissions[p + x * k + r]!;
+        for (let x = 0; x < k; x++) sum += alpha[x]! * emissions[through + x * k + r]!;
         q[g * k + r] = sum;
       }
     }

@@ -8,7 +8,7 @@ import { covered, skill } from './scores.js';
 import { siteCases } from './site-cases.js';
 import { sitePredictive } from './site-predictive.js';
 import { recordedPredictive } from './recorded-predictive.js';
-import { siteHistories } from './site-histories.js';
+import { matrixOfRecord, siteHistories, targetMatrices } from './site-histories.js';
 
 /** Mean log score (nats) and mean Brier score per site; lower is better. */
 export interface ScoreSet {
@@ -73,18 +73,20 @@ export function scoreSites(matrices: MatrixDraws, records: readonly SurveyRecord
   const k = matrices.k;
   let { cases, unscored } = siteCases(records, at.origin, at.target, at.step);
   let histories: (Int32Array | null)[] = [];
+  // With one error matrix per observer each survey is read through its own observer's matrix.
+  const matrixOf = matrixOfRecord(matrices.observerEmissions ? matrices.observers : undefined);
   if (matrices.emissions) {
     // With observer error each site is scored as recorded, from the filter over its whole record;
     // a site whose surveys are not whole steps apart cannot be filtered and is counted, not scored.
     if (!at.initial) throw new Error('internal: recorded-scale scores need the first-survey mix');
-    histories = siteHistories(records, cases, at.origin, at.step);
+    histories = siteHistories(records, cases, at.origin, at.step, matrixOf);
     unscored += histories.filter((h) => h === null).length;
     cases = cases.filter((_, index) => histories[index] !== null);
     histories = histories.filter((h) => h !== null);
   }
   if (cases.length === 0) return null;
   const predictive = matrices.emissions
-    ? recordedPredictive(matrices, cases, histories as Int32Array[], at.initial!, random)
+    ? recordedPredictive(matrices, cases, histories as Int32Array[], targetMatrices(records, cases, at.target, matrixOf), at.initial!, random)
     : sitePredictive(matrices, cases, random);
   const originSites = at.originCounts.reduce((a, b) => a + b, 0);
   const climatology = climatologyForecast(at.originCounts);

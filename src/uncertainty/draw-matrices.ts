@@ -37,6 +37,9 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
   const latent = source === 'posterior' ? latentSampleOf(fit, random) : undefined;
   const starts = latent?.errors ? sharedFloat64(count * k) : undefined;
   const emissions = latent?.errors ? sharedFloat64(count * k * k) : undefined;
+  const observers = latent?.errors?.observers ? fit.errorModel?.observers?.names : undefined;
+  const m = observers ? 1 + observers.length : 0;
+  const observerEmissions = observers ? sharedFloat64(count * m * k * k) : undefined;
   for (let b = 0; b < blockCount(count); b++) {
     const first = b * DRAW_BLOCK;
     const n = Math.min(DRAW_BLOCK, count - first);
@@ -47,9 +50,11 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
       data.set(block.data, first * k * k);
       if (starts && block.starts) starts.set(block.starts, first * k);
       if (emissions && block.emissions) emissions.set(block.emissions, first * k * k);
+      if (observerEmissions && block.observerEmissions) observerEmissions.set(block.observerEmissions, first * m * k * k);
     }
   }
-  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}) };
+  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}),
+    ...(observerEmissions ? { observerEmissions, observers } : {}) };
 }
 
 /**

@@ -30,6 +30,15 @@ export interface MatrixDraws {
    * drawn through it (engine/plot-counts.ts). Absent otherwise.
    */
   readonly emissions?: Float64Array;
+  /**
+   * With one error matrix per observer (fit/error-model.ts): each draw's every matrix, D × M × k × k
+   * — matrix 0 the pooled one (as `emissions`), matrix 1 + o observer o of `observers` — all from
+   * the same sampler sweep as the draw's P. Scores on the recorded scale read each survey through
+   * its own observer's matrix (evaluation/recorded-predictive.ts). Absent otherwise.
+   */
+  readonly observerEmissions?: Float64Array;
+  /** The assessed observers of `observerEmissions`, in order: observer o is matrix 1 + o. */
+  readonly observers?: readonly string[];
   /** How each row's variation was set (variation.ts), when there is any. */
   readonly variation?: readonly RowVariation[];
   /**

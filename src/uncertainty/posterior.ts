@@ -31,6 +31,11 @@ export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
   const errors = latent?.errors;
   const starts = errors ? new Float64Array(count * k) : undefined;
   const emissions = errors ? new Float64Array(count * k * k) : undefined;
+  // With one error matrix per observer, each draw keeps every observer's matrix of the same sweep
+  // too (no random number is spent on them: draws without observers are unchanged).
+  const observers = errors?.observers && fit.errorModel?.observers ? fit.errorModel.observers.names : undefined;
+  const m = observers ? 1 + observers.length : 0;
+  const observerEmissions = observers ? new Float64Array(count * m * k * k) : undefined;
   for (let d = 0; d < count; d++) {
     if (latent) {
       const r = random.integer(latent.retained);
@@ -39,10 +44,15 @@ export function posteriorDraws(fit: Fit, count: number, random: RandomStream,
       if (errors && starts) trueShares(errors.latest, r, k, starts, d * k);
       // …and its error matrix, so plots "as recorded" see the E that goes with this P and start.
       if (errors && emissions) emissions.set(errors.emissions.subarray(r * k * k, (r + 1) * k * k), d * k * k);
+      if (errors?.observers && observerEmissions) {
+        observerEmissions.set(errors.emissions.subarray(r * k * k, (r + 1) * k * k), d * m * k * k);
+        observerEmissions.set(errors.observers.emissions.subarray(r * (m - 1) * k * k, (r + 1) * (m - 1) * k * k), (d * m + 1) * k * k);
+      }
     }
     for (let i = 0; i < k; i++) sampleDirichlet(random, completed, i * k, k, data, d * k * k + i * k);
   }
-  return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}) };
+  return { k, count, data, source: 'posterior', notes: [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}),
+    ...(observerEmissions ? { observerEmissions, observers } : {}) };
 }
 
 const sampled = new WeakMap<Fit, Map<string, LatentSample>>();
