@@ -2,6 +2,7 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { SiteCase } from './site-cases.js';
 import type { SitePredictive } from './site-predictive.js';
+import { inverseCdfState } from '../uncertainty/categorical.js';
 
 /**
  * Per-site forecasts on the recorded scale, for a chain fitted with observer error: what the next
@@ -76,16 +77,8 @@ export function recordedPredictive(matrices: MatrixDraws, cases: readonly SiteCa
     }
     for (let index = 0; index < n; index++) {
       const at = group[index]! * k;
-      let u = uniform();
-      let state = -1;
-      for (let r = 0; r < k; r++) {
-        const pr = q[at + r]!;
-        probabilities[index * k + r] += pr;
-        // Inverse CDF; rounding may leave u just above the total: the last state with mass takes it.
-        if (state < 0 && pr > 0) { u -= pr; if (u < 0) state = r; }
-      }
-      if (state < 0) for (let r = k - 1; r >= 0; r--) if (q[at + r]! > 0) { state = r; break; }
-      counts[state * D + d] += 1;
+      for (let r = 0; r < k; r++) probabilities[index * k + r] += q[at + r]!;
+      counts[inverseCdfState(q, at, k, uniform()) * D + d] += 1;
     }
   }
   for (let x = 0; x < n * k; x++) probabilities[x] /= D;

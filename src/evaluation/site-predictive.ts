@@ -1,6 +1,7 @@
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { SiteCase } from './site-cases.js';
+import { inverseCdfState } from '../uncertainty/categorical.js';
 
 export interface SitePredictive {
   /**
@@ -61,16 +62,8 @@ export function sitePredictive(matrices: MatrixDraws, cases: readonly SiteCase[]
       }
       for (const index of byGap.get(gap)!) {
         const at = slot[cases[index]!.from]! * k;
-        let u = uniform();
-        let state = -1;
-        for (let j = 0; j < k; j++) {
-          const p = rows[at + j]!;
-          probabilities[index * k + j] += p;
-          // Inverse CDF; rounding may leave u just above the row's total: the last state with mass takes it.
-          if (state < 0 && p > 0) { u -= p; if (u < 0) state = j; }
-        }
-        if (state < 0) for (let j = k - 1; j >= 0; j--) if (rows[at + j]! > 0) { state = j; break; }
-        counts[state * D + d] += 1;
+        for (let j = 0; j < k; j++) probabilities[index * k + j] += rows[at + j]!;
+        counts[inverseCdfState(rows, at, k, uniform()) * D + d] += 1;
       }
     }
     if (g !== maxGap) throw new Error('internal: site powers out of step');

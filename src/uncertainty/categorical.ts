@@ -30,3 +30,17 @@ export function lastPositive(v: Float64Array, offset: number, k: number): number
   for (let x = 0; x < k; x++) if (v[offset + x]! > 0) last = x;
   return last;
 }
+
+/**
+ * One state drawn by the inverse CDF of `row[at … at+k)` from one uniform `u`: the first state
+ * whose running total passes u; rounding may leave u just above the row's total, and then the last
+ * state with mass takes it. The per-site predictive bands draw each site's state this way.
+ */
+export function inverseCdfState(row: ArrayLike<number>, at: number, k: number, u: number): number {
+  for (let j = 0; j < k; j++) {
+    const p = row[at + j]!;
+    if (p > 0) { u -= p; if (u < 0) return j; }
+  }
+  for (let j = k - 1; j >= 0; j--) if (row[at + j]! > 0) return j;
+  return -1;
+}
