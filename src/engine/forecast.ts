@@ -138,6 +138,9 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);
   const treated = treatedStationary(scenario, matrices);
+  // With observer error each draw starts from its own true mix: the start the forecast reports (and
+  // judges "already met" by) is their mean, not the recorded mix.
+  const trueStart = matrices.starts && scenario.start.from === 'latest' && !scenario.zones ? meanStart(matrices.starts, k, matrices.count) : undefined;
   return {
     scenario,
     seed: random.seed,
@@ -158,13 +161,13 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
       year: toYear(treated.step), treatments: treated.treatments, bands: bandsOf(treated), unique: treated.unique, notUnique: treated.notUnique,
     },
     priorSensitivity: priorChecks ? priorSensitivity(scenario, random.stream('prior-sensitivity')) : [],
-    dominance: scenario.target ? targetOutcome(scenario, paths, toYear) : null,
+    dominance: scenario.target ? targetOutcome(scenario, trueStart ?? scenario.start.shares, paths, toYear) : null,
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random, options.engine),
     variation: variationSummary(matrices, level),
     zones: null,
     notes: sim.notes,
-    ...(matrices.starts && scenario.start.from === 'latest' && !scenario.zones ? { trueStart: meanStart(matrices.starts, k, matrices.count) } : {}),
+    ...(trueStart ? { trueStart } : {}),
   };
 }
 
@@ -215,10 +218,10 @@ function firstTime(first: Int32Array, offset: number, stride: number, level: num
   };
 }
 
-function targetOutcome(scenario: Scenario, paths: Simulation['tracks'], toYear: (step: number) => number): TargetOutcome {
+function targetOutcome(scenario: Scenario, start: ArrayLike<number>, paths: Simulation['tracks'], toYear: (step: number) => number): TargetOutcome {
   const target = scenario.target!;
   const { draws, horizon } = paths;
-  const alreadyMet = targetMet(target, scenario.start.shares);
+  const alreadyMet = targetMet(target, start);
   const reach = firstTime(paths.firstAtTarget, 0, 1, scenario.level, toYear);
   let atHorizon = 0; let throughout = 0; let short = 0;
   for (let d = 0; d < draws; d++) {

@@ -72,6 +72,14 @@ describe('--errors on sere fit and sere check, fit.errors in a scenario', () => 
     const fitted = JSON.parse((await sereInProcess(['fit', SURVEYS, '--json'])).stdout);
     expect(sc.start.recorded_shares).toEqual(Object.fromEntries(fitted.states.map((s: string, i: number) => [s, fitted.latest.shares[i]])));
     expect(sc.start.shares['young-heath']).not.toBeCloseTo(sc.start.recorded_shares['young-heath'], 3);
+    // "Already met" is judged on the same true start: a young-heath threshold between the recorded
+    // share and the true one (observers record young heath as grassland, so the record is lower).
+    const [recorded, truth] = [sc.start.recorded_shares['young-heath'], sc.start.shares['young-heath']];
+    expect(recorded).toBeLessThan(truth);
+    const threshold = (recorded + truth) / 2;
+    const targeted = write('t.yaml', readFileSync(scenario, 'utf8') + `target: { state: young-heath, at_least: ${threshold} }\n`);
+    const t = JSON.parse((await sereInProcess(['forecast', targeted, '--json'])).stdout);
+    expect(t.scenarios[0].dominance.already_met).toBe(true);
     const missing = write('m.yaml', 'name: m\ndata: ' + join(process.cwd(), SURVEYS) + '\nfit: { errors: nowhere.csv }\nhorizon: { years: 5 }\n');
     const m = await sereInProcess(['forecast', missing, '--debug']);
     expect(m.code).toBe(1);
