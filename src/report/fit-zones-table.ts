@@ -28,7 +28,7 @@ export function fitZonesTable(fit: Fit, style: ChalkInstance): string {
     const { kappa } = zonePooling(fit);
     lines.push(`how alike the zones are, κ per from-state (∞: no more unlike than sampling allows): ` +
       states.map((name, i) => `${name} ${Number.isFinite(kappa[i]!) ? kappa[i]!.toPrecision(3) : '∞'}`).join(', '));
-    lines.push('Partial pooling uses one-step pairs; a forecast draws each zone\'s matrix from its posterior (sere forecast).');
+    lines.push('Partial pooling uses every pair, gapped ones completed by each zone\'s own fit; a forecast draws each zone\'s matrix from its posterior (sere forecast).');
   }
   return lines.join('\n') + '\n';
 }
