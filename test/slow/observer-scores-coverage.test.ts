@@ -3,6 +3,7 @@ import { scoreSites } from '../../src/evaluation/site-scores.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
+import { pickFrom } from '../error-helpers.js';
 
 // A known chain and first-survey mix, and two observers of different accuracy (row = true state, column = recorded):
 // A nearly right, B often wrong. The pooled matrix is their average (what one shared matrix would hold
@@ -27,12 +28,6 @@ function knownDraws(perObserver: boolean): MatrixDraws {
   };
 }
 
-const pick = (random: RandomStream, row: readonly number[]): number => {
-  let u = random.uniform();
-  for (let j = 0; j < row.length - 1; j++) { if (u < row[j]!) return j; u -= row[j]!; }
-  return row.length - 1;
-};
-
 /**
  * Every site's true path from π through P, independently of the code under test; each year's
  * survey made by A or B at random, except the scored year 2005, surveyed by B (the poor observer)
@@ -41,11 +36,11 @@ const pick = (random: RandomStream, row: readonly number[]): number => {
 function recordedSurveys(random: RandomStream): SurveyRecord[] {
   const out: SurveyRecord[] = [];
   for (let s = 0; s < SITES; s++) {
-    let x = pick(random, PI);
+    let x = pickFrom(random, PI);
     for (let t = 0; t < YEARS; t++) {
-      if (t > 0) x = pick(random, P[x]!);
+      if (t > 0) x = pickFrom(random, P[x]!);
       const observer = t === YEARS - 1 || random.uniform() < 0.5 ? 'B' : 'A';
-      out.push({ site: `s${String(s).padStart(3, '0')}`, time: 2000 + t, state: pick(random, (observer === 'A' ? EA : EB)[x]!), observer, line: 2 + s * YEARS + t });
+      out.push({ site: `s${String(s).padStart(3, '0')}`, time: 2000 + t, state: pickFrom(random, (observer === 'A' ? EA : EB)[x]!), observer, line: 2 + s * YEARS + t });
     }
   }
   return out;

@@ -3,6 +3,7 @@ import { scoreSites } from '../../src/evaluation/site-scores.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
+import { pickFrom } from '../error-helpers.js';
 
 // A known chain, first-survey mix and observer far from perfect (row = true state, column = recorded).
 const P = [[0.8, 0.15, 0.05], [0.1, 0.75, 0.15], [0.05, 0.1, 0.85]];
@@ -23,20 +24,14 @@ function knownDraws(withErrors: boolean): MatrixDraws {
   };
 }
 
-const pick = (random: RandomStream, row: readonly number[]): number => {
-  let u = random.uniform();
-  for (let j = 0; j < row.length - 1; j++) { if (u < row[j]!) return j; u -= row[j]!; }
-  return row.length - 1;
-};
-
 /** Every site's true path from π through P, each year recorded through E, independently of the code under test. */
 function recordedSurveys(random: RandomStream): SurveyRecord[] {
   const out: SurveyRecord[] = [];
   for (let s = 0; s < SITES; s++) {
-    let x = pick(random, PI);
+    let x = pickFrom(random, PI);
     for (let t = 0; t < YEARS; t++) {
-      if (t > 0) x = pick(random, P[x]!);
-      out.push({ site: `s${String(s).padStart(3, '0')}`, time: 2000 + t, state: pick(random, E[x]!), line: 2 + s * YEARS + t });
+      if (t > 0) x = pickFrom(random, P[x]!);
+      out.push({ site: `s${String(s).padStart(3, '0')}`, time: 2000 + t, state: pickFrom(random, E[x]!), line: 2 + s * YEARS + t });
     }
   }
   return out;
