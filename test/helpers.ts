@@ -143,3 +143,11 @@ export function quantile7(values: readonly number[], p: number): number {
   const i = Math.floor(h);
   return s[i]! + (s[Math.min(i + 1, s.length - 1)]! - s[i]!) * (h - i);
 }
+
+/** The same matrix (or matrices, nested rows) for each of D draws, draw-major: draws held at known values. */
+export function everyDraw(matrix: readonly (readonly unknown[])[], D: number): Float64Array {
+  const one = (matrix.flat(2) as number[]);
+  const out = new Float64Array(D * one.length);
+  for (let d = 0; d < D; d++) out.set(one, d * one.length);
+  return out;
+}

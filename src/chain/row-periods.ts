@@ -17,8 +17,13 @@ export interface RowPeriods {
   readonly totals: Float64Array;
 }
 
+/** The to-states row `row` can reach: those not declared impossible (`mask`), in state order. */
+export function possibleCells(mask: Uint8Array, k: number, row: number): Int32Array {
+  return Int32Array.from(Array.from({ length: k }, (_, j) => j).filter((j) => !mask[row * k + j]));
+}
+
 export function rowPeriods(periods: readonly PeriodCounts[], mask: Uint8Array, k: number, row: number): RowPeriods {
-  const cells = Int32Array.from(Array.from({ length: k }, (_, j) => j).filter((j) => !mask[row * k + j]));
+  const cells = possibleCells(mask, k, row);
   const column = new Int32Array(k).fill(-1);
   cells.forEach((j, c) => { column[j] = c; });
   const m = cells.length;

@@ -2,6 +2,7 @@ import { sortByCodePoints } from './code-points.js';
 import { orderRows } from './order-rows.js';
 import { RowStore } from './row-store.js';
 import type { SurveyRecord, SurveyRows, SurveyTable } from './survey.js';
+import { DEFAULT_OBSERVER_COLUMN } from './survey-header.js';
 
 /** The rows for which `keep(n)` holds, in the same order, with the same sites, states and groups. */
 export function selectRows(table: SurveyTable, keep: (n: number) => boolean): SurveyTable {
@@ -56,7 +57,7 @@ export function tableFromRecords(file: string, states: readonly string[], record
   if (positions) for (const r of records) positions.set([r.x!, r.y!], 2 * siteIndex.get(r.site)!);
   return {
     file, states, sites, rows: ordered.rows, repeatedRows: 0, sha256, ...(groups ? { groups } : {}), ...(positions ? { positions } : {}),
-    ...(observers ? { observers, observerColumn: { name: 'observer' } } : {}),
+    ...(observers ? { observers, observerColumn: { name: DEFAULT_OBSERVER_COLUMN } } : {}),
   };
 }
 

@@ -1,7 +1,6 @@
 import type { SurveyTable } from '../data/survey.js';
 import { recordsOf, selectRows } from '../data/survey-rows.js';
-import { fitMle, fitSurvey, type Fit } from '../fit/fit.js';
-import type { ErrorEstimate } from '../chain/error-em.js';
+import { firstSurveyMix, fitSurvey, type Fit } from '../fit/fit.js';
 import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import type { FitSettings } from '../fit/settings.js';
 import { drawMatrices } from '../uncertainty/draw-matrices.js';
@@ -64,7 +63,7 @@ export function hindcast(table: SurveyTable, settings: FitSettings, options: Hin
     // horizon draws from it: the fit on the past, with the same error table. (With gaps alone each
     // horizon still runs its own, as before, so those seeded hindcasts keep their values.)
     if (fit.errorModel) fit = { ...fit, latentSample: sampleLatent(fit, DEFAULT_AUGMENT, options.random.stream(`hindcast:${origin}`).stream('augment')) };
-    const initial = fit.errorModel ? (fitMle(fit) as ErrorEstimate).initial : undefined;
+    const initial = firstSurveyMix(fit);
     for (const steps of options.horizons) {
       const target = origin + steps * settings.step;
       if (!observed.has(target)) continue;

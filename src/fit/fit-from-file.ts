@@ -25,8 +25,10 @@ export const DEFAULT_FIT_SETTINGS: FitSettings = { step: 1, stepDefaulted: true,
 export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SETTINGS, rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (extname(file).toLowerCase() === '.json') return loadFit(file);
   const zoned = zonedPooling(file, settings);
-  if (zoned && !isRasterStackFile(file)) return fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, zoned, settings.places?.pooling ?? { path: '--pooling' });
-  if (isRasterStackFile(file)) {
+  const poolingPlace = settings.places?.pooling ?? { path: '--pooling' };
+  const raster = isRasterStackFile(file);
+  if (zoned && !raster) return fitZoned(readSurveyCsv(file, surveyReadOptions(settings)), settings, zoned, poolingPlace);
+  if (raster) {
     if (settings.labels !== undefined || settings.sheet !== undefined || settings.layout !== undefined) {
       throw new SereError('BAD_OPTION', 'a raster stack names its class-code labels in the stack file, and has no sheets or layout',
         settings.places?.labels ?? settings.places?.sheet ?? { file }, 'map class codes to states under labels: in the stack file');
@@ -36,7 +38,7 @@ export function fitFromFile(file: string, settings: FitSettings = DEFAULT_FIT_SE
       throw new SereError('BAD_OPTION', 'this command reads survey tables and fit files, not raster stacks', { file },
         'fit the stack first (sere fit STACK.yaml --out fit.json) and name fit.json as data, or run sere forecast');
     }
-    return zoned ? fitRasterZoned(counted, settings, zoned, settings.places?.pooling ?? { path: '--pooling' }) : fitRasterCounts(counted, settings);
+    return zoned ? fitRasterZoned(counted, settings, zoned, poolingPlace) : fitRasterCounts(counted, settings);
   }
   if (isCountsFile(file)) return fitCounts(readCountsCsv(file, { states: settings.states, statesPlace: settings.places?.states }), settings);
   const table = readSurveyCsv(file, surveyReadOptions(settings));

@@ -15,7 +15,7 @@ import type { LatentSample } from './latent-sample.js';
 import { maxGap } from '../chain/bridges.js';
 import { chooseBlocks, type SpatialBlocks } from './spatial-blocks.js';
 import { stackedAssessment, type ErrorModel } from './error-model.js';
-import { errorMaximumLikelihood } from '../chain/error-em.js';
+import { errorMaximumLikelihood, type ErrorEstimate } from '../chain/error-em.js';
 import { posteriorMean } from '../chain/estimates.js';
 import { errorModelOf } from './error-fit.js';
 import type { FitZones } from './zones.js';
@@ -330,6 +330,15 @@ function errorMle(fit: Fit): GapEstimate | undefined {
   const alpha = fitPrior(fit);
   const recorded = Float64Array.from(fit.counts, (n, c) => (alpha[c]! > 0 ? n : 0));
   return errorMaximumLikelihood(model.records, stackedAssessment(model), alpha, fit.states.length, posteriorMean(recorded, alpha, fit.states.length));
+}
+
+/**
+ * With observer error, π — the mix of true states at sites' first surveys, at the MLE (EM's, or the
+ * fit file's): what starts each site's forward filter when scoring on the recorded scale
+ * (evaluation/recorded-predictive.ts). Undefined without an error model.
+ */
+export function firstSurveyMix(fit: Fit): Float64Array | undefined {
+  return fit.errorModel ? (fitMle(fit) as ErrorEstimate).initial : undefined;
 }
 
 /** Whether the fit has pairs further apart than one step (then EM and data augmentation, not the closed form). */

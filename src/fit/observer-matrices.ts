@@ -39,7 +39,7 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
   observers.forEach((name, o) => {
     if (name !== '' || surveys[o] === 0) return;
     throw new SereError('EMPTY_VALUE', `empty observer${column ? ` in column ${column} (${quote(table.observerColumn!.name)})` : ''}, and the error matrix has one matrix per observer`,
-      { file: table.file, line: firstLine[o]!, ...(column ? { column } : {}) },
+      surveyPlace(table, firstLine[o]!),
       'name the observer who made this survey, or drop the error matrix\'s observer column to pool every observer');
   });
   checkSurveyedNames(table, surveys, firstLine);
@@ -58,7 +58,7 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
     const near = byKey.get(observerKey(name));
     if (near !== undefined) {
       throw new SereError('OBSERVER_LOOK_ALIKE', `observer ${quote(name)} looks like ${quote(assessed.names[near]!)} of the error matrix (line ${assessed.lines[near]}) but is spelled differently`,
-        { file: table.file, line: firstLine[o]!, ...(table.observerColumn?.column ? { column: table.observerColumn.column } : {}) },
+        surveyPlace(table, firstLine[o]!),
         `spell the observer as ${quote(assessed.names[near]!)} in both files`);
     }
     unassessed.push(name);
@@ -75,6 +75,12 @@ export function observerMatrices(table: SurveyTable, matrix: ErrorMatrix):
   };
 }
 
+/** A survey's line in the table, with the observer column when the table says where it is. */
+function surveyPlace(table: SurveyTable, line: number): { file: string; line: number; column?: number } {
+  const column = table.observerColumn?.column;
+  return { file: table.file, line, ...(column ? { column } : {}) };
+}
+
 /** Two surveyed names that are one typed differently: refused at the later one's first line. */
 function checkSurveyedNames(table: SurveyTable, surveys: Float64Array, firstLine: Float64Array): void {
   const names = table.observers!;
@@ -85,7 +91,7 @@ function checkSurveyedNames(table: SurveyTable, surveys: Float64Array, firstLine
     const earlier = seen.get(key);
     if (earlier !== undefined) {
       throw new SereError('OBSERVER_LOOK_ALIKE', `observer ${quote(names[o]!)} looks like ${quote(names[earlier]!)} (line ${firstLine[earlier]}) but is spelled differently`,
-        { file: table.file, line: firstLine[o]!, ...(table.observerColumn?.column ? { column: table.observerColumn.column } : {}) },
+        surveyPlace(table, firstLine[o]!),
         'spell each observer\'s name the same way on every row');
     }
     seen.set(key, o);

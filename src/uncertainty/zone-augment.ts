@@ -1,7 +1,7 @@
 import type { GapCell } from '../chain/counts.js';
 import { maxGap } from '../chain/bridges.js';
 import { matrixPowers } from '../chain/matrix.js';
-import type { RowPeriods } from '../chain/row-periods.js';
+import { possibleCells, type RowPeriods } from '../chain/row-periods.js';
 import { bridgeScratch, sampleBridges } from './bridge-sampler.js';
 import { sampleRowConcentration, type ConcentrationState, type RowConcentrationSamples } from './concentration.js';
 import { sampleDirichlet } from './dirichlet.js';
@@ -53,7 +53,7 @@ export function augmentZones(zoneCounts: readonly Float64Array[], zoneGaps: read
   const rowStreams = Array.from({ length: k }, (_, i) => root.stream(`row:${i}`));
   const multinomial = multinomialSampler(root.stream('paths'));
   const thetaStream = root.stream('rows');
-  const cells = Array.from({ length: k }, (_, i) => Int32Array.from(Array.from({ length: k }, (_, j) => j).filter((j) => !mask[i * k + j])));
+  const cells = Array.from({ length: k }, (_, i) => possibleCells(mask, k, i));
   const alpha = cells.map((c, i) => Array.from(c, (j) => prior[i * k + j]!));
   const gaps = zoneGaps.map((g) => maxGap(g));
   const scratch = bridgeScratch(k);

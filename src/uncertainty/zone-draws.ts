@@ -6,6 +6,7 @@ import { zoneRows } from '../chain/zone-pooling.js';
 import { sampleRowConcentration, type RowConcentrationSamples } from './concentration.js';
 import { augmentZones } from './zone-augment.js';
 import type { GapCell } from '../chain/counts.js';
+import { possibleCells } from '../chain/row-periods.js';
 import { sampleDirichlet } from './dirichlet.js';
 import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.js';
 import { drawMatrices, withVariation } from './draw-matrices.js';
@@ -90,7 +91,6 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
   random: RandomStream, zoneGaps: readonly (readonly GapCell[])[] = []): { data: Float64Array; kappa: (Float64Array | null)[] } {
   const k2 = k * k;
   const Z = zoneCounts.length;
-  const cellsOf = (i: number): Int32Array => Int32Array.from(Array.from({ length: k }, (_, j) => j).filter((j) => !mask[i * k + j]));
   let samples: (RowConcentrationSamples | null)[];
   let countsOf: (s: number, z: number) => Float64Array;
   if (zoneGaps.some((g) => g.length > 0)) {
@@ -105,7 +105,7 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
     });
     countsOf = (_, z) => zoneCounts[z]!;
   }
-  const rows = samples.map((r, i) => ({ cells: cellsOf(i), samples: r }));
+  const rows = samples.map((r, i) => ({ cells: possibleCells(mask, k, i), samples: r }));
   const data = new Float64Array(Z * count * k2);
   const a = new Float64Array(k);
   for (let b = 0; b < blockCount(count); b++) {

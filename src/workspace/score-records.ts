@@ -1,6 +1,5 @@
 import type { SurveyRecord } from '../data/survey.js';
-import { fitMle, type Fit } from '../fit/fit.js';
-import type { ErrorEstimate } from '../chain/error-em.js';
+import { firstSurveyMix, type Fit } from '../fit/fit.js';
 import { posteriorDraws } from '../uncertainty/posterior.js';
 import { drawZoneMatrices } from '../uncertainty/zone-draws.js';
 import { zoneView } from '../engine/scenario-draws.js';
@@ -76,7 +75,8 @@ export function scoreRecord(record: ScorableRecord, current: { readonly states: 
   const draws = posteriorDraws(chain, SCORE_DRAWS, own.stream('matrices'));
   // With an error table the record's fit.json keeps the sampler's sweeps (each with its error
   // matrix): the sites are scored as recorded, each filtered from the first-survey mix π it fitted.
-  const initial = chain.errorModel ? { initial: (fitMle(chain) as ErrorEstimate).initial } : {};
+  const pi = firstSurveyMix(chain);
+  const initial = pi ? { initial: pi } : {};
   const scored: RecordScore[] = [];
   for (const year of years) {
     const s = scoreSites(draws, known, { origin, target: year, step: chain.step, originCounts: chain.latest.counts, level: SCORE_LEVEL, ...initial },

@@ -4,7 +4,7 @@ import { simulate } from '../../src/engine/simulate.js';
 import { mixAt } from '../../src/engine/layout.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
-import { fitWithCounts, mathjsProjection, scenarioFor } from '../helpers.js';
+import { fitWithCounts, mathjsProjection, scenarioFor, everyDraw } from '../helpers.js';
 
 // Plot counts "as recorded": each draw's true plots pass through that draw's error matrix E.
 const P = [[0.8, 0.15, 0.05], [0.1, 0.7, 0.2], [0.05, 0.1, 0.85]];
@@ -22,7 +22,7 @@ const D = 4000;
 
 /** Point draws of P with each draw's E set by hand: draws below D/2 take E1, the rest E2. */
 function drawsWithErrors(): MatrixDraws {
-  const data = Float64Array.from(Array.from({ length: D }, () => P.flat(2)).flat());
+  const data = everyDraw(P, D);
   const emissions = Float64Array.from(Array.from({ length: D }, (_, d) => (d < D / 2 ? E1 : E2).flat()).flat());
   return { k: 3, count: D, data, source: 'point', notes: [], emissions };
 }

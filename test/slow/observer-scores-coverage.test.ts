@@ -4,6 +4,7 @@ import type { SurveyRecord } from '../../src/data/survey.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
 import { pickFrom } from '../error-helpers.js';
+import { everyDraw } from '../helpers.js';
 
 // A known chain and first-survey mix, and two observers of different accuracy (row = true state, column = recorded):
 // A nearly right, B often wrong. The pooled matrix is their average (what one shared matrix would hold
@@ -22,9 +23,9 @@ const REPLICATES = 250;
 function knownDraws(perObserver: boolean): MatrixDraws {
   return {
     k: 3, count: D, source: 'point', notes: [],
-    data: Float64Array.from(Array.from({ length: D }, () => P.flat()).flat()),
-    emissions: Float64Array.from(Array.from({ length: D }, () => POOLED.flat()).flat()),
-    ...(perObserver ? { observerEmissions: Float64Array.from(Array.from({ length: D }, () => [POOLED, EA, EB].flat(2)).flat()), observers: ['A', 'B'] } : {}),
+    data: everyDraw(P, D),
+    emissions: everyDraw(POOLED, D),
+    ...(perObserver ? { observerEmissions: everyDraw([POOLED, EA, EB], D), observers: ['A', 'B'] } : {}),
   };
 }
 

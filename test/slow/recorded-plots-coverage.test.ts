@@ -4,7 +4,7 @@ import { columnStart } from '../../src/engine/layout.js';
 import { discreteBandOf } from '../../src/engine/quantiles.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
-import { fitWithCounts, scenarioFor } from '../helpers.js';
+import { fitWithCounts, scenarioFor, everyDraw } from '../helpers.js';
 
 // A known chain and an observer far from perfect (row = true state, column = recorded): half of
 // every state is recorded as another.
@@ -20,8 +20,8 @@ const REPLICATES = 4000;
 function knownDraws(): MatrixDraws {
   return {
     k: 3, count: D, source: 'point', notes: [],
-    data: Float64Array.from(Array.from({ length: D }, () => P.flat()).flat()),
-    emissions: Float64Array.from(Array.from({ length: D }, () => E.flat()).flat()),
+    data: everyDraw(P, D),
+    emissions: everyDraw(E, D),
   };
 }
 

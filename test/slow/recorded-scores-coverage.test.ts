@@ -4,6 +4,7 @@ import type { SurveyRecord } from '../../src/data/survey.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
 import { pickFrom } from '../error-helpers.js';
+import { everyDraw } from '../helpers.js';
 
 // A known chain, first-survey mix and observer far from perfect (row = true state, column = recorded).
 const P = [[0.8, 0.15, 0.05], [0.1, 0.75, 0.15], [0.05, 0.1, 0.85]];
@@ -19,8 +20,8 @@ const REPLICATES = 250;
 function knownDraws(withErrors: boolean): MatrixDraws {
   return {
     k: 3, count: D, source: 'point', notes: [],
-    data: Float64Array.from(Array.from({ length: D }, () => P.flat()).flat()),
-    ...(withErrors ? { emissions: Float64Array.from(Array.from({ length: D }, () => E.flat()).flat()) } : {}),
+    data: everyDraw(P, D),
+    ...(withErrors ? { emissions: everyDraw(E, D) } : {}),
   };
 }
 
