@@ -43,11 +43,24 @@ export function stationaryGivenClasses(p: ArrayLike<number>, k: number, offset: 
  * Requires an irreducible matrix (then every pivot is positive). `a` is overwritten.
  */
 export function gth(a: Float64Array, n: number): Float64Array {
+  // `rowScale[m]`: the pivot of a state whose column could not be divided by it (below), else 1.
+  const rowScale = new Float64Array(n).fill(1);
   for (let m = n - 1; m > 0; m--) {
     let s = 0;
     for (let j = 0; j < m; j++) s += a[m * n + j]!;
     if (!(s > 0)) throw new Error(`internal: GTH pivot ${s} at state ${m}; the matrix is not irreducible`);
-    for (let i = 0; i < m; i++) a[i * n + m] /= s;
+    let largest = 0;
+    for (let i = 0; i < m; i++) largest = Math.max(largest, a[i * n + m]!);
+    if (Number.isFinite(largest / s)) {
+      for (let i = 0; i < m; i++) a[i * n + m] /= s;
+    } else {
+      // A nearly absorbing state: its outflow s is so small (a posterior draw's row can be
+      // 1 − 1e-312) that the column divided by it would overflow, and ∞ · 0 make NaN. The same
+      // reduction with its row divided instead (each entry ≤ 1), the pivot kept for the back
+      // substitution. Only here, so every other chain keeps the operations, and bits, it had.
+      for (let j = 0; j < m; j++) a[m * n + j] /= s;
+      rowScale[m] = s;
+    }
     for (let i = 0; i < m; i++) {
       const aim = a[i * n + m]!;
       if (aim === 0) continue;
@@ -56,13 +69,21 @@ export function gth(a: Float64Array, n: number): Float64Array {
   }
   const pi = new Float64Array(n);
   pi[0] = 1;
-  let total = 1;
   for (let j = 1; j < n; j++) {
     let x = 0;
     for (let i = 0; i < j; i++) x += pi[i]! * a[i * n + j]!;
-    pi[j] = x;
-    total += x;
+    const share = x / rowScale[j]!;
+    if (Number.isFinite(share)) pi[j] = share;
+    else {
+      // State j outweighs all before it beyond the double range: they are rescaled to it (and may
+      // underflow to 0, which is what their share is).
+      const f = rowScale[j]! / x;
+      for (let i = 0; i < j; i++) pi[i]! *= f;
+      pi[j] = 1;
+    }
   }
+  let total = 0;
+  for (let j = 0; j < n; j++) total += pi[j]!;
   for (let j = 0; j < n; j++) pi[j] /= total;
   return pi;
 }

@@ -47,6 +47,36 @@ describe('stationaryMix', () => {
     exact.forEach((x, s) => expect(Math.abs(result.mix[s]! - x / total)).toBeLessThan(1e-12));
   });
 
+  it('is right, not NaN, when a state is nearly absorbing beyond the double range (outflow 1e-312: a posterior draw found one)', () => {
+    // Birth–death chain 0 ↔ 1 ↔ 2 whose last state leaves with chance 1e-312 (a subnormal number):
+    // detailed balance gives π exactly (Kemeny & Snell 1960, sec. 5.3), π ∝ [1, 1.2, 1.2e311] (0.3/0.25 = 1.2; 1.2 · 0.1/1e-312).
+    // Dividing by that outflow overflowed and made ∞ · 0 = NaN; both orders of the states are checked.
+    const up = [0.3, 0.1];
+    const down = [0.25, 1e-312];
+    const chain = (order: number[]): Float64Array => {
+      const k = 3;
+      const P = new Float64Array(k * k);
+      const at = (i: number, j: number): number => order[i]! * k + order[j]!;
+      for (let i = 0; i < 2; i++) { P[at(i, i + 1)] = up[i]!; P[at(i + 1, i)] = down[i]!; }
+      for (let i = 0; i < k; i++) { let t = 0; for (let j = 0; j < k; j++) if (j !== i) t += P[at(i, j)]!; P[at(i, i)] = 1 - t; }
+      return P;
+    };
+    // Divided through by 1.2e311 (itself past the double range), with c = 1e-312: π ∝ [c/0.12, c/0.1, 1],
+    // whose sum is 1 in doubles.
+    const c = 1e-312;
+    const exact = [c / 0.12, c / 0.1, 1];
+    for (const order of [[0, 1, 2], [2, 1, 0]]) {
+      const result = stationaryMix(chain(order), 3);
+      expect(result.unique).toBe(true);
+      if (!result.unique) return;
+      exact.forEach((x, s) => {
+        const got = result.mix[order[s]!]!;
+        expect(Number.isFinite(got)).toBe(true);
+        expect(Math.abs(got - x) / x).toBeLessThan(1e-9);
+      });
+    }
+  });
+
   it('puts zero weight on transient states when there is one closed class', () => {
     // 0 → 1 only; {1, 2} closed and irreducible with π = (0, 1/3, 2/3).
     const P = Float64Array.from([0.5, 0.5, 0, 0, 0.2, 0.8, 0, 0.4, 0.6]);
