@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import { SereError, quote, type ErrorCode, type Place } from '../errors.js';
 import { readTextFile } from './read-text-file.js';
 import { restoreProtoKeys, shieldProtoKeys, userKey } from './proto-keys.js';
+import { editDistance } from './label-typos.js';
 
 export type KeyPath = readonly (string | number)[];
 
@@ -42,16 +43,72 @@ export function structuredFromText<T>(file: string, text: string, sha256: string
   const locate = (path: KeyPath): Place => locateIn(doc, lineCounter, file, path);
   const parsed = schema.safeParse(shieldProtoKeys(plainValue(doc, lineCounter, file, what)));
   if (!parsed.success) {
-    const issue = parsed.error.issues[0]!;
-    const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol').map(userKey);
+    const { issues } = parsed.error;
+    // An unknown key first: a misspelt required key (`horizen`) also makes `horizon` missing, and
+    // the misspelling is what the user has to fix.
+    const issue = issues.find((i) => i.code === 'unrecognized_keys') ?? issues[0]!;
+    const keyPath = (i: z.core.$ZodIssue): (string | number)[] => i.path.filter((p): p is string | number => typeof p !== 'symbol').map(userKey);
+    const base = keyPath(issue);
     const keys = issue.code === 'unrecognized_keys' ? issue.keys.map(userKey) : [];
     const path = keys.length > 0 ? [...base, keys[0]!] : base;
     const place = keys.length > 0 ? locateKey(doc, lineCounter, file, base, keys[0]!) : locate(path);
     const message = keys.length > 0 ? `unknown key ${quote(keys[0]!)}` : issue.message;
+    const meant = keys.length > 0 ? missingKeyLike(issues, base, keys[0]!, keyPath) ?? knownKeyLike(schema, base, keys[0]!) : undefined;
     throw new SereError(code, message, { ...place, path: formatKeyPath(path) || undefined },
-      keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
+      meant !== undefined ? `did you mean ${quote(meant)}?`
+        : keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
   return { value: restoreProtoKeys(parsed.data), sha256, locate };
+}
+
+/**
+ * A required key missing beside an unknown one and one or two edits from it (Damerau 1964, as
+ * label-typos.ts): `horizen` when `horizon` is missing.
+ */
+function missingKeyLike(issues: readonly z.core.$ZodIssue[], base: readonly (string | number)[], unknown: string,
+  keyPath: (i: z.core.$ZodIssue) => (string | number)[]): string | undefined {
+  for (const i of issues) {
+    if (i.code !== 'invalid_type' && i.code !== 'invalid_union') continue;
+    const at = keyPath(i);
+    if (at.length !== base.length + 1 || base.some((k, n) => at[n] !== k)) continue;
+    const name = at[at.length - 1];
+    if (typeof name === 'string' && editDistance(name, unknown) <= 2) return name;
+  }
+  return undefined;
+}
+
+/** The keys a schema allows at a key path: objects' shapes, through optional, default, union, array and pipe. */
+function keysAt(schema: z.ZodType, path: readonly (string | number)[]): Set<string> {
+  const found = new Set<string>();
+  const walk = (node: z.ZodType, at: number, depth: number): void => {
+    if (depth > 40) return;
+    const def = (node as unknown as { _zod: { def: Record<string, unknown> & { type: string } } })._zod.def;
+    const inner = (x: unknown): void => { if (x) walk(x as z.ZodType, at, depth + 1); };
+    switch (def.type) {
+      case 'optional': case 'default': case 'nullable': case 'prefault': case 'readonly': case 'catch': case 'nonoptional':
+        return inner(def.innerType);
+      case 'pipe': return inner(def.in);
+      case 'union': for (const o of def.options as z.ZodType[]) walk(o, at, depth + 1); return;
+      case 'array': if (typeof path[at] === 'number') walk(def.element as z.ZodType, at + 1, depth + 1); return;
+      case 'record': if (at < path.length) walk(def.valueType as z.ZodType, at + 1, depth + 1); return;
+      case 'object': {
+        const shape = def.shape as Record<string, z.ZodType>;
+        if (at === path.length) { for (const key of Object.keys(shape)) found.add(key); return; }
+        const next = shape[String(path[at])];
+        if (next) walk(next, at + 1, depth + 1);
+        return;
+      }
+      default: return;
+    }
+  };
+  walk(schema, 0, 0);
+  return found;
+}
+
+/** The one known key at that place one or two edits from the unknown one, if exactly one is. */
+function knownKeyLike(schema: z.ZodType, base: readonly (string | number)[], unknown: string): string | undefined {
+  const near = [...keysAt(schema, base)].filter((key) => editDistance(key, unknown) <= 2);
+  return near.length === 1 ? near[0] : undefined;
 }
 
 /** file:line:column of key paths in a text, parsed by the yaml library (only when asked). */
