@@ -1,6 +1,7 @@
 import { SereError, quote, type Place } from '../errors.js';
 import { firstDifference, labelProblem, lookAlikeKey, MAX_STATES, normaliseLabel } from './labels.js';
 import { settingName } from '../setting-name.js';
+import { editDistance } from './label-typos.js';
 
 /** The provisional id of a label that is not among the declared states (an error at the end). */
 export const UNKNOWN = 255;
@@ -79,6 +80,17 @@ export class StateLabels {
       if (unknown) {
         const states = this.declared;
         const near = states.find((s) => lookAlikeKey(s) === lookAlikeKey(unknown.label));
+        // A declared state never surveyed and a slip away from the unknown label: the list is what to fix.
+        const surveyed = new Set(this.distinct.values());
+        const misspelt = near ? undefined : states.find((s, i) => !surveyed.has(i) && editDistance(s, unknown.label) <= 2);
+        if (misspelt !== undefined) {
+          const row = { file: this.file, line: unknown.line, column: unknown.column };
+          throw new SereError('UNKNOWN_STATE', this.declaredAt.file
+            ? `declared state ${quote(misspelt)} is never surveyed, and ${this.file}:${unknown.line}:${unknown.column} has ${quote(unknown.label)}, which is not declared`
+            : `state ${quote(unknown.label)} is not declared, and the declared ${quote(misspelt)} is never surveyed`,
+            this.declaredAt.file ? this.declaredAt : row,
+            `spell it ${quote(unknown.label)} in ${this.declaredAt.path ?? '--states'}`);
+        }
         const what = near
           ? `state ${quote(unknown.label)} differs from the declared state ${quote(near)} only by case, spacing or look-alike characters`
           : `unknown state ${quote(unknown.label)} (declared: ${states.map(quote).join(', ')})`;

@@ -47,6 +47,11 @@ export function headerNames(file: string, fields: readonly string[], line: numbe
   return header;
 }
 
+/** What a MISSING_COLUMN error says first: one wording, so a scenario can tell which of its settings it concerns. */
+export function missingColumn(name: string, role: string): string {
+  return `no ${quote(name)} column for the ${role}`;
+}
+
 /** The place of the column named `wanted` in a normalised header, or the MISSING_COLUMN error. */
 export function findColumn(file: string, header: readonly string[], line: number, role: ColumnRole, wanted: string): number {
   const name = normaliseLabel(wanted);
@@ -59,7 +64,7 @@ export function findColumn(file: string, header: readonly string[], line: number
     const found = header.map(quote).join(', ');
     // Spreadsheets in many locales save "CSV" with semicolons; the header then arrives as one field.
     const semicolons = header.length === 1 && header[0]!.includes(';');
-    throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (header has ${found})`,
+    throw new SereError('MISSING_COLUMN', `${missingColumn(name, role)} (header has ${found})`,
       { file, line },
       semicolons
         ? 'the file uses semicolons; save it with commas between values'

@@ -1,7 +1,9 @@
 import { basename, dirname, relative, resolve } from 'node:path';
 import { LIMITS } from '../limits.js';
 import { fitSettingsOf } from './fit-block.js';
-import { SereError, type Place } from '../errors.js';
+import { SereError, quote, type Place } from '../errors.js';
+import { normaliseLabel } from '../data/labels.js';
+import { missingColumn } from '../data/survey-header.js';
 import { readStructured, type KeyPath } from '../data/read-structured.js';
 import { fitFromFile } from '../fit/fit-from-file.js';
 import { carriedMix } from '../chain/latest-mix.js';
@@ -242,6 +244,15 @@ function fitOfData(s: ScenarioFile, file: string,
     // The data file itself cannot be read: the place to fix is the scenario's data key.
     if (err instanceof SereError && ['FILE_NOT_FOUND', 'NOT_A_FILE'].includes(err.code) && err.place.file === dataFile) {
       fail('BAD_SCENARIO', `data: ${err.message} (${dataFile})`, ['data'], err.hint);
+    }
+    // A column the scenario names that the table lacks: the place to fix is that setting.
+    if (err instanceof SereError && err.code === 'MISSING_COLUMN' && err.place.file === dataFile) {
+      for (const [role, name] of Object.entries(s.fit?.columns ?? {})) {
+        if (typeof name === 'string' && err.message.startsWith(missingColumn(normaliseLabel(name), role))) {
+          throw new SereError('MISSING_COLUMN', `fit.columns.${role} names ${quote(name)}, and ${dataFile} has ${err.message}`,
+            locate(['fit', 'columns', role]), `name one of its columns, or add a ${quote(name)} column to ${dataFile}`);
+        }
+      }
     }
     throw err;
   }

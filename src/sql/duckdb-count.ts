@@ -10,7 +10,7 @@ import { labelProblem, MAX_LABEL_LENGTH, normaliseLabel } from '../data/labels.j
 import { StateLabels } from '../data/states.js';
 import { checkRegularFile } from '../data/read-text-file.js';
 import type { SurveyColumns } from '../data/survey.js';
-import { columnIndex } from '../data/survey-header.js';
+import { columnIndex, missingColumn } from '../data/survey-header.js';
 import { findSurveyLine, type SurveyRole, type SurveyRowText } from '../data/find-survey-line.js';
 import { countingSql } from './count-query.js';
 import { settingName } from '../setting-name.js';
@@ -226,7 +226,7 @@ async function checkColumns(db: DuckDBConnection, file: string, columns: SurveyC
   const wanted: [string, string | undefined][] = [['site', columns.site], ['time', columns.time], ['state', columns.state], ['group', columns.group]];
   for (const [role, name] of wanted) {
     if (name !== undefined && !names.includes(name)) {
-      throw new SereError('MISSING_COLUMN', `no ${quote(name)} column for the ${role} (columns: ${names.map(quote).join(', ')})`, { file },
+      throw new SereError('MISSING_COLUMN', `${missingColumn(name, role)} (columns: ${names.map(quote).join(', ')})`, { file },
         `name the column that holds the ${role} with ${settingName(`--${role}-column`, `fit.columns.${role}`)}`);
     }
   }

@@ -32,6 +32,10 @@ describe('loadScenario', () => {
     ['missing-data.yaml', 'BAD_SCENARIO', { line: 1, path: 'data' }],
     ['bad-csv.yaml', 'BAD_TIME', { file: 'test/fixtures/bad-time.csv', line: 3, column: 2 }],
     ['show-beyond.yaml', 'BAD_SCENARIO', { line: 3, column: 11, path: 'show[1]' }],
+    // A column the table lacks, named by the scenario: the scenario's setting is the place.
+    ['column-typo.yaml', 'MISSING_COLUMN', { line: 3, column: 20, path: 'fit.columns.site' }],
+    // 'bb' declared and never surveyed, 'b' surveyed and not declared: the declared list is the place.
+    ['declared-typo.yaml', 'UNKNOWN_STATE', { line: 3, path: 'fit.states' }],
   ];
   for (const [name, code, place] of cases) {
     it(`${name} → ${code} at ${JSON.stringify(place)}`, () => {
