@@ -147,6 +147,9 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     for (const t of run.plan.treatments) {
       if (t.weights.every((w) => w === 0)) notes.push(`treatment '${t.name}' acts in no year of this forecast (its years lie outside it)`);
     }
+    if (run.scenario.plots?.scale === 'recorded' && !matrices.emissions) {
+      notes.push('plots as recorded: no error table, so the records are taken as the truth and the plot counts are those of the true states');
+    }
     run.plan.treatments.forEach((treatment, tr) => {
       let draws = 0;
       for (let d = 0; d < D; d++) draws += run.outcomes[tr * D + d]!;

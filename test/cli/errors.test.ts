@@ -133,6 +133,9 @@ describe('plot counts with observer error', () => {
     const { scale: s2, ...p2 } = plotsOf(plain.stdout);
     expect([s1, s2]).toEqual(['recorded', 'true']);
     expect(JSON.stringify(p1)).toBe(JSON.stringify(p2));
+    // Said, so it is not read as a recorded-scale prediction through an error matrix.
+    expect(JSON.parse(rec.stdout).scenarios[0].notes.some((n: string) => n.startsWith('plots as recorded: no error table'))).toBe(true);
+    expect(JSON.parse(plain.stdout).scenarios[0].notes.some((n: string) => n.startsWith('plots as recorded'))).toBe(false);
   });
 
   it('a scale other than true or recorded: one line naming plots.as', async () => {
