@@ -40,7 +40,7 @@ export function registerSeason(program: Command, io: Io): void {
     } else {
       files = initWorkspace(folder, opts.zoned ? 'zoned' : 'pooled');
     }
-    io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: cd ${folder} && sere season\n`);
+    io.stdout(`created ${folder} with ${files.length} files: ${files.join(', ')}\nnext: sere season ${folder}   (from the project folder: npx sere season ${folder})\n`);
   });
 
   program.command('season')
