@@ -151,7 +151,8 @@ function splitTable(r: ForecastResult, style: ChalkInstance): string[] {
       `${points(src.widthWithout[s]!)} (${percent(Math.max(0, src.varianceShare[s]!))}% of variance)`)]);
   });
   return [style.bold(`Where the uncertainty in ${last} comes from — band width in percentage points (${unit})`), table.toString(),
-    style.dim('A large share for the fitted matrix means more surveys would narrow the bands; year-to-year variation, event years and plot-level chance will not shrink with more data.')];
+    style.dim('A large share for the fitted matrix means more surveys would narrow the bands; year-to-year variation, event years and plot-level chance will not shrink with more data. ' +
+      'A share is 1 − Var(without it) / Var(all on); sources interact, so the shares need not add up to 100%.')];
 }
 
 function points(x: number): string {
