@@ -36,5 +36,5 @@ export const SCORE_NOTE = 'Each surveyed site scored from its own last recorded 
 
 /** The line that says which scale was scored when the chain was fitted with an error table. */
 export function recordedScaleNote(errors: string): string {
-  return `scored on the recorded scale: each site's forecast is its filtered true state carried forward and recorded through the error matrix (${errors}), set against what was recorded`;
+  return `scored on the recorded scale: each site's forecast is its filtered true state carried forward and recorded through the error matrix of the survey's observer (${errors}: one matrix per observer the assessment names, the pooled one otherwise), set against what was recorded`;
 }
