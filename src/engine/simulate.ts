@@ -197,6 +197,17 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
   return { scenario, plan, inputs, state: projectionState(D, matrices.k, plan.subPopulations.length), outcomes };
 }
 
+/** Each draw's error matrix m of `observerEmissions` (D × M × k × k), laid out as `emissions` (D × k × k). */
+function observerMatrices(matrices: MatrixDraws, m: number): Float64Array {
+  const { k, count: D } = matrices;
+  const kk = k * k;
+  const all = matrices.observerEmissions!;
+  const M = all.length / (D * kk);
+  const out = sharedFloat64(D * kk);
+  for (let d = 0; d < D; d++) out.set(all.subarray((d * M + m) * kk, (d * M + m + 1) * kk), d * kk);
+  return out;
+}
+
 /**
  * With observer error, plots start from each draw's true mix (when the start is the latest survey)
  * and, asked `as: recorded`, are recorded through each draw's error matrix on the stream
@@ -204,7 +215,9 @@ function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream
  */
 function plotScaleInputs(scenario: Scenario, matrices: MatrixDraws, random: RandomStream): Pick<Parameters<typeof simulatePlots>[3], 'starts' | 'recorded'> {
   const starts = scenario.start.from === 'latest' ? matrices.starts : undefined;
-  const emissions = scenario.plots?.scale === 'recorded' ? matrices.emissions : undefined;
+  const observer = scenario.plots?.observer;
+  const emissions = scenario.plots?.scale !== 'recorded' ? undefined
+    : observer ? observerMatrices(matrices, observer.matrix) : matrices.emissions;
   return {
     ...(starts ? { starts } : {}),
     ...(emissions ? { recorded: { emissions, multinomialOf: (b: number) => multinomialSampler(random.stream('plots:recorded').stream(blockName(b))) } } : {}),

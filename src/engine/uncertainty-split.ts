@@ -3,6 +3,7 @@ import type { MatrixDraws } from '../uncertainty/draws.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { scenarioDraws } from './scenario-draws.js';
 import { pointDraws } from '../uncertainty/point.js';
+import { sharedFloat64 } from '../uncertainty/draw-blocks.js';
 import { cachedSample } from '../uncertainty/sample-cache.js';
 import { bandOf } from './quantiles.js';
 import { simulate, type Simulation, type Switches } from './simulate.js';
@@ -47,7 +48,7 @@ export function splitUncertainty(scenario: Scenario, matrices: MatrixDraws, full
   const fullStats = horizonStats(full, scenario, quantity === 'plots');
   const sources = present.map((source) => {
     const switches: Switches = { expectedEvents: source === 'events', noPlots: source === 'plots' };
-    const draws: MatrixDraws = source === 'matrix' ? { ...pointOf(scenario, matrices.count, random), concentration: matrices.concentration }
+    const draws: MatrixDraws = source === 'matrix' ? { ...pointOf(scenario, matrices.count, random), ...meanErrorParts(matrices), concentration: matrices.concentration }
       : source === 'variation' ? { ...matrices, concentration: undefined } : matrices;
     // Only the horizon is summarised: the reruns keep no other year. Plot counts are drawn after
     // the shares, from their own streams, so with plots off the shares are the full run's to the
@@ -85,6 +86,30 @@ function horizonStats(sim: Simulation, scenario: Scenario, plots: boolean): { wi
     const band = bandOf(column, scenario.level);
     return { width: band.high - band.low, variance };
   });
+}
+
+/**
+ * With observer error the draws also carry each one's true start and error matrices: with the
+ * matrix's uncertainty off they are held at their means over the draws (as a point forecast holds
+ * them at their posterior means), so the rerun starts from the true mix and records plots "as
+ * recorded" through an error matrix, as the full run does.
+ */
+function meanErrorParts(matrices: MatrixDraws): Partial<Pick<MatrixDraws, 'starts' | 'emissions' | 'observerEmissions' | 'observers'>> {
+  const D = matrices.count;
+  const meanOf = (per: Float64Array | undefined): Float64Array | undefined => {
+    if (!per) return undefined;
+    const n = per.length / D;
+    const mean = new Float64Array(n);
+    for (let d = 0; d < D; d++) for (let c = 0; c < n; c++) mean[c] += per[d * n + c]! / D;
+    const out = sharedFloat64(per.length);
+    for (let d = 0; d < D; d++) out.set(mean, d * n);
+    return out;
+  };
+  const starts = meanOf(matrices.starts);
+  const emissions = meanOf(matrices.emissions);
+  const observerEmissions = meanOf(matrices.observerEmissions);
+  return { ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}),
+    ...(observerEmissions ? { observerEmissions, observers: matrices.observers } : {}) };
 }
 
 /**

@@ -42,7 +42,7 @@ export function scenarioJson(r: ForecastResult): object {
     },
     years: r.years,
     shares: byState((s) => r.shares[s]),
-    plots: r.plots && sc.plots ? { total: sc.plots.total, scale: sc.plots.scale ?? 'true', start: byState((s) => sc.plots!.start[s]!), ...byState((s) => r.plots![s]) } : null,
+    plots: r.plots && sc.plots ? { total: sc.plots.total, scale: sc.plots.scale ?? 'true', observer: sc.plots.observer?.name ?? null, start: byState((s) => sc.plots!.start[s]!), ...byState((s) => r.plots![s]) } : null,
     treatments: sc.treatments.map((t) => ({ name: t.name, state: fit.states[t.row], area: t.area, ...(t.zones ? { zones: t.zones.map((z) => sc.zones!.names[z]) } : {}) })),
     events: sc.events.map((e) => ({ name: e.name, scope: e.scope, ...(e.zones ? { zones: e.zones.map((z) => sc.zones!.names[z]) } : {}) })),
     // Only in a stratified forecast, so that other outputs keep their bytes.

@@ -181,5 +181,6 @@ export function zonesLine(sc: ForecastResult['scenario'], hint = true): string {
 /** With observer error, which states the plot counts are of; without, the records are the truth and nothing is said. */
 function plotScaleWords(sc: ForecastResult['scenario']): string {
   if (!sc.fit.errorModel) return '';
-  return sc.plots?.scale === 'recorded' ? ', as a survey would record them (through the error matrix)' : ', true states (not as recorded)';
+  if (sc.plots?.scale !== 'recorded') return ', true states (not as recorded)';
+  return sc.plots.observer ? `, as ${sc.plots.observer.name} would record them (through their error matrix)` : ', as a survey would record them (through the error matrix)';
 }

@@ -9,7 +9,8 @@ import { fitFromFile } from '../fit/fit-from-file.js';
 import { carriedMix } from '../chain/latest-mix.js';
 import { fitMle, fitMask, needPerSite, withBlockSize, type Fit } from '../fit/fit.js';
 import { scenarioSchema, type ScenarioFile } from './schema.js';
-import type { Disturbance, Scenario, ScenarioZones, Treatment } from './scenario.js';
+import type { Disturbance, PlotScale, Scenario, ScenarioZones, Treatment } from './scenario.js';
+import { observerKey } from '../data/read-error-matrix.js';
 import { checkParcelZones, resolveZones, zoneIndices } from './resolve-zones.js';
 import { resolveEvents, resolveTreatments, type ResolveContext } from './resolve-management.js';
 import { largestRemainder } from './largest-remainder.js';
@@ -117,7 +118,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const variation = options.variation === undefined ? resolveVariation(s.variation, fit, stateIndex, locate)
     : flagVariation(options.variation, fit, file);
   const target = s.target && resolveTarget(s.target, { step: fit.step, horizonSteps, stateIndex, locate });
-  const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']));
+  const plots = s.plots === undefined ? undefined : startingPlots(s.plots, fit, start, locate(['plots']), locate);
   const baseName = s.name ?? basename(file).replace(/\.ya?ml$/i, '');
   const alternatives = s.alternatives ?? [{ name: baseName, treatments: [], events: [] }];
   const topTreatments = s.treatments.map((value, n) => ({ value, path: ['treatments', n] as KeyPath }));
@@ -208,7 +209,36 @@ function resolveVariation(given: ScenarioFile['variation'], fit: Fit,
  * is split by the starting (true) mix instead, and each draw re-splits it by its own true start
  * (engine/plot-counts.ts).
  */
-function startingPlots(given: NonNullable<ScenarioFile['plots']>, fit: Fit, start: Scenario['start'], place: Place): Scenario['plots'] {
+function startingPlots(given: NonNullable<ScenarioFile['plots']>, fit: Fit, start: Scenario['start'], place: Place,
+  locate: (path: KeyPath) => Place): Scenario['plots'] {
+  const { total, start: counts, scale } = plotsAtStart(given, fit, start, place);
+  const name = typeof given === 'object' ? given.observer : undefined;
+  return { total, start: counts, scale, ...(name !== undefined ? { observer: plotsObserver(name, scale, fit, locate(['plots', 'observer'])) } : {}) };
+}
+
+/**
+ * The assessed observer whose matrix records the plots: the one who will make the next survey, so
+ * its recorded counts can be scored fairly. Matched as the assessment's names are (observerKey).
+ */
+function plotsObserver(name: string, scale: PlotScale, fit: Fit, place: Place): { name: string; matrix: number } {
+  if (scale !== 'recorded') {
+    throw new SereError('BAD_SCENARIO', 'plots.observer applies to counts as recorded', place, 'add as: recorded, or drop observer');
+  }
+  const names = fit.errorModel?.observers?.names;
+  if (!names) {
+    throw new SereError('BAD_SCENARIO', fit.errorModel ? 'the accuracy assessment names no observers, so there is one error matrix for all'
+      : 'plots.observer needs an error table (fit.errors) whose assessment names observers', place,
+    fit.errorModel ? 'drop observer (the plots are recorded through the one matrix)' : 'add fit.errors with an observer column, or drop observer');
+  }
+  const o = names.findIndex((n) => observerKey(n) === observerKey(name));
+  if (o < 0) {
+    throw new SereError('BAD_SCENARIO', `observer ${quote(name)} is not in the accuracy assessment (it names ${names.map(quote).join(', ')})`, place,
+      'name one of them, or drop observer to record through the pooled matrix');
+  }
+  return { name: names[o]!, matrix: 1 + o };
+}
+
+function plotsAtStart(given: NonNullable<ScenarioFile['plots']>, fit: Fit, start: Scenario['start'], place: Place): { total: number; start: readonly number[]; scale: PlotScale } {
   const { count: plots, as: scale } = typeof given === 'object' ? given : { count: given, as: 'true' as const };
   if (plots === 'latest') {
     if (start.from !== 'latest') {

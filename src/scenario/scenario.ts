@@ -37,7 +37,11 @@ export interface Scenario {
    * Forecast plot counts too: how many plots, how many start in each state, and on which scale —
    * the true states, or as recorded (through each draw's error matrix; the same as true without one).
    */
-  readonly plots?: { readonly total: number; readonly start: readonly number[]; readonly scale?: PlotScale };
+  readonly plots?: {
+    readonly total: number; readonly start: readonly number[]; readonly scale?: PlotScale;
+    /** As recorded by one assessed observer: their name and their matrix (1 + o in `MatrixDraws.observerEmissions`). */
+    readonly observer?: { readonly name: string; readonly matrix: number };
+  };
   /** A stratified forecast (the fit keeps zones): each zone's share of the area and its start. */
   readonly zones?: ScenarioZones;
 }

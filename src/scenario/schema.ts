@@ -204,8 +204,9 @@ export const scenarioSchema = z.strictObject({
     // YAML reads a bare `true` as a boolean: take it and the quoted word alike.
     as: z.union([z.literal('recorded'), z.literal('true'), z.literal(true)], { error: "as must be 'recorded' or 'true'" })
       .default('true').transform((v) => (v === 'recorded' ? 'recorded' as const : 'true' as const)),
-  })], { error: "plots must be a whole number, 'latest', or { count, as: true | recorded }" }).optional()
-    .describe("Plot counts: a whole number, 'latest', or { count, as: true | recorded } — as: recorded draws them through the error matrix (default true: the true states)."),
+    observer: z.string().min(1).optional(),
+  })], { error: "plots must be a whole number, 'latest', or { count, as: true | recorded, observer }" }).optional()
+    .describe("Plot counts: a whole number, 'latest', or { count, as: true | recorded, observer } — as: recorded draws them through the error matrix (default true: the true states); observer: through that assessed observer's own matrix (who will make the next survey)."),
   /** With a zoned fit: each zone's area (`410 ha`) or share (`0.6`); default each zone's share of the plots. */
   areas: z.record(z.string(), z.union([z.number(), z.string()], { error: 'an area is a share (0.6) or an area with its unit (410 ha)' })).optional()
     .describe('With a zoned fit (fit pooling partial or none): each zone\'s area with a unit (410 ha; units ha, km2, m2, acres — one unit for all) or its share of the whole (0.6, adding to 1). Default: each zone\'s share of the plots.'),

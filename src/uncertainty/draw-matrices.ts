@@ -61,24 +61,32 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
  * A point forecast with observer error starts every draw from the posterior mean true mix at the
  * latest time, and records plots through the posterior mean error matrix.
  */
-function meanTrueStarts(fit: Fit, count: number, random: RandomStream): { starts: Float64Array; emissions: Float64Array } {
+function meanTrueStarts(fit: Fit, count: number, random: RandomStream): Pick<MatrixDraws, 'starts' | 'emissions' | 'observerEmissions' | 'observers'> {
   const k = fit.states.length;
+  const kk = k * k;
   const latent = latentSampleOf(fit, random)!;
+  const errors = latent.errors!;
+  const observers = errors.observers ? fit.errorModel?.observers?.names : undefined;
+  const m = observers ? 1 + observers.length : 1;
   const mean = new Float64Array(k);
-  const meanE = new Float64Array(k * k);
+  // Every error matrix's posterior mean: the pooled one, then each assessed observer's.
+  const meanE = new Float64Array(m * kk);
   const shares = new Float64Array(k);
   for (let r = 0; r < latent.retained; r++) {
-    trueShares(latent.errors!.latest, r, k, shares, 0);
+    trueShares(errors.latest, r, k, shares, 0);
     for (let x = 0; x < k; x++) mean[x] += shares[x]! / latent.retained;
-    for (let c = 0; c < k * k; c++) meanE[c] += latent.errors!.emissions[r * k * k + c]! / latent.retained;
+    for (let c = 0; c < kk; c++) meanE[c] += errors.emissions[r * kk + c]! / latent.retained;
+    for (let c = kk; c < m * kk; c++) meanE[c] += errors.observers!.emissions[r * (m - 1) * kk + c - kk]! / latent.retained;
   }
   const starts = sharedFloat64(count * k);
-  const emissions = sharedFloat64(count * k * k);
+  const emissions = sharedFloat64(count * kk);
+  const observerEmissions = observers ? sharedFloat64(count * m * kk) : undefined;
   for (let d = 0; d < count; d++) {
     starts.set(mean, d * k);
-    emissions.set(meanE, d * k * k);
+    emissions.set(meanE.subarray(0, kk), d * kk);
+    observerEmissions?.set(meanE, d * m * kk);
   }
-  return { starts, emissions };
+  return { starts, emissions, ...(observerEmissions ? { observerEmissions, observers } : {}) };
 }
 
 /**

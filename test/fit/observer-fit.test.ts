@@ -170,6 +170,40 @@ describe('a scenario with one error matrix per observer', () => {
     expect(mean(recorded.stdout, 'grassland')).toBeGreaterThan(mean(truth.stdout, 'grassland'));
   });
 
+  it('records plots through one observer\'s own matrix with plots.observer', async () => {
+    const plotsBy = async (name: string, observer: string): Promise<{ observer: string | null; 'young-heath': { mean: number[] }; grassland: { mean: number[] } }> => {
+      const r = await sereInProcess(['forecast', scenario(name, ', columns: { observer: surveyor }', `{ count: 100, as: recorded, observer: ${observer} }`), '--json']);
+      expect(r.code, r.stderr).toBe(0);
+      return JSON.parse(r.stdout).scenarios[0].plots;
+    };
+    const corran = await plotsBy('corran.yaml', 'Corran');
+    // Matched as the assessment's names are: case and spacing aside.
+    const avery = await plotsBy('avery.yaml', "' avery'");
+    expect([corran.observer, avery.observer]).toEqual(['Corran', 'Avery']);
+    // Corran records about a tenth of young heath as grassland (the fixture's mislabelling), Avery none:
+    // on the same true plots (the same draws and true counts), Corran's records hold fewer young heath.
+    const years = corran['young-heath'].mean.length;
+    for (let t = 0; t < years; t++) {
+      expect(corran['young-heath'].mean[t]!).toBeLessThan(avery['young-heath'].mean[t]!);
+      expect(corran.grassland.mean[t]!).toBeGreaterThan(avery.grassland.mean[t]!);
+    }
+  });
+
+  const refusedObserver: [string, string][] = [
+    ['{ count: 100, as: recorded, observer: Dana }', 'not in the accuracy assessment'],
+    ['{ count: 100, observer: Corran }', 'as: recorded'],
+  ];
+  for (const [plots, why] of refusedObserver) {
+    it(`refuses plots ${plots}: BAD_SCENARIO at plots.observer`, async () => {
+      const r = await sereInProcess(['forecast', scenario('bad-observer.yaml', ', columns: { observer: surveyor }', plots), '--debug']);
+      expect(r.code).toBe(1);
+      expect(r.stderr).toContain('[BAD_SCENARIO]');
+      expect(r.stderr).toMatch(/bad-observer\.yaml:7:\d+ \(plots\.observer\)/);
+      expect(r.stderr).toContain(why);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    });
+  }
+
   it('without fit.columns.observer (no column named observer here), the assessment\'s observers are refused at the data', async () => {
     const r = await sereInProcess(['forecast', scenario('none.yaml', '', '40'), '--debug']);
     expect(r.code).toBe(1);
