@@ -86,10 +86,12 @@ function normal(): f64 {
   }
 }
 
-/** Gamma(shape ≥ 1) by Marsaglia & Tsang (2000), as gamma.ts. */
-function atLeastOne(shape: f64): f64 {
-  const d = shape - 1.0 / 3.0;
-  const c = 1 / Math.sqrt(9 * d);
+/**
+ * Gamma(shape ≥ 1) by Marsaglia & Tsang (2000), as gamma.ts, given the shape's d = shape − 1/3 and
+ * c = 1/√(9d): computed once per cell and draw (`prepare`), not once per variate — the square root
+ * and the division were a dependent chain ahead of every variate. The same expressions, so the same bits.
+ */
+function marsagliaTsang(d: f64, c: f64): f64 {
   while (true) {
     let x: f64;
     let v: f64;
@@ -106,35 +108,64 @@ function atLeastOne(shape: f64): f64 {
 }
 
 // @ts-ignore: decorator
-@inline function gamma(shape: f64): f64 {
-  if (shape >= 1) return atLeastOne(shape);
-  const g = atLeastOne(shape + 1);
-  return g * exp(log(uniform()) / shape);
+@inline function dOf(shape: f64): f64 {
+  return (shape >= 1 ? shape : shape + 1) - 1.0 / 3.0;
+}
+
+// @ts-ignore: decorator
+@inline function cOf(d: f64): f64 {
+  return 1 / Math.sqrt(9 * d);
+}
+
+/** Gamma(a) from a's prepared d and c: Marsaglia–Tsang at a, or at a + 1 boosted by exp(ln U / a) when a < 1 (gamma.ts). */
+// @ts-ignore: decorator
+@inline function gamma(a: f64, d: f64, c: f64): f64 {
+  const g = marsagliaTsang(d, c);
+  if (a >= 1) return g;
+  return g * exp(log(uniform()) / a);
 }
 
 /** Redraws of a row whose every variate underflowed (dirichlet.ts MAX_REDRAWS). */
 const MAX_REDRAWS = 16;
 
 /**
+ * A drawn matrix's cells made ready for its year matrices: for row i with κᵢ < ∞ and each cell,
+ * at `cells + 24·(i·k + j)`, the shape a = κᵢ·Pᵢⱼ (as year-matrix.ts: the Dirichlet's αⱼ) and its d and c.
+ */
+export function prepare(p: usize, kappa: usize, k: i32, cells: usize): void {
+  for (let i = 0; i < k; i++) {
+    const kap = load<f64>(kappa + (<usize>i << 3));
+    if (kap == Infinity) continue;
+    for (let j = 0; j < k; j++) {
+      const at = i * k + j;
+      const a = kap * load<f64>(p + (<usize>at << 3));
+      const d = dOf(a);
+      const cell = cells + <usize>at * 24;
+      store<f64>(cell, a);
+      store<f64>(cell, d, 8);
+      store<f64>(cell, cOf(d), 16);
+    }
+  }
+}
+
+/**
  * One year's matrix around a drawn one, as year-matrix.ts describes: row i ~ Dirichlet(κᵢ·Pᵢ) into
  * `out` (k × k), rows with κᵢ = ∞ copied, zero cells left zero; from the stream whose 256-bit state
- * is at `state` (advanced in place). `alpha` is k numbers of scratch.
+ * is at `state` (advanced in place), with the cells `prepare` made.
  */
-export function yearMatrix(state: usize, p: usize, kappa: usize, k: i32, out: usize, alpha: usize): void {
+export function yearMatrix(state: usize, p: usize, kappa: usize, cells: usize, k: i32, out: usize): void {
   s0 = load<u64>(state);
   s1 = load<u64>(state, 8);
   s2 = load<u64>(state, 16);
   s3 = load<u64>(state, 24);
   for (let i = 0; i < k; i++) {
     const kap = load<f64>(kappa + (<usize>i << 3));
-    const row = p + (<usize>(i * k) << 3);
     const to = out + (<usize>(i * k) << 3);
     if (kap == Infinity) {
-      memory.copy(to, row, <usize>k << 3);
+      memory.copy(to, p + (<usize>(i * k) << 3), <usize>k << 3);
       continue;
     }
-    for (let j = 0; j < k; j++) store<f64>(alpha + (<usize>j << 3), kap * load<f64>(row + (<usize>j << 3)));
-    dirichlet(alpha, k, to);
+    dirichlet(cells + <usize>(i * k) * 24, k, to);
   }
   store<u64>(state, s0);
   store<u64>(state, s1, 8);
@@ -148,20 +179,23 @@ export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
   s1 = load<u64>(state, 8);
   s2 = load<u64>(state, 16);
   s3 = load<u64>(state, 24);
-  for (let m = 0; m < n; m++) store<f64>(out + (<usize>m << 3), gamma(shape));
+  const d = dOf(shape);
+  const c = cOf(d);
+  for (let m = 0; m < n; m++) store<f64>(out + (<usize>m << 3), gamma(shape, d, c));
   store<u64>(state, s0);
   store<u64>(state, s1, 8);
   store<u64>(state, s2, 16);
   store<u64>(state, s3, 24);
 }
 
-/** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts. */
-function dirichlet(alpha: usize, n: i32, out: usize): void {
+/** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts; α and its d, c are `prepare`'s cells. */
+function dirichlet(cells: usize, n: i32, out: usize): void {
   for (let attempt = 0; attempt < MAX_REDRAWS; attempt++) {
     let total: f64 = 0;
     for (let j = 0; j < n; j++) {
-      const a = load<f64>(alpha + (<usize>j << 3));
-      const g = a > 0 ? gamma(a) : 0;
+      const cell = cells + <usize>j * 24;
+      const a = load<f64>(cell);
+      const g = a > 0 ? gamma(a, load<f64>(cell, 8), load<f64>(cell, 16)) : 0;
       store<f64>(out + (<usize>j << 3), g);
       total += g;
     }
@@ -174,8 +208,6 @@ function dirichlet(alpha: usize, n: i32, out: usize): void {
     }
   }
   let best = 0;
-  for (let j = 1; j < n; j++) if (load<f64>(alpha + (<usize>j << 3)) > load<f64>(alpha + (<usize>best << 3))) best = j;
+  for (let j = 1; j < n; j++) if (load<f64>(cells + <usize>j * 24) > load<f64>(cells + <usize>best * 24)) best = j;
   for (let j = 0; j < n; j++) store<f64>(out + (<usize>j << 3), j == best ? 1.0 : 0.0);
 }
-
-
