@@ -44,9 +44,9 @@ export function setTables(x: usize, f: usize, ratio: usize, r: f64): void {
   tailStart = r;
 }
 
+/** The next 64-bit output of the stream held in the globals: xoshiro256**, result = rotl(s1 · 5, 7) · 9, then the linear step. */
 // @ts-ignore: decorator
-@inline function uniform(): f64 {
-  // xoshiro256**: result = rotl(s1 · 5, 7) · 9; then the state's linear step. Top 53 bits · 2⁻⁵³.
+@inline function next(): u64 {
   const result = rotl<u64>(s1 * 5, 7) * 9;
   const t = s1 << 17;
   s2 ^= s0;
@@ -55,56 +55,66 @@ export function setTables(x: usize, f: usize, ratio: usize, r: f64): void {
   s0 ^= s3;
   s2 ^= t;
   s3 = rotl<u64>(s3, 45);
-  return <f64>(result >> 11) * 1.1102230246251565e-16;
+  return result;
 }
 
-/** A standard normal by the ziggurat, as normal.ts: strip, sign and position from one uniform. */
-function normal(): f64 {
-  while (true) {
-    const v = uniform() * 512;
-    const b = <i32>v;
-    const i = b >> 1;
-    const u = v - <f64>b;
-    const z = u * load<f64>(xTable + (<usize>i << 3));
-    // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
-    // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
-    const sign = <u64>(b & 1) << 63;
-    if (u < load<f64>(ratioTable + (<usize>i << 3))) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
-    if (i == 0) {
-      // The tail beyond R (Marsaglia 1964).
-      let a: f64;
-      let e: f64;
-      do {
-        a = -log(1 - uniform()) / tailStart;
-        e = -log(1 - uniform());
-      } while (e + e < a * a);
-      return reinterpret<f64>(reinterpret<u64>(tailStart + a) ^ sign);
-    }
-    const fi = load<f64>(fTable + (<usize>i << 3));
-    const fNext = load<f64>(fTable + (<usize>(i + 1) << 3));
-    if (fi + uniform() * (fNext - fi) < exp(-0.5 * z * z)) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
-  }
+/** A uniform on [0, 1): the top 53 bits · 2⁻⁵³ (xoshiro.ts). */
+// @ts-ignore: decorator
+@inline function uniform(): f64 {
+  return <f64>(next() >> 11) * 1.1102230246251565e-16;
 }
 
 /**
- * Gamma(shape ≥ 1) by Marsaglia & Tsang (2000), as gamma.ts, given the shape's d = shape − 1/3 and
- * c = 1/√(9d): computed once per cell and draw (`prepare`), not once per variate — the square root
- * and the division were a dependent chain ahead of every variate. The same expressions, so the same bits.
+ * A standard normal by the ziggurat, as normal.ts: strip, sign and position from one uniform
+ * U = m·2⁻⁵³ (m the top 53 bits). normal.ts takes V = 512·U, strip-and-sign b = ⌊V⌋ and position
+ * V − b; both are exact in doubles and equal m >> 44 and (m mod 2⁴⁴)·2⁻⁴⁴, which is how they are
+ * taken here: a float-to-integer conversion in WebAssembly traps when out of range, and the check
+ * V8 makes for it (round, convert, convert back, compare) was a third of a normal's time (perf).
  */
-function marsagliaTsang(d: f64, c: f64): f64 {
+function normal(): f64 {
   while (true) {
-    let x: f64;
-    let v: f64;
-    do {
-      x = normal();
-      v = 1 + c * x;
-    } while (v <= 0);
-    v = v * v * v;
-    const u = uniform();
-    const x2 = x * x;
-    if (u < 1 - 0.0331 * x2 * x2) return d * v;
-    if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) return d * v;
+    const m = next() >> 11;
+    const x = strip(m);
+    if (x == x) return x;
+    const y = wedgeOrTail(m);
+    if (y == y) return y;
   }
+}
+
+/** The strip's point when it lies under the strip above (about 99% of draws), else NaN. */
+// @ts-ignore: decorator
+@inline function strip(m: u64): f64 {
+  const b = <i32>(m >> 44);
+  const i = b >> 1;
+  const u = <f64>(m & 0xFFFFFFFFFFF) * 5.684341886080802e-14; // 2⁻⁴⁴
+  const z = u * load<f64>(xTable + (<usize>i << 3));
+  // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
+  // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
+  const sign = <u64>(b & 1) << 63;
+  return u < load<f64>(ratioTable + (<usize>i << 3)) ? reinterpret<f64>(reinterpret<u64>(z) ^ sign) : NaN;
+}
+
+/** The rest of the ziggurat for a point outside the strip above (normal.ts): the tail or the wedge; NaN when rejected. */
+function wedgeOrTail(m: u64): f64 {
+  const b = <i32>(m >> 44);
+  const i = b >> 1;
+  const u = <f64>(m & 0xFFFFFFFFFFF) * 5.684341886080802e-14;
+  const sign = <u64>(b & 1) << 63;
+  if (i == 0) {
+    // The tail beyond R (Marsaglia 1964).
+    let a: f64;
+    let e: f64;
+    do {
+      a = -log(1 - uniform()) / tailStart;
+      e = -log(1 - uniform());
+    } while (e + e < a * a);
+    return reinterpret<f64>(reinterpret<u64>(tailStart + a) ^ sign);
+  }
+  const z = u * load<f64>(xTable + (<usize>i << 3));
+  const fi = load<f64>(fTable + (<usize>i << 3));
+  const fNext = load<f64>(fTable + (<usize>(i + 1) << 3));
+  if (fi + uniform() * (fNext - fi) < exp(-0.5 * z * z)) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
+  return NaN;
 }
 
 // @ts-ignore: decorator
@@ -117,12 +127,44 @@ function marsagliaTsang(d: f64, c: f64): f64 {
   return 1 / Math.sqrt(9 * d);
 }
 
-/** Gamma(a) from a's prepared d and c: Marsaglia–Tsang at a, or at a + 1 boosted by exp(ln U / a) when a < 1 (gamma.ts). */
-// @ts-ignore: decorator
-@inline function gamma(a: f64, d: f64, c: f64): f64 {
-  const g = marsagliaTsang(d, c);
-  if (a >= 1) return g;
-  return g * exp(log(uniform()) / a);
+/**
+ * n Gamma variates into `out`, cell m's shape a and its d = a' − 1/3 and c = 1/√(9d) (a' = a, or
+ * a + 1 when a < 1) at `cells + m·stride` (`prepare`), a ≤ 0 giving 0; returns their sum. As gamma.ts:
+ * Marsaglia & Tsang (2000) at a', boosted by exp(ln U / a) when a < 1 — the same operations on the
+ * same uniforms. d and c are worked out once per cell and draw, not per variate.
+ */
+function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
+  let total: f64 = 0;
+  for (let j = 0; j < n; j++) {
+    const cell = cells + <usize>j * stride;
+    const a = load<f64>(cell);
+    let g: f64 = 0;
+    if (a > 0) {
+      const d = load<f64>(cell, 8);
+      const c = load<f64>(cell, 16);
+      let v: f64;
+      while (true) {
+        let x: f64;
+        do {
+          const m = next() >> 11;
+          x = strip(m);
+          if (x != x) x = wedgeOrTail(m);
+          if (x != x) x = normal();
+          v = 1 + c * x;
+        } while (v <= 0);
+        v = v * v * v;
+        const u = uniform();
+        const x2 = x * x;
+        if (u < 1 - 0.0331 * x2 * x2) break;
+        if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) break;
+      }
+      g = d * v;
+      if (a < 1) g = g * exp(log(uniform()) / a);
+    }
+    store<f64>(out + (<usize>j << 3), g);
+    total += g;
+  }
+  return total;
 }
 
 /** Redraws of a row whose every variate underflowed (dirichlet.ts MAX_REDRAWS). */
@@ -179,9 +221,13 @@ export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
   s1 = load<u64>(state, 8);
   s2 = load<u64>(state, 16);
   s3 = load<u64>(state, 24);
+  // One cell, read n times (stride 0), after the gammas' scratch.
+  const cell = out + (<usize>n << 3);
   const d = dOf(shape);
-  const c = cOf(d);
-  for (let m = 0; m < n; m++) store<f64>(out + (<usize>m << 3), gamma(shape, d, c));
+  store<f64>(cell, shape);
+  store<f64>(cell, d, 8);
+  store<f64>(cell, cOf(d), 16);
+  gammaRow(cell, 0, n, out);
   store<u64>(state, s0);
   store<u64>(state, s1, 8);
   store<u64>(state, s2, 16);
@@ -191,14 +237,7 @@ export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
 /** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts; α and its d, c are `prepare`'s cells. */
 function dirichlet(cells: usize, n: i32, out: usize): void {
   for (let attempt = 0; attempt < MAX_REDRAWS; attempt++) {
-    let total: f64 = 0;
-    for (let j = 0; j < n; j++) {
-      const cell = cells + <usize>j * 24;
-      const a = load<f64>(cell);
-      const g = a > 0 ? gamma(a, load<f64>(cell, 8), load<f64>(cell, 16)) : 0;
-      store<f64>(out + (<usize>j << 3), g);
-      total += g;
-    }
+    const total = gammaRow(cells, 24, n, out);
     if (total > 0 && isFinite(total)) {
       for (let j = 0; j < n; j++) {
         const at = out + (<usize>j << 3);

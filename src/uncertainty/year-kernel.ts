@@ -75,8 +75,8 @@ function kernelInstance(): Instance {
 export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const inst = kernelInstance();
   const k2 = k * k;
-  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch.
-  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK;
+  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch and their one cell.
+  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3;
   if (inst.bytes < words * 8) {
     inst.bytes = Math.max(words * 8, 2 * inst.bytes);
     inst.at = inst.exports.reserve(inst.bytes);
