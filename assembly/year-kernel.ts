@@ -134,6 +134,13 @@ function wedgeOrTail(m: u64): f64 {
  * same uniforms. d and c are worked out once per cell and draw, not per variate.
  */
 function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
+  // The stream in locals on the common path (V8 keeps a module's globals in memory: each uniform
+  // loaded and stored all four words), written back to the globals around the rare out-of-line
+  // steps (wedge, tail, a rejected wedge's fresh normal), which draw from the globals.
+  let t0 = s0;
+  let t1 = s1;
+  let t2 = s2;
+  let t3 = s3;
   let total: f64 = 0;
   for (let j = 0; j < n; j++) {
     const cell = cells + <usize>j * stride;
@@ -146,24 +153,44 @@ function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
       while (true) {
         let x: f64;
         do {
-          const m = next() >> 11;
+          // next(), on the locals.
+          const r = rotl<u64>(t1 * 5, 7) * 9;
+          const q = t1 << 17;
+          t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+          const m = r >> 11;
           x = strip(m);
-          if (x != x) x = wedgeOrTail(m);
-          if (x != x) x = normal();
+          if (x != x) {
+            s0 = t0; s1 = t1; s2 = t2; s3 = t3;
+            x = wedgeOrTail(m);
+            if (x != x) x = normal();
+            t0 = s0; t1 = s1; t2 = s2; t3 = s3;
+          }
           v = 1 + c * x;
         } while (v <= 0);
         v = v * v * v;
-        const u = uniform();
+        const r = rotl<u64>(t1 * 5, 7) * 9;
+        const q = t1 << 17;
+        t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+        const u = <f64>(r >> 11) * 1.1102230246251565e-16;
         const x2 = x * x;
         if (u < 1 - 0.0331 * x2 * x2) break;
         if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) break;
       }
       g = d * v;
-      if (a < 1) g = g * exp(log(uniform()) / a);
+      if (a < 1) {
+        const r = rotl<u64>(t1 * 5, 7) * 9;
+        const q = t1 << 17;
+        t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+        g = g * exp(log(<f64>(r >> 11) * 1.1102230246251565e-16) / a);
+      }
     }
     store<f64>(out + (<usize>j << 3), g);
     total += g;
   }
+  s0 = t0;
+  s1 = t1;
+  s2 = t2;
+  s3 = t3;
   return total;
 }
 
