@@ -14,6 +14,16 @@
  * order, and exp and log imported from the host's Math, so no libm of our own can round differently.
  * sqrt, +, −, ×, ÷ are correctly rounded IEEE 754 operations in both.
  *
+ * Where the time goes, and what was done about it (2026-12-03; DEVELOPERS.md, Benchmarks, for the
+ * figures): a draw's cells are made ready once (`prepare`: the shape and Marsaglia–Tsang's d and c),
+ * the gamma loop of a row is one function with the stream in locals and the ziggurat's common path
+ * inline, the strip taken from the uniform's integer bits. What is left, by perf: on dense rows of
+ * shapes near 5, the uniform → strip → acceptance chain itself, and the host's log for the ~5% of
+ * variates the squeeze does not accept; on small shapes, the host's exp and log of the boost — about
+ * half of such a variate's time. AssemblyScript's own exp/log (NativeMath) measured 1.7–1.9× on small
+ * shapes and 1.1–1.4× on dense rows, but rounds differently from V8's, so every seeded forecast with
+ * variation would move (not done: see DEVELOPERS.md).
+ *
  * Memory is laid out by the host (src/uncertainty/year-kernel.ts); this module only computes.
  */
 
