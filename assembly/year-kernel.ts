@@ -14,6 +14,16 @@
  * order, and exp and log imported from the host's Math, so no libm of our own can round differently.
  * sqrt, +, −, ×, ÷ are correctly rounded IEEE 754 operations in both.
  *
+ * Where the time goes, and what was done about it (2026-12-03; DEVELOPERS.md, Benchmarks, for the
+ * figures): a draw's cells are made ready once (`prepare`: the shape and Marsaglia–Tsang's d and c),
+ * the gamma loop of a row is one function with the stream in locals and the ziggurat's common path
+ * inline, the strip taken from the uniform's integer bits. What is left, by perf: on dense rows of
+ * shapes near 5, the uniform → strip → acceptance chain itself, and the host's log for the ~5% of
+ * variates the squeeze does not accept; on small shapes, the host's exp and log of the boost — about
+ * half of such a variate's time. AssemblyScript's own exp/log (NativeMath) measured 1.7–1.9× on small
+ * shapes and 1.1–1.4× on dense rows, but rounds differently from V8's, so every seeded forecast with
+ * variation would move (not done: see DEVELOPERS.md).
+ *
  * Memory is laid out by the host (src/uncertainty/year-kernel.ts); this module only computes.
  */
 
@@ -44,9 +54,9 @@ export function setTables(x: usize, f: usize, ratio: usize, r: f64): void {
   tailStart = r;
 }
 
+/** The next 64-bit output of the stream held in the globals: xoshiro256**, result = rotl(s1 · 5, 7) · 9, then the linear step. */
 // @ts-ignore: decorator
-@inline function uniform(): f64 {
-  // xoshiro256**: result = rotl(s1 · 5, 7) · 9; then the state's linear step. Top 53 bits · 2⁻⁵³.
+@inline function next(): u64 {
   const result = rotl<u64>(s1 * 5, 7) * 9;
   const t = s1 << 17;
   s2 ^= s0;
@@ -55,86 +65,186 @@ export function setTables(x: usize, f: usize, ratio: usize, r: f64): void {
   s0 ^= s3;
   s2 ^= t;
   s3 = rotl<u64>(s3, 45);
-  return <f64>(result >> 11) * 1.1102230246251565e-16;
+  return result;
 }
 
-/** A standard normal by the ziggurat, as normal.ts: strip, sign and position from one uniform. */
+/** A uniform on [0, 1): the top 53 bits · 2⁻⁵³ (xoshiro.ts). */
+// @ts-ignore: decorator
+@inline function uniform(): f64 {
+  return <f64>(next() >> 11) * 1.1102230246251565e-16;
+}
+
+/**
+ * A standard normal by the ziggurat, as normal.ts: strip, sign and position from one uniform
+ * U = m·2⁻⁵³ (m the top 53 bits). normal.ts takes V = 512·U, strip-and-sign b = ⌊V⌋ and position
+ * V − b; both are exact in doubles and equal m >> 44 and (m mod 2⁴⁴)·2⁻⁴⁴, which is how they are
+ * taken here: a float-to-integer conversion in WebAssembly traps when out of range, and the check
+ * V8 makes for it (round, convert, convert back, compare) was a third of a normal's time (perf).
+ */
 function normal(): f64 {
   while (true) {
-    const v = uniform() * 512;
-    const b = <i32>v;
-    const i = b >> 1;
-    const u = v - <f64>b;
-    const z = u * load<f64>(xTable + (<usize>i << 3));
-    // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
-    // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
-    const sign = <u64>(b & 1) << 63;
-    if (u < load<f64>(ratioTable + (<usize>i << 3))) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
-    if (i == 0) {
-      // The tail beyond R (Marsaglia 1964).
-      let a: f64;
-      let e: f64;
-      do {
-        a = -log(1 - uniform()) / tailStart;
-        e = -log(1 - uniform());
-      } while (e + e < a * a);
-      return reinterpret<f64>(reinterpret<u64>(tailStart + a) ^ sign);
-    }
-    const fi = load<f64>(fTable + (<usize>i << 3));
-    const fNext = load<f64>(fTable + (<usize>(i + 1) << 3));
-    if (fi + uniform() * (fNext - fi) < exp(-0.5 * z * z)) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
+    const m = next() >> 11;
+    const x = strip(m);
+    if (x == x) return x;
+    const y = wedgeOrTail(m);
+    if (y == y) return y;
   }
 }
 
-/** Gamma(shape ≥ 1) by Marsaglia & Tsang (2000), as gamma.ts. */
-function atLeastOne(shape: f64): f64 {
-  const d = shape - 1.0 / 3.0;
-  const c = 1 / Math.sqrt(9 * d);
-  while (true) {
-    let x: f64;
-    let v: f64;
+/** The strip's point when it lies under the strip above (about 99% of draws), else NaN. */
+// @ts-ignore: decorator
+@inline function strip(m: u64): f64 {
+  const b = <i32>(m >> 44);
+  const i = b >> 1;
+  const u = <f64>(m & 0xFFFFFFFFFFF) * 5.684341886080802e-14; // 2⁻⁴⁴
+  const z = u * load<f64>(xTable + (<usize>i << 3));
+  // The sign by flipping the sign bit (exactly −z): a branch on the random sign bit is mispredicted
+  // half the time (a normal took 11.2 ns so, and with a wasm select 11.1; now 5.7: DEVELOPERS.md).
+  const sign = <u64>(b & 1) << 63;
+  return u < load<f64>(ratioTable + (<usize>i << 3)) ? reinterpret<f64>(reinterpret<u64>(z) ^ sign) : NaN;
+}
+
+/** The rest of the ziggurat for a point outside the strip above (normal.ts): the tail or the wedge; NaN when rejected. */
+function wedgeOrTail(m: u64): f64 {
+  const b = <i32>(m >> 44);
+  const i = b >> 1;
+  const u = <f64>(m & 0xFFFFFFFFFFF) * 5.684341886080802e-14;
+  const sign = <u64>(b & 1) << 63;
+  if (i == 0) {
+    // The tail beyond R (Marsaglia 1964).
+    let a: f64;
+    let e: f64;
     do {
-      x = normal();
-      v = 1 + c * x;
-    } while (v <= 0);
-    v = v * v * v;
-    const u = uniform();
-    const x2 = x * x;
-    if (u < 1 - 0.0331 * x2 * x2) return d * v;
-    if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) return d * v;
+      a = -log(1 - uniform()) / tailStart;
+      e = -log(1 - uniform());
+    } while (e + e < a * a);
+    return reinterpret<f64>(reinterpret<u64>(tailStart + a) ^ sign);
   }
+  const z = u * load<f64>(xTable + (<usize>i << 3));
+  const fi = load<f64>(fTable + (<usize>i << 3));
+  const fNext = load<f64>(fTable + (<usize>(i + 1) << 3));
+  if (fi + uniform() * (fNext - fi) < exp(-0.5 * z * z)) return reinterpret<f64>(reinterpret<u64>(z) ^ sign);
+  return NaN;
 }
 
 // @ts-ignore: decorator
-@inline function gamma(shape: f64): f64 {
-  if (shape >= 1) return atLeastOne(shape);
-  const g = atLeastOne(shape + 1);
-  return g * exp(log(uniform()) / shape);
+@inline function dOf(shape: f64): f64 {
+  return (shape >= 1 ? shape : shape + 1) - 1.0 / 3.0;
+}
+
+// @ts-ignore: decorator
+@inline function cOf(d: f64): f64 {
+  return 1 / Math.sqrt(9 * d);
+}
+
+/**
+ * n Gamma variates into `out`, cell m's shape a and its d = a' − 1/3 and c = 1/√(9d) (a' = a, or
+ * a + 1 when a < 1) at `cells + m·stride` (`prepare`), a ≤ 0 giving 0; returns their sum. As gamma.ts:
+ * Marsaglia & Tsang (2000) at a', boosted by exp(ln U / a) when a < 1 — the same operations on the
+ * same uniforms. d and c are worked out once per cell and draw, not per variate.
+ */
+function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
+  // The stream in locals on the common path (V8 keeps a module's globals in memory: each uniform
+  // loaded and stored all four words), written back to the globals around the rare out-of-line
+  // steps (wedge, tail, a rejected wedge's fresh normal), which draw from the globals.
+  let t0 = s0;
+  let t1 = s1;
+  let t2 = s2;
+  let t3 = s3;
+  let total: f64 = 0;
+  for (let j = 0; j < n; j++) {
+    const cell = cells + <usize>j * stride;
+    const a = load<f64>(cell);
+    let g: f64 = 0;
+    if (a > 0) {
+      const d = load<f64>(cell, 8);
+      const c = load<f64>(cell, 16);
+      let v: f64;
+      while (true) {
+        let x: f64;
+        do {
+          // next(), on the locals.
+          const r = rotl<u64>(t1 * 5, 7) * 9;
+          const q = t1 << 17;
+          t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+          const m = r >> 11;
+          x = strip(m);
+          if (x != x) {
+            s0 = t0; s1 = t1; s2 = t2; s3 = t3;
+            x = wedgeOrTail(m);
+            if (x != x) x = normal();
+            t0 = s0; t1 = s1; t2 = s2; t3 = s3;
+          }
+          v = 1 + c * x;
+        } while (v <= 0);
+        v = v * v * v;
+        const r = rotl<u64>(t1 * 5, 7) * 9;
+        const q = t1 << 17;
+        t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+        const u = <f64>(r >> 11) * 1.1102230246251565e-16;
+        const x2 = x * x;
+        if (u < 1 - 0.0331 * x2 * x2) break;
+        if (log(u) < 0.5 * x2 + d * (1 - v + log(v))) break;
+      }
+      g = d * v;
+      if (a < 1) {
+        const r = rotl<u64>(t1 * 5, 7) * 9;
+        const q = t1 << 17;
+        t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
+        g = g * exp(log(<f64>(r >> 11) * 1.1102230246251565e-16) / a);
+      }
+    }
+    store<f64>(out + (<usize>j << 3), g);
+    total += g;
+  }
+  s0 = t0;
+  s1 = t1;
+  s2 = t2;
+  s3 = t3;
+  return total;
 }
 
 /** Redraws of a row whose every variate underflowed (dirichlet.ts MAX_REDRAWS). */
 const MAX_REDRAWS = 16;
 
 /**
+ * A drawn matrix's cells made ready for its year matrices: for row i with κᵢ < ∞ and each cell,
+ * at `cells + 24·(i·k + j)`, the shape a = κᵢ·Pᵢⱼ (as year-matrix.ts: the Dirichlet's αⱼ) and its d and c.
+ */
+export function prepare(p: usize, kappa: usize, k: i32, cells: usize): void {
+  for (let i = 0; i < k; i++) {
+    const kap = load<f64>(kappa + (<usize>i << 3));
+    if (kap == Infinity) continue;
+    for (let j = 0; j < k; j++) {
+      const at = i * k + j;
+      const a = kap * load<f64>(p + (<usize>at << 3));
+      const d = dOf(a);
+      const cell = cells + <usize>at * 24;
+      store<f64>(cell, a);
+      store<f64>(cell, d, 8);
+      store<f64>(cell, cOf(d), 16);
+    }
+  }
+}
+
+/**
  * One year's matrix around a drawn one, as year-matrix.ts describes: row i ~ Dirichlet(κᵢ·Pᵢ) into
  * `out` (k × k), rows with κᵢ = ∞ copied, zero cells left zero; from the stream whose 256-bit state
- * is at `state` (advanced in place). `alpha` is k numbers of scratch.
+ * is at `state` (advanced in place), with the cells `prepare` made.
  */
-export function yearMatrix(state: usize, p: usize, kappa: usize, k: i32, out: usize, alpha: usize): void {
+export function yearMatrix(state: usize, p: usize, kappa: usize, cells: usize, k: i32, out: usize): void {
   s0 = load<u64>(state);
   s1 = load<u64>(state, 8);
   s2 = load<u64>(state, 16);
   s3 = load<u64>(state, 24);
   for (let i = 0; i < k; i++) {
     const kap = load<f64>(kappa + (<usize>i << 3));
-    const row = p + (<usize>(i * k) << 3);
     const to = out + (<usize>(i * k) << 3);
     if (kap == Infinity) {
-      memory.copy(to, row, <usize>k << 3);
+      memory.copy(to, p + (<usize>(i * k) << 3), <usize>k << 3);
       continue;
     }
-    for (let j = 0; j < k; j++) store<f64>(alpha + (<usize>j << 3), kap * load<f64>(row + (<usize>j << 3)));
-    dirichlet(alpha, k, to);
+    dirichlet(cells + <usize>(i * k) * 24, k, to);
   }
   store<u64>(state, s0);
   store<u64>(state, s1, 8);
@@ -148,23 +258,23 @@ export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
   s1 = load<u64>(state, 8);
   s2 = load<u64>(state, 16);
   s3 = load<u64>(state, 24);
-  for (let m = 0; m < n; m++) store<f64>(out + (<usize>m << 3), gamma(shape));
+  // One cell, read n times (stride 0), after the gammas' scratch.
+  const cell = out + (<usize>n << 3);
+  const d = dOf(shape);
+  store<f64>(cell, shape);
+  store<f64>(cell, d, 8);
+  store<f64>(cell, cOf(d), 16);
+  gammaRow(cell, 0, n, out);
   store<u64>(state, s0);
   store<u64>(state, s1, 8);
   store<u64>(state, s2, 16);
   store<u64>(state, s3, 24);
 }
 
-/** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts. */
-function dirichlet(alpha: usize, n: i32, out: usize): void {
+/** Dirichlet(α) by normalised gamma variates, redrawn when all underflow, as dirichlet.ts; α and its d, c are `prepare`'s cells. */
+function dirichlet(cells: usize, n: i32, out: usize): void {
   for (let attempt = 0; attempt < MAX_REDRAWS; attempt++) {
-    let total: f64 = 0;
-    for (let j = 0; j < n; j++) {
-      const a = load<f64>(alpha + (<usize>j << 3));
-      const g = a > 0 ? gamma(a) : 0;
-      store<f64>(out + (<usize>j << 3), g);
-      total += g;
-    }
+    const total = gammaRow(cells, 24, n, out);
     if (total > 0 && isFinite(total)) {
       for (let j = 0; j < n; j++) {
         const at = out + (<usize>j << 3);
@@ -174,8 +284,6 @@ function dirichlet(alpha: usize, n: i32, out: usize): void {
     }
   }
   let best = 0;
-  for (let j = 1; j < n; j++) if (load<f64>(alpha + (<usize>j << 3)) > load<f64>(alpha + (<usize>best << 3))) best = j;
+  for (let j = 1; j < n; j++) if (load<f64>(cells + <usize>j * 24) > load<f64>(cells + <usize>best * 24)) best = j;
   for (let j = 0; j < n; j++) store<f64>(out + (<usize>j << 3), j == best ? 1.0 : 0.0);
 }
-
-

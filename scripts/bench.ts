@@ -7,6 +7,9 @@
  *    fresh year matrix per draw and year (row i ~ Dirichlet(50 · row i): 10⁹ gamma variates), beside
  *    the run without, best of 3 each, one core; and the demo forecast with variation estimated and
  *    with `--variation none` (wall, start-up included, best of 5).
+ * 1c. The year kernel alone (`npm run bench -- kernel`, only when named; scripts/bench/year-kernel.ts):
+ *    ns of CPU per gamma variate on a dense k = 10 matrix at κ = 50, a demo-like k = 5 matrix and
+ *    small shapes (κ = 5, the boost).
  * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by
  *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
  * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random
@@ -57,6 +60,7 @@ import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
 import { benchGaps } from './bench/gaps.js';
 import { benchObserver } from './bench/observer.js';
 import { benchRecordedScores } from './bench/recorded-scores.js';
+import { benchYearKernel } from './bench/year-kernel.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -99,6 +103,8 @@ if (want('engine')) {
   engine('5 years kept', [0, 5, 10, 20, 50, 100]);
   engine('every year kept', undefined);
 }
+
+if (only === 'kernel') benchYearKernel();
 
 if (only === 'variation') {
   const draws = randomDraws(D, K, 1);

@@ -43,9 +43,10 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const horizon = plan.horizon;
   const steps = horizon + 1;
   const { record, hits, multinomialOf, variation } = options;
-  const year = new Float64Array(k2);
   const built = new Int32Array(plan.plans.length);
   const kernel = variation ? yearKernel(k, steps) : undefined;
+  /** The year matrix, read where the kernel draws it. */
+  const year = kernel ? kernel.years : new Float64Array(0);
   const slotOf = new Int32Array(steps).fill(-1);
   record.forEach((t, r) => { slotOf[t] = r; });
   const R = record.length;
@@ -84,7 +85,7 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
     for (let t = 0; t < steps; t++) {
       if (t > 0) {
         next.fill(0);
-        if (kernel) kernel.sample(t, 0, year, 0);
+        if (kernel) kernel.sample(t, 0);
         for (let g = 0; g < G; g++) {
           const recipe = plan.trivial ? -1 : plan.planOf[t * G + g]!;
           if (variation && recipe >= 0 && built[recipe] !== t) { fillRecipe(plan, recipe, year, 0, ws); built[recipe] = t; }

@@ -106,8 +106,9 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
   const zoneStride = D * k2;
   const eventIn = plan?.eventIn;
-  const year = variation ? new Float64Array(Z * k2) : undefined;
   const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
+  /** Each zone's year matrix, read where the kernel draws it. */
+  const year = kernel?.years;
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
   const G = plan ? plan.subPopulations.length : 1;
@@ -151,7 +152,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
       } else {
         if (kernel) {
           // Each zone's year matrix around its own draw, from the same stream one zone after another.
-          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone, year!, zone * k2);
+          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone);
         }
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;

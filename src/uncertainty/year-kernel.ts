@@ -14,11 +14,17 @@ export interface YearKernel {
   startStream(n: number, keys: Uint32Array, at: number): void;
   /**
    * Hold a drawn matrix in slot z (0 … slots − 1): `P[pOffset …]` (k × k) with row concentrations
-   * `concentration[cOffset …]` (Infinity: the row does not vary). Copied in once per draw, not per year.
+   * `concentration[cOffset …]` (Infinity: the row does not vary). Copied in, and each cell's gamma
+   * constants worked out, once per draw, not per year.
    */
   setDraw(z: number, P: Float64Array, pOffset: number, concentration: Float64Array, cOffset: number): void;
-  /** One year's matrix around slot z's draw, from stream n, into `out[outOffset …]` (k × k). */
-  sample(n: number, z: number, out: Float64Array, outOffset: number): void;
+  /**
+   * The year matrices, slot z's at `years[z·k² …]` (k × k): a view of the kernel's own memory that
+   * `sample` writes into, read in place (no copy out), valid until the next `yearKernel`.
+   */
+  readonly years: Float64Array;
+  /** One year's matrix around slot z's draw, from stream n, into `years[z·k² …]`. */
+  sample(n: number, z: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
 }
@@ -27,7 +33,8 @@ interface Exports {
   readonly memory: WebAssembly.Memory;
   reserve(bytes: number): number;
   setTables(x: number, f: number, ratio: number, r: number): void;
-  yearMatrix(state: number, p: number, kappa: number, k: number, out: number, alpha: number): void;
+  prepare(p: number, kappa: number, k: number, cells: number): void;
+  yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
 }
 
@@ -68,8 +75,8 @@ function kernelInstance(): Instance {
 export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const inst = kernelInstance();
   const k2 = k * k;
-  // In 8-byte words: stream states (4 each), P and κ per slot, the year matrix, α scratch, the gammas' scratch.
-  const words = 4 * streams + slots * (k2 + k) + k2 + k + GAMMA_CHUNK;
+  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch and their one cell.
+  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3;
   if (inst.bytes < words * 8) {
     inst.bytes = Math.max(words * 8, 2 * inst.bytes);
     inst.at = inst.exports.reserve(inst.bytes);
@@ -80,9 +87,9 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const states = base;
   const pAt = states + 4 * streams;
   const kappaAt = pAt + slots * k2;
-  const outAt = kappaAt + slots * k;
-  const alphaAt = outAt + k2;
-  const gammaAt = alphaAt + k;
+  const cellsAt = kappaAt + slots * k;
+  const yearsAt = cellsAt + slots * 3 * k2;
+  const gammaAt = yearsAt + slots * k2;
   // The memory grows only in reserve, so these views stay attached until the next yearKernel.
   const f64 = new Float64Array(exports.memory.buffer);
   const u32 = new Uint32Array(exports.memory.buffer);
@@ -103,12 +110,13 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
       checkSlot(z);
       f64.set(P.subarray(pOffset, pOffset + k2), pAt + z * k2);
       f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
+      exports.prepare((pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, (cellsAt + 3 * z * k2) * 8);
     },
-    sample(n, z, out, outOffset) {
+    years: f64.subarray(yearsAt, yearsAt + slots * k2),
+    sample(n, z) {
       check(n);
       checkSlot(z);
-      exports.yearMatrix((states + 4 * n) * 8, (pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, outAt * 8, alphaAt * 8);
-      for (let c = 0; c < k2; c++) out[outOffset + c] = f64[outAt + c]!;
+      exports.yearMatrix((states + 4 * n) * 8, (pAt + z * k2) * 8, (kappaAt + z * k) * 8, (cellsAt + 3 * z * k2) * 8, k, (yearsAt + z * k2) * 8);
     },
     gammas(n, shape, out) {
       check(n);
