@@ -39,7 +39,9 @@ export interface ErrorSurveyEffort extends SurveyEffort {
  * The band's start is the true mix at the latest survey time from the current posterior (the same
  * draws in "now" and every cell): the cells measure what the surveys teach about the chain. Future
  * surveys would sharpen where the landscape truly stands now as well, so in that part the widths
- * are conservative (too wide, never too narrow), more so with a noisier E.
+ * lean wide (conservative), more so with a noisier E. The rerun's sites are not carried to the
+ * latest time (future-records.ts), and its P is drawn apart from this start, so a draw's P and
+ * start are independent here, in "now" and the cells alike.
  *
  * "Now" reruns the same sampler on the records as they stand, on replicate r's sampler stream;
  * every cell's replicate r uses the same streams for the sampler, the band's draws and its start

@@ -42,7 +42,7 @@ export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffor
   if ('sampler' in effort) {
     const { chains, warmUp, retained, thin } = effort.sampler;
     lines.push(style.dim(`With the error table: future surveys recorded through the drawn error matrices; the sampler rerun for "now" and every cell and replicate ` +
-      `(${chains} chains, ${warmUp} sweeps dropped, ${retained} kept, thin ${thin}); the start is today's true mix, so these widths are conservative.`));
+      `(${chains} chains, ${warmUp} sweeps dropped, ${retained} kept, thin ${thin}); the start is today's true mix in every cell, so these widths lean wide.`));
   }
   lines.push(style.dim('Preposterior analysis: future surveys simulated from the current posterior, then refitted. ' +
     'Only the part of the band due to the fitted matrix shrinks; events and plot-level chance do not.'));
