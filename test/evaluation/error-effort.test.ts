@@ -32,6 +32,17 @@ describe('sere effort with an error table: records extended by simulated surveys
     const latent = latentSampleOf(scenario.fit, randomStreams(7))!;
     const sweeps = new Float64Array(k);
     for (let r = 0; r < latent.retained; r++) for (let x = 0; x < k; x++) sweeps[x] += latent.errors!.latest[r * k + x]! / latent.retained;
+    // The first true states recovered from a sweep (row sums − column sums of its true transitions +
+    // its true latest counts) are counts of sites: never negative when every site is carried.
+    let lowest = Infinity;
+    for (let r = 0; r < latent.retained; r++) {
+      for (let x = 0; x < k; x++) {
+        let first = latent.errors!.latest[r * k + x]!;
+        for (let b = 0; b < k; b++) first += latent.latent[r * k * k + x * k + b]! - latent.latent[r * k * k + b * k + x]!;
+        lowest = Math.min(lowest, first);
+      }
+    }
+    expect(lowest).toBeGreaterThanOrEqual(0);
     const truths = new Float64Array(k);
     const random = randomStreams(8);
     for (let d = 0; d < 400; d++) {
@@ -117,6 +128,10 @@ describe('sere effort with an error table: records extended by simulated surveys
     // The heath fixture's sites are surveyed by assessed observers (own matrices) and others (the pooled matrix 0).
     expect(matrices.size).toBeGreaterThan(1);
     expect(matrices.has(0)).toBe(true);
+    // End to end with one matrix per observer: the sampler reruns on the extended records and every width is a share.
+    const effort = errorSurveyEffort(loadScenario(file), { sites: [132], seasons: [2] },
+      { replicates: 2, draws: 200, random: randomStreams(6), sampler: { chains: 2, warmUp: 30, retained: 40, thin: 1 } });
+    for (const w of [effort.current, effort.cells[0]!.widths]) w.forEach((x) => expect(x > 0 && x < 1).toBe(true));
   });
 });
 
