@@ -39,7 +39,8 @@ export interface ErrorSurveyEffort extends SurveyEffort {
  * The band's start is the true mix at the latest survey time from the current posterior (the same
  * draws in "now" and every cell): the cells measure what the surveys teach about the chain. Future
  * surveys would sharpen where the landscape truly stands now as well, so in that part the widths
- * lean wide (conservative), more so with a noisier E. The rerun's sites are not carried to the
+ * lean wide (conservative), more so with a noisier E: 1–3% wider than with the start known exactly
+ * on a small invented case (test/slow/error-effort-start.test.ts), the exact widths in between. The rerun's sites are not carried to the
  * latest time (future-records.ts), and its P is drawn apart from this start, so a draw's P and
  * start are independent here, in "now" and the cells alike.
  *
