@@ -50,14 +50,15 @@ export function errorTruth(fit: Fit, latent: LatentSample, random: RandomStream)
   const e = new Float64Array(m * kk);
   e.set(sweeps.emissions.subarray(r * kk, (r + 1) * kk), 0);
   if (m > 1) e.set(sweeps.observers!.emissions.subarray(r * (m - 1) * kk, (r + 1) * (m - 1) * kk), kk);
-  const first = new Float64Array(k);
+  // Dirichlet(½ + the first true states) for π, the first states recovered as above.
+  const piParams = new Float64Array(k);
   for (let x = 0; x < k; x++) {
     let out = 0;
     for (let b = 0; b < k; b++) out += latent.latent[r * kk + x * k + b]! - latent.latent[r * kk + b * k + x]!;
-    first[x] = ERROR_PRIOR + Math.max(0, out + sweeps.latest[r * k + x]!);
+    piParams[x] = ERROR_PRIOR + Math.max(0, out + sweeps.latest[r * k + x]!);
   }
   const pi = new Float64Array(k);
-  sampleDirichlet(random, first, 0, k, pi, 0);
+  sampleDirichlet(random, piParams, 0, k, pi, 0);
   const latestByPattern = new Float64Array(records.count * k);
   const done: CompletedRecords = { transitions: new Float64Array(kk), recorded: new Float64Array(m * kk), first: new Float64Array(k), latest: new Float64Array(k) };
   const scratch = pathScratch(k);
