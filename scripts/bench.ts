@@ -33,6 +33,8 @@
  *    EM, the forward-filtering backward-sampling sampler, draws; draws/s and ESS/s.
  * 14. Recorded-scale scores (`npm run bench -- recorded-scores`, only when named; scripts/bench/recorded-scores.ts):
  *    2,000 sites × 12 surveys × 5 states × 1,000 draws scored through an error matrix and from the last record.
+ * 15. Effort with an error table (`npm run bench -- effort-errors`, only when named; scripts/bench/effort-errors.ts):
+ *    the observer-error sampler rerun per replicate and cell on the heath fixture, CPU seconds each.
  * 7. Against numpy (`npm run bench -- numpy`): the forecast job — posterior draws, the mix every
  *    year, bands every year, stationary mixes, first year at a target — at 100,000 draws × 100
  *    years × 10 states, as whole processes: `sere forecast --json` on a generated scenario (one
@@ -61,6 +63,7 @@ import { benchGaps } from './bench/gaps.js';
 import { benchObserver } from './bench/observer.js';
 import { benchRecordedScores } from './bench/recorded-scores.js';
 import { benchYearKernel } from './bench/year-kernel.js';
+import { benchEffortErrors } from './bench/effort-errors.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
   const random = randomStreams(seed);
@@ -389,5 +392,7 @@ if (only === 'numpy') {
 
 if (want('gaps')) benchGaps();
 if (only === 'observer') benchObserver();
+// Only when named: sere effort with an error table, CPU per replicate and cell (scripts/bench/effort-errors.ts).
+if (only === 'effort-errors') benchEffortErrors();
 // Only when named: scoring sites on the recorded scale against scoring them from their last record (scripts/bench/recorded-scores.ts).
 if (only === 'recorded-scores') benchRecordedScores();

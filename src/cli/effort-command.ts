@@ -2,16 +2,16 @@ import type { Command } from 'commander';
 import { loadScenario } from '../scenario/load-scenario.js';
 import { surveyEffort } from '../evaluation/survey-effort.js';
 import { zoneSurveyEffort } from '../evaluation/zone-effort.js';
+import { EFFORT_SAMPLER, errorSurveyEffort } from '../evaluation/survey-effort-errors.js';
 import { effortTable } from '../report/effort-table.js';
 import { effortJson } from '../report/effort-json.js';
 import { makeStyle } from '../report/style.js';
 import { chooseSeed } from './seed.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
-import { drawsFlag, replicatesFlag, seedFlag, wholeNumberList } from './parse-options.js';
+import { drawsFlag, replicatesFlag, seedFlag, wholeNumber, wholeNumberList } from './parse-options.js';
 import { LIMITS } from '../limits.js';
 import { SereError } from '../errors.js';
-
 
 export function registerEffort(program: Command, io: Io): void {
   program.command('effort')
@@ -22,15 +22,18 @@ export function registerEffort(program: Command, io: Io): void {
     .option('--replicates <n>', 'simulated futures per cell', replicatesFlag, 20)
     .option('--draws <n>', 'posterior draws per band', drawsFlag, 500)
     .option('--seed <n>', 'random seed (printed when not given)', seedFlag)
+    .option('--chains <n>', 'with fit.errors: chains of the sampler rerun for "now" and every cell and replicate', wholeNumber(64), EFFORT_SAMPLER.chains)
+    .option('--warm-up <n>', 'with fit.errors: sweeps dropped per chain of each rerun', wholeNumber(LIMITS.draws), EFFORT_SAMPLER.warmUp)
+    .option('--retained <n>', 'with fit.errors: sweeps kept in all by each rerun (shared between chains)', wholeNumber(LIMITS.draws), EFFORT_SAMPLER.retained)
+    .option('--thin <n>', 'with fit.errors: keep every n-th sweep after the warm-up', wholeNumber(1000), EFFORT_SAMPLER.thin)
     .option('--json', 'print the documented JSON on stdout instead of tables')
-    .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean }) => {
+    .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean; chains: number; warmUp: number; retained: number; thin: number }) => {
       const scenario = loadScenario(file);
-      if (scenario.fit.errorModel) {
-        // The preposterior adds simulated surveys to the counts and redraws the posterior; with an
-        // error table the posterior comes from the sampler's true paths, which added counts do not
-        // reach — every cell would equal "now". Rerunning the sampler per cell and replicate is not built.
-        throw new SereError('BAD_OPTION', 'sere effort adds simulated surveys to recorded counts, and this chain is fitted through an error table',
-          { file, path: 'fit.errors' }, 'run sere effort on a copy of the scenario without fit.errors (its widths then take the records as the truth)');
+      const model = scenario.fit.errorModel;
+      if (model && !model.records) {
+        // The error model's posterior is rerun on the extended site records, which a fit file does not keep.
+        throw new SereError('BAD_OPTION', 'sere effort with an error table reruns the sampler on the site records, and a fit file does not keep them',
+          { file, path: 'data' }, 'name the survey table as data, with fit.errors, instead of the fit file');
       }
       const n = scenario.fit.latest.sites;
       const sites = opts.sites ?? [n, 2 * n, 4 * n];
@@ -38,7 +41,10 @@ export function registerEffort(program: Command, io: Io): void {
       const grid = { sites, seasons: opts.seasons };
       const options = { replicates: opts.replicates, draws: opts.draws, random: randomStreams(seed) };
       // A stratified scenario plans surveys by zone: sites split by area, each zone refitted (zone-effort.ts).
-      const effort = scenario.zones ? zoneSurveyEffort(scenario, grid, options) : surveyEffort(scenario, grid, options);
+      // With an error table the fit's own sampler is rerun on the extended records (survey-effort-errors.ts).
+      const sampler = { chains: opts.chains, warmUp: opts.warmUp, retained: opts.retained, thin: opts.thin };
+      const effort = model ? errorSurveyEffort(scenario, grid, { ...options, sampler })
+        : scenario.zones ? zoneSurveyEffort(scenario, grid, options) : surveyEffort(scenario, grid, options);
       io.stdout(opts.json ? effortJson(scenario, effort, seed) : effortTable(scenario, effort, makeStyle(io.color)));
     });
 }

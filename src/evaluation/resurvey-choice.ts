@@ -1,6 +1,7 @@
 import { largestRemainderOfCounts } from '../scenario/largest-remainder.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
+import type { RecordPatterns } from '../chain/record-patterns.js';
 
 /**
  * The states of the `sites` plots a simulated future survey visits, given the latest survey's
@@ -42,4 +43,36 @@ function randomOrder(k: number, random: RandomStream): number[] {
     [order[i], order[j]] = [order[j]!, order[i]!];
   }
   return order;
+}
+
+/**
+ * With observer error the sites have records of their own, so the sites to resurvey are picked as
+ * sites, not as states: the same stratified sample as resurveyedStates, on the states *recorded* at
+ * the latest survey (what the surveyor can see; the true ones are not known), then within each
+ * recorded state that many of its sites at random without replacement (a partial Fisher–Yates
+ * shuffle). `patterns`: the record pattern of each site picked (record-patterns.ts; several sites
+ * of one pattern may be picked); `newPlots`: the sites beyond the latest survey's, new plots.
+ */
+export function resurveyedSites(records: RecordPatterns, k: number, sites: number, random: RandomStream): { patterns: number[]; newPlots: number } {
+  const byState: number[][] = Array.from({ length: k }, () => []);
+  for (let q = 0; q < records.count; q++) {
+    if (records.extend[q] !== 0) continue;
+    const last = records.state[records.start[q + 1]! - 1]!;
+    for (let n = 0; n < records.sites[q]!; n++) byState[last]!.push(q);
+  }
+  const total = byState.reduce((a, s) => a + s.length, 0);
+  const picked = Math.min(sites, total);
+  const patterns: number[] = [];
+  if (picked > 0) {
+    const perState = largestRemainderOfCounts(byState.map((s) => s.length), picked, randomOrder(k, random));
+    perState.forEach((n, s) => {
+      const pool = byState[s]!;
+      for (let i = 0; i < n; i++) {
+        const j = i + random.integer(pool.length - i);
+        [pool[i], pool[j]] = [pool[j]!, pool[i]!];
+        patterns.push(pool[i]!);
+      }
+    });
+  }
+  return { patterns, newPlots: sites - picked };
 }

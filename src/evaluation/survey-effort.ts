@@ -37,6 +37,9 @@ export interface SurveyEffort {
  * every cell (common random numbers; Law & Kelton, ch. 11). So a cell differs from "now" only by
  * the surveys added: with no sites it equals "now" exactly, and Monte Carlo noise in the band
  * cannot make a future look wider than today.
+ *
+ * A chain fitted through an error table is not handled here: its posterior comes from the
+ * observer-error sampler, which added counts do not reach (survey-effort-errors.ts reruns it).
  */
 export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[]; seasons: readonly number[] },
   options: { replicates: number; draws: number; random: RandomStream }): SurveyEffort {

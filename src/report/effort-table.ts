@@ -1,11 +1,12 @@
 import type { ChalkInstance } from 'chalk';
 import type { SurveyEffort } from '../evaluation/survey-effort.js';
 import type { ZoneEffort } from '../evaluation/zone-effort.js';
+import type { ErrorSurveyEffort } from '../evaluation/survey-effort-errors.js';
 import type { Scenario } from '../scenario/scenario.js';
 import { makeTable } from './style.js';
 
 /** Band widths at the horizon on a grid of future survey effort. */
-export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffort, style: ChalkInstance): string {
+export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffort | ErrorSurveyEffort, style: ChalkInstance): string {
   const states = scenario.fit.states;
   const shown = scenario.target ? scenario.target.states : states.map((_, s) => s);
   const year = scenario.start.year + scenario.horizonSteps * scenario.fit.step;
@@ -37,6 +38,11 @@ export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffor
         lines.push(t.toString());
       }
     });
+  }
+  if ('sampler' in effort) {
+    const { chains, warmUp, retained, thin } = effort.sampler;
+    lines.push(style.dim(`With the error table: future surveys recorded through the drawn error matrices; the sampler rerun for "now" and every cell and replicate ` +
+      `(${chains} chains, ${warmUp} sweeps dropped, ${retained} kept, thin ${thin}); the start is today's true mix in every cell, so these widths lean wide.`));
   }
   lines.push(style.dim('Preposterior analysis: future surveys simulated from the current posterior, then refitted. ' +
     'Only the part of the band due to the fitted matrix shrinks; events and plot-level chance do not.'));

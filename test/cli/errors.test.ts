@@ -204,15 +204,55 @@ describe('sere hindcast with an error table it cannot read', () => {
 });
 
 describe('sere effort and sere check with an error table', () => {
-  it('effort is refused in one line naming fit.errors (added surveys would not reach the sampler\'s true paths)', async () => {
+  const effortScenario = (name: string, extra: string[] = []): string => {
     write('accuracy.csv', readFileSync(ACCURACY, 'utf8'));
-    const scenario = write('effort.yaml', ['name: effort', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }',
-      'horizon: { years: 5 }', 'variation: none', 'uncertainty: { source: posterior, draws: 100, seed: 3 }'].join('\n') + '\n');
-    const r = await sereInProcess(['effort', scenario, '--debug']);
+    return write(name, ['name: effort', `data: ${join(process.cwd(), SURVEYS)}`, 'fit: { errors: accuracy.csv }',
+      'horizon: { years: 5 }', 'variation: none', 'uncertainty: { source: posterior, draws: 100, seed: 3 }', ...extra].join('\n') + '\n');
+  };
+
+  it('effort reruns the error-model sampler per cell and replicate, with its own settings, reported', async () => {
+    const args = ['effort', effortScenario('effort.yaml'), '--sites', '30,120', '--seasons', '2', '--replicates', '2', '--draws', '100', '--seed', '5'];
+    const r = await sereInProcess([...args, '--chains', '2', '--warm-up', '30', '--retained', '40', '--thin', '1', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const json = JSON.parse(r.stdout);
+    expect(json.sampler).toEqual({ chains: 2, warm_up: 30, retained: 40, thin: 1 });
+    expect(json.cells.map((c: { sites: number; seasons: number }) => [c.sites, c.seasons])).toEqual([[30, 2], [120, 2]]);
+    for (const w of [json.current, ...json.cells.map((c: { widths: unknown }) => c.widths)]) {
+      for (const x of Object.values(w as Record<string, number>)) expect(x > 0 && x < 1).toBe(true);
+    }
+    // The same seed and settings give the same bytes.
+    expect((await sereInProcess([...args, '--chains', '2', '--warm-up', '30', '--retained', '40', '--thin', '1', '--json'])).stdout).toBe(r.stdout);
+    const table = await sereInProcess([...args, '--chains', '2', '--warm-up', '30', '--retained', '40', '--thin', '1']);
+    expect(table.stdout).toContain('2 chains, 30 sweeps dropped, 40 kept, thin 1');
+  }, 120_000);
+
+  it('effort on a fit file with an error table is refused in one line naming data (the file keeps no site records)', async () => {
+    const fitFile = join(dir, 'heath-fit.json');
+    expect((await sereInProcess(['fit', SURVEYS, '--errors', ACCURACY, '--out', fitFile, ...SAMPLER])).code).toBe(0);
+    const scenario = write('from-fit.yaml', ['name: from-fit', `data: ${fitFile}`, 'horizon: { years: 5 }', 'variation: none'].join('\n') + '\n');
+    const r = await sereInProcess(['effort', scenario, '--replicates', '2', '--draws', '50', '--seed', '1', '--debug']);
     expect(r.code).toBe(1);
     expect(r.stderr).toContain('[BAD_OPTION]');
-    expect(r.stderr).toContain('fit.errors');
+    expect(r.stderr).toContain(`${scenario} (data)`);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stdout).toBe('');
+  }, 120_000);
+
+  it('effort with zones pooled partially and an error table stays refused where the fit is made (BAD_ZONES at fit.pooling)', async () => {
+    write('grouped-accuracy.csv', 'recorded,verified,n\na,a,20\nb,b,20\n');
+    const scenario = write('zoned.yaml', ['name: zoned', `data: ${join(process.cwd(), 'test/fixtures/grouped.csv')}`,
+      'fit: { columns: { group: soil }, pooling: partial, errors: grouped-accuracy.csv }', 'horizon: { steps: 2 }'].join('\n') + '\n');
+    const r = await sereInProcess(['effort', scenario, '--debug']);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toContain('[BAD_ZONES]');
+    expect(r.stderr).toContain('fit.pooling');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+
+  it('effort\'s sampler flags take whole numbers (a usage error, exit 2)', async () => {
+    for (const flag of ['--chains', '--warm-up', '--retained', '--thin']) {
+      expect((await sereInProcess(['effort', effortScenario('flags.yaml'), flag, '0'])).code).toBe(2);
+    }
   });
 
   it('check says its tests read the records and its chain properties are of the true chain', async () => {
