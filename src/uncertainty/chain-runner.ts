@@ -105,13 +105,16 @@ export function runChain(task: ChainTask, c: number): void {
 }
 
 /**
- * Least sampler work (SWEEP_WORK units: sweeps × latent steps × k², see workOf) worth starting
- * worker threads for when no thread count is asked. Measured (`npm run bench -- sampler-threads`,
- * scripts/bench/sampler-threads.ts): a sampler worker costs about WORKER_START_MS to start and receive
- * its job, and a unit of work takes about 1 ns on one core, so a second thread (half of the work)
- * pays from about 2 × that start cost.
+ * Least sampler work (units of workOf) worth starting worker threads for when no thread count is
+ * asked. Measured with `npm run bench -- sampler-threads` (scripts/bench/sampler-threads.ts) on the
+ * 2-core machine at load ~14: a sampler worker cost ~280 ms to start and take its first job (the
+ * engine's note says 30–50 ms unloaded), and a unit took 21 ns on one thread on the heath fixture's
+ * observer-error fit (108 ns on the demo's gap fit, where the per-sweep overheads dominate). A
+ * second thread saves about half the work, so it pays from about 2 × 280 ms / 21 ns ≈ 3·10⁷ units.
+ * The demo's gap sampler is 2·10⁶ (stays in-process); the heath fixture's 1.5·10⁸ and the
+ * `observer` bench's ~2·10¹⁰ (10,000 sites × 12 steps × 8² × 3,000 sweeps) use every core.
  */
-export const MIN_THREADED_SAMPLER_WORK = 2e8;
+export const MIN_THREADED_SAMPLER_WORK = 3e7;
 
 /** The work of a job in multiply-adds, roughly: per sweep, every latent step costs k² (a bridge step, a forward-filter step). */
 export function workOf(job: SamplerJob, settings: AugmentSettings): number {
