@@ -50,3 +50,17 @@ describe('the samplers\' chains on worker threads (chain-runner.ts)', () => {
     expect(samplerThreads(3, job, { chains: 1, warmUp: 10, retained: 40, thin: 1 })).toBe(1);
   });
 });
+
+describe('sere fit --threads', () => {
+  it('prints the same fit JSON on 1 and 2 threads, and refuses 0 threads as a usage error (exit 2, as every bad flag value)', async () => {
+    const { sereInProcess } = await import('../cli/in-process.js');
+    const args = ['fit', 'test/fixtures/heath/surveys-two-observers.csv', '--errors', 'test/fixtures/heath/accuracy-by-observer.csv',
+      '--states', STATES.join(','), '--impossible', 'mature-heath>bare-peat', '--json', '--seed', '4', '--chains', '2', '--warm-up', '10', '--retained', '20', '--thin', '1'];
+    const one = await sereInProcess([...args, '--threads', '1']);
+    const two = await sereInProcess([...args, '--threads', '2']);
+    expect(one.code).toBe(0);
+    expect(two.code).toBe(0);
+    expect(two.stdout).toBe(one.stdout);
+    expect((await sereInProcess([...args, '--threads', '0'])).code).toBe(2);
+  });
+});
