@@ -31,6 +31,8 @@
  *    count, EM, the data-augmentation sampler (1,000 retained sweeps) and 1,000 matrix draws.
  * 13. Observer error (`npm run bench -- observer`, only when named; scripts/bench/observer.ts): the same size seen through an error matrix — fit,
  *    EM, the forward-filtering backward-sampling sampler, draws; draws/s and ESS/s.
+ * 13b. Sampler threads (`npm run bench -- sampler-threads`, only when named; scripts/bench/sampler-threads.ts):
+ *    the start-up cost of a sampler worker and the time per unit of sampler work, behind MIN_THREADED_SAMPLER_WORK.
  * 14. Recorded-scale scores (`npm run bench -- recorded-scores`, only when named; scripts/bench/recorded-scores.ts):
  *    2,000 sites × 12 surveys × 5 states × 1,000 draws scored through an error matrix and from the last record.
  * 15. Effort with an error table (`npm run bench -- effort-errors`, only when named; scripts/bench/effort-errors.ts):
@@ -61,6 +63,7 @@ import { benchRaster } from './bench/raster.js';
 import { benchCountCsv, benchCountParquet } from './bench/count-bench.js';
 import { benchGaps } from './bench/gaps.js';
 import { benchObserver } from './bench/observer.js';
+import { benchSamplerThreads } from './bench/sampler-threads.js';
 import { benchRecordedScores } from './bench/recorded-scores.js';
 import { benchYearKernel } from './bench/year-kernel.js';
 import { benchEffortErrors } from './bench/effort-errors.js';
@@ -394,5 +397,7 @@ if (want('gaps')) benchGaps();
 if (only === 'observer') benchObserver();
 // Only when named: sere effort with an error table, CPU per replicate and cell (scripts/bench/effort-errors.ts).
 if (only === 'effort-errors') benchEffortErrors();
+// Only when named: the sampler's worker start-up and time per unit of work (scripts/bench/sampler-threads.ts).
+if (only === 'sampler-threads') benchSamplerThreads();
 // Only when named: scoring sites on the recorded scale against scoring them from their last record (scripts/bench/recorded-scores.ts).
 if (only === 'recorded-scores') benchRecordedScores();

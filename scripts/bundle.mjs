@@ -22,10 +22,11 @@ function codeId() {
 rmSync('dist/cli', { recursive: true, force: true });
 
 await build({
-  // Worker threads are entries of their own (dist/cli/engine-worker.mjs, xlsx-worker.mjs, and the
-  // watcher that starts them, worker-watcher.mjs), found beside the bundle by src/worker-file.ts.
+  // Worker threads are entries of their own (dist/cli/engine-worker.mjs, xlsx-worker.mjs,
+  // sampler-worker.mjs, and the watcher that starts them, worker-watcher.mjs), found beside the
+  // bundle by src/worker-file.ts.
   entryPoints: { sere: 'src/bin/sere.ts', 'engine-worker': 'src/engine/engine-worker.ts', 'xlsx-worker': 'src/data/xlsx-worker.ts',
-    'worker-watcher': 'src/worker-watcher.ts' },
+    'sampler-worker': 'src/uncertainty/sampler-worker.ts', 'worker-watcher': 'src/worker-watcher.ts' },
   outdir: 'dist/cli',
   outExtension: { '.js': '.mjs' },
   splitting: true,

@@ -6,6 +6,7 @@
  * sweeps. Reports retained draws per second and the smallest bulk ESS per second of sampler time.
  * One run (the sampler alone is many seconds); the target is under 20 s wall for all of it.
  */
+import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
@@ -62,7 +63,7 @@ export function benchGaps(): void {
   const pairs = fit.pairsByGap!.map((g) => `${g.pairs} at ${g.gap}`).join(', ');
   console.log(`gaps: ${SITES} sites × ${SURVEYS} surveys × ${K} states, ${MISSED * 100}% of visits missed: ${records.length} surveys; pairs by gap ${pairs}; ${fit.gapCounts!.length} gap cells`);
   console.log(`  count ${(countMs / 1000).toFixed(2)} s · EM ${(emMs / 1000).toFixed(2)} s (${mle.iterations} iterations) · ` +
-    `sampler ${(samplerMs / 1000).toFixed(2)} s (${DEFAULT_AUGMENT.chains} chains × ${DEFAULT_AUGMENT.warmUp} warm-up + ${sample.retained / DEFAULT_AUGMENT.chains} kept) · ` +
+    `sampler ${(samplerMs / 1000).toFixed(2)} s (${DEFAULT_AUGMENT.chains} chains on ${Math.min(DEFAULT_AUGMENT.chains, availableParallelism())} threads × ${DEFAULT_AUGMENT.warmUp} warm-up + ${sample.retained / DEFAULT_AUGMENT.chains} kept) · ` +
     `1,000 matrix draws ${(drawsMs / 1000).toFixed(3)} s · wall ${(wallMs / 1000).toFixed(2)} s (target: under 20 s)`);
   console.log(`  retained sweeps per second ${(sample.retained / (samplerMs / 1000)).toFixed(0)} (all sweeps ${((DEFAULT_AUGMENT.warmUp * DEFAULT_AUGMENT.chains + sample.retained) / (samplerMs / 1000)).toFixed(0)}/s) · ` +
     `smallest bulk ESS ${Math.min(...ess).toFixed(0)}, ESS per second ${(Math.min(...ess) / (samplerMs / 1000)).toFixed(0)} · largest R̂ ${Math.max(...rhat).toFixed(4)}`);

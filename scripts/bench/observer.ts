@@ -11,6 +11,7 @@
 import { writeFileSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import type { SurveyRecord } from '../../src/data/survey.js';
@@ -82,7 +83,7 @@ export function benchObserver(): void {
     console.log(`observer: ${SITES} sites × ${SURVEYS} surveys × ${K} states, ${MISSED * 100}% of visits missed, 8% recorded as a neighbouring state: ` +
       `${records.length} surveys; ${fit.errorModel!.records!.count} record patterns`);
     console.log(`  fit ${(fitMs / 1000).toFixed(2)} s · EM ${(emMs / 1000).toFixed(2)} s (${mle.iterations} iterations${mle.converged ? '' : ', not converged'}) · ` +
-      `sampler ${(samplerMs / 1000).toFixed(2)} s (${DEFAULT_AUGMENT.chains} chains × ${DEFAULT_AUGMENT.warmUp} warm-up + ${sample.retained / DEFAULT_AUGMENT.chains} kept every ${DEFAULT_AUGMENT.thin}) · ` +
+      `sampler ${(samplerMs / 1000).toFixed(2)} s (${DEFAULT_AUGMENT.chains} chains on ${Math.min(DEFAULT_AUGMENT.chains, availableParallelism())} threads × ${DEFAULT_AUGMENT.warmUp} warm-up + ${sample.retained / DEFAULT_AUGMENT.chains} kept every ${DEFAULT_AUGMENT.thin}) · ` +
       `1,000 matrix draws ${(drawsMs / 1000).toFixed(3)} s · wall ${(wallMs / 1000).toFixed(2)} s (target: under 20 s)`);
     console.log(`  retained sweeps per second ${(sample.retained / (samplerMs / 1000)).toFixed(1)} (all sweeps ${(sweeps / (samplerMs / 1000)).toFixed(1)}/s) · ` +
       `smallest bulk ESS ${Math.min(...ess).toFixed(0)}, ESS per second ${(Math.min(...ess) / (samplerMs / 1000)).toFixed(1)} · largest R̂ ${Math.max(...rhat).toFixed(4)}`);

@@ -3,7 +3,7 @@ import { needsSampler, type Fit } from '../fit/fit.js';
 import { augmentationWarnings, DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
-import { seedFlag, wholeNumber } from './parse-options.js';
+import { seedFlag, threadsFlag, wholeNumber } from './parse-options.js';
 import { flagSeed } from './seed.js';
 import { LIMITS } from '../limits.js';
 import { observerNotes } from '../report/error-table.js';
@@ -15,6 +15,7 @@ export interface SamplerFlags {
   warmUp: number;
   retained: number;
   thin: number;
+  threads?: number;
 }
 
 /** The flags of the data-augmentation sampler that `sere fit` runs when pairs are further apart than one step. */
@@ -24,7 +25,8 @@ export function withSamplerOptions(command: Command): Command {
     .option('--chains <n>', 'posterior sampler: independent chains (for R̂)', wholeNumber(64), DEFAULT_AUGMENT.chains)
     .option('--warm-up <n>', 'posterior sampler: sweeps dropped per chain', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.warmUp)
     .option('--retained <n>', 'posterior sampler: sweeps kept in all (shared between chains)', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.retained)
-    .option('--thin <n>', 'posterior sampler: keep every n-th sweep after the warm-up', wholeNumber(1000), DEFAULT_AUGMENT.thin);
+    .option('--thin <n>', 'posterior sampler: keep every n-th sweep after the warm-up', wholeNumber(1000), DEFAULT_AUGMENT.thin)
+    .option('--threads <n>', 'posterior sampler: threads its chains run on (default: every core for large fits, one for small ones); the results are the same for any number', threadsFlag);
 }
 
 /**
@@ -42,7 +44,7 @@ export function sampleFit(fit: Fit, flags: SamplerFlags, io: Io): Fit {
   const settings = { chains: flags.chains, warmUp: flags.warmUp, retained: flags.retained, thin: flags.thin };
   const random = randomStreams(seed).stream('augment');
   // Fit-time work an earlier run with the same fit, settings and seed may have kept (sample-cache.ts).
-  const latentSample = cachedSample({ sample: 'latent', fit, settings, seed, stream: random.name }, () => sampleLatent(fit, settings, random));
+  const latentSample = cachedSample({ sample: 'latent', fit, settings, seed, stream: random.name }, () => sampleLatent(fit, settings, random, flags.threads));
   for (const line of augmentationWarnings(latentSample, fit.states, fit.errorModel?.observers?.names)) io.stderr(`sere: warning: ${line}\n`);
   return { ...fit, latentSample };
 }
