@@ -6,6 +6,7 @@ import { isRasterStackFile } from '../data/raster/stack-file.js';
 import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { flagSeed } from './seed.js';
+import { sampleZonePooling } from './sample-zones.js';
 import { FIT_FLAG_KEYS, fitSettingsFrom, withFitOptions, type FitFlags } from './fit-options.js';
 import { countStack } from './count-blocks.js';
 import type { Io } from './io.js';
@@ -70,7 +71,8 @@ export function registerCheck(program: Command, io: Io): void {
       target = { state, steps: opts.horizon / fit.step };
     }
     const seed = flagSeed(opts.seed, io);
-    const result = checkChain(fit, {
+    // Partially pooled zones: their posterior sampler's diagnostics, as sere fit reports them (same seed, same numbers).
+    const result = checkChain(sampleZonePooling(fit, { seed }, io), {
       level: opts.level, draws: opts.draws, replicates: opts.replicates, simulateAll: Boolean(opts.simulate),
       periodGroups: opts.periods, target,
     }, randomStreams(seed));

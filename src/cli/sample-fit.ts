@@ -21,7 +21,7 @@ export interface SamplerFlags {
 /** The flags of the data-augmentation sampler that `sere fit` runs when pairs are further apart than one step. */
 export function withSamplerOptions(command: Command): Command {
   return command
-    .option('--seed <n>', 'seed of the posterior sampler, used only when pairs are further apart than one step or with --errors (printed when not given)', seedFlag)
+    .option('--seed <n>', 'seed of the posterior sampler, used only when pairs are further apart than one step, with --errors or with --pooling partial (printed when not given)', seedFlag)
     .option('--chains <n>', 'posterior sampler: independent chains (for R̂)', wholeNumber(64), DEFAULT_AUGMENT.chains)
     .option('--warm-up <n>', 'posterior sampler: sweeps dropped per chain', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.warmUp)
     .option('--retained <n>', 'posterior sampler: sweeps kept in all (shared between chains)', wholeNumber(LIMITS.draws), DEFAULT_AUGMENT.retained)

@@ -27,7 +27,7 @@ export function checkSpatial(f: FitFile, sites: SiteCountTable | number, fail: F
   const range = given?.range ?? undefined;
   const recorded: Omit<SpatialBlocks, 'blocks'> = {
     side: side!, chosenBy: given?.chosen_by ?? 'given',
-    ...(range ? { range: { range: range.range, reached: range.reached, spacing: range.spacing, sites: range.sites } } : {}),
+    ...(range ? { range: { range: range.range, reached: range.reached, spacing: range.spacing, sites: range.sites, ...(range.edge_lag != null ? { edgeLag: range.edge_lag } : {}) } } : {}),
   };
   if (given?.block_sites != null) {
     const blockSites = Float64Array.from(given.block_sites);

@@ -80,7 +80,7 @@ const fitBodySchema = z.object({
   spatial_blocks: z.object({
     side: z.number(),
     chosen_by: z.enum(['range', 'given']),
-    range: z.object({ range: z.number().positive(), reached: z.boolean(), spacing: z.number().positive(), sites: count }).nullable().optional(),
+    range: z.object({ range: z.number().positive(), reached: z.boolean(), spacing: z.number().positive(), sites: count, edge_lag: z.number().nonnegative().optional() }).nullable().optional(),
     block_sites: z.array(count.min(1)).nullable().optional(),
   }).loose().nullable().optional(),
   site_counts: z.array(z.object({

@@ -111,6 +111,30 @@ export function estimateRange(positions: Float64Array, state: ArrayLike<number>,
 }
 
 /**
+ * The mean edge distance m of a correlogram, in projected units: how far across a block edge the
+ * lost covariance reaches, Σ_k |k_x| ρ(k) / Σ_k ρ(k) over the lattice lags k (ρ(0) = 1). The block
+ * bootstrap's variance of a mean is biased low by −(1/ℓ) Σ_k |k| γ(k) per dimension for blocks of
+ * length ℓ (Künsch 1989; Lahiri 2003, ch. 3, the first-order bias of block variance estimators),
+ * so square blocks of side ℓ keep about (1 − m/ℓ)² of the variance (bootstrap.ts undoes that).
+ * For an isotropic ρ on a grid of spacing w, with about 2πc lags in the class at c·w:
+ * m = w · 4 Σ_c c² ρ_c / (1 + 2π Σ_c c ρ_c), summed over the classes up to the first with ρ ≤ 0
+ * (beyond it the correlogram is noise). A Gaussian correlation exp(−h²/4σ²) gives m ≈ 2σ/√π.
+ */
+export function edgeLag(estimate: Pick<RangeEstimate, 'lags' | 'correlation' | 'spacing'>): number {
+  let num = 0;
+  let den = 1;
+  for (let c = 0; c < estimate.lags.length; c++) {
+    const rho = estimate.correlation[c]!;
+    if (Number.isNaN(rho)) continue;
+    if (rho <= 0) break;
+    const lag = estimate.lags[c]! / estimate.spacing;
+    num += 4 * lag * lag * rho;
+    den += 2 * Math.PI * lag * rho;
+  }
+  return (num / den) * estimate.spacing;
+}
+
+/**
  * The median distance from a site to its nearest other site (on a grid: the cell side), found on a
  * grid of buckets so it is not n². Sites at one position are skipped (distance 0 says nothing of spacing).
  */

@@ -1,6 +1,7 @@
 import { toRows } from '../chain/matrix.js';
 import { fitMle, siteCount, type Fit } from './fit.js';
 import { zonePooling } from './zones.js';
+import { zoneSamplerExtremes, type ZoneSamplerRun } from './zone-sampler.js';
 
 /** How far a zone's rows moved from its own maximum-likelihood rows, and how much of the shared row each took. */
 export interface ZoneShift {
@@ -49,6 +50,8 @@ export function zonesToJson(fit: Fit, zoneJson: (zone: Fit) => object): object |
       kappa: Array.from(pooling.kappa, (x) => (Number.isFinite(x) ? x : null)),
       probabilities: toRows(pooling.shared, k),
     } : null,
+    // Only once `sere fit` has run the sampler (partial pooling): a zoned file without it keeps its bytes.
+    ...(fit.zones.sampler ? { posterior_sampler: zoneSamplerJson(fit.zones.sampler, k) } : {}),
     zones: fit.zones.zones.map((zone, z) => {
       const s = shifts[z]!;
       return {
@@ -59,8 +62,35 @@ export function zonesToJson(fit: Fit, zoneJson: (zone: Fit) => object): object |
         own_probabilities: toRows(s.own, k),
         pull: Array.from(s.pull),
         largest_change: Array.from(s.change),
+        ...(fit.zones!.sampler ? { sampler_rhat: cells(fit.zones!.sampler.zones.rhat, z, k), sampler_ess: cells(fit.zones!.sampler.zones.ess, z, k) } : {}),
         fit: zoneJson(zone.fit),
       };
     }),
+  };
+}
+
+const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
+
+/** Zone z's k×k block of a Z×k×k diagnostics array, as rows (null where the cell never varies). */
+function cells(values: Float64Array, z: number, k: number): (number | null)[][] {
+  return toRows(Array.from(values.subarray(z * k * k, (z + 1) * k * k), finite), k);
+}
+
+/** The zones' posterior sampler: its settings and diagnostics (fit/zone-sampler.ts); each zone's cells sit with the zone. */
+export function zoneSamplerJson(run: ZoneSamplerRun, k: number): object {
+  const { rhatMax, essMin } = zoneSamplerExtremes(run);
+  return {
+    method: run.augmented ? 'partial pooling by data augmentation over the gaps (slice-sampled κ and shared rows)' : 'partial pooling (slice-sampled κ and shared rows)',
+    seed: run.seed,
+    chains: run.chains,
+    warm_up: run.warmUp,
+    thin: run.thin,
+    kept: run.kept,
+    rhat_max: rhatMax,
+    ess_min: essMin,
+    kappa_rhat: Array.from(run.kappa.rhat, finite),
+    kappa_ess: Array.from(run.kappa.ess, finite),
+    shared_rhat: toRows(Array.from(run.shared.rhat, finite), k),
+    shared_ess: toRows(Array.from(run.shared.ess, finite), k),
   };
 }

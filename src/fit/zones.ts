@@ -4,6 +4,7 @@ import { partialPoolingMle, type PartialPooling } from '../chain/zone-pooling.js
 import { fitMask, fitMle, fitSurvey, type Fit } from './fit.js';
 import type { FitSettings } from './settings.js';
 import { groupsWithRows, selectRows } from '../data/survey-rows.js';
+import type { ZoneSamplerRun } from './zone-sampler.js';
 
 /**
  * How zones (the values of the group column: soil types, management units) share a chain.
@@ -25,6 +26,11 @@ export interface FitZones {
   readonly column: string;
   readonly pooling: 'partial' | 'none';
   readonly zones: readonly Zone[];
+  /**
+   * Partial pooling, after `sere fit` ran its posterior sampler once with the fit's seed: the
+   * sampler's convergence diagnostics (zone-sampler.ts). Not read back from a fit file: a report.
+   */
+  readonly sampler?: ZoneSamplerRun;
 }
 
 /**

@@ -4,6 +4,7 @@ import type { TestReport } from '../diagnostics/assumption-tests.js';
 import type { Estimate } from '../diagnostics/chain-properties.js';
 import { TOOL_VERSION } from '../version.js';
 import { toRows } from '../chain/matrix.js';
+import { zoneSamplerJson } from '../fit/zones-json.js';
 import { standoutLine, verdict, verdictP, VERDICT_LEVEL } from './check-verdicts.js';
 
 /** The documented JSON of `sere check --json`. States by name; matrices as rows, row = from. */
@@ -72,6 +73,17 @@ export function checkJson(r: CheckResult): object {
         horizon: x.horizon ?? null,
       })),
     },
+    // Only for partially pooled zones, so other checks keep their bytes: the zones' sampler, each zone's cells after the shared ones.
+    ...(fit.zones?.sampler ? {
+      zone_sampler: {
+        ...zoneSamplerJson(fit.zones.sampler, k),
+        zones: fit.zones.zones.map((z, n) => ({
+          name: z.name,
+          rhat: toRows(Array.from(fit.zones!.sampler!.zones.rhat.subarray(n * k * k, (n + 1) * k * k), num), k),
+          ess: toRows(Array.from(fit.zones!.sampler!.zones.ess.subarray(n * k * k, (n + 1) * k * k), num), k),
+        })),
+      },
+    } : {}),
   };
 }
 

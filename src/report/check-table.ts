@@ -5,6 +5,8 @@ import type { Estimate } from '../diagnostics/chain-properties.js';
 import { concentration, count, fitSites, levelLabel, percent } from './numbers.js';
 import { makeTable } from './style.js';
 import { standoutLine, verdict } from './check-verdicts.js';
+import { zoneSamplerLine } from './fit-zones-table.js';
+import { zoneSamplerWarnings } from '../fit/zone-sampler.js';
 
 /** The terminal report of `sere check`. */
 /**
@@ -153,6 +155,12 @@ export function checkTable(r: CheckResult, style: ChalkInstance): string {
       'Schweitzer 1968; Cho & Meyer 2000; Caswell 2001 ch. 9.'));
   } else {
     lines.push(style.yellow('  no unique long-run mix: sensitivities are not defined'));
+  }
+  const zones = fit.zones;
+  if (zones?.sampler) {
+    lines.push('', style.bold(`Zones (column ${zones.column}), partially pooled`));
+    lines.push(zoneSamplerLine(zones.sampler, states, zones.zones.map((z) => z.name)));
+    for (const w of zoneSamplerWarnings(zones.sampler, states, zones.zones.map((z) => z.name))) lines.push(style.yellow(`warning: ${w.line}`));
   }
   return lines.join('\n') + '\n';
 }

@@ -3,6 +3,7 @@ import { siteCount, type Fit } from '../fit/fit.js';
 import { zonePooling } from '../fit/zones.js';
 import { zoneShifts } from '../fit/zones-json.js';
 import { makeTable } from './style.js';
+import { zoneQuantityName, zoneSamplerExtremes, zoneSamplerWorst, type ZoneSamplerRun } from '../fit/zone-sampler.js';
 
 /**
  * The zones of a zoned fit, after its pooled table: per zone and from-state, the weight of the
@@ -28,7 +29,21 @@ export function fitZonesTable(fit: Fit, style: ChalkInstance): string {
     const { kappa } = zonePooling(fit);
     lines.push(`how alike the zones are, κ per from-state (∞: no more unlike than sampling allows): ` +
       states.map((name, i) => `${name} ${Number.isFinite(kappa[i]!) ? kappa[i]!.toPrecision(3) : '∞'}`).join(', '));
+    if (zones.sampler) lines.push(zoneSamplerLine(zones.sampler, states, zones.zones.map((z) => z.name)));
     lines.push('Partial pooling uses every pair, gapped ones completed by each zone\'s own fit; a forecast draws each zone\'s matrix from its posterior (sere forecast).');
   }
   return lines.join('\n') + '\n';
+}
+
+/** The zones' posterior sampler in one line: its run, and where R̂ and the ESS were worst. */
+export function zoneSamplerLine(run: ZoneSamplerRun, states: readonly string[], zoneNames: readonly string[]): string {
+  const { rhatMax, essMin } = zoneSamplerExtremes(run);
+  const every = run.thin === 1 ? '' : ` (every ${run.thin === 2 ? 'second' : run.thin === 3 ? 'third' : `${run.thin}th`})`;
+  const where = (key: 'rhat' | 'ess'): string => {
+    const at = zoneSamplerWorst(run, key);
+    return at ? ` (${zoneQuantityName(at, states, zoneNames)})` : '';
+  };
+  return `zone posterior sampler${run.augmented ? ' (data augmentation over the gaps)' : ''}: ${run.chains} chains × ${run.kept} sweeps kept${every} after ${run.warmUp} warm-up ` +
+    `(seed ${run.seed}: the draws a forecast with this seed makes) · ` +
+    (rhatMax === null ? 'no diagnostics (nothing varies, or one chain)' : `largest R̂ ${rhatMax.toFixed(3)}${where('rhat')} · smallest effective sample size ${Math.round(essMin!)}${where('ess')}`);
 }

@@ -2,7 +2,7 @@ import { SereError } from '../errors.js';
 import type { GapCell } from '../chain/counts.js';
 import { gapMaximumLikelihood } from '../chain/gap-em.js';
 import { fitMle, fitPrior, hasGaps, needPerSite, type Fit } from '../fit/fit.js';
-import { blockNotes, blockUnits, siteUnits, type ResampleUnits } from '../fit/spatial-blocks.js';
+import { blockNotes, blockUnits, edgeCorrection, siteUnits, type ResampleUnits } from '../fit/spatial-blocks.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
 import { maxGap } from '../chain/bridges.js';
@@ -51,6 +51,8 @@ export function bootstrapInto(fit: Fit, count: number, random: RandomStream, dat
   let total = 0;
   for (const x of units.sites) total += x;
   const gaps = hasGaps(fit) ? gapResampler(fit) : undefined;
+  // Blocks chosen from the range: each draw's departure from the MLE scaled up by the edge correction (spatial-blocks.ts).
+  const widen = fit.spatial ? edgeCorrection(fit.spatial) : 1;
   let emptyRows = 0;
   for (let d = 0; d < count; d++) {
     resampled.fill(0);
@@ -74,9 +76,24 @@ export function bootstrapInto(fit: Fit, count: number, random: RandomStream, dat
       const scale = total > 0 ? total : 1;
       if (total === 0) emptyRows += 1;
       for (let j = 0; j < k; j++) data[base + i * k + j] = source[i * k + j]! / scale;
+      if (widen !== 1) widenRow(data, base + i * k, full, i * k, k, widen);
     }
   }
   return emptyRows;
+}
+
+/**
+ * A drawn row moved `factor` times as far from the full-data MLE row; a cell pushed below 0 is set
+ * to 0 and the row renormalised (rows still sum to 1; a cell the MLE holds at 0 stays 0).
+ */
+function widenRow(data: Float64Array, at: number, full: Float64Array, fullAt: number, k: number, factor: number): void {
+  let total = 0;
+  for (let j = 0; j < k; j++) {
+    const x = Math.max(0, full[fullAt + j]! + factor * (data[at + j]! - full[fullAt + j]!));
+    data[at + j] = x;
+    total += x;
+  }
+  for (let j = 0; j < k; j++) data[at + j] /= total;
 }
 
 /**

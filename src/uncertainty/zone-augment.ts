@@ -8,19 +8,6 @@ import { sampleDirichlet } from './dirichlet.js';
 import { multinomialSampler } from './multinomial.js';
 import type { RandomStream } from './random.js';
 
-/** How long the zones' data augmentation runs: sweeps dropped, then every `thin`-th sweep kept. */
-export interface ZoneAugmentSettings {
-  readonly warmUp: number;
-  readonly thin: number;
-}
-
-/**
- * 200 sweeps dropped, then every sweep kept. Measured by the SBC of a zone cell and κ with gaps
- * (test/slow/zones-gaps-sbc.test.ts: four zones, half their pairs two steps apart): ranks uniform
- * at these settings (κ χ² p = 0.60, cell p = 0.66); DEVELOPERS.md has the zoned demo's CPU time.
- */
-export const ZONE_AUGMENT: ZoneAugmentSettings = { warmUp: 200, thin: 1 };
-
 /** Per row, the kept (κ, p) samples (null: a row with one possible cell); per kept sample and zone, the completed counts. */
 export interface ZoneAugmentation {
   readonly rows: (RowConcentrationSamples | null)[];
@@ -29,8 +16,8 @@ export interface ZoneAugmentation {
 }
 
 /**
- * The partial-pooling posterior when zones have pairs g ≥ 2 steps apart, by data augmentation
- * (Tanner & Wong 1987), as augment.ts does for one chain: each sweep
+ * One chain of the partial-pooling posterior when zones have pairs g ≥ 2 steps apart, by data
+ * augmentation (Tanner & Wong 1987), as augment.ts does for one chain: each sweep
  *   1. draws every zone's latent paths given its current matrix θ_z (bridge-sampler.ts: forward
  *      filtering, backward sampling of each gap cell's bridges, Carter & Kohn 1994), giving the
  *      zone's completed one-step counts c_z = n_z + latent;
@@ -40,19 +27,21 @@ export interface ZoneAugmentation {
  *   3. draws each zone's row θ_zi from Dirichlet(κᵢpᵢ + c_zi), its exact conditional.
  * Steps 2–3 together keep p(κ, p, θ | c) invariant (the pair is moved by its marginal's kernel, θ then
  * drawn given it), so the sweep targets the joint posterior of (κ, p, θ, paths). The start: each
- * zone's rows from Dirichlet(prior + n_z), its one-step counts alone (as augment.ts starts).
+ * zone's rows from Dirichlet(prior + n_z), its one-step counts alone (as augment.ts starts), and
+ * each row's (κ, p) at `start` (zone-posterior.ts spreads the chains' starts).
  *
- * Streams: `zones` / `row:i` (the slice sampler, as without gaps), `zones` / `paths` (the bridges),
- * `zones` / `rows` (the zone rows), each taken once.
+ * `warmUp` sweeps are dropped, then `kept` sweeps kept, every `thin`-th. Streams of `random` (the
+ * chain's own): `row:i` (the slice sampler), `paths` (the bridges), `rows` (the zone rows), each
+ * taken once.
  */
-export function augmentZones(zoneCounts: readonly Float64Array[], zoneGaps: readonly (readonly GapCell[])[], mask: Uint8Array,
-  prior: Float64Array, k: number, samples: number, random: RandomStream, settings: ZoneAugmentSettings = ZONE_AUGMENT): ZoneAugmentation {
+export function augmentZonesChain(zoneCounts: readonly Float64Array[], zoneGaps: readonly (readonly GapCell[])[], mask: Uint8Array,
+  prior: Float64Array, k: number, warmUp: number, kept: number, thin: number, random: RandomStream,
+  start: readonly (ConcentrationState | undefined)[]): ZoneAugmentation {
   const k2 = k * k;
   const Z = zoneCounts.length;
-  const root = random.stream('zones');
-  const rowStreams = Array.from({ length: k }, (_, i) => root.stream(`row:${i}`));
-  const multinomial = multinomialSampler(root.stream('paths'));
-  const thetaStream = root.stream('rows');
+  const rowStreams = Array.from({ length: k }, (_, i) => random.stream(`row:${i}`));
+  const multinomial = multinomialSampler(random.stream('paths'));
+  const thetaStream = random.stream('rows');
   const cells = Array.from({ length: k }, (_, i) => possibleCells(mask, k, i));
   const alpha = cells.map((c, i) => Array.from(c, (j) => prior[i * k + j]!));
   const gaps = zoneGaps.map((g) => maxGap(g));
@@ -65,12 +54,12 @@ export function augmentZones(zoneCounts: readonly Float64Array[], zoneGaps: read
     return t;
   });
   const completed = zoneCounts.map(() => new Float64Array(k2));
-  const state: (ConcentrationState | undefined)[] = new Array(k).fill(undefined);
-  const rows = cells.map((c) => (c.length < 2 ? null : { kappa: new Float64Array(samples), mean: new Float64Array(samples * c.length) }));
-  const kept = new Float64Array(samples * Z * k2);
+  const state: (ConcentrationState | undefined)[] = Array.from({ length: k }, (_, i) => start[i]);
+  const rows = cells.map((c) => (c.length < 2 ? null : { kappa: new Float64Array(kept), mean: new Float64Array(kept * c.length) }));
+  const keptCounts = new Float64Array(kept * Z * k2);
   const a = new Float64Array(k);
 
-  for (let sweep = 0, s = 0; s < samples; sweep++) {
+  for (let sweep = 0; sweep < warmUp + kept * thin; sweep++) {
     for (let z = 0; z < Z; z++) {
       completed[z]!.set(zoneCounts[z]!);
       if (gaps[z]! === 0) continue;
@@ -88,18 +77,18 @@ export function augmentZones(zoneCounts: readonly Float64Array[], zoneGaps: read
         sampleDirichlet(thetaStream, a, 0, k, theta[z]!, i * k);
       }
     }
-    const after = sweep - settings.warmUp;
-    if (after < 0 || (after + 1) % settings.thin !== 0) continue;
+    const after = sweep - warmUp + 1;
+    if (after <= 0 || after % thin !== 0) continue;
+    const s = after / thin - 1;
     for (let i = 0; i < k; i++) {
       const r = rows[i];
       if (!r) continue;
       r.kappa[s] = state[i]!.kappa;
       r.mean.set(state[i]!.mean, s * cells[i]!.length);
     }
-    completed.forEach((c, z) => kept.set(c, (s * Z + z) * k2));
-    s += 1;
+    completed.forEach((c, z) => keptCounts.set(c, (s * Z + z) * k2));
   }
-  return { rows, completed: kept };
+  return { rows, completed: keptCounts };
 }
 
 /** Row i of the zones' counts as the κ sampler reads it (zone-pooling.ts zoneRows, without the Maps: it runs every sweep). */

@@ -2,9 +2,8 @@ import { SereError } from '../errors.js';
 import type { Fit } from '../fit/fit.js';
 import { fitMask, fitPrior } from '../fit/fit.js';
 import { zonePooling } from '../fit/zones.js';
-import { zoneRows } from '../chain/zone-pooling.js';
-import { sampleRowConcentration, type RowConcentrationSamples } from './concentration.js';
-import { augmentZones } from './zone-augment.js';
+import { sampleZonePosterior, zonePosteriorDiagnostics, type ZoneChainSettings } from './zone-posterior.js';
+import type { ZoneSamplerRun } from '../fit/zone-sampler.js';
 import type { GapCell } from '../chain/counts.js';
 import { possibleCells } from '../chain/row-periods.js';
 import { sampleDirichlet } from './dirichlet.js';
@@ -12,7 +11,7 @@ import { blockCount, blockName, DRAW_BLOCK, sharedFloat64 } from './draw-blocks.
 import { drawMatrices, withVariation } from './draw-matrices.js';
 import type { MatrixDraws } from './draws.js';
 import type { RandomStream } from './random.js';
-import { VARIATION_SAMPLES, type VariationSpec } from './variation.js';
+import type { VariationSpec } from './variation.js';
 
 /**
  * Matrix draws of every zone of a zoned fit, in one MatrixDraws with `zones` set (zone z's draw d
@@ -21,9 +20,10 @@ import { VARIATION_SAMPLES, type VariationSpec } from './variation.js';
  * none: each zone from its own fit, by the sampler its source names (drawMatrices) — the first zone
  * on `random` itself, the others on `random.stream('zone:NAME')`; so one zone is the unzoned run.
  * partial (Gelman et al. 2013, BDA3 ch. 5): per row, posterior samples of the shared (κᵢ, pᵢ) from
- * the zones' counts by the variation model's sampler (concentration.ts, stream `zones` / `row:i`;
- * with pairs further apart than one step, by data augmentation over the zones' bridges: zone-augment.ts),
- * then draw d takes sample d mod VARIATION_SAMPLES and every zone's row from its conditional
+ * the zones' counts by the variation model's sampler (concentration.ts; with pairs further apart
+ * than one step, by data augmentation over the zones' bridges: zone-augment.ts), four chains on
+ * `zones` / `chain:c` (zone-posterior.ts), then draw d takes sample d mod VARIATION_SAMPLES and
+ * every zone's row from its conditional
  * posterior Dirichlet(κᵢpᵢ + n_zi) (stream `block:b` / `zones`) — all zones in draw d share the
  * same (κ, p). A point forecast takes the point estimate (κ̂, p̂ by maximum likelihood). Year-to-year
  * variation is estimated on the pooled record and applied within each zone (κ only).
@@ -83,35 +83,26 @@ function posteriorZones(fit: Fit, count: number, random: RandomStream): Float64A
  * row with one possible cell). Draw d takes sample s = d mod VARIATION_SAMPLES of the row's (κ, p)
  * and every zone's row from Dirichlet(κp + c_z), c_z the zone's counts in that sample.
  *
- * Without pairs further apart than one step (`zoneGaps` absent or empty) the (κ, p) samples come
- * from the slice sampler on the zones' one-step counts, and c_z is those counts. With gaps they
- * come from data augmentation (zone-augment.ts), and c_z is the zone's completed counts of sample s.
+ * The samples come from sampleZonePosterior (zone-posterior.ts: its chains one after another).
+ * Without pairs further apart than one step (`zoneGaps` absent or empty) c_z is the zone's one-step
+ * counts; with gaps, its completed counts of sample s.
  */
 export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Array, prior: Float64Array, k: number, count: number,
   random: RandomStream, zoneGaps: readonly (readonly GapCell[])[] = []): { data: Float64Array; kappa: (Float64Array | null)[] } {
   const k2 = k * k;
   const Z = zoneCounts.length;
-  let samples: (RowConcentrationSamples | null)[];
-  let countsOf: (s: number, z: number) => Float64Array;
-  if (zoneGaps.some((g) => g.length > 0)) {
-    const augmented = augmentZones(zoneCounts, zoneGaps, mask, prior, k, VARIATION_SAMPLES, random);
-    samples = augmented.rows;
-    countsOf = (s, z) => augmented.completed.subarray((s * Z + z) * k2, (s * Z + z + 1) * k2);
-  } else {
-    samples = zoneRows(zoneCounts, mask, k).map((r, i) => {
-      if (r.cells.length < 2) return null;
-      const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
-      return sampleRowConcentration(r, alpha, VARIATION_SAMPLES, random.stream('zones').stream(`row:${i}`));
-    });
-    countsOf = (_, z) => zoneCounts[z]!;
-  }
+  const posterior = sampleZonePosterior(zoneCounts, mask, prior, k, random, zoneGaps);
+  const samples = posterior.rows;
+  const total = posterior.settings.chains * posterior.settings.kept;
+  const countsOf = (s: number, z: number): Float64Array =>
+    posterior.completed ? posterior.completed.subarray((s * Z + z) * k2, (s * Z + z + 1) * k2) : zoneCounts[z]!;
   const rows = samples.map((r, i) => ({ cells: possibleCells(mask, k, i), samples: r }));
   const data = new Float64Array(Z * count * k2);
   const a = new Float64Array(k);
   for (let b = 0; b < blockCount(count); b++) {
     const stream = random.stream(blockName(b)).stream('zones');
     for (let d = b * DRAW_BLOCK; d < Math.min(count, (b + 1) * DRAW_BLOCK); d++) {
-      const s = d % VARIATION_SAMPLES;
+      const s = d % total;
       for (let z = 0; z < Z; z++) {
         const n = countsOf(s, z);
         for (let i = 0; i < k; i++) {
@@ -127,6 +118,19 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
       }
     }
   }
-  const kappa = rows.map(({ samples }) => (samples ? Float64Array.from({ length: count }, (_, d) => samples.kappa[d % VARIATION_SAMPLES]!) : null));
+  const kappa = rows.map(({ samples }) => (samples ? Float64Array.from({ length: count }, (_, d) => samples.kappa[d % total]!) : null));
   return { data, kappa };
+}
+
+/**
+ * The partial-pooling sampler of a zoned fit run as a forecast runs it, kept for its diagnostics
+ * (fit/zone-sampler.ts): what `sere fit` and `sere check` report, on `random` (their seed).
+ */
+export function zoneSamplerRun(fit: Fit, random: RandomStream, settings?: ZoneChainSettings): ZoneSamplerRun {
+  const zones = fit.zones!.zones;
+  const k = fit.states.length;
+  const counts = zones.map((z) => z.fit.counts);
+  const mask = fitMask(fit);
+  const posterior = sampleZonePosterior(counts, mask, fitPrior(fit), k, random, zones.map((z) => z.fit.gapCounts ?? []), settings);
+  return zonePosteriorDiagnostics(posterior, counts, mask, k, random.seed);
 }

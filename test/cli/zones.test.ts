@@ -46,6 +46,28 @@ describe('sere fit --pooling', () => {
     expect(Array.from(fit.zones!.zones[1]!.fit.counts)).toEqual([2, 0, 0, 1]);
   });
 
+  it('partial reports its sampler\'s R̂ and ESS (fit table, fit file, sere check on the file: same seed, same numbers)', async () => {
+    const dir = tmp();
+    const out = join(dir, 'partial.json');
+    const r = await sere(['fit', fx('grouped.csv'), '--group-column', 'soil', '--pooling', 'partial', '--seed', '5', '--out', out]);
+    expect(r.code).toBe(0);
+    const s = JSON.parse(readFileSync(out, 'utf8')).zones.posterior_sampler;
+    expect([s.seed, s.chains, s.warm_up, s.kept, s.thin]).toEqual([5, 4, 100, 250, 3]);
+    expect(s.rhat_max).toBeGreaterThan(0.99);
+    expect(s.ess_min).toBeGreaterThan(0);
+    // Two states a, b: κ and the shared row of a varied; every R̂ and ESS is a number or null (never varied).
+    expect(s.kappa_rhat).toHaveLength(2);
+    expect(r.stdout).toContain(`R̂ ${s.rhat_max.toFixed(3)}`);
+    const zone = JSON.parse(readFileSync(out, 'utf8')).zones.zones[0];
+    expect(zone.sampler_rhat).toHaveLength(2);
+    const check = JSON.parse((await sere(['check', out, '--seed', '5', '--json'])).stdout);
+    expect(check.zone_sampler.rhat_max).toBe(s.rhat_max);
+    expect(check.zone_sampler.zones[0].ess).toEqual(zone.sampler_ess);
+    // Without partial pooling neither file nor check has the key.
+    const none = JSON.parse((await sere(['fit', fx('grouped.csv'), '--group-column', 'soil', '--pooling', 'none', '--seed', '5', '--json'])).stdout);
+    expect(none.zones.posterior_sampler).toBeUndefined();
+  });
+
   it('refuses partial pooling of one zone, without a zone column, and with --by, in one line each', async () => {
     const dir = tmp();
     const one = join(dir, 'one.csv');

@@ -80,20 +80,26 @@ function coverage(histories: number, random: RandomStream): { cells: number; blo
 }
 
 describe('spatial block bootstrap coverage on a landscape whose patches change together', () => {
-  it('independent-cell bands under-cover; block bands come near 90%', () => {
+  it('independent-cell bands under-cover; block bands with the edge correction cover 90 ± 3%', () => {
     // 80 landscapes × 3 states; cases within a landscape are not independent, so the Monte Carlo
-    // standard error of a coverage is about 0.03–0.04. Seen with this seed (2026-12-02, exact
-    // binomial sampler): independent cells 0.425, blocks 0.833 (blocks of 2 × the estimated range,
-    // 100–169 blocks); with sides of 3 and 4 ranges 0.838 and 0.867. The misses are bands too narrow
-    // (the truth's standardised error has sd 1.18, mean +0.05): the block bootstrap's edge bias (README).
-    // Tolerance: cells below 0.65; blocks within 0.90 ± 0.07 — not yet the 0.90 ± 0.03 asked.
+    // standard error of a coverage is about 0.03–0.04. Without the edge correction (2026-12-02,
+    // exact binomial sampler): independent cells 0.425, blocks 0.833 (sd of the truth's standardised
+    // error 1.18: the bootstrap variance averaged 0.71 of the MLE's mean squared error — the
+    // (1 − m/side)² the edge bias predicts). Tried on the same landscapes (2026-12-03): sides of 4
+    // and 6 ranges 0.842 and 0.833 (variance 0.85 of it, but from 11–49 blocks, noisy); moving
+    // blocks (side 2 ranges) 0.792; tapered blocks (Paparoditis & Politis 2001, trapezoid c = 0.43)
+    // of 2, 3, 4, 6 ranges 0.813, 0.838, 0.842, 0.838 (at 6 the variance was right on average, 0.98,
+    // but noisy). With the first-order edge correction (spatial-blocks.ts edgeCorrection) at 2 ranges:
+    // 0.908 here (2026-12-03; sd of the standardised error about 0.95, the variance a little over,
+    // 1.14 of the MSE); at 3 and 4 ranges 0.908 and 0.875 (exploration on another stream).
     const result = coverage(80, randomStreams(1989));
+    console.log(`block bootstrap coverage: independent cells ${result.cells.toFixed(3)}, blocks ${result.blocks.toFixed(3)} (${Math.min(...result.counts)}–${Math.max(...result.counts)} blocks)`);
     expect(result.cells).toBeLessThan(0.65);
-    expect(result.blocks).toBeGreaterThan(0.83);
-    expect(result.blocks).toBeLessThan(0.97);
+    expect(result.blocks).toBeGreaterThan(0.87);
+    expect(result.blocks).toBeLessThan(0.93);
     // The estimated range sits near the known 3.19σ ≈ 4.8 cells (the side is twice it).
     for (const side of result.sides) expect(side / 2).toBeGreaterThan(3);
     for (const side of result.sides) expect(side / 2).toBeLessThan(7);
     expect(Math.min(...result.counts)).toBeGreaterThanOrEqual(20);
-  }, 240_000); // about 30 s on an idle machine, 68 s at load 7–10 (a CI run on the shared machine timed out at 60 s)
+  }, 600_000); // about 30 s on an idle machine, 68 s at load 7–10 (a CI run on the shared machine timed out at 60 s)
 });

@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import type { SurveyRecord } from '../../src/data/survey.js';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
-import { fitSurvey, withBlockSize } from '../../src/fit/fit.js';
+import { fitMle, fitSurvey, withBlockSize } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
-import { blockUnits } from '../../src/fit/spatial-blocks.js';
+import { blockUnits, edgeCorrection } from '../../src/fit/spatial-blocks.js';
+import { edgeLag } from '../../src/fit/spatial-range.js';
 import { bootstrapDraws, resampleUnits } from '../../src/uncertainty/bootstrap.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import { errorOf } from '../helpers.js';
@@ -58,5 +59,40 @@ describe('spatial block bootstrap', () => {
     const plain = fitSurvey(tableFromRecords('p', ['a', 'b', 'c'], withoutPositions(records())), DEFAULT_FIT_SETTINGS);
     const err = errorOf(() => withBlockSize(plain, 3, { path: 'uncertainty.block_size' }));
     expect([err.code, err.place.path]).toEqual(['BAD_OPTION', 'uncertainty.block_size']);
+  });
+});
+
+describe('the block bootstrap\'s edge correction', () => {
+  it('the mean edge distance of a correlogram: near 2σ/√π for a Gaussian one, and cut at the first ρ ≤ 0', () => {
+    const sigma = 1.5;
+    const lags = Array.from({ length: 40 }, (_, c) => c + 1);
+    const gaussian = { spacing: 1, lags, correlation: lags.map((h) => Math.exp(-(h * h) / (4 * sigma * sigma))) };
+    // Continuous value 2σ/√π = 1.693 (∫r²ρ / ∫rρ · 2/π); the lattice's own lag 0 (the 1 in the denominator) takes it to 1.63.
+    expect(Math.abs(edgeLag(gaussian) - (2 * sigma) / Math.sqrt(Math.PI))).toBeLessThan(0.1);
+    // Hand-computed: 4(1²·0.5 + 2²·0.2) / (1 + 2π(1·0.5 + 2·0.2)) = 5.2 / 6.6549 (spacing 2 doubles it); the 0.3 after −0.01 is noise, left out.
+    expect(edgeLag({ spacing: 2, lags: [2, 4, 6, 8], correlation: [0.5, 0.2, -0.01, 0.3] })).toBeCloseTo(2 * 5.2 / (1 + 2 * Math.PI * 0.9), 12);
+  });
+
+  it('scales each draw\'s departure from the MLE by 1/(1 − m/side) (floored at ¼ of the variance kept); a given side is not corrected', () => {
+    const blocks = { side: 10, chosenBy: 'range' as const, blocks: 9, range: { range: 5, reached: true, spacing: 1, sites: 100, edgeLag: 2 } };
+    expect(edgeCorrection(blocks)).toBeCloseTo(1.25, 14);
+    expect(edgeCorrection({ ...blocks, side: 2.5 })).toBe(2);
+    expect(edgeCorrection({ side: 10, chosenBy: 'given', blocks: 9 })).toBe(1);
+    const { edgeLag: _, ...oldRange } = blocks.range;
+    expect(edgeCorrection({ ...blocks, range: oldRange })).toBe(1);
+
+    const fit = fitSurvey(tableFromRecords('p', ['a', 'b', 'c'], records()), { ...DEFAULT_FIT_SETTINGS, blockSize: 3 });
+    const corrected = { ...fit, spatial: { ...fit.spatial!, chosenBy: 'range' as const, range: { range: 1.5, reached: true, spacing: 1, sites: 120, edgeLag: 0.6 } } };
+    const a = bootstrapDraws(fit, 200, randomStreams(8));
+    const b = bootstrapDraws(corrected, 200, randomStreams(8));
+    const full = fitMle(fit).p;
+    const factor = 1 / (1 - 0.6 / 3);
+    let clamped = 0;
+    for (let d = 0; d < 200; d++) for (let i = 0; i < 3; i++) {
+      const row = Array.from({ length: 3 }, (_, j) => full[i * 3 + j]! + factor * (a.data[d * 9 + i * 3 + j]! - full[i * 3 + j]!));
+      if (row.some((x) => x < 0)) { clamped += 1; continue; }
+      for (let j = 0; j < 3; j++) expect(Math.abs(b.data[d * 9 + i * 3 + j]! - row[j]!)).toBeLessThan(1e-12);
+    }
+    expect(clamped).toBeLessThan(30);
   });
 });

@@ -10,7 +10,7 @@
 export interface BlockChoice {
   readonly side: number;
   readonly chosenBy: 'range' | 'given';
-  readonly range?: { readonly range: number; readonly reached: boolean; readonly spacing: number; readonly sites: number };
+  readonly range?: { readonly range: number; readonly reached: boolean; readonly spacing: number; readonly sites: number; readonly edgeLag?: number };
 }
 
 export class BlockTally {
