@@ -1,5 +1,5 @@
 import type { Scenario } from '../scenario/scenario.js';
-import { scenarioDraws } from './scenario-draws.js';
+import { scenarioDraws, zoneView } from './scenario-draws.js';
 import { zoneForecasts, type ZoneForecast } from './zone-forecast.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
@@ -95,6 +95,8 @@ export interface ForecastResult {
   readonly split: UncertaintySplit | null;
   /** Per state, its year-to-year variation (variation-summary.ts); null when no row varies. */
   readonly variation: RowVariationSummary[] | null;
+  /** Zones fitted each on their own (pooling: none): each zone's own κ per state; else null. */
+  readonly variationByZone: readonly { readonly zone: string; readonly rows: RowVariationSummary[] | null }[] | null;
   /** A stratified forecast's zones, each alone (zone-forecast.ts), when asked for (`--zones`); else null. */
   readonly zones: readonly ZoneForecast[] | null;
   readonly notes: readonly string[];
@@ -165,6 +167,8 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
     mostCommon: Array.from({ length: k }, (_, s) => firstTime(paths.firstMostCommon, s, k, level, toYear)),
     split: options.split === false ? null : splitUncertainty(scenario, matrices, sim, random, options.engine),
     variation: variationSummary(matrices, level),
+    variationByZone: matrices.zoneVariation && scenario.zones
+      ? scenario.zones.names.map((zone, z) => ({ zone, rows: variationSummary(zoneView(matrices, z), level) })) : null,
     zones: null,
     notes: sim.notes,
     ...(trueStart ? { trueStart } : {}),

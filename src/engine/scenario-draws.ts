@@ -23,9 +23,11 @@ export function scenarioDraws(scenario: Pick<Scenario, 'fit' | 'source' | 'varia
 export function zoneView(matrices: MatrixDraws, z: number): MatrixDraws {
   const { k, count } = matrices;
   const k2 = k * k;
-  const { zones: _, concentration, ...rest } = matrices;
+  const { zones: _, concentration, zoneVariation, ...rest } = matrices;
+  const own = zoneVariation?.[z];
   return {
     ...rest,
+    ...(own ? { variation: own } : {}),
     data: matrices.data.subarray(z * count * k2, (z + 1) * count * k2),
     ...(concentration ? { concentration: concentration.subarray(z * count * k, (z + 1) * count * k) } : {}),
   };

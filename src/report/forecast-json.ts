@@ -124,6 +124,12 @@ export function scenarioJson(r: ForecastResult): object {
         return { status: v.status, kappa: v.kappa && { median: v.kappa.median, low: v.kappa.low, high: v.kappa.high }, informative_periods: v.informativePeriods };
       }),
     } : {}),
+    ...(r.variationByZone ? {
+      variation_by_zone: Object.fromEntries(r.variationByZone.map((z) => [z.zone, z.rows && byState((s) => {
+        const v = z.rows![s]!;
+        return { status: v.status, kappa: v.kappa && { median: v.kappa.median, low: v.kappa.low, high: v.kappa.high }, informative_periods: v.informativePeriods };
+      })])),
+    } : {}),
     notes: r.notes,
   };
 }

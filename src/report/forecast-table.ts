@@ -19,7 +19,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   const further = (fit.pairsByGap ?? []).reduce((s, p) => s + (p.gap > 1 ? p.pairs : 0), 0);
   lines.push(`data: ${fit.input.file} · ${fitSites(fit)} · ${count(fit.transitions, 'transition')}` +
     `${further > 0 ? ` + ${count(further, 'pair')} further apart` : ''} · ${fit.step}-year steps`);
-  const varying = r.variation ? ` · year-to-year variation ${sc.variation.kind === 'given' ? 'given' : 'estimated'}` : '';
+  const varying = r.variation || r.variationByZone ? ` · year-to-year variation ${sc.variation.kind === 'given' ? 'given' : 'estimated'}` : '';
   lines.push(`uncertainty: ${sc.source} · ${count(r.draws, 'draw')} · seed ${r.seed}${varying} · bands ${band}`);
   lines.push(sc.start.from === 'latest'
     ? fit.errorModel
@@ -97,6 +97,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   });
   lines.push(common.toString());
   if (r.variation) lines.push('', ...variationLines(r, style));
+  if (r.variationByZone) lines.push('', ...zoneVariationLines(r, style));
   if (r.split) lines.push('', ...splitTable(r, style));
   lines.push('', style.dim(CAUTION));
   return lines.join('\n') + '\n';
@@ -138,6 +139,21 @@ function variationLines(r: ForecastResult, style: ChalkInstance): string[] {
     style.dim('Small κ: years differ a lot; large κ: years are alike (κ = 100 lets a probability of 0.5 swing by about ±0.05 a year). Periods: survey periods with two or more transitions from the state.')];
 }
 
+
+/** With zones fitted each on their own, each zone's κ per state: no one κ speaks for the landscape. */
+function zoneVariationLines(r: ForecastResult, style: ChalkInstance): string[] {
+  const zones = r.variationByZone!;
+  const table = makeTable(['state', ...zones.map((z) => `κ ${z.zone}`)], style, ['left', ...zones.map(() => 'right' as const)]);
+  r.scenario.fit.states.forEach((name, s) => {
+    table.push([name, ...zones.map((z) => {
+      const v = z.rows?.[s];
+      if (!v?.kappa) return '—';
+      return v.kappa.low === v.kappa.high ? concentration(v.kappa.median) : `${concentration(v.kappa.median)} [${concentration(v.kappa.low)}–${concentration(v.kappa.high)}]`;
+    })]);
+  });
+  return [style.bold('Year-to-year variation — each zone estimates its own κ from its own record (pooling: none)'), table.toString(),
+    style.dim('Small κ: years differ a lot; large κ: years are alike. —: the row does not vary in that zone.')];
+}
 
 /** Band width at the horizon, and what it would be with each source of uncertainty switched off. */
 function splitTable(r: ForecastResult, style: ChalkInstance): string[] {

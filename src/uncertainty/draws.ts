@@ -42,6 +42,11 @@ export interface MatrixDraws {
   /** How each row's variation was set (variation.ts), when there is any. */
   readonly variation?: readonly RowVariation[];
   /**
+   * Zones fitted each on their own (pooling: none): each zone's own `variation` (its κ estimated
+   * from its own record), and then `variation` is absent — no one κ speaks for the landscape.
+   */
+  readonly zoneVariation?: readonly (readonly RowVariation[] | undefined)[];
+  /**
    * Stratified by zone (zone-draws.ts): `data` holds this many sets of `count` matrices, zone z's
    * draw d at `(z*count + d)*k*k`, and `concentration` likewise at `(z*count + d)*k`. Absent: one
    * landscape. Draw d of every zone comes from the same posterior draw of the shared (κ, p).

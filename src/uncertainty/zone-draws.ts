@@ -59,7 +59,10 @@ export function drawZoneMatrices(fit: Fit, source: MatrixDraws['source'], count:
     k, count, data, source, zones: Z,
     notes: sets.flatMap((s, z) => s.notes.map((n) => `zone ${zones.zones[z]!.name}: ${n}`)),
     ...(concentration ? { concentration } : {}),
-    ...(sets[0]!.variation ? { variation: sets[0]!.variation } : {}),
+    // Partial pooling: one (κ, p) for all zones. None: each zone its own, reported zone by zone.
+    ...(zones.pooling === 'none'
+      ? (sets.some((s) => s.variation) ? { zoneVariation: sets.map((s) => s.variation) } : {})
+      : (sets[0]!.variation ? { variation: sets[0]!.variation } : {})),
   };
 }
 

@@ -120,3 +120,24 @@ describe('commands on a zoned scenario', () => {
     expect(j.cells[0].zones.map((z: { name: string; sites: number }) => [z.name, z.sites])).toEqual([['clay', 2], ['sand', 3]]);
   });
 });
+
+describe('year-to-year variation with zones fitted each on their own', () => {
+  it('reports each zone\'s own κ (variation_by_zone), not one zone\'s as the landscape\'s', async () => {
+    const dir = tmp();
+    const scenario = join(dir, 'none.yaml');
+    writeFileSync(scenario, readFileSync('scenarios/brenhollow/zoned.yaml', 'utf8')
+      .replace('data: zoned-surveys.csv', `data: ${join(process.cwd(), 'scenarios/brenhollow/zoned-surveys.csv')}`)
+      .replace('pooling: partial', 'pooling: none').replace('draws: 4000', 'draws: 300'));
+    const r = await sere(['forecast', scenario, '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const out = JSON.parse(r.stdout).scenarios[0];
+    expect(out.variation).toBeUndefined();
+    expect(Object.keys(out.variation_by_zone)).toEqual(['creekside', 'landward', 'midmarsh']);
+    // Landward's plots never leave rank grass in the record (its row does not vary); creekside's do.
+    expect(out.variation_by_zone.landward['rank-grass'].status).toBe('never-left');
+    expect(out.variation_by_zone.creekside['rank-grass'].status).toBe('estimated');
+    // Each zone's κ comes from its own record: the zones' low-marsh medians differ.
+    const lowMarsh = ['creekside', 'landward', 'midmarsh'].map((z) => out.variation_by_zone[z]['low-marsh'].kappa.median);
+    expect(new Set(lowMarsh).size).toBe(3);
+  });
+});
