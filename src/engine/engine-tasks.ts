@@ -1,5 +1,5 @@
 import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
-import { projectDraws, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandOf } from './quantiles.js';
 
 /**
@@ -18,13 +18,22 @@ export interface SharedRun {
 
 /** One phase of a run, split into tasks numbered 0 … count − 1 that any thread may take, in any order. */
 export type Phase =
-  /** Steps from … to − 1 of every block of draws of every run: task = run × blocks + block. */
+  /**
+   * Steps from … to − 1 of every block of draws of every run: task = run × blocks + block; with
+   * year-to-year variation task = block, all runs together, as they share each draw's year matrices
+   * (project-chunk.ts).
+   */
   | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
   /** Bands of columns (run, slot, state), three numbers each; results [median, low, high, mean] per column. */
   | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
-  return phase.kind === 'project' ? runs.length * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
+  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
+}
+
+/** Groups of runs projected together: one (all runs) when they share year matrices, else one per run. */
+function projectGroups(runs: readonly SharedRun[]): number {
+  return runs[0]!.inputs.variation ? 1 : runs.length;
 }
 
 
@@ -36,12 +45,13 @@ export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
 export function runTask(runs: readonly SharedRun[], phase: Phase, task: number): void {
   if (phase.kind === 'project') {
     const blocks = blockCount(runs[0]!.inputs.draws);
-    const run = runs[Math.floor(task / blocks)]!;
+    const group = Math.floor(task / blocks);
     const b = task % blocks;
-    const D = run.inputs.draws;
-    const { outcomes } = run;
-    projectDraws({ ...run.inputs, onOutcome: (d, treatment) => { outcomes[treatment * D + d] = 1; } },
-      run.state, b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf, run.buffer);
+    const D = runs[0]!.inputs.draws;
+    const members = projectGroups(runs) === 1 ? runs : [runs[group]!];
+    projectDrawsTogether(members.map((run) => ({
+      inputs: { ...run.inputs, onOutcome: (d, treatment) => { run.outcomes[treatment * D + d] = 1; } }, state: run.state, out: run.buffer,
+    })), b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf);
     return;
   }
   const { columns, results } = phase;

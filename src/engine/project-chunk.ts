@@ -73,6 +73,19 @@ export interface ProjectionInputs {
   readonly variation?: { readonly concentration: Float64Array; readonly keys: Uint32Array };
 }
 
+/** One run of a projection call: its inputs, its state, and where its recorded mixes go (`[(r*k + s)*D + d]`). */
+export interface ProjectedRun {
+  readonly inputs: ProjectionInputs;
+  readonly state: ProjectionState;
+  readonly out: Float64Array;
+}
+
+/** Steps `from` … `to − 1` of draws `d0` … `d1 − 1` of one run (see projectDrawsTogether). */
+export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
+  from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
+  projectDrawsTogether([{ inputs, state, out }], d0, d1, from, to, slotOf);
+}
+
 /**
  * Steps `from` … `to − 1` of draws `d0` … `d1 − 1`: x_{t+1} = x_t P (row vector times a
  * row-stochastic matrix) in every sub-population — with year-to-year variation, P is a fresh year
@@ -83,14 +96,44 @@ export interface ProjectionInputs {
  * target that must stay met is found in the same pass) and when each state first becomes the most
  * common; the landscape mix at step t with `slotOf[t] = r ≥ 0` goes to `out[(r*k + s)*D + d]`.
  *
+ * `runs` are alternatives on the same matrix draws (the same P, k, draws, horizon and variation:
+ * simulate.ts runs them side by side). A draw's year matrices depend only on the draw and the year
+ * streams, not on the management, so they are drawn once per draw and chunk and every run reads
+ * them: a comparison of four alternatives draws a quarter of the gamma variates it drew before,
+ * and each run's numbers are the same bits as when it ran alone.
+ *
  * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
  * once per call, no allocation inside. Shares are not renormalised: every matrix row sums to 1
  * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
  * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
  * memory budget.
  */
-export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
-  from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
+export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, d1: number,
+  from: number, to: number, slotOf: Int32Array): void {
+  const { P, k, draws: D, variation } = runs[0]!.inputs;
+  const k2 = k * k;
+  const Z = runs[0]!.inputs.plan ? runs[0]!.inputs.plan.zones : 1;
+  const zoneStride = D * k2;
+  // The chunk's year matrices of one draw, `years[((t − from)*Z + zone)*k2 + c]`, drawn once for every run.
+  const years = variation ? new Float64Array((to - from) * Z * k2) : undefined;
+  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
+  const projectors = runs.map((run) => runProjector(run, from, to, slotOf, years));
+  for (let d = d0; d < d1; d++) {
+    if (kernel) {
+      if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), runs[0]!.inputs.horizon, from, to);
+      for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
+      // Each zone's year matrix around its own draw, from the same stream one zone after another.
+      for (let t = Math.max(from, 1); t < to; t++) {
+        for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone, years!, ((t - from) * Z + zone) * k2);
+      }
+    }
+    for (const project of projectors) project(d, d0, d1);
+  }
+}
+
+/** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
+function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32Array, years: Float64Array | undefined): (d: number, d0: number, d1: number) => void {
+  const { inputs, state, out } = run;
   const { P, k, draws: D, horizon, start, startByDraw, plan, hits, target, onOutcome } = inputs;
   const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
   const k2 = k * k;
@@ -100,14 +143,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const nMembers = members.length;
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const trivial = !plan || plan.trivial;
-  const { variation } = inputs;
+  const variation = years !== undefined;
   // Zones (MatrixDraws.zones): sub-population g runs on zone zoneOf[g]'s draws, Z·D matrices in all.
   const Z = plan ? plan.zones : 1;
   const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
   const zoneStride = D * k2;
   const eventIn = plan?.eventIn;
-  const year = variation ? new Float64Array(Z * k2) : undefined;
-  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
   const G = plan ? plan.subPopulations.length : 1;
@@ -126,14 +167,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
   const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
 
-  for (let d = d0; d < d1; d++) {
+  return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
     const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
     if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
-    if (kernel && (d === d0 || d % DRAW_BLOCK === 0)) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
-    if (kernel) for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
     built.fill(-1);
-    const M = ws ? ws.matrices : variation ? year! : P;
+    const M = ws ? ws.matrices : variation ? years! : P;
     const hitRow = d * steps;
     const x = d * G * k;
     let pending = 0; // states not yet seen as the most common
@@ -149,14 +188,11 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
           for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
         }
       } else {
-        if (kernel) {
-          // Each zone's year matrix around its own draw, from the same stream one zone after another.
-          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone, year!, zone * k2);
-        }
+        const yearAt = (t - from) * Z * k2;
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, year!, plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
-          const base = ws ? recipe * k2 : variation ? 0 : d * k2;
+          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, years!, yearAt + plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
+          const base = ws ? recipe * k2 : variation ? yearAt : d * k2;
           const xo = x + g * k;
           const x0 = xs[xo]!;
           for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
@@ -209,5 +245,5 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
-  }
+  };
 }

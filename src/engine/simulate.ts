@@ -108,8 +108,9 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
   }));
   // A year matrix costs a gamma variate per cell, about VARIATION_WORK multiply-adds' time: count it
-  // as that much work when deciding whether worker threads pay for their start.
-  const pool = makePool(threadsFor(options.threads, D, steps * (variation ? VARIATION_WORK : 1), k, runs.length));
+  // as that much work when deciding whether worker threads pay for their start — once, as the runs
+  // share each draw's year matrices (project-chunk.ts).
+  const pool = makePool(threadsFor(options.threads, D, steps * (runs.length + (variation ? VARIATION_WORK : 0)), k, 1));
   pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));
