@@ -1,6 +1,7 @@
 import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandOf } from './quantiles.js';
+import { simulatePlotBlock, type PlotJob } from './plot-counts.js';
 
 /**
  * The work of a run that threads share (thread-pool.ts), on shared memory only: what a worker
@@ -25,9 +26,12 @@ export type Phase =
    */
   | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
   /** Bands of columns (run, slot, state), three numbers each; results [median, low, high, mean] per column. */
-  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array };
+  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array }
+  /** Plot counts of every block of draws of one run (plot-counts.ts): task = block. */
+  | { readonly kind: 'plots'; readonly job: PlotJob };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
+  if (phase.kind === 'plots') return blockCount(phase.job.draws);
   return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
 }
 
@@ -52,6 +56,10 @@ export function runTask(runs: readonly SharedRun[], phase: Phase, task: number):
     projectDrawsTogether(members.map((run) => ({
       inputs: { ...run.inputs, onOutcome: (d, treatment) => { run.outcomes[treatment * D + d] = 1; } }, state: run.state, out: run.buffer,
     })), b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf);
+    return;
+  }
+  if (phase.kind === 'plots') {
+    simulatePlotBlock(phase.job, task);
     return;
   }
   const { columns, results } = phase;
