@@ -1,5 +1,5 @@
 import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
-import { projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { projectDraws, projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandOf } from './quantiles.js';
 import { simulatePlotBlock, type PlotJob } from './plot-counts.js';
 
@@ -52,7 +52,14 @@ export function runTask(runs: readonly SharedRun[], phase: Phase, task: number):
     const group = Math.floor(task / blocks);
     const b = task % blocks;
     const D = runs[0]!.inputs.draws;
-    const members = projectGroups(runs) === 1 ? runs : [runs[group]!];
+    if (projectGroups(runs) !== 1 || runs.length === 1 && !runs[0]!.inputs.variation) {
+      const run = runs[group]!;
+      const { outcomes } = run;
+      projectDraws({ ...run.inputs, onOutcome: (d, treatment) => { outcomes[treatment * D + d] = 1; } },
+        run.state, b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf, run.buffer);
+      return;
+    }
+    const members = runs;
     projectDrawsTogether(members.map((run) => ({
       inputs: { ...run.inputs, onOutcome: (d, treatment) => { run.outcomes[treatment * D + d] = 1; } }, state: run.state, out: run.buffer,
     })), b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf);
