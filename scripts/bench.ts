@@ -19,6 +19,10 @@
  *    `npm run bench -- zones`: the zoned demo (three zones, partial pooling, variation) likewise.
  * 5. Comparison: `sere compare` of 4 alternatives × 4,000 draws × 50 years × 6 states (treatments,
  *    a partial area and a landscape event), wall time with start-up (best of 5), cache off and warm.
+ * 5b. Plots (`npm run bench -- plots`): a forecast of 5,000 sites as plots (`plots: latest`), 4,000
+ *    draws × 30 years × 6 states with variation, wall with start-up (best of 5), cache off and warm.
+ * 5c. Season (`npm run bench -- season`, only when named): `sere season` on a fresh demo workspace
+ *    (`sere init W --zoned`), wall with start-up (best of 3), cache off and warm.
  * 6. Check: `sere check` on 10,000 sites × 10 surveys × 8 states with 1,000 posterior draws for
  *    the bands, wall time with start-up (best of 3).
  * 8. Fit: `sere fit` against scripts/bench/numpy-count.py on 10⁶ and 10⁷ rows (10⁵ and 10⁶ sites ×
@@ -260,6 +264,44 @@ function compareFixture(): string {
 }
 if (want('compare')) {
   console.log(`compare: 4 alternatives × 4000 draws × 50 years × 6 states, wall incl. start-up: ${wall(['compare', compareFixture()])} (target: under 0.5 s)`);
+}
+
+/**
+ * A 6-state survey table of 5,000 sites × 10 years and a forecast of every one of them as plots
+ * (`plots: latest`): 4,000 draws × 30 years, variation estimated (the default for ten periods).
+ */
+function plotsFixture(): string {
+  const dir = surveyFolder(12, 5000, 6, (state, random) => {
+    const u = random.uniform();
+    return u < 0.75 ? state : u < 0.92 ? Math.min(5, state + 1) : random.integer(6);
+  });
+  writeFileSync(join(dir, 'plots.yaml'), 'data: surveys.csv\nuncertainty: { draws: 4000, seed: 3 }\nhorizon: { years: 30 }\nplots: latest\n');
+  return join(dir, 'plots.yaml');
+}
+if (want('plots')) {
+  console.log(`forecast with plots on 5,000 sites (4000 draws × 30 years × 6 states, variation), wall incl. start-up: ${wall(['forecast', plotsFixture()])} (target: under 2 s)`);
+}
+
+// `sere season` on the demo workspace (`sere init W --zoned`, as `npm run demo` does): a fresh
+// workspace per run, so every run does the same first-season work; only the season is timed.
+if (only === 'season') {
+  const seasonRun = (cache: string): number => {
+    const w = join(mkdtempSync(join(tmpdir(), 'sere-bench-ws-')), 'w');
+    const made = spawnSync(process.execPath, ['dist/cli/sere.mjs', 'init', w, '--zoned'], { encoding: 'utf8' });
+    if (made.status !== 0) throw new Error(made.stderr);
+    const t = performance.now();
+    runSere(['season', w], cache);
+    const ms = performance.now() - t;
+    rmSync(w, { recursive: true, force: true });
+    return ms;
+  };
+  let off = Infinity;
+  for (let n = 0; n < 3; n++) off = Math.min(off, seasonRun('off'));
+  seasonRun(benchCache);
+  let warm = Infinity;
+  for (let n = 0; n < 3; n++) warm = Math.min(warm, seasonRun(benchCache));
+  console.log(`season on the demo workspace (sere init W --zoned; sere season W), wall incl. start-up, best of 3: ` +
+    `${(off / 1000).toFixed(3)} s without the sample cache, ${(warm / 1000).toFixed(3)} s with it warm (target: under 5 s)`);
 }
 rmSync(benchCache, { recursive: true, force: true });
 

@@ -1,6 +1,7 @@
 import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
-import { projectDraws, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
+import { projectDraws, projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandOf } from './quantiles.js';
+import { simulatePlotBlock, type PlotJob } from './plot-counts.js';
 
 /**
  * The work of a run that threads share (thread-pool.ts), on shared memory only: what a worker
@@ -18,13 +19,25 @@ export interface SharedRun {
 
 /** One phase of a run, split into tasks numbered 0 … count − 1 that any thread may take, in any order. */
 export type Phase =
-  /** Steps from … to − 1 of every block of draws of every run: task = run × blocks + block. */
+  /**
+   * Steps from … to − 1 of every block of draws of every run: task = run × blocks + block; with
+   * year-to-year variation task = block, all runs together, as they share each draw's year matrices
+   * (project-chunk.ts).
+   */
   | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
   /** Bands of columns (run, slot, state), three numbers each; results [median, low, high, mean] per column. */
-  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array };
+  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array }
+  /** Plot counts of every block of draws of one run (plot-counts.ts): task = block. */
+  | { readonly kind: 'plots'; readonly job: PlotJob };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
-  return phase.kind === 'project' ? runs.length * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
+  if (phase.kind === 'plots') return blockCount(phase.job.draws);
+  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
+}
+
+/** Groups of runs projected together: one (all runs) when they share year matrices, else one per run. */
+function projectGroups(runs: readonly SharedRun[]): number {
+  return runs[0]!.inputs.variation ? 1 : runs.length;
 }
 
 
@@ -36,12 +49,24 @@ export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
 export function runTask(runs: readonly SharedRun[], phase: Phase, task: number): void {
   if (phase.kind === 'project') {
     const blocks = blockCount(runs[0]!.inputs.draws);
-    const run = runs[Math.floor(task / blocks)]!;
+    const group = Math.floor(task / blocks);
     const b = task % blocks;
-    const D = run.inputs.draws;
-    const { outcomes } = run;
-    projectDraws({ ...run.inputs, onOutcome: (d, treatment) => { outcomes[treatment * D + d] = 1; } },
-      run.state, b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf, run.buffer);
+    const D = runs[0]!.inputs.draws;
+    if (projectGroups(runs) !== 1 || runs.length === 1 && !runs[0]!.inputs.variation) {
+      const run = runs[group]!;
+      const { outcomes } = run;
+      projectDraws({ ...run.inputs, onOutcome: (d, treatment) => { outcomes[treatment * D + d] = 1; } },
+        run.state, b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf, run.buffer);
+      return;
+    }
+    const members = runs;
+    projectDrawsTogether(members.map((run) => ({
+      inputs: { ...run.inputs, onOutcome: (d, treatment) => { run.outcomes[treatment * D + d] = 1; } }, state: run.state, out: run.buffer,
+    })), b * DRAW_BLOCK, Math.min(D, (b + 1) * DRAW_BLOCK), phase.from, phase.to, phase.slotOf);
+    return;
+  }
+  if (phase.kind === 'plots') {
+    simulatePlotBlock(phase.job, task);
     return;
   }
   const { columns, results } = phase;

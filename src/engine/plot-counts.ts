@@ -1,5 +1,5 @@
-import type { MatrixDraws } from '../uncertainty/draws.js';
-import type { Multinomial } from '../uncertainty/multinomial.js';
+import { multinomialSampler, type Multinomial } from '../uncertainty/multinomial.js';
+import { generatorOfKey } from '../uncertainty/random.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
 import type { ProjectionInputs } from './project-chunk.js';
@@ -16,41 +16,68 @@ export interface PlotCounts extends DrawLayout {
 }
 
 /**
- * Number of plots in each state, simulated plot by plot in aggregate: each step, the plots in
- * state i move on as Multinomial(nᵢ, row i of the year's matrix), and a landscape event moves every
- * plot by its row of the event matrix. Block b of draws takes its chance from its own sub-stream. This adds the chance of individual plots (process noise)
- * to the uncertainty about the matrix, so the bands are prediction bands for "how many of our N
- * plots". Plots are placed in the partial-area parcels at random at the start of each draw.
+ * Everything the plot simulation of a run reads, as numbers and shared arrays, so any thread can
+ * run any block of its draws (engine-tasks.ts): the chance of block b comes from the stream whose
+ * key is `keys[b*8 … b*8 + 8)` (random.ts keyOf), and `counts` is shared memory each block writes
+ * its own draws of.
  */
-export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: readonly number[], options: {
+export interface PlotJob {
+  readonly P: Float64Array;
+  readonly k: number;
+  readonly draws: number;
+  readonly plan: RunPlan;
+  readonly start: readonly number[];
   readonly record: readonly number[];
   readonly hits: readonly Uint8Array[];
   /** Year-to-year variation: the same year matrices as the shares' run (the same streams, taken in the same order). */
   readonly variation?: ProjectionInputs['variation'];
-  /** The plot-level chance of block b of draws (its own sub-stream, draw-blocks.ts). */
-  readonly multinomialOf: (block: number) => Multinomial;
+  /** The plot-level chance of each block of draws: its own sub-stream's key (draw-blocks.ts). */
+  readonly keys: Uint32Array;
   /** With observer error and a start at the latest survey: each draw's true starting mix (D × k); its plots are split by it. */
   readonly starts?: Float64Array;
   /**
    * Counts "as recorded": each draw's error matrix E (D × k × k, row = true, column = recorded) and
-   * the chance of recording for block b (a sub-stream of its own, so the true plots are the same
-   * draws as without it). Absent: the counts are of the true states.
+   * the keys of the chance of recording per block (sub-streams of their own, so the true plots are
+   * the same draws as without it). Absent: the counts are of the true states.
    */
-  readonly recorded?: { readonly emissions: Float64Array; readonly multinomialOf: (block: number) => Multinomial };
-}): PlotCounts {
-  const { k, count: D, data: P } = matrices;
+  readonly recorded?: { readonly emissions: Float64Array; readonly keys: Uint32Array };
+  /** Number of plots, layout [recorded step][state][draw] (see layout.ts), in shared memory. */
+  readonly counts: Int32Array;
+}
+
+/** The result of a job whose every block has run. */
+export function plotCounts(job: PlotJob): PlotCounts {
+  return { draws: job.draws, slots: job.record.length, k: job.k, recorded: job.record, counts: job.counts };
+}
+
+/** Shared memory for a job's counts: D × recorded steps × k. */
+export function plotCountsBuffer(draws: number, recorded: number, k: number): Int32Array {
+  return new Int32Array(new SharedArrayBuffer(Math.max(1, draws * recorded * k) * 4));
+}
+
+/**
+ * Number of plots in each state, simulated plot by plot in aggregate: each step, the plots in
+ * state i move on as Multinomial(nᵢ, row i of the year's matrix), and a landscape event moves every
+ * plot by its row of the event matrix. Block b of draws takes its chance from its own sub-stream,
+ * so blocks run on any thread in any order give the same counts. This adds the chance of
+ * individual plots (process noise) to the uncertainty about the matrix, so the bands are
+ * prediction bands for "how many of our N plots". Plots are placed in the partial-area parcels at
+ * random at the start of each draw. Runs block `b` of `job`'s draws.
+ */
+export function simulatePlotBlock(job: PlotJob, b: number): void {
+  const { k, draws: D, P, plan, start, record, hits, variation } = job;
+  const d0 = b * DRAW_BLOCK;
+  const d1 = Math.min(D, d0 + DRAW_BLOCK);
   const k2 = k * k;
   const horizon = plan.horizon;
   const steps = horizon + 1;
-  const { record, hits, multinomialOf, variation } = options;
   const built = new Int32Array(plan.plans.length);
   const kernel = variation ? yearKernel(k, steps) : undefined;
   /** The year matrix, read where the kernel draws it. */
   const year = kernel ? kernel.years : new Float64Array(0);
   const slotOf = new Int32Array(steps).fill(-1);
   record.forEach((t, r) => { slotOf[t] = r; });
-  const R = record.length;
-  const counts = new Int32Array(D * R * k);
+  const { counts } = job;
   const G = plan.subPopulations.length;
   const groupWeights = Float64Array.from(plan.subPopulations, (g) => g.weight);
   const ws = planWorkspace(plan);
@@ -60,19 +87,15 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
   const split = new Int32Array(G);
   const moved = new Int32Array(k);
 
-  const through = options.recorded;
-  const total = start.reduce((a, b) => a + b, 0);
+  const through = job.recorded;
+  const total = start.reduce((a, c) => a + c, 0);
   const trueAt = new Int32Array(k);
   const seen = new Int32Array(k);
-  let multinomial: Multinomial = multinomialOf(0);
-  let recording: Multinomial | undefined = through?.multinomialOf(0);
-  for (let d = 0; d < D; d++) {
-    if (d > 0 && d % DRAW_BLOCK === 0) {
-      multinomial = multinomialOf(d / DRAW_BLOCK);
-      recording = through?.multinomialOf(d / DRAW_BLOCK);
-    }
-    const first = options.starts ? largestRemainder(Array.from(options.starts.subarray(d * k, (d + 1) * k)), total) : start;
-    if (kernel && d % DRAW_BLOCK === 0) startYearStreams(kernel, variation!.keys, d / DRAW_BLOCK, horizon, 0, steps);
+  const multinomial: Multinomial = multinomialSampler(generatorOfKey(job.keys, b * 8));
+  const recording: Multinomial | undefined = through && multinomialSampler(generatorOfKey(through.keys, b * 8));
+  if (kernel) startYearStreams(kernel, variation!.keys, b, horizon, 0, steps);
+  for (let d = d0; d < d1; d++) {
+    const first = job.starts ? largestRemainder(Array.from(job.starts.subarray(d * k, (d + 1) * k)), total) : start;
     if (kernel) kernel.setDraw(0, P, d * k2, variation!.concentration, d * k);
     if (!plan.trivial && !variation) fillPlanMatrices(plan, P, d * k2, ws);
     built.fill(-1);
@@ -123,5 +146,4 @@ export function simulatePlots(matrices: MatrixDraws, plan: RunPlan, start: reado
       for (let s = 0; s < k; s++) counts[out + s * D] = seen[s]!;
     }
   }
-  return { draws: D, slots: R, k, recorded: record, counts };
 }

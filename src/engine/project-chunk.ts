@@ -73,21 +73,19 @@ export interface ProjectionInputs {
   readonly variation?: { readonly concentration: Float64Array; readonly keys: Uint32Array };
 }
 
+/** One run of a projection call: its inputs, its state, and where its recorded mixes go (`[(r*k + s)*D + d]`). */
+export interface ProjectedRun {
+  readonly inputs: ProjectionInputs;
+  readonly state: ProjectionState;
+  readonly out: Float64Array;
+}
+
 /**
- * Steps `from` … `to − 1` of draws `d0` … `d1 − 1`: x_{t+1} = x_t P (row vector times a
- * row-stochastic matrix) in every sub-population — with year-to-year variation, P is a fresh year
- * matrix around the draw's (year-matrix.ts), made before the year's treatments and site events
- * change it, and shared by every sub-population — then landscape events x ← x·E in the years they
- * strike; the landscape's mix is the sum over sub-populations. Step 0 is the starting mix. At every
- * step it tracks whether the target is met (the length of the run of years it has held, so a
- * target that must stay met is found in the same pass) and when each state first becomes the most
- * common; the landscape mix at step t with `slotOf[t] = r ≥ 0` goes to `out[(r*k + s)*D + d]`.
- *
- * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
- * once per call, no allocation inside. Shares are not renormalised: every matrix row sums to 1
- * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
- * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
- * memory budget.
+ * Steps `from` … `to − 1` of draws `d0` … `d1 − 1` of one run, as projectDrawsTogether does for
+ * several: the same operations in the same order, so the same bits. Kept as one top-level function
+ * for runs without year matrices (nothing to share): measured, the closures of the shared version
+ * ran the numpy job's projection (100,000 draws × 100 years × 10 states, one thread, in-process)
+ * in 8.5–9.2 s of CPU against 6.5–6.9 s for this function.
  */
 export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
@@ -211,4 +209,252 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
   }
+}
+
+/**
+ * Steps `from` … `to − 1` of draws `d0` … `d1 − 1`: x_{t+1} = x_t P (row vector times a
+ * row-stochastic matrix) in every sub-population — with year-to-year variation, P is a fresh year
+ * matrix around the draw's (year-matrix.ts), made before the year's treatments and site events
+ * change it, and shared by every sub-population — then landscape events x ← x·E in the years they
+ * strike; the landscape's mix is the sum over sub-populations. Step 0 is the starting mix. At every
+ * step it tracks whether the target is met (the length of the run of years it has held, so a
+ * target that must stay met is found in the same pass) and when each state first becomes the most
+ * common; the landscape mix at step t with `slotOf[t] = r ≥ 0` goes to `out[(r*k + s)*D + d]`.
+ *
+ * `runs` are alternatives on the same matrix draws (the same P, k, draws, horizon and variation:
+ * simulate.ts runs them side by side). A draw's year matrices depend only on the draw and the year
+ * streams, not on the management, so they are drawn once per draw and chunk and every run reads
+ * them: a comparison of four alternatives draws a quarter of the gamma variates it drew before,
+ * and each run's numbers are the same bits as when it ran alone.
+ *
+ * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
+ * once per call, no allocation inside. Shares are not renormalised: every matrix row sums to 1
+ * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
+ * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
+ * memory budget.
+ */
+export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, d1: number,
+  from: number, to: number, slotOf: Int32Array): void {
+  const { P, k, draws: D, variation } = runs[0]!.inputs;
+  const k2 = k * k;
+  const Z = runs[0]!.inputs.plan ? runs[0]!.inputs.plan.zones : 1;
+  const zoneStride = D * k2;
+  // The chunk's year matrices of one draw, `years[((t − from)*Z + zone)*k2 + c]`, drawn once for every run.
+  const years = variation ? new Float64Array((to - from) * Z * k2) : undefined;
+  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
+  const projectors = runs.map((run) => runProjector(run, from, to, slotOf, years));
+  for (let d = d0; d < d1; d++) {
+    if (kernel) {
+      if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), runs[0]!.inputs.horizon, from, to);
+      for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
+      // Each zone's year matrix around its own draw, from the same stream one zone after another.
+      for (let t = Math.max(from, 1); t < to; t++) {
+        for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone);
+        // The kernel holds one year (slot z at z·k²): kept here, as every run reads every year of the chunk.
+        years!.set(kernel.years, (t - from) * Z * k2);
+      }
+    }
+    for (const project of projectors) project(d, d0, d1);
+  }
+}
+
+/** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
+function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32Array, years: Float64Array | undefined): (d: number, d0: number, d1: number) => void {
+  const { inputs, state, out } = run;
+  const { P, k, draws: D, horizon, start, startByDraw, plan, hits, target, onOutcome } = inputs;
+  const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
+  const k2 = k * k;
+  const steps = horizon + 1;
+  const members = target ? Int32Array.from(target.states) : new Int32Array(0);
+  const staysMet = target ? target.staysMet : 1;
+  const nMembers = members.length;
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
+  const trivial = !plan || plan.trivial;
+  const variation = years !== undefined;
+  // Zones (MatrixDraws.zones): sub-population g runs on zone zoneOf[g]'s draws, Z·D matrices in all.
+  const Z = plan ? plan.zones : 1;
+  const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
+  const zoneStride = D * k2;
+  const eventIn = plan?.eventIn;
+  /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
+  const built = new Int32Array(plan ? plan.plans.length : 0);
+  const G = plan ? plan.subPopulations.length : 1;
+  const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
+  const planOf = plan?.planOf;
+  const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
+  const events = landscape.length;
+  const ws = plan && !trivial ? planWorkspace(plan) : undefined;
+  const total = new Float64Array(k);
+  const y = new Float64Array(k);
+  const z = new Float64Array(k);
+  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
+  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
+  // line for every number (measured: a third of a comparison's time).
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
+  if (!ws && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
+    return plainProjector({ P, k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
+      xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
+  }
+
+  return (d, d0, d1) => {
+    const b = (d - d0) % OUTPUT_BLOCK;
+    const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
+    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
+    built.fill(-1);
+    const M = ws ? ws.matrices : variation ? years! : P;
+    const hitRow = d * steps;
+    const x = d * G * k;
+    let pending = 0; // states not yet seen as the most common
+    for (let s = 0; s < k; s++) if (firstMostCommon[d * k + s] === -1) pending += 1;
+    let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
+    for (let t = from; t < to; t++) {
+      if (t === 0) {
+        const so = startByDraw ? d * Z * k : 0;
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
+        if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
+        else {
+          total.fill(0);
+          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
+        }
+      } else {
+        const yearAt = (t - from) * Z * k2;
+        for (let g = 0; g < G; g++) {
+          const recipe = ws ? planOf![t * G + g]! : -1;
+          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, years!, yearAt + plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
+          const base = ws ? recipe * k2 : variation ? yearAt : d * k2;
+          const xo = x + g * k;
+          const x0 = xs[xo]!;
+          for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
+          for (let i = 1; i < k; i++) {
+            const xi = xs[xo + i]!;
+            if (xi === 0) continue;
+            const row = base + i * k;
+            for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
+          }
+          for (let e = 0; e < events; e++) {
+            if (hits[e]![hitRow + t] === 0 || (eventIn && eventIn[e * G + g] === 0)) continue;
+            const E = landscape[e]!;
+            z.fill(0);
+            for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }
+            y.set(z);
+          }
+          // The landscape's mix is the sum over sub-populations: assign for the first, add after.
+          if (g === 0) for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] = y[s]!; }
+          else for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] += y[s]!; }
+        }
+      }
+      const slot = slotOf[t]!;
+      if (slot >= 0) {
+        const at = slot * k * OUTPUT_BLOCK + b;
+        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = total[s]!;
+      }
+      if (pending > 0) {
+        let largest = 0;
+        for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
+        for (let s = 0; s < k; s++) {
+          if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) {
+            firstMostCommon[d * k + s] = t;
+            pending -= 1;
+          }
+        }
+      }
+      if (target) {
+        let sum = 0;
+        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
+        if (!(sum >= metLow && sum <= metHigh)) run = -1;
+        else {
+          if (run < 0) run = t;
+          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
+        }
+      }
+    }
+    runStart[d] = run;
+    if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+      const first = d - b;
+      for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
+    }
+  };
+}
+
+/**
+ * The projection of one draw when every step is the drawn (or year) matrix alone — no treatment,
+ * event, zone or parcel: the demo's and most forecasts' case. The same operations in the same
+ * order as the general projector (so the same bits), in a function a fraction of its size: V8
+ * compiles the general one several times a run (on-stack replacement at each loop), which cost a
+ * small forecast more CPU than its arithmetic (`node --trace-opt`: 0.1–0.3 s each under load).
+ */
+function plainProjector(c: {
+  readonly P: Float64Array; readonly k: number; readonly horizon: number; readonly start: ArrayLike<number>; readonly startByDraw: boolean;
+  readonly years: Float64Array | undefined; readonly from: number; readonly to: number; readonly slotOf: Int32Array;
+  readonly block: Float64Array; readonly out: Float64Array; readonly D: number;
+  readonly xs: Float64Array; readonly runStart: Int32Array; readonly firstAtTarget: Int32Array; readonly targetRunAtHorizon: Int32Array;
+  readonly firstMostCommon: Int32Array; readonly members: Int32Array; readonly staysMet: number; readonly metLow: number; readonly metHigh: number;
+  readonly hasTarget: boolean;
+}): (d: number, d0: number, d1: number) => void {
+  const { P, k, horizon, start, startByDraw, years, from, to, slotOf, block, out, D, xs, runStart, firstAtTarget, targetRunAtHorizon,
+    firstMostCommon, members, staysMet, metLow, metHigh, hasTarget } = c;
+  const k2 = k * k;
+  const steps = horizon + 1;
+  const nMembers = members.length;
+  const M = years ?? P;
+  const y = new Float64Array(k);
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  return (d, d0, d1) => {
+    const b = (d - d0) % OUTPUT_BLOCK;
+    const x = d * k;
+    let pending = 0;
+    for (let s = 0; s < k; s++) if (firstMostCommon[x + s] === -1) pending += 1;
+    let run = runStart[d]!;
+    for (let t = from; t < to; t++) {
+      if (t === 0) {
+        const so = startByDraw ? x : 0;
+        for (let s = 0; s < k; s++) xs[x + s] = start[so + s]!;
+      } else {
+        const base = years ? (t - from) * k2 : d * k2;
+        const x0 = xs[x]!;
+        for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
+        for (let i = 1; i < k; i++) {
+          const xi = xs[x + i]!;
+          if (xi === 0) continue;
+          const row = base + i * k;
+          for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
+        }
+        for (let s = 0; s < k; s++) xs[x + s] = y[s]!;
+      }
+      const slot = slotOf[t]!;
+      if (slot >= 0) {
+        const at = slot * k * OUTPUT_BLOCK + b;
+        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = xs[x + s]!;
+      }
+      if (pending > 0) {
+        let largest = 0;
+        for (let s = 0; s < k; s++) if (xs[x + s]! > largest) largest = xs[x + s]!;
+        for (let s = 0; s < k; s++) {
+          if (firstMostCommon[x + s] === -1 && xs[x + s]! >= largest - MOST_COMMON_TOLERANCE) {
+            firstMostCommon[x + s] = t;
+            pending -= 1;
+          }
+        }
+      }
+      if (hasTarget) {
+        let sum = 0;
+        for (let n = 0; n < nMembers; n++) sum += xs[x + members[n]!]!;
+        if (!(sum >= metLow && sum <= metHigh)) run = -1;
+        else {
+          if (run < 0) run = t;
+          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
+        }
+      }
+    }
+    runStart[d] = run;
+    if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+      const first = d - b;
+      for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
+    }
+  };
 }

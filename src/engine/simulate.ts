@@ -1,17 +1,16 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
-import { multinomialSampler } from '../uncertainty/multinomial.js';
-import type { RandomStream } from '../uncertainty/random.js';
+import { keyOf, type RandomStream } from '../uncertainty/random.js';
 import { eventHits } from './event-hits.js';
 import { buildPlan, type RunPlan } from './plan.js';
 import { carriedStarts } from './carried-start.js';
-import { simulatePlots, type PlotCounts } from './plot-counts.js';
+import { plotCounts, plotCountsBuffer, type PlotCounts, type PlotJob } from './plot-counts.js';
 import { projectionState, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import type { SharedRun } from './engine-tasks.js';
 import { makePool } from './thread-pool.js';
 import { threadsFor } from './threads.js';
 import { chunksOf, yearsPerChunk } from './chunk-years.js';
-import { blockName, sharedFloat64 } from '../uncertainty/draw-blocks.js';
+import { blockCount, blockName, sharedFloat64 } from '../uncertainty/draw-blocks.js';
 import { appendBand, emptyBands, type ShareBands } from './year-bands.js';
 import { yearStreamKeys } from './year-matrix.js';
 
@@ -68,6 +67,14 @@ export interface SimulateOptions {
  */
 export const VARIATION_WORK = 30;
 
+/**
+ * Multiply-adds' time a draw's plots cost per step and matrix cell (k² a step), when plots are
+ * counted: measured on 5,000 plots of 6 states (`npm run bench -- plots`), about 3 s for
+ * 4,000 draws × 30 steps on one loaded core — some 25 µs a draw and step, against 36 multiply-adds
+ * of ~2.7 ns for the shares. A rough figure: it only decides whether worker threads pay.
+ */
+export const PLOT_WORK = 300;
+
 /** Run one scenario on given matrix draws (see simulateTogether). */
 export function simulate(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, options: SimulateOptions = {}): Simulation {
   return simulateTogether([scenario], matrices, random, options)[0]!;
@@ -108,8 +115,10 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
   }));
   // A year matrix costs a gamma variate per cell, about VARIATION_WORK multiply-adds' time: count it
-  // as that much work when deciding whether worker threads pay for their start.
-  const pool = makePool(threadsFor(options.threads, D, steps * (variation ? VARIATION_WORK : 1), k, runs.length));
+  // as that much work when deciding whether worker threads pay for their start — once, as the runs
+  // share each draw's year matrices (project-chunk.ts); plot counts PLOT_WORK per run with plots.
+  const plotRuns = switches.noPlots ? 0 : scenarios.filter((s) => s.plots).length;
+  const pool = makePool(threadsFor(options.threads, D, steps * (runs.length + (variation ? VARIATION_WORK : 0) + plotRuns * PLOT_WORK), k, 1));
   pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));
@@ -158,13 +167,17 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
           '(probabilities capped at 1, or nothing left to rescale)');
       }
     });
-    const plots = run.scenario.plots && !switches.noPlots
-      ? simulatePlots(matrices, run.plan, run.scenario.plots.start, {
-        record: recorded, hits: run.inputs.hits, variation,
-        multinomialOf: (b) => multinomialSampler(random.stream('plots').stream(blockName(b))),
+    // Plot counts, block by block on the pool's threads: each block's chance is its own stream's.
+    let plots: PlotCounts | undefined;
+    if (run.scenario.plots && !switches.noPlots) {
+      const job: PlotJob = {
+        P: matrices.data, k, draws: D, plan: run.plan, start: run.scenario.plots.start, record: recorded, hits: run.inputs.hits,
+        ...(variation ? { variation } : {}), keys: blockKeys(random.stream('plots'), D), counts: plotCountsBuffer(D, recorded.length, k),
         ...plotScaleInputs(run.scenario, matrices, random),
-      })
-      : undefined;
+      };
+      pool.phase({ kind: 'plots', job });
+      plots = plotCounts(job);
+    }
     return {
       tracks: { draws: D, horizon: H, k, recorded, firstAtTarget, targetRunAtHorizon, firstMostCommon },
       shares: shares[n]!, horizonShares: horizonShares[n]!, plots, notes,
@@ -210,16 +223,23 @@ function observerMatrices(matrices: MatrixDraws, m: number): Float64Array {
 
 /**
  * With observer error, plots start from each draw's true mix (when the start is the latest survey)
- * and, asked `as: recorded`, are recorded through each draw's error matrix on the stream
+ * and, asked `as: recorded`, are recorded through each draw's error matrix on the streams of
  * 'plots:recorded'. Without an error model the records are taken as the truth: nothing is added.
  */
-function plotScaleInputs(scenario: Scenario, matrices: MatrixDraws, random: RandomStream): Pick<Parameters<typeof simulatePlots>[3], 'starts' | 'recorded'> {
+function plotScaleInputs(scenario: Scenario, matrices: MatrixDraws, random: RandomStream): Pick<PlotJob, 'starts' | 'recorded'> {
   const starts = scenario.start.from === 'latest' ? matrices.starts : undefined;
   const observer = scenario.plots?.observer;
   const emissions = scenario.plots?.scale !== 'recorded' ? undefined
     : observer ? observerMatrices(matrices, observer.matrix) : matrices.emissions;
   return {
     ...(starts ? { starts } : {}),
-    ...(emissions ? { recorded: { emissions, multinomialOf: (b: number) => multinomialSampler(random.stream('plots:recorded').stream(blockName(b))) } } : {}),
+    ...(emissions ? { recorded: { emissions, keys: blockKeys(random.stream('plots:recorded'), matrices.count) } } : {}),
   };
+}
+
+/** The keys of `random`'s sub-streams 'block:b', one per block of draws, 8 words each (random.ts keyOf). */
+function blockKeys(random: RandomStream, draws: number): Uint32Array {
+  const keys = new Uint32Array(blockCount(draws) * 8);
+  for (let b = 0; b < blockCount(draws); b++) keys.set(keyOf(random.stream(blockName(b))), b * 8);
+  return keys;
 }

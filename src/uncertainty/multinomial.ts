@@ -9,7 +9,7 @@ export type Multinomial = (n: number, p: Float64Array, pOffset: number, k: numbe
  * sampler of binomial.ts on the same stream. Counts are *added* to `out`, so sub-populations can be summed in
  * place. Stops as soon as nothing is left to place, which makes sparse rows cheap.
  */
-export function multinomialSampler(random: RandomStream): Multinomial {
+export function multinomialSampler(random: Pick<RandomStream, 'uniform' | 'gamma'>): Multinomial {
   const binomial = binomialSampler(random);
   return (n, p, pOffset, k, out, outOffset) => {
     let left = n;
