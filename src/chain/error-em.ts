@@ -42,7 +42,7 @@ export const ERROR_EM_MAX_ITERATIONS = 5000;
  * algorithm, step for step.
  *
  * Start: P0 as given (the caller's posterior mean of the recorded counts), E0 the assessment's own
- * proportions, π0 uniform. A cell of E that the assessment never saw is zero at the start and, EM
+ * proportions (an observer's on the pooled support: startingErrorCounts), π0 uniform. A cell of E that the assessment never saw is zero at the start and, EM
  * keeping zeros, zero at the end: the error model's structural zeros (fit.ts decides this and
  * checks every record is possible under them).
  *
@@ -57,7 +57,7 @@ export function errorMaximumLikelihood(records: RecordPatterns, assessment: Floa
   // θ = (P, every error matrix, π), one vector for the accelerated EM (squarem.ts).
   const theta = new Float64Array(kk + assessment.length + k);
   theta.set(start, 0);
-  rowNormalise(assessment, rows, theta.subarray(kk, kk + assessment.length), k);
+  rowNormalise(startingErrorCounts(assessment, kk), rows, theta.subarray(kk, kk + assessment.length), k);
   theta.fill(1 / k, kk + assessment.length);
   const parts = (t: Float64Array) => ({ p: t.subarray(0, kk), e: t.subarray(kk, kk + assessment.length), pi: t.subarray(kk + assessment.length) });
   const run = acceleratedEm(
@@ -145,6 +145,20 @@ function addPattern(records: RecordPatterns, q: number, pi: Float64Array, p: Flo
       }
     }
   }
+}
+
+/**
+ * Counts E0 is made from: each matrix's own assessed counts, and for an observer's matrix (m ≥ 1)
+ * ½ — the sampler's prior — on every cell of the pooled support (matrix 0's seen cells) its own
+ * assessment left at 0. EM keeps a zero at zero, so starting an observer's matrix on its own
+ * support alone would forbid, for ever, a confusion only another observer's assessment saw, though
+ * the model (error-model.ts errorSupport) and the sampler allow it: a record only such a confusion
+ * explains then had likelihood 0 and the MLE was NaN. With one matrix nothing changes.
+ */
+function startingErrorCounts(assessment: Float64Array, kk: number): Float64Array {
+  const counts = Float64Array.from(assessment);
+  for (let c = kk; c < counts.length; c++) if (counts[c] === 0 && assessment[c % kk]! > 0) counts[c] = 0.5;
+  return counts;
 }
 
 /** Each of `rows` rows of `width` divided by its sum (a row summing to 0 stays 0). */

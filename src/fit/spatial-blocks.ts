@@ -1,4 +1,5 @@
 import { SereError, type Place } from '../errors.js';
+import { settingName } from '../setting-name.js';
 import { edgeLag, estimateRange, type RangeEstimate } from './spatial-range.js';
 import type { BlockChoice } from '../data/raster/block-tally.js';
 
@@ -161,10 +162,11 @@ export function blockNotes(blocks: SpatialBlocks, unit = ''): string[] {
       : `twice the range of spatial autocorrelation at least: the correlation stayed above 0.05 up to half the extent, ${round(blocks.range!.range)}${unit}`;
   const widen = edgeCorrection(blocks);
   const notes = [`spatial block bootstrap: blocks of side ${round(blocks.side)}${unit} (${how}), ${blocks.blocks} blocks` +
-    (widen === 1 ? '' : `; each draw's departure from the estimate ×${widen.toFixed(2)} for the covariance cut at block edges`)];
+    (widen === 1 ? (blocks.chosenBy === 'given' ? '; no edge correction for a side given' : '')
+      : `; bands widened (each draw's departure from the estimate ×${widen.toFixed(2)}) for the neighbours split across block edges`)];
   if (blocks.blocks < FEW_BLOCKS) {
     notes.push(`only ${blocks.blocks} blocks (below ${FEW_BLOCKS}): the bands rest on few independent pieces and are themselves uncertain; ` +
-      'a smaller --block-size gives more blocks but, below the range, narrower bands than the data support');
+      `a smaller ${settingName('--block-size', 'uncertainty.block_size')} gives more blocks but, below the range, narrower bands than the data support`);
   }
   return notes;
 }

@@ -68,11 +68,11 @@ export function zoneSamplerWarnings(run: ZoneSamplerRun, states: readonly string
   };
   if (rhat) {
     out.push({ key: 'rhat', ...place(rhat), value: rhat.value,
-      line: `zone sampler: R̂ ${rhat.value.toFixed(4)} for ${name(rhat)} (above ${ZONE_RHAT_WARNING}): its chains disagree; the zones' posterior draws are not yet to be trusted` });
+      line: `zone sampler: R̂ ${rhat.value.toFixed(4)} for ${name(rhat)} (above ${ZONE_RHAT_WARNING}): its chains disagree; the zones' posterior draws are not yet to be trusted — compare with a refit under another --seed (the zone sampler's length is not a setting)` });
   }
   if (ess) {
     out.push({ key: 'ess', ...place(ess), value: ess.value,
-      line: `zone sampler: effective sample size ${Math.round(ess.value)} for ${name(ess)} (below ${ZONE_ESS_WARNING}): the zones' bands rest on few independent draws` });
+      line: `zone sampler: effective sample size ${Math.round(ess.value)} for ${name(ess)} (below ${ZONE_ESS_WARNING}): the zones' bands rest on few independent draws — compare with a refit under another --seed` });
   }
   return out;
 }

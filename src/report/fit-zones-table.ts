@@ -45,5 +45,5 @@ export function zoneSamplerLine(run: ZoneSamplerRun, states: readonly string[], 
   };
   return `zone posterior sampler${run.augmented ? ' (data augmentation over the gaps)' : ''}: ${run.chains} chains × ${run.kept} sweeps kept${every} after ${run.warmUp} warm-up ` +
     `(seed ${run.seed}: the draws a forecast with this seed makes) · ` +
-    (rhatMax === null ? 'no diagnostics (nothing varies, or one chain)' : `largest R̂ ${rhatMax.toFixed(3)}${where('rhat')} · smallest effective sample size ${Math.round(essMin!)}${where('ess')}`);
+    (rhatMax === null ? 'no diagnostics (nothing varies, or one chain)' : `largest R̂ ${rhatMax.toFixed(4)}${where('rhat')} · smallest effective sample size ${Math.round(essMin!)}${where('ess')}`);
 }

@@ -3,7 +3,7 @@ import type { CarriedSites } from '../chain/latest-mix.js';
 import type { ChalkInstance } from 'chalk';
 import type { ForecastResult } from '../engine/forecast.js';
 import { concentration, count, fitSites, latestCoverage, levelLabel, percent, percentBand, wholeBand } from './numbers.js';
-import { CAUTION, makeTable } from './style.js';
+import { BLOCK_CAUTION, CAUTION, makeTable } from './style.js';
 import { priorSensitivityLines } from './prior-sensitivity.js';
 import { firstTimeCell, targetLines } from './target-lines.js';
 import { treatedStationaryLines } from './treated-stationary-lines.js';
@@ -84,6 +84,8 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   if (r.priorSensitivity.length > 0) {
     lines.push('', ...priorSensitivityLines(states, r.priorSensitivity.map((p) => ({ reliance: p.reliance, columns: [p.horizon, p.longRun] })),
       [`${r.years[r.years.length - 1]} share`, 'long-run share'], style));
+    // The check runs the pooled fit: with zones it is a landscape-wide one, not each zone's.
+    if (sc.zones) lines.push(style.dim('With zones: the counts and shares above are those of the pooled fit of all zones, every zone run on its matrix (with the treatments); a zone\'s own rows may rest on the prior more.'));
   }
 
   const last = r.years[r.years.length - 1];
@@ -99,7 +101,7 @@ export function forecastTable(r: ForecastResult, style: ChalkInstance): string {
   if (r.variation) lines.push('', ...variationLines(r, style));
   if (r.variationByZone) lines.push('', ...zoneVariationLines(r, style));
   if (r.split) lines.push('', ...splitTable(r, style));
-  lines.push('', style.dim(CAUTION));
+  lines.push('', style.dim(sc.source === 'bootstrap' && fit.spatial ? BLOCK_CAUTION : CAUTION));
   return lines.join('\n') + '\n';
 }
 
@@ -198,5 +200,6 @@ export function zonesLine(sc: ForecastResult['scenario'], hint = true): string {
 function plotScaleWords(sc: ForecastResult['scenario']): string {
   if (!sc.fit.errorModel) return '';
   if (sc.plots?.scale !== 'recorded') return ', true states (not as recorded)';
-  return sc.plots.observer ? `, as ${sc.plots.observer.name} would record them (through their error matrix)` : ', as a survey would record them (through the error matrix)';
+  if (sc.plots.observer) return `, as ${sc.plots.observer.name} would record them (through their error matrix)`;
+  return sc.fit.errorModel.observers ? ', as a survey would record them (through the pooled error matrix of all observers)' : ', as a survey would record them (through the error matrix)';
 }

@@ -21,3 +21,8 @@ export function makeTable(head: string[], style: ChalkInstance, colAligns?: ('le
 export const CAUTION =
   'Assumes the fitted transition probabilities hold in future and sites change independently; ' +
   'these numbers support, not replace, local expertise and continued monitoring.';
+
+/** The same, for bands from the spatial block bootstrap: only blocks are taken as independent. */
+export const BLOCK_CAUTION =
+  'Assumes the fitted transition probabilities hold in future and blocks of sites (not single sites) change independently; ' +
+  'these numbers support, not replace, local expertise and continued monitoring.';

@@ -204,7 +204,7 @@ export const scenarioSchema = z.strictObject({
     // YAML reads a bare `true` as a boolean: take it and the quoted word alike.
     as: z.union([z.literal('recorded'), z.literal('true'), z.literal(true)], { error: "as must be 'recorded' or 'true'" })
       .default('true').transform((v) => (v === 'recorded' ? 'recorded' as const : 'true' as const)),
-    observer: z.string().min(1).optional(),
+    observer: z.string().min(1, { error: 'plots.observer names an observer of the accuracy assessment' }).optional(),
   })], { error: "plots must be a whole number, 'latest', or { count, as: true | recorded, observer }" }).optional()
     .describe("Plot counts: a whole number, 'latest', or { count, as: true | recorded, observer } — as: recorded draws them through the error matrix (default true: the true states); observer: through that assessed observer's own matrix (who will make the next survey)."),
   /** With a zoned fit: each zone's area (`410 ha`) or share (`0.6`); default each zone's share of the plots. */

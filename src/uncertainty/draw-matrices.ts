@@ -21,6 +21,10 @@ export function drawMatrices(fit: Fit, source: UncertaintySource, count: number,
   return withVariation(fit, drawSource(fit, source, count, random), variation, random);
 }
 
+/** Said when sites have positions but the draws take them as independent (README, "Site positions"). */
+const POSITIONS_UNUSED = 'the sites have positions, but only uncertainty.source: bootstrap uses them (spatial blocks): ' +
+  'these posterior draws take every site as independent, so where neighbouring sites change together the bands are too narrow';
+
 function drawSource(fit: Fit, source: UncertaintySource, count: number, random: RandomStream): MatrixDraws {
   const k = fit.states.length;
   const data = sharedFloat64(count * k * k);
@@ -53,7 +57,8 @@ function drawSource(fit: Fit, source: UncertaintySource, count: number, random: 
       if (observerEmissions && block.observerEmissions) observerEmissions.set(block.observerEmissions, first * m * k * k);
     }
   }
-  return { k, count, data, source, notes: source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : [], ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}),
+  const notes = source === 'bootstrap' ? bootstrapNotes(fit, emptyRows) : fit.spatial ? [POSITIONS_UNUSED] : [];
+  return { k, count, data, source, notes, ...(starts ? { starts } : {}), ...(emissions ? { emissions } : {}),
     ...(observerEmissions ? { observerEmissions, observers } : {}) };
 }
 

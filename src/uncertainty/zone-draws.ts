@@ -60,7 +60,8 @@ export function drawZoneMatrices(fit: Fit, source: MatrixDraws['source'], count:
     notes: sets.flatMap((s, z) => s.notes.map((n) => `zone ${zones.zones[z]!.name}: ${n}`)),
     ...(concentration ? { concentration } : {}),
     // Partial pooling: one (κ, p) for all zones. None: each zone its own, reported zone by zone.
-    ...(zones.pooling === 'none'
+    // (With one zone, its κ is the landscape's.)
+    ...(zones.pooling === 'none' && Z > 1
       ? (sets.some((s) => s.variation) ? { zoneVariation: sets.map((s) => s.variation) } : {})
       : (sets[0]!.variation ? { variation: sets[0]!.variation } : {})),
   };

@@ -57,7 +57,7 @@ describe('sere fit --pooling', () => {
     expect(s.ess_min).toBeGreaterThan(0);
     // Two states a, b: κ and the shared row of a varied; every R̂ and ESS is a number or null (never varied).
     expect(s.kappa_rhat).toHaveLength(2);
-    expect(r.stdout).toContain(`R̂ ${s.rhat_max.toFixed(3)}`);
+    expect(r.stdout).toContain(`R̂ ${s.rhat_max.toFixed(4)}`);
     const zone = JSON.parse(readFileSync(out, 'utf8')).zones.zones[0];
     expect(zone.sampler_rhat).toHaveLength(2);
     const check = JSON.parse((await sere(['check', out, '--seed', '5', '--json'])).stdout);

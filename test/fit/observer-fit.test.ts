@@ -248,3 +248,23 @@ describe('an observer column read but not used', () => {
     expect(fitSurvey(table, settings).errorModel!.observers).toBeUndefined();
   });
 });
+
+describe('a confusion only another observer\'s assessment saw', () => {
+  it('is possible for every observer in EM too: a record only it explains gives a finite MLE (it gave NaN)', async () => {
+    const { write: put } = tempFiles('sere-observer-support-');
+    // Only Corran's assessment saw true b recorded as a; Avery records b then a, and b>a is impossible,
+    // so the only explanation is Avery recording true b as a — a cell of Avery's matrix its own assessment left at 0.
+    const accuracy = put('acc.csv', 'observer,recorded,verified,n\nAvery,a,a,60\nAvery,b,b,60\nCorran,a,a,60\nCorran,a,b,6\nCorran,b,b,54\n');
+    const rows = ['site,time,state,observer'];
+    for (let s = 0; s < 40; s++) rows.push(`S${s},2000,a,${s % 2 ? 'Avery' : 'Corran'}`, `S${s},2001,${s % 3 ? 'a' : 'b'},${s % 2 ? 'Avery' : 'Corran'}`);
+    rows.push('T,2000,b,Avery', 'T,2001,a,Avery');
+    const surveys = put('surveys.csv', rows.join('\n') + '\n');
+    const r = await sereInProcess(['fit', surveys, '--errors', accuracy, '--states', 'a,b', '--impossible', 'b>a', '--json', ...SAMPLER]);
+    expect(r.code, r.stderr).toBe(0);
+    const fit = JSON.parse(r.stdout);
+    expect(Number.isFinite(fit.estimation.log_likelihood)).toBe(true);
+    // The MLE is fitted, not the prior mean [0.5, 0.5] that a NaN likelihood left: about a third of a's leave.
+    expect(fit.probabilities[0][1]).toBeGreaterThan(0.2);
+    expect(fit.probabilities[0][1]).toBeLessThan(0.5);
+  });
+});
