@@ -47,34 +47,17 @@ export function structuredFromText<T>(file: string, text: string, sha256: string
     // An unknown key first: a misspelt required key (`horizen`) also makes `horizon` missing, and
     // the misspelling is what the user has to fix.
     const issue = issues.find((i) => i.code === 'unrecognized_keys') ?? issues[0]!;
-    const keyPath = (i: z.core.$ZodIssue): (string | number)[] => i.path.filter((p): p is string | number => typeof p !== 'symbol').map(userKey);
-    const base = keyPath(issue);
+    const base = issue.path.filter((p): p is string | number => typeof p !== 'symbol').map(userKey);
     const keys = issue.code === 'unrecognized_keys' ? issue.keys.map(userKey) : [];
     const path = keys.length > 0 ? [...base, keys[0]!] : base;
     const place = keys.length > 0 ? locateKey(doc, lineCounter, file, base, keys[0]!) : locate(path);
     const message = keys.length > 0 ? `unknown key ${quote(keys[0]!)}` : issue.message;
-    const meant = keys.length > 0 ? missingKeyLike(issues, base, keys[0]!, keyPath) ?? knownKeyLike(schema, base, keys[0]!) : undefined;
+    const meant = keys.length > 0 ? knownKeyLike(schema, base, keys[0]!) : undefined;
     throw new SereError(code, message, { ...place, path: formatKeyPath(path) || undefined },
       meant !== undefined ? `did you mean ${quote(meant)}?`
         : keys.length > 0 ? `check its spelling against the ${what} format in the README` : `see the ${what} format in the README`);
   }
   return { value: restoreProtoKeys(parsed.data), sha256, locate };
-}
-
-/**
- * A required key missing beside an unknown one and one or two edits from it (Damerau 1964, as
- * label-typos.ts): `horizen` when `horizon` is missing.
- */
-function missingKeyLike(issues: readonly z.core.$ZodIssue[], base: readonly (string | number)[], unknown: string,
-  keyPath: (i: z.core.$ZodIssue) => (string | number)[]): string | undefined {
-  for (const i of issues) {
-    if (i.code !== 'invalid_type' && i.code !== 'invalid_union') continue;
-    const at = keyPath(i);
-    if (at.length !== base.length + 1 || base.some((k, n) => at[n] !== k)) continue;
-    const name = at[at.length - 1];
-    if (typeof name === 'string' && editDistance(name, unknown) <= 2) return name;
-  }
-  return undefined;
 }
 
 /** The keys a schema allows at a key path: objects' shapes, through optional, default, union, array and pipe. */
