@@ -1,10 +1,12 @@
 /**
  * Memory for the mixes of a chunk of years, [step][state][draw] for every draw, shared by the
- * scenarios run together. 256 MB holds 3 years of 1,000,000 draws × 10 states, or 33 years of
- * 100,000: enough that summarising a year (its bands) costs far more than the pass that fills it,
- * and small beside the matrix draws themselves (D × k² doubles: 800 MB at 1,000,000 × 10 states).
+ * scenarios run together. 96 MB holds one year of 1,000,000 draws × 10 states (80 MB), or 12 years
+ * of 100,000: a chunk is one pass of the threads and one round of bands, and even a one-year chunk
+ * of 10⁶ draws is 10⁸ multiply-adds, far more than the hand-over costs. It was 256 MB (3 years at
+ * 10⁶ draws) until the 1.5 GB target of issue 10 at 1,000,000 × 100 × 10: peak RSS 1,521 → see
+ * DEVELOPERS.md, Benchmarks, for both sizes' figures.
  */
-export const CHUNK_BYTES = 256 * 1024 ** 2;
+export const CHUNK_BYTES = 96 * 1024 ** 2;
 
 /** How many recorded years a chunk holds: as many as fit in `budget` bytes, at least one. */
 export function yearsPerChunk(draws: number, k: number, scenarios: number, budget = CHUNK_BYTES): number {
