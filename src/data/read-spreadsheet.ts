@@ -13,6 +13,20 @@ export const WORKBOOK = /\.xls[xm]$/i;
 export const OTHER_SPREADSHEET = /\.(xls|xlsb|ods|numbers)$/i;
 
 /**
+ * Why a workbook could not be opened, in plain words. An .xlsx file is a zip archive; the zip
+ * reader's own messages ("Can't find end of central directory : is this a zip file ? If it is, see
+ * https://…") say the file is not one, which is what a user can act on. Other messages keep
+ * their first line, without web addresses, cut at 200 characters.
+ */
+export function unreadableReason(message: string): string {
+  if (/central directory|zip file|corrupted zip|end of data/i.test(message)) {
+    return 'it is not a complete zip archive, which an .xlsx file is: damaged, cut short, or another format renamed .xlsx';
+  }
+  const line = message.split('\n')[0]!.replace(/\s*(If it is, )?see https?:\/\/\S+/gi, '').replace(/https?:\/\/\S+/g, '').trim();
+  return line.slice(0, 200) || 'unknown reason';
+}
+
+/**
  * Read one worksheet of an .xlsx workbook with exceljs (pinned) and hand its rows to a RowSink as
  * a CSV scanner would: the survey collector then validates them exactly as a CSV table's. A row's
  * "line" is its row number in the sheet and a field's column its column, so a message can name
@@ -28,7 +42,7 @@ export function readSpreadsheet(file: string, sheet: string | undefined, sink: R
   const sha256 = hashFile(file, WHAT);
   const reply = readOnWorker(file, sheet);
   if (reply.kind === 'unreadable') {
-    throw new SereError('BAD_SPREADSHEET', `cannot be read as an .xlsx workbook (${reply.message.split('\n')[0]!.slice(0, 200)})`, { file },
+    throw new SereError('BAD_SPREADSHEET', `cannot be read as an .xlsx workbook (${unreadableReason(reply.message)})`, { file },
       'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
   }
   if (reply.kind === 'no-sheet') {

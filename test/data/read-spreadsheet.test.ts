@@ -10,6 +10,7 @@ import { fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { sereInProcess } from '../cli/in-process.js';
 import { errorOf } from '../helpers.js';
+import { unreadableReason } from '../../src/data/read-spreadsheet.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'sere-xlsx-'));
 let books: { surveys: string; faults: string };
@@ -85,7 +86,14 @@ describe('survey tables in .xlsx workbooks (exceljs)', () => {
   it('refuses a file that is not a workbook, other spreadsheet formats, and --sheet on a CSV', () => {
     const fake = join(dir, 'fake.xlsx');
     writeFileSync(fake, surveysCsv);
-    expect(errorOf(() => readSurveyCsv(fake, { columns })).code).toBe('BAD_SPREADSHEET');
+    const notZip = errorOf(() => readSurveyCsv(fake, { columns }));
+    expect(notZip.code).toBe('BAD_SPREADSHEET');
+    // The zip reader's own words (and its web address) are not passed on: the file is not a zip archive.
+    expect(notZip.message).not.toMatch(/https?:|central directory/);
+    expect(notZip.message).toMatch(/zip archive/);
+    expect(unreadableReason('Corrupted zip: can\'t find end of central directory')).toBe(unreadableReason('Can\'t find end of central directory : is this a zip file ?'));
+    expect(unreadableReason('Bad sheet XML at 3\nmore')).toBe('Bad sheet XML at 3');
+    expect(unreadableReason('Oops, see https://example.org/x for more')).not.toMatch(/https?:/);
     const ods = join(dir, 'surveys.ods');
     writeFileSync(ods, 'x');
     expect(errorOf(() => readSurveyCsv(ods, { columns })).code).toBe('BAD_SPREADSHEET');
