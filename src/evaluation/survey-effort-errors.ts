@@ -10,6 +10,7 @@ import { errorTruth } from './error-truth.js';
 import { currentRecords, futureRecords } from './future-records.js';
 import { resurveyedSites } from './resurvey-choice.js';
 import type { EffortCell, SurveyEffort } from './survey-effort.js';
+import { changeError, meanWidths, replicateWidths } from './replicate-widths.js';
 
 /**
  * The effort sampler's settings: 2 chains × (100 dropped + 100 kept). Each cell and replicate
@@ -75,24 +76,19 @@ export function errorSurveyEffort(scenario: Scenario, grid: { sites: readonly nu
     if (added) for (let c = 0; c < counts.length; c++) counts[c] += added[c]!;
     return { ...fit, counts, errorModel: { ...model, records: extended } };
   };
-  const meanOverReplicates = (widths: (r: number) => number[]): number[] => {
-    const sum = new Array<number>(k).fill(0);
-    for (let r = 0; r < options.replicates; r++) widths(r).forEach((w, s) => { sum[s]! += w; });
-    return sum.map((x) => x / options.replicates);
-  };
-  const current = meanOverReplicates((r) => widthsOf(withRecords(now), r));
+  const nowRuns = replicateWidths(options.replicates, (r) => widthsOf(withRecords(now), r));
   const truths = Array.from({ length: options.replicates }, (_, r) => errorTruth(fit, latent, options.random.stream(`truth:${r}`)));
   const cells: EffortCell[] = [];
   for (const sites of grid.sites) {
     for (const seasons of grid.seasons) {
-      const widths = meanOverReplicates((r) => {
+      const runs = replicateWidths(options.replicates, (r) => {
         const random = options.random.stream(`surveys:${sites}:${seasons}:${r}`);
         const chosen = seasons > 0 ? resurveyedSites(records, k, sites, random) : { patterns: [], newPlots: 0 };
         const future = futureRecords(records, truths[r]!, k, chosen, seasons, random);
         return widthsOf(withRecords(future.records, future.recordedPairs), r);
       });
-      cells.push({ sites, seasons, widths });
+      cells.push({ sites, seasons, widths: meanWidths(runs), changeError: changeError(runs, nowRuns) });
     }
   }
-  return { current, cells, replicates: options.replicates, sampler: options.sampler };
+  return { current: meanWidths(nowRuns), cells, replicates: options.replicates, sampler: options.sampler };
 }

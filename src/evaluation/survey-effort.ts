@@ -4,6 +4,7 @@ import type { RandomStream } from '../uncertainty/random.js';
 import { simulate } from '../engine/simulate.js';
 import { checkScenarios } from '../engine/check-treatments.js';
 import { resurveyedStates } from './resurvey-choice.js';
+import { changeError, meanWidths, replicateWidths } from './replicate-widths.js';
 
 export interface EffortCell {
   /** Sites surveyed each future season. */
@@ -12,6 +13,8 @@ export interface EffortCell {
   readonly seasons: number;
   /** Per state: expected band width of the share at the horizon, after those surveys. */
   readonly widths: readonly number[];
+  /** Per state: the Monte Carlo standard error of widths − current (paired over replicates; replicate-widths.ts); NaN with one replicate. */
+  readonly changeError: readonly number[];
 }
 
 export interface SurveyEffort {
@@ -56,26 +59,21 @@ export function surveyEffort(scenario: Scenario, grid: { sites: readonly number[
     const sim = simulate({ ...scenario, fit: updated, plots: undefined }, matrices, random, { record: [scenario.horizonSteps] });
     return sim.shares.map((band) => band.high[0]! - band.low[0]!);
   };
-  const meanOverReplicates = (widths: (r: number) => number[]): number[] => {
-    const sum = new Array<number>(k).fill(0);
-    for (let r = 0; r < options.replicates; r++) widths(r).forEach((w, s) => { sum[s]! += w; });
-    return sum.map((x) => x / options.replicates);
-  };
-  const current = meanOverReplicates((r) => widthsOf(fit.counts, options.random.stream(`bands:${r}`)));
+  const now = replicateWidths(options.replicates, (r) => widthsOf(fit.counts, options.random.stream(`bands:${r}`)));
   const cells: EffortCell[] = [];
   for (const sites of grid.sites) {
     for (const seasons of grid.seasons) {
-      const widths = meanOverReplicates((r) => {
+      const runs = replicateWidths(options.replicates, (r) => {
         const truth = posteriorDraws(fit, 1, options.random.stream(`truth:${r}`), latent).data;
         const random = options.random.stream(`surveys:${sites}:${seasons}:${r}`);
         const counts = Float64Array.from(fit.counts);
         simulateSurveys(truth, k, resurveyedStates(fit.latest.counts, sites, random), seasons, counts, random);
         return widthsOf(counts, options.random.stream(`bands:${r}`));
       });
-      cells.push({ sites, seasons, widths });
+      cells.push({ sites, seasons, widths: meanWidths(runs), changeError: changeError(runs, now) });
     }
   }
-  return { current, cells, replicates: options.replicates };
+  return { current: meanWidths(now), cells, replicates: options.replicates };
 }
 
 /** Each site makes `seasons` transitions under `truth` (k×k at `at`); the transitions are added to `counts`. */

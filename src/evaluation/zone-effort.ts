@@ -8,6 +8,7 @@ import { latentSampleOf } from '../uncertainty/posterior.js';
 import type { RandomStream } from '../uncertainty/random.js';
 import { drawZoneMatrices } from '../uncertainty/zone-draws.js';
 import { resurveyedStates } from './resurvey-choice.js';
+import { changeError, meanWidths } from './replicate-widths.js';
 import { simulateSurveys, type EffortCell, type SurveyEffort } from './survey-effort.js';
 
 /** One zone's part of a cell: the sites it is given each season and its own band widths after them. */
@@ -15,6 +16,8 @@ export interface ZoneEffortPart {
   readonly sites: number;
   /** Per state: expected width of the band of the share of the zone's own area at the horizon. */
   readonly widths: readonly number[];
+  /** Per state: the Monte Carlo standard error of widths − the zone's current widths (replicate-widths.ts). */
+  readonly changeError: readonly number[];
 }
 
 export interface ZoneEffortCell extends EffortCell {
@@ -56,7 +59,6 @@ export function zoneSurveyEffort(scenario: Scenario, grid: { sites: readonly num
   const zones = fit.zones!.zones;
   const k = fit.states.length;
   const k2 = k * k;
-  const Z = zones.length;
   const h = scenario.horizonSteps;
   const latent = zones.map((z) => latentSampleOf(z.fit, options.random.stream(`zone:${z.name}`)));
   const withCounts = (counts: readonly Float64Array[]): Fit => ({
@@ -75,20 +77,19 @@ export function zoneSurveyEffort(scenario: Scenario, grid: { sites: readonly num
     const own = zoneForecasts(run, matrices, random, {}, [h]).map((z) => z.shares.map(width));
     return { landscape, zones: own };
   };
-  const mean = (runs: { landscape: number[]; zones: number[][] }[]): { landscape: number[]; zones: number[][] } => ({
-    landscape: Array.from({ length: k }, (_, s) => runs.reduce((a, r) => a + r.landscape[s]!, 0) / runs.length),
-    zones: Array.from({ length: Z }, (_, z) => Array.from({ length: k }, (_, s) => runs.reduce((a, r) => a + r.zones[z]![s]!, 0) / runs.length)),
-  });
+  type Runs = { landscape: number[]; zones: number[][] }[];
+  const landscapeOf = (runs: Runs): number[][] => runs.map((r) => r.landscape);
+  const zoneOf = (runs: Runs, z: number): number[][] => runs.map((r) => r.zones[z]!);
   const replicates = Array.from({ length: options.replicates }, (_, r) => r);
   const ownCounts = zones.map((z) => z.fit.counts);
-  const now = mean(replicates.map((r) => widthsOf(ownCounts, options.random.stream(`bands:${r}`))));
+  const now = replicates.map((r) => widthsOf(ownCounts, options.random.stream(`bands:${r}`)));
   const current = withCounts(ownCounts);
   const truths = replicates.map((r) => drawZoneMatrices(current, 'posterior', 1, options.random.stream(`truth:${r}`)).data);
   const cells: ZoneEffortCell[] = [];
   for (const sites of grid.sites) {
     const perZone = largestRemainder(Array.from(stratified.shares), sites);
     for (const seasons of grid.seasons) {
-      const m = mean(replicates.map((r) => {
+      const runs = replicates.map((r) => {
         const random = options.random.stream(`surveys:${sites}:${seasons}:${r}`);
         const counts = zones.map((z, n) => {
           const c = Float64Array.from(z.fit.counts);
@@ -96,12 +97,15 @@ export function zoneSurveyEffort(scenario: Scenario, grid: { sites: readonly num
           return c;
         });
         return widthsOf(counts, options.random.stream(`bands:${r}`));
-      }));
-      cells.push({ sites, seasons, widths: m.landscape, zones: m.zones.map((widths, n) => ({ sites: perZone[n]!, widths })) });
+      });
+      cells.push({
+        sites, seasons, widths: meanWidths(landscapeOf(runs)), changeError: changeError(landscapeOf(runs), landscapeOf(now)),
+        zones: perZone.map((n, z) => ({ sites: n, widths: meanWidths(zoneOf(runs, z)), changeError: changeError(zoneOf(runs, z), zoneOf(now, z)) })),
+      });
     }
   }
   return {
-    current: now.landscape, currentZones: now.zones, cells, replicates: options.replicates,
+    current: meanWidths(landscapeOf(now)), currentZones: zones.map((_, z) => meanWidths(zoneOf(now, z))), cells, replicates: options.replicates,
     names: zones.map((z) => z.name), shares: Array.from(stratified.shares),
   };
 }

@@ -44,7 +44,22 @@ export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffor
     lines.push(style.dim(`With the error table: future surveys recorded through the drawn error matrices; the sampler rerun for "now" and every cell and replicate ` +
       `(${chains} chains, ${warmUp} sweeps dropped, ${retained} kept, thin ${thin}); the start is today's true mix in every cell, so these widths lean wide.`));
   }
+  const largest = largestChangeError(effort, shown);
+  if (largest !== null) {
+    lines.push(style.dim(`Monte Carlo error: a cell's change from "now" is known to ±${(largest * 100).toFixed(1)} points at most (one standard error, ` +
+      `paired over the ${effort.replicates} replicates); cells closer than about twice that are not told apart — raise --replicates to separate them.`));
+  }
   lines.push(style.dim('Preposterior analysis: future surveys simulated from the current posterior, then refitted. ' +
     'Only the part of the band due to the fitted matrix shrinks; events and plot-level chance do not.'));
   return lines.join('\n') + '\n';
+}
+
+/** The largest standard error of a change from "now" among the shown states' cells (zones' own included); null with one replicate. */
+function largestChangeError(effort: SurveyEffort | ZoneEffort | ErrorSurveyEffort, shown: readonly number[]): number | null {
+  let largest = -Infinity;
+  for (const c of effort.cells) {
+    const parts = 'zones' in c ? [c.changeError, ...(c as ZoneEffort['cells'][number]).zones.map((p) => p.changeError)] : [c.changeError];
+    for (const e of parts) for (const s of shown) if (e[s]! > largest) largest = e[s]!;
+  }
+  return largest === -Infinity || Number.isNaN(largest) ? null : largest;
 }
