@@ -7,7 +7,11 @@
  * - "demo-like": k = 5, a stay chance of 0.8–0.95, two or three small moves, one impossible cell,
  *   κ 60–120 and one row that does not vary (as the demo's fitted variation); shapes 0.5 … 110.
  * - "small shapes": k = 10, κ = 5 on the same rows as "bench": shapes mostly below 1 (the boost).
+ * Beside each, when python3 with numpy is present: numpy's own `Generator.dirichlet` on the same rows,
+ * vectorised over the years, in the same unit (scripts/bench/numpy-dirichlet.py) — the C
+ * implementation of the same method, as the reference for what a gamma variate costs.
  */
+import { spawnSync } from 'node:child_process';
 import { loadavg } from 'node:os';
 import { randomStreams, streamKey } from '../../src/uncertainty/random.js';
 import { yearKernel } from '../../src/uncertainty/year-kernel.js';
@@ -61,6 +65,14 @@ export function benchYearKernel(): void {
     let fastest = Infinity;
     for (let rep = 0; rep < 5; rep++) fastest = Math.min(fastest, run());
     console.log(`year kernel, ${c.name}: ${(fastest * 1e6 / (years * variates)).toFixed(1)} ns a variate ` +
-      `(${years} year matrices, ${variates} variates each; load ${loadavg()[0]!.toFixed(1)})`);
+      `(${years} year matrices, ${variates} variates each; load ${loadavg()[0]!.toFixed(1)})${numpyDirichlet(c, years)}`);
   }
+}
+
+/** numpy's Dirichlet rows on the same case, ns of user CPU a variate; '' without python3 and numpy. */
+function numpyDirichlet(c: Case, years: number): string {
+  const json = JSON.stringify({ k: c.k, P: Array.from(c.P), kappa: Array.from(c.kappa, (x) => (x === Infinity ? null : x)) });
+  const run = spawnSync('python3', ['scripts/bench/numpy-dirichlet.py', json, String(years)], { encoding: 'utf8' });
+  if (run.status !== 0) return '; numpy: not available here';
+  return `; numpy's dirichlet on the same rows: ${Number(run.stdout.trim()).toFixed(1)} ns a variate`;
 }
