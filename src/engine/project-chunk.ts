@@ -5,7 +5,7 @@ import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js'
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
-import { yearKernel } from '../uncertainty/year-kernel.js';
+import { projectSteps, yearKernel } from '../uncertainty/year-kernel.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
@@ -124,6 +124,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
   const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
+  if (!ws && !variation && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
+    const project = plainProjector({ P, k, horizon, start, startByDraw: Boolean(startByDraw), years: undefined, from, to, slotOf, block, out, D,
+      xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
+    for (let d = d0; d < d1; d++) project(d, d0, d1);
+    return;
+  }
 
   for (let d = d0; d < d1; d++) {
     const b = (d - d0) % OUTPUT_BLOCK;
@@ -403,14 +409,32 @@ function plainProjector(c: {
   const y = new Float64Array(k);
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  // Without year matrices a draw's steps all take its one matrix: the chunk's multiply-adds run in
+  // the WebAssembly kernel (projectSteps, the same bits), its mixes [t − from][state] read back here.
+  const mixes = years ? undefined : new Float64Array((to - from) * k);
+  const projected = mixes?.subarray(from === 0 ? k : 0);
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
     const x = d * k;
     let pending = 0;
     for (let s = 0; s < k; s++) if (firstMostCommon[x + s] === -1) pending += 1;
     let run = runStart[d]!;
+    if (mixes) {
+      if (from === 0) {
+        const so = startByDraw ? x : 0;
+        for (let s = 0; s < k; s++) { xs[x + s] = start[so + s]!; mixes[s] = start[so + s]!; }
+      }
+      const first = Math.max(from, 1);
+      if (to > first) projectSteps(P, d * k2, k, xs, x, to - first, projected!);
+    }
     for (let t = from; t < to; t++) {
-      if (t === 0) {
+      // This step's mix: src[at …].
+      let src = xs;
+      let at = x;
+      if (mixes) {
+        src = mixes;
+        at = (t - from) * k;
+      } else if (t === 0) {
         const so = startByDraw ? x : 0;
         for (let s = 0; s < k; s++) xs[x + s] = start[so + s]!;
       } else {
@@ -427,14 +451,14 @@ function plainProjector(c: {
       }
       const slot = slotOf[t]!;
       if (slot >= 0) {
-        const at = slot * k * OUTPUT_BLOCK + b;
-        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = xs[x + s]!;
+        const into = slot * k * OUTPUT_BLOCK + b;
+        for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = src[at + s]!;
       }
       if (pending > 0) {
         let largest = 0;
-        for (let s = 0; s < k; s++) if (xs[x + s]! > largest) largest = xs[x + s]!;
+        for (let s = 0; s < k; s++) if (src[at + s]! > largest) largest = src[at + s]!;
         for (let s = 0; s < k; s++) {
-          if (firstMostCommon[x + s] === -1 && xs[x + s]! >= largest - MOST_COMMON_TOLERANCE) {
+          if (firstMostCommon[x + s] === -1 && src[at + s]! >= largest - MOST_COMMON_TOLERANCE) {
             firstMostCommon[x + s] = t;
             pending -= 1;
           }
@@ -442,7 +466,7 @@ function plainProjector(c: {
       }
       if (hasTarget) {
         let sum = 0;
-        for (let n = 0; n < nMembers; n++) sum += xs[x + members[n]!]!;
+        for (let n = 0; n < nMembers; n++) sum += src[at + members[n]!]!;
         if (!(sum >= metLow && sum <= metHigh)) run = -1;
         else {
           if (run < 0) run = t;

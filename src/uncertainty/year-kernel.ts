@@ -36,6 +36,7 @@ interface Exports {
   prepare(p: number, kappa: number, k: number, cells: number): void;
   yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
+  projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -48,7 +49,16 @@ interface Instance {
   bytes: number;
   /** Bumped whenever a kernel takes the area, so a kernel laid out before can tell it is stale. */
   owner: number;
+  /** The projection's own scratch (`projectSteps`), PROJECTION_WORDS doubles reserved with the instance. */
+  readonly projection: number;
 }
+
+/**
+ * Doubles of scratch for `projectSteps`: a matrix of up to LIMITS.states = 100 states (10⁴), the mix
+ * and its scratch, and a run of steps' mixes. Reserved once with the instance, never grown, so it
+ * cannot move the memory under a year kernel's views.
+ */
+const PROJECTION_WORDS = 16384;
 
 let instance: Instance | undefined;
 
@@ -64,7 +74,7 @@ function kernelInstance(): Instance {
   view.set(F, tables / 8 + X.length);
   view.set(RATIO, tables / 8 + X.length + F.length);
   exports.setTables(tables, tables + X.length * 8, tables + (X.length + F.length) * 8, ZIGGURAT_R);
-  instance = { exports, at: 0, bytes: 0, owner: 0 };
+  instance = { exports, at: 0, bytes: 0, owner: 0, projection: exports.reserve(PROJECTION_WORDS * 8) };
   return instance;
 }
 
@@ -127,4 +137,36 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
       }
     },
   };
+}
+
+/** A view of the kernel's memory for `projectSteps`, remade when the memory has grown. */
+let projectionView: Float64Array | undefined;
+
+/**
+ * n steps of x ← x·M in WebAssembly (assembly/year-kernel.ts `projectSteps`: the same operations in
+ * the same order as the JavaScript projector, so the same bits): M is `P[pOffset …]` (k × k), the
+ * mix starts at `x[xOffset …]` (k) and is left there after the last step; step s's mix is written to
+ * `into[s·k …]`. Runs of steps are cut to fit the kernel's fixed scratch.
+ */
+export function projectSteps(P: Float64Array, pOffset: number, k: number, x: Float64Array, xOffset: number, n: number, into: Float64Array): void {
+  const inst = kernelInstance();
+  const k2 = k * k;
+  const at = inst.projection / 8;
+  const mAt = at;
+  const xAt = mAt + k2;
+  const yAt = xAt + k;
+  const outAt = yAt + k;
+  const run = Math.floor((PROJECTION_WORDS - k2 - 2 * k) / k);
+  if (run < 1) throw new Error(`the projection kernel holds at most ${Math.floor(Math.sqrt(PROJECTION_WORDS))} states`);
+  // The memory grows only when a year kernel reserves a larger area: a view of the old buffer would then be empty.
+  if (projectionView?.buffer !== inst.exports.memory.buffer) projectionView = new Float64Array(inst.exports.memory.buffer);
+  const f64 = projectionView;
+  f64.set(P.subarray(pOffset, pOffset + k2), mAt);
+  f64.set(x.subarray(xOffset, xOffset + k), xAt);
+  for (let s = 0; s < n; s += run) {
+    const m = Math.min(run, n - s);
+    inst.exports.projectSteps(mAt * 8, k, xAt * 8, yAt * 8, m, outAt * 8);
+    into.set(f64.subarray(outAt, outAt + m * k), s * k);
+  }
+  x.set(f64.subarray(xAt, xAt + k), xOffset);
 }
