@@ -21,10 +21,13 @@ export const BTPE_FROM = 10;
  * Binomial(42, 0.7) mean 28.85 (true 29.4), Binomial(20, 0.5) mean 10.55 (true 10), both more
  * than 80 standard errors off (test/uncertainty/binomial.test.ts checks this sampler's whole
  * distribution against the pmf on both sides of the switch). BTPE and inversion replaced Beta
- * order-statistic splitting (Knuth, TAOCP vol. 2, §3.4.1 F; sere ≤ 0.6), also exact, because
+ * order-statistic splitting (Knuth, TAOCP vol. 2, §3.4.1 F; until this change), also exact, because
  * splitting took a pair of gamma variates per halving and up to 16 Bernoulli uniforms — tens of
- * uniforms a binomial; on the `plots` bench (5,000 sites, 3.6 M binomials) it was most of the
- * forecast's CPU (DEVELOPERS.md, Benchmarks, for the measured before and after).
+ * uniforms a binomial. Measured on `npm run bench -- plots` (5,000 sites as plots, 4,000 draws × 30
+ * years, about 3.6 M binomials; 2 shared cores at load 9–10, builds alternated): the uniforms'
+ * refill, the splitting loop and the gamma variates were about two thirds of the CPU profile; the
+ * forecast's CPU fell from 11.6–13.5 s to 3.7–4.6 s, the bench's warm wall from 23.4 s to 5.3 s
+ * (DEVELOPERS.md, Benchmarks).
  */
 export function binomialSampler(random: Pick<RandomStream, 'uniform'>): (n: number, p: number) => number {
   const { uniform } = random;
