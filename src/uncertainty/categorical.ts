@@ -1,8 +1,8 @@
 /**
  * One draw of Multinomial(1, w[offset … offset+count)) as the state it falls in — exactly what
  * `multinomialSampler` (multinomial.ts) gives for n = 1, uniform for uniform: the same sequential
- * binomials (Devroye 1986, ch. XI.1), each Binomial(1, ·) one Bernoulli trial as binomial.ts draws
- * it below 16 trials, so a sampler may switch between the two without its seeded draws moving.
+ * binomials (Devroye 1986, ch. XI.1), each Binomial(1, ·) one Bernoulli trial U < p as binomial.ts
+ * draws one trial, so a sampler may switch between the two without its seeded draws moving.
  * Without the counts array, the closure calls and the fills of the general sampler: measured
  * in DEVELOPERS.md (the `observer` bench), the error sampler's paths of one site are drawn this way.
  * `w` need not be normalised only in that its entries sum to 1 up to rounding, as the

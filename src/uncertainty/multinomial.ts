@@ -6,10 +6,10 @@ export type Multinomial = (n: number, p: Float64Array, pOffset: number, k: numbe
 /**
  * Multinomial(n, p) by sequential binomials: Xⱼ ~ Binomial(n − Σ earlier, pⱼ / (1 − Σ earlier p))
  * (e.g. Devroye 1986, Non-Uniform Random Variate Generation, ch. XI.1), with the exact binomial
- * sampler of binomial.ts on the same stream. Counts are *added* to `out`, so sub-populations can be summed in
+ * sampler of binomial.ts (inversion or BTPE) on the same stream. Counts are *added* to `out`, so sub-populations can be summed in
  * place. Stops as soon as nothing is left to place, which makes sparse rows cheap.
  */
-export function multinomialSampler(random: Pick<RandomStream, 'uniform' | 'gamma'>): Multinomial {
+export function multinomialSampler(random: Pick<RandomStream, 'uniform'>): Multinomial {
   const binomial = binomialSampler(random);
   return (n, p, pOffset, k, out, outOffset) => {
     let left = n;

@@ -75,12 +75,14 @@ describe('the heath fixture with one observer who records young heath as grassla
     const table = readSurveyCsv(SURVEYS, { columns: DEFAULT_COLUMNS, states: [...STATES] });
     const unsampled = fitSurvey(table, SETTINGS);
     const sample = sampleLatent(unsampled, SMALL, randomStreams(11).stream('augment'));
-    expect(Array.from(sample.latent.subarray(0, 25))).toEqual([89, 35, 0, 14, 9, 5, 194, 81, 12, 5, 0, 15, 343, 14, 25, 2, 32, 5, 310, 20, 5, 8, 3, 16, 208]);
-    expect(Array.from(sample.errors!.emissions.subarray(79 * 25 + 5, 79 * 25 + 10))).toEqual([0, 0.9875096390872593, 0, 0.012490360912740618, 0]);
-    expect(Array.from(sample.errors!.latest.subarray(79 * 5, 80 * 5))).toEqual([4, 19, 53, 36, 38]);
+    // Re-pinned when binomials moved to inversion and BTPE (binomial.ts): record patterns shared by
+    // several sites draw their paths through multinomials (error-sampler.ts), so the sweeps moved.
+    expect(Array.from(sample.latent.subarray(0, 25))).toEqual([87, 32, 1, 15, 11, 6, 183, 80, 9, 5, 0, 15, 351, 15, 24, 2, 36, 7, 303, 18, 5, 6, 5, 15, 219]);
+    expect(Array.from(sample.errors!.emissions.subarray(79 * 25 + 5, 79 * 25 + 10))).toEqual([0, 0.9669687942811669, 0, 0.033031205718833195, 0]);
+    expect(Array.from(sample.errors!.latest.subarray(79 * 5, 80 * 5))).toEqual([4, 18, 54, 36, 38]);
     const draws = posteriorDraws({ ...unsampled, latentSample: sample }, 3, randomStreams(3).stream('p'));
-    expect(Array.from(draws.data.subarray(0, 5))).toEqual([0.6717257845213498, 0.17353645880890084, 0.0006151216995811966, 0.07611626935078643, 0.07800636561938161]);
-    expect(Array.from(draws.starts!.subarray(0, 5))).toEqual([4 / 150, 17 / 150, 54 / 150, 39 / 150, 36 / 150]);
+    expect(Array.from(draws.data.subarray(0, 5))).toEqual([0.6733958747401585, 0.17213249547019357, 0.00019568196662910357, 0.10034465025626761, 0.053931297566751295]);
+    expect(Array.from(draws.starts!.subarray(0, 5))).toEqual([4 / 150, 19 / 150, 53 / 150, 37 / 150, 37 / 150]);
   });
 
   it('refuses a fit file whose error matrix breaks a structural zero', () => {
