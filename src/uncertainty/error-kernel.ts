@@ -4,6 +4,7 @@ import { sampleDirichlet } from './dirichlet.js';
 import { pathScratch, samplePatternPaths, type CompletedRecords } from './error-sampler.js';
 import { multinomialSampler } from './multinomial.js';
 import type { RandomStream } from './random.js';
+import { fillSweepTables, sweepTables } from './sweep-tables.js';
 
 /**
  * One chain of the observer-error sampler (augment-errors.ts). Starts from P drawn given the
@@ -24,6 +25,7 @@ export function errorKernel(job: ErrorJob, stream: RandomStream): ChainKernel {
   const piParams = new Float64Array(k);
   const done: CompletedRecords = { transitions: new Float64Array(kk), recorded: new Float64Array(mkk), first: new Float64Array(k), latest: new Float64Array(k) };
   const scratch = pathScratch(k);
+  const tables = sweepTables(k, m);
   const drawAll = (transitions: Float64Array, recorded: Float64Array, first: Float64Array): void => {
     for (let c = 0; c < kk; c++) params[c] = alpha[c]! > 0 ? alpha[c]! + transitions[c]! : 0;
     for (let i = 0; i < k; i++) sampleDirichlet(stream, params, i * k, k, p, i * k);
@@ -39,7 +41,8 @@ export function errorKernel(job: ErrorJob, stream: RandomStream): ChainKernel {
       done.recorded.fill(0);
       done.first.fill(0);
       done.latest.fill(0);
-      for (let q = 0; q < records.count; q++) samplePatternPaths(records, q, pi, p, e, k, multinomial, stream.uniform, scratch, done);
+      fillSweepTables(tables, p, e);
+      for (let q = 0; q < records.count; q++) samplePatternPaths(records, q, pi, tables, multinomial, stream.uniform, scratch, done);
       drawAll(done.transitions, done.recorded, done.first);
     },
     keep(row, outputs, trace) {
