@@ -212,20 +212,39 @@ export function filterAll(): i32 {
     const previous = up < 0 ? 0 : i32At(supportCount, up);
     for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
     let total = 0.0;
-    for (let i = 0; i < count; i++) {
-      const x = surveyed ? i32At(emitSupport, base + i) : i;
-      let v = 0.0;
-      if (up < 0) v = f64At(pi, x);
-      else {
+    // The three kinds of step written apart, so that no choice is made inside the sums.
+    if (up < 0) {
+      for (let i = 0; i < count; i++) {
+        const x = surveyed ? i32At(emitSupport, base + i) : i;
+        let v = f64At(pi, x);
+        if (surveyed) v *= f64At(emit, base + x);
+        setF64(filter, row + x, v);
+        total += v;
+      }
+    } else if (surveyed) {
+      for (let i = 0; i < count; i++) {
+        const x = i32At(emitSupport, base + i);
         const c = x * k;
+        let v = 0.0;
         for (let j = 0; j < previous; j++) {
           const a = i32At(support, before + j);
           v += f64At(filter, before + a) * f64At(pT, c + a);
         }
+        v *= f64At(emit, base + x);
+        setF64(filter, row + x, v);
+        total += v;
       }
-      if (surveyed) v *= f64At(emit, base + x);
-      setF64(filter, row + x, v);
-      total += v;
+    } else {
+      for (let x = 0; x < k; x++) {
+        const c = x * k;
+        let v = 0.0;
+        for (let j = 0; j < previous; j++) {
+          const a = i32At(support, before + j);
+          v += f64At(filter, before + a) * f64At(pT, c + a);
+        }
+        setF64(filter, row + x, v);
+        total += v;
+      }
     }
     if (!(total > 0)) return n;
     let positive = 0;
