@@ -6,6 +6,7 @@ import { sampleDirichlet } from '../uncertainty/dirichlet.js';
 import { pathScratch, samplePatternPaths, type CompletedRecords } from '../uncertainty/error-sampler.js';
 import { multinomialSampler } from '../uncertainty/multinomial.js';
 import type { RandomStream } from '../uncertainty/random.js';
+import { fillSweepTables, sweepTables } from '../uncertainty/sweep-tables.js';
 
 /** One replicate's "truth" for survey effort with observer error: what the future surveys are simulated from. */
 export interface ErrorTruth {
@@ -62,11 +63,13 @@ export function errorTruth(fit: Fit, latent: LatentSample, random: RandomStream)
   const latestByPattern = new Float64Array(records.count * k);
   const done: CompletedRecords = { transitions: new Float64Array(kk), recorded: new Float64Array(m * kk), first: new Float64Array(k), latest: new Float64Array(k) };
   const scratch = pathScratch(k);
+  const tables = sweepTables(k, m);
+  fillSweepTables(tables, p, e);
   const multinomial = multinomialSampler(random);
   for (let q = 0; q < records.count; q++) {
     if (records.extend[q] !== 0) continue;
     done.latest.fill(0);
-    samplePatternPaths(records, q, pi, p, e, k, multinomial, random.uniform, scratch, done);
+    samplePatternPaths(records, q, pi, tables, multinomial, random.uniform, scratch, done);
     latestByPattern.set(done.latest, q * k);
   }
   const latestShares = new Float64Array(k);

@@ -1,9 +1,11 @@
 import { ERROR_PRIOR } from '../fit/error-model.js';
 import type { ChainKernel, ErrorJob } from './chain-kernel.js';
 import { sampleDirichlet } from './dirichlet.js';
-import { pathScratch, samplePatternPaths, type CompletedRecords } from './error-sampler.js';
+import { pathScratch } from './error-sampler.js';
 import { multinomialSampler } from './multinomial.js';
-import type { RandomStream } from './random.js';
+import { pathKernel } from './path-kernel.js';
+import { keyOf, type RandomStream } from './random.js';
+import { fillSweepTables } from './sweep-tables.js';
 
 /**
  * One chain of the observer-error sampler (augment-errors.ts). Starts from P drawn given the
@@ -16,30 +18,28 @@ export function errorKernel(job: ErrorJob, stream: RandomStream): ChainKernel {
   const { k, m, counts, alpha, support, assessment, records, firstRecorded } = job;
   const kk = k * k;
   const mkk = m * kk;
-  const multinomial = multinomialSampler(stream);
+  // The paths in WebAssembly, on the chain stream's own uniforms: every draw of the chain goes through `random`.
+  const paths = pathKernel(k, m, records, keyOf(stream));
+  const { random, tables, pi, done } = paths;
+  const multinomial = multinomialSampler(random);
   const params = new Float64Array(mkk);
   const p = new Float64Array(kk);
   const e = new Float64Array(mkk);
-  const pi = new Float64Array(k);
   const piParams = new Float64Array(k);
-  const done: CompletedRecords = { transitions: new Float64Array(kk), recorded: new Float64Array(mkk), first: new Float64Array(k), latest: new Float64Array(k) };
   const scratch = pathScratch(k);
   const drawAll = (transitions: Float64Array, recorded: Float64Array, first: Float64Array): void => {
     for (let c = 0; c < kk; c++) params[c] = alpha[c]! > 0 ? alpha[c]! + transitions[c]! : 0;
-    for (let i = 0; i < k; i++) sampleDirichlet(stream, params, i * k, k, p, i * k);
+    for (let i = 0; i < k; i++) sampleDirichlet(random, params, i * k, k, p, i * k);
     for (let c = 0; c < mkk; c++) params[c] = support[c % kk] ? ERROR_PRIOR + assessment[c]! + recorded[c]! : 0;
-    for (let x = 0; x < m * k; x++) sampleDirichlet(stream, params, x * k, k, e, x * k);
+    for (let x = 0; x < m * k; x++) sampleDirichlet(random, params, x * k, k, e, x * k);
     for (let x = 0; x < k; x++) piParams[x] = ERROR_PRIOR + first[x]!;
-    sampleDirichlet(stream, piParams, 0, k, pi, 0);
+    sampleDirichlet(random, piParams, 0, k, pi, 0);
   };
   return {
     start: () => drawAll(counts, new Float64Array(mkk), firstRecorded),
     sweep() {
-      done.transitions.fill(0);
-      done.recorded.fill(0);
-      done.first.fill(0);
-      done.latest.fill(0);
-      for (let q = 0; q < records.count; q++) samplePatternPaths(records, q, pi, p, e, k, multinomial, stream.uniform, scratch, done);
+      fillSweepTables(tables, p, e);
+      paths.sweep(multinomial, scratch);
       drawAll(done.transitions, done.recorded, done.first);
     },
     keep(row, outputs, trace) {

@@ -2,6 +2,7 @@ import { patternLength, type RecordPatterns } from '../chain/record-patterns.js'
 import type { Multinomial } from './multinomial.js';
 import { lastPositive } from './categorical.js';
 import { sampleOnePath } from './one-path.js';
+import type { SweepTables } from './sweep-tables.js';
 
 /** Where one sweep of the error-model sampler adds what it drew. */
 export interface CompletedRecords {
@@ -17,7 +18,11 @@ export interface CompletedRecords {
 
 /** Scratch space made once per chain: the inner loops allocate nothing. */
 export interface PathScratch {
+  /** T × k filtered laws (forwardFilter), grown to the longest pattern. */
   filter: Float64Array;
+  /** T × k: row t holds the states where filter row t is positive, ascending; `support` counts them. */
+  support: Int32Array;
+  supportCount: Int32Array;
   readonly here: Int32Array;
   readonly next: Int32Array;
   readonly drawn: Int32Array;
@@ -26,7 +31,7 @@ export interface PathScratch {
 }
 
 export function pathScratch(k: number): PathScratch {
-  return { filter: new Float64Array(0), here: new Int32Array(k), next: new Int32Array(k), drawn: new Int32Array(k), carried: new Int32Array(k), q: new Float64Array(k) };
+  return { filter: new Float64Array(0), support: new Int32Array(0), supportCount: new Int32Array(0), here: new Int32Array(k), next: new Int32Array(k), drawn: new Int32Array(k), carried: new Int32Array(k), q: new Float64Array(k) };
 }
 
 /**
@@ -49,13 +54,18 @@ export function pathScratch(k: number): PathScratch {
  * carried back (one-path.ts) with the same uniforms: `multinomial` and `uniform` must come from
  * the same stream.
  */
-export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
+export function samplePatternPaths(records: RecordPatterns, q: number, pi: Float64Array, tables: SweepTables,
   multinomial: Multinomial, uniform: () => number, scratch: PathScratch, out: CompletedRecords): void {
   const T = patternLength(records, q);
-  if (scratch.filter.length < T * k) scratch.filter = new Float64Array(2 * T * k);
-  forwardFilter(records, q, T, pi, p, e, k, scratch.filter);
-  if (records.sites[q] === 1) sampleOnePath(records, q, T, p, k, uniform, scratch.filter, scratch.q, out);
-  else samplePathsTogether(records, q, T, p, k, multinomial, scratch, out);
+  const k = tables.k;
+  if (scratch.filter.length < T * k) {
+    scratch.filter = new Float64Array(2 * T * k);
+    scratch.support = new Int32Array(2 * T * k);
+    scratch.supportCount = new Int32Array(2 * T);
+  }
+  forwardFilter(records, q, T, pi, tables, scratch);
+  if (records.sites[q] === 1) sampleOnePath(records, q, T, tables, uniform, scratch, out);
+  else samplePathsTogether(records, q, T, tables.p, k, multinomial, scratch, out);
 }
 
 /**
@@ -131,35 +141,57 @@ function carryToLatest(steps: number, p: Float64Array, k: number, multinomial: M
 }
 
 /**
- * The filtered laws α̂_t ∝ (α̂_{t−1} P) ⊙ e_t of pattern q into `filter` (T × k), e_t = E[·, recorded]
- * at a survey, ones elsewhere; each row scaled to sum 1. Where the survey's emission is 0 (a
- * structural zero of E) the entry is 0 without its sum over a: the product was 0 anyway, so the
- * values are those of the full product, bit for bit.
+ * The filtered laws α̂_t ∝ (α̂_{t−1} P) ⊙ e_t of pattern q into `scratch.filter` (T × k), e_t =
+ * E[·, recorded] at a survey, ones elsewhere; each row scaled to sum 1; and the states where each
+ * row is positive into `scratch.support`. Only those states of α̂_{t−1} enter the sum over a, and
+ * only the x with e_t(x) ≠ 0 (a structural zero of E: `tables.emitSupport`) are summed at a
+ * survey; the other entries are 0. A skipped term is a product with a 0 factor (P and E finite,
+ * nonnegative), and adding +0 leaves a nonnegative sum as it was, so the values are those of the
+ * full product over every a and x in the same order, bit for bit (test/uncertainty/one-path.test.ts).
+ * After a survey through an error matrix with few confusions α̂ has few positive states, so most
+ * steps cost a few multiply-adds instead of k².
  */
-export function forwardFilter(records: RecordPatterns, q: number, T: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
-  filter: Float64Array): void {
+export function forwardFilter(records: RecordPatterns, q: number, T: number, pi: Float64Array, tables: SweepTables,
+  scratch: PathScratch): void {
+  const { k, pT, emit, emitSupport, emitCount } = tables;
+  const { filter, support, supportCount } = scratch;
   const end = records.start[q + 1]!;
   let s = records.start[q]!;
   for (let t = 0; t < T; t++) {
     const row = t * k;
     const before = row - k;
     const surveyed = s < end && records.at[s] === t;
-    // Column r of the matrix this survey was recorded through (record-patterns.ts).
-    const r = surveyed ? records.matrix[s]! * k * k + records.state[s]! : 0;
+    // Column (matrix, recorded state) of the emission tables (record-patterns.ts).
+    const column = surveyed ? records.matrix[s]! * k + records.state[s]! : 0;
+    const base = column * k;
+    const n = surveyed ? emitCount[column]! : k;
+    const previous = t === 0 ? 0 : supportCount[t - 1]!;
+    for (let x = 0; x < k; x++) filter[row + x] = 0;
     let total = 0;
-    for (let x = 0; x < k; x++) {
-      const emit = surveyed ? e[r + x * k]! : 1;
+    for (let i = 0; i < n; i++) {
+      const x = surveyed ? emitSupport[base + i]! : i;
       let v = 0;
-      if (emit !== 0) {
-        if (t === 0) v = pi[x]!;
-        else for (let a = 0; a < k; a++) v += filter[before + a]! * p[a * k + x]!;
-        if (surveyed) v *= emit;
+      if (t === 0) v = pi[x]!;
+      else {
+        const c = x * k;
+        for (let j = 0; j < previous; j++) {
+          const a = support[before + j]!;
+          v += filter[before + a]! * pT[c + a]!;
+        }
       }
+      if (surveyed) v *= emit[base + x]!;
       filter[row + x] = v;
       total += v;
     }
     if (!(total > 0)) throw new Error('a record pattern has probability 0 under the sampler\'s parameters (checked at fit time)');
-    for (let x = 0; x < k; x++) filter[row + x] /= total;
+    let positive = 0;
+    for (let i = 0; i < n; i++) {
+      const x = surveyed ? emitSupport[base + i]! : i;
+      const v = filter[row + x]! / total;
+      filter[row + x] = v;
+      if (v > 0) support[row + positive++] = x;
+    }
+    supportCount[t] = positive;
     if (surveyed) s += 1;
   }
 }

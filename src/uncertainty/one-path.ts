@@ -1,6 +1,7 @@
 import type { RecordPatterns } from '../chain/record-patterns.js';
-import { drawCategorical, lastPositive } from './categorical.js';
-import type { CompletedRecords } from './error-sampler.js';
+import { drawCategorical } from './categorical.js';
+import type { CompletedRecords, PathScratch } from './error-sampler.js';
+import type { SweepTables } from './sweep-tables.js';
 
 /**
  * The backward-sampling half of error-sampler.ts for a record pattern of one site — almost every
@@ -10,19 +11,23 @@ import type { CompletedRecords } from './error-sampler.js';
  * 1994). Each draw is `drawCategorical`, which takes the uniforms Multinomial(1, ·) takes, in the
  * same order as the general path, so the sweep's draws are the same bit for bit as when every
  * pattern went through the multinomial (test/uncertainty/one-path.test.ts).
- * `filter` holds the pattern's filtered laws (T × k, `forwardFilter`); `weights` is k of scratch.
+ * `scratch` holds the pattern's filtered laws and their supports (T × k, `forwardFilter`); its `q` is k of
+ * scratch for the weights. The draws read P through the sweep's tables (sweep-tables.ts).
  */
-export function sampleOnePath(records: RecordPatterns, q: number, T: number, p: Float64Array, k: number, uniform: () => number,
-  filter: Float64Array, weights: Float64Array, out: CompletedRecords): void {
+export function sampleOnePath(records: RecordPatterns, q: number, T: number, tables: SweepTables, uniform: () => number,
+  scratch: PathScratch, out: CompletedRecords): void {
+  const { k, p, pT, pLast } = tables;
+  const { filter, support, supportCount, q: weights } = scratch;
   const first = records.start[q]!;
   const kk = k * k;
-  let b = drawCategorical(uniform, filter, (T - 1) * k, lastPositive(filter, (T - 1) * k, k) + 1);
+  // The last positive entry of the last filtered law: the last of its support.
+  let b = drawCategorical(uniform, filter, (T - 1) * k, support[(T - 1) * k + supportCount[T - 1]! - 1]! + 1);
   const steps = records.extend[q]!;
   if (steps >= 0) {
     // Carried from the last survey to the latest survey time; these steps are part of the path (error-sampler.ts).
     let now = b;
     for (let t = 0; t < steps; t++) {
-      const after = drawCategorical(uniform, p, now * k, lastPositive(p, now * k, k) + 1);
+      const after = drawCategorical(uniform, p, now * k, pLast[now]! + 1);
       out.transitions[now * k + after] += 1;
       now = after;
     }
@@ -36,15 +41,26 @@ export function sampleOnePath(records: RecordPatterns, q: number, T: number, p: 
     }
     if (t === 0) break;
     const row = (t - 1) * k;
+    const column = b * k;
     let total = 0;
-    for (let a = 0; a < k; a++) total += weights[a] = filter[row + a]! * p[a * k + b]!;
+    for (let a = 0; a < k; a++) total += weights[a] = filter[row + a]! * pT[column + a]!;
+    // drawCategorical over weights / total, each share divided out only when the draw reaches it:
+    // the same quotients, compared in the same order, taking the same uniforms.
     let last = 0;
-    for (let a = 0; a < k; a++) {
-      const w = weights[a]! / total;
-      weights[a] = w;
-      if (w > 0) last = a;
+    for (let a = k - 1; a > 0; a--) {
+      if (weights[a]! > 0 && weights[a]! / total > 0) { last = a; break; }
     }
-    const a = drawCategorical(uniform, weights, 0, last + 1);
+    let a = last;
+    let mass = 1;
+    for (let j = 0; j < last; j++) {
+      const w = weights[j]! / total;
+      if (w >= mass) { a = j; break; }
+      if (w > 0) {
+        const chance = w / mass;
+        if (chance >= 1 || uniform() < chance) { a = j; break; }
+      }
+      mass -= w;
+    }
     out.transitions[a * k + b] += 1;
     b = a;
   }

@@ -6,6 +6,7 @@ import { forwardFilter, pathScratch, samplePathsTogether, type CompletedRecords 
 import { multinomialSampler } from '../../src/uncertainty/multinomial.js';
 import { sampleOnePath } from '../../src/uncertainty/one-path.js';
 import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
+import { fillSweepTables, sweepTables } from '../../src/uncertainty/sweep-tables.js';
 
 const K = 5;
 
@@ -65,11 +66,17 @@ describe('one-site paths of the error sampler (one-path.ts, categorical.ts)', ()
     const p = randomRows(random, K, [3, 9, 15]);
     const e = randomRows(random, 2 * K, [1, 2, 8, 12, 20, 33, 44]);
     const pi = randomRows(random, 1, []);
+    const tables = sweepTables(K, 2);
+    fillSweepTables(tables, p, e);
     let zeros = 0;
     for (let q = 0; q < records.count; q++) {
       const T = patternLength(records, q);
-      const filter = new Float64Array(T * K);
-      forwardFilter(records, q, T, pi, p, e, K, filter);
+      const scratch = pathScratch(K);
+      scratch.filter = new Float64Array(T * K);
+      scratch.support = new Int32Array(T * K);
+      scratch.supportCount = new Int32Array(T);
+      forwardFilter(records, q, T, pi, tables, scratch);
+      const filter = scratch.filter;
       const emit = patternEmissions(records, q, e, K, new Float64Array(T * K));
       const expected = new Float64Array(T * K);
       for (let t = 0; t < T; t++) {
@@ -85,6 +92,11 @@ describe('one-site paths of the error sampler (one-path.ts, categorical.ts)', ()
         for (let x = 0; x < K; x++) expected[t * K + x] /= total;
       }
       expect(filter).toEqual(expected);
+      // Each row's support: the states where it is positive, ascending.
+      for (let t = 0; t < T; t++) {
+        const positive = [...filter.subarray(t * K, (t + 1) * K)].flatMap((v, x) => (v > 0 ? [x] : []));
+        expect([...scratch.support.subarray(t * K, t * K + scratch.supportCount[t]!)]).toEqual(positive);
+      }
       zeros += filter.filter((v) => v === 0).length;
     }
     // The skip was taken: some surveys were recorded as a state that some true states never give.
@@ -100,15 +112,18 @@ describe('one-site paths of the error sampler (one-path.ts, categorical.ts)', ()
     const together = randomStreams(13).stream('chain:0');
     const multinomial = multinomialSampler(together);
     const scratch = pathScratch(K);
+    const tables = sweepTables(K, 2);
+    fillSweepTables(tables, p, e);
     const byOne = completed();
     const byMultinomial = completed();
     for (let sweep = 0; sweep < 200; sweep++) {
       for (let q = 0; q < records.count; q++) {
         const T = patternLength(records, q);
-        const filter = new Float64Array(T * K);
-        forwardFilter(records, q, T, pi, p, e, K, filter);
-        sampleOnePath(records, q, T, p, K, one.uniform, filter, new Float64Array(K), byOne);
-        scratch.filter = filter;
+        scratch.filter = new Float64Array(T * K);
+        scratch.support = new Int32Array(T * K);
+        scratch.supportCount = new Int32Array(T);
+        forwardFilter(records, q, T, pi, tables, scratch);
+        sampleOnePath(records, q, T, tables, one.uniform, scratch, byOne);
         samplePathsTogether(records, q, T, p, K, multinomial, scratch, byMultinomial);
       }
     }

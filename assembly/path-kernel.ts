@@ -1,0 +1,367 @@
+/**
+ * The true paths of one sweep of the observer-error sampler in WebAssembly (AssemblyScript,
+ * compiled by `npm run build` through scripts/build-wasm.mjs into src/uncertainty/path-kernel-wasm.ts):
+ * the forward filter of every record prefix, then the backward draws of every one-site record pattern.
+ *
+ * Why: profiled with `node --cpu-prof` at the `observer` bench's size (10,000 sites × 12 surveys × 8
+ * states, 3,000–4,000 sweeps), the sweep was the forward filter's multiply-adds (~45%), the
+ * backward draws (~30%) and the uniforms (~11%): small loops over k whose bounds checks, property
+ * loads and 32-bit-halves xoshiro256** cost more than the arithmetic (DEVELOPERS.md, Benchmarks).
+ *
+ * The numbers are those of the JavaScript sampler, bit for bit (test/uncertainty/path-kernel.test.ts):
+ * the forward filter is src/uncertainty/error-sampler.ts's forwardFilter, computed once per distinct
+ * record prefix (two sites with the same records up to step t have the same filtered law at t); the
+ * backward draws are src/uncertainty/one-path.ts's, each categorical draw categorical.ts's
+ * sequential Bernoulli trials; the uniforms are the chain stream's own xoshiro256** (Blackman &
+ * Vigna 2021; src/uncertainty/xoshiro.ts) with native 64-bit words, from a block both this module
+ * and the host read with one shared position, so the host's Dirichlet and multinomial draws take
+ * the next uniforms exactly where the paths left off. +, −, ×, ÷ are correctly rounded IEEE 754
+ * operations in both, and nothing is fused or reordered.
+ *
+ * Memory is laid out by the host (src/uncertainty/path-kernel.ts); this module only computes.
+ */
+
+/** The stream's xoshiro256** state (the host starts it from the chain stream's key). */
+let s0: u64 = 0;
+let s1: u64 = 0;
+let s2: u64 = 0;
+let s3: u64 = 0;
+
+let K: i32 = 0;
+/** Byte offsets of the host's arrays (f64 unless said): see the host for each. */
+let blockAt: usize = 0;
+let pTAt: usize = 0;
+let pAt: usize = 0;
+let pLastAt: usize = 0; // i32
+let emitAt: usize = 0;
+let emitSupportAt: usize = 0; // i32
+let emitCountAt: usize = 0; // i32
+let piAt: usize = 0;
+let weightsAt: usize = 0;
+let nodeCount: i32 = 0;
+let parentAt: usize = 0; // i32
+let columnAt: usize = 0; // i32, −1: not surveyed
+let filterAt: usize = 0;
+let supportAt: usize = 0; // i32
+let supportCountAt: usize = 0; // i32
+let patternCount: i32 = 0;
+let singleAt: usize = 0; // i32: 1 for a pattern of one site
+let startAt: usize = 0; // i32
+let atAt: usize = 0; // i32
+let recordedAt: usize = 0; // i32: matrix · k² + recorded state, per survey
+let extendAt: usize = 0; // i32
+let nodeStartAt: usize = 0; // i32: pattern q's steps are nodeOf[nodeStart[q] …]
+let nodeOfAt: usize = 0; // i32
+let transitionsAt: usize = 0;
+let recordedCountsAt: usize = 0;
+let firstAt: usize = 0;
+let latestAt: usize = 0;
+
+/** Where the next uniform of the block is (BLOCK: used up); read back by the host after `paths`. */
+let position: i32 = 0;
+const BLOCK: i32 = 256;
+
+export function reserve(bytes: usize): usize {
+  return heap.alloc(bytes);
+}
+
+export function setStream(a: u64, b: u64, c: u64, d: u64): void {
+  s0 = a;
+  s1 = b;
+  s2 = c;
+  s3 = d;
+}
+
+export function setLayout(states: i32, block: usize, pT: usize, p: usize, pLast: usize, emit: usize, emitSupport: usize,
+  emitCount: usize, pi: usize, weights: usize): void {
+  K = states;
+  blockAt = block;
+  pTAt = pT;
+  pAt = p;
+  pLastAt = pLast;
+  emitAt = emit;
+  emitSupportAt = emitSupport;
+  emitCountAt = emitCount;
+  piAt = pi;
+  weightsAt = weights;
+}
+
+export function setPrefixes(count: i32, parent: usize, column: usize, filter: usize, support: usize, supportCount: usize): void {
+  nodeCount = count;
+  parentAt = parent;
+  columnAt = column;
+  filterAt = filter;
+  supportAt = support;
+  supportCountAt = supportCount;
+}
+
+export function setPatterns(count: i32, single: usize, start: usize, at: usize, recorded: usize, extend: usize,
+  nodeStart: usize, nodeOf: usize): void {
+  patternCount = count;
+  singleAt = single;
+  startAt = start;
+  atAt = at;
+  recordedAt = recorded;
+  extendAt = extend;
+  nodeStartAt = nodeStart;
+  nodeOfAt = nodeOf;
+}
+
+export function setOutputs(transitions: usize, recorded: usize, first: usize, latest: usize): void {
+  transitionsAt = transitions;
+  recordedCountsAt = recorded;
+  firstAt = first;
+  latestAt = latest;
+}
+
+// @ts-ignore: decorator
+@inline function i32At(base: usize, i: i32): i32 {
+  return load<i32>(base + (<usize>i << 2));
+}
+
+// @ts-ignore: decorator
+@inline function f64At(base: usize, i: i32): f64 {
+  return load<f64>(base + (<usize>i << 3));
+}
+
+// @ts-ignore: decorator
+@inline function setF64(base: usize, i: i32, v: f64): void {
+  store<f64>(base + (<usize>i << 3), v);
+}
+
+// @ts-ignore: decorator
+@inline function addF64(base: usize, i: i32, v: f64): void {
+  const p = base + (<usize>i << 3);
+  store<f64>(p, load<f64>(p) + v);
+}
+
+/** Fill the block with the next BLOCK uniforms of the stream (xoshiro.ts: the top 53 bits · 2⁻⁵³). */
+export function refill(): void {
+  const block = blockAt;
+  let a = s0, b = s1, c = s2, d = s3;
+  for (let n = 0; n < BLOCK; n++) {
+    const result = rotl<u64>(b * 5, 7) * 9;
+    store<f64>(block + (<usize>n << 3), <f64>(result >> 11) * 1.1102230246251565e-16);
+    const t = b << 17;
+    c ^= a;
+    d ^= b;
+    b ^= c;
+    a ^= d;
+    c ^= t;
+    d = rotl<u64>(d, 45);
+  }
+  s0 = a;
+  s1 = b;
+  s2 = c;
+  s3 = d;
+}
+
+// @ts-ignore: decorator
+@inline function uniform(): f64 {
+  let at = position;
+  if (at == BLOCK) {
+    refill();
+    at = 0;
+  }
+  position = at + 1;
+  return load<f64>(blockAt + (<usize>at << 3));
+}
+
+/** categorical.ts drawCategorical over w[offset … offset+count): the same trials, the same uniforms. */
+// @ts-ignore: decorator
+@inline function categorical(w: usize, offset: i32, count: i32): i32 {
+  let mass = 1.0;
+  const last = count - 1;
+  let drawn = last;
+  for (let j = 0; j < last; j++) {
+    const pj = f64At(w, offset + j);
+    if (pj >= mass) {
+      drawn = j;
+      break;
+    }
+    if (pj > 0) {
+      const chance = pj / mass;
+      if (chance >= 1 || uniform() < chance) {
+        drawn = j;
+        break;
+      }
+    }
+    mass -= pj;
+  }
+  return drawn;
+}
+
+/**
+ * The filtered law of every record prefix, in order (a prefix's parent comes before it), as
+ * error-sampler.ts forwardFilter computes each step. Returns −1, or the first prefix whose law has
+ * no mass (the host throws forwardFilter's error).
+ */
+export function filterAll(): i32 {
+  // The globals in locals: V8 keeps a module's mutable globals in memory (year-kernel.ts).
+  const k = K, parent = parentAt, column = columnAt, emitCount = emitCountAt, emitSupport = emitSupportAt;
+  const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, pT = pTAt, emit = emitAt;
+  const nodes = nodeCount;
+  for (let n = 0; n < nodes; n++) {
+    const up = i32At(parent, n);
+    const col = i32At(column, n);
+    const row = n * k;
+    const before = up * k;
+    const surveyed = col >= 0;
+    const base = col * k;
+    const count = surveyed ? i32At(emitCount, col) : k;
+    const previous = up < 0 ? 0 : i32At(supportCount, up);
+    for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
+    let total = 0.0;
+    // The three kinds of step written apart, so that no choice is made inside the sums.
+    if (up < 0) {
+      for (let i = 0; i < count; i++) {
+        const x = surveyed ? i32At(emitSupport, base + i) : i;
+        let v = f64At(pi, x);
+        if (surveyed) v *= f64At(emit, base + x);
+        setF64(filter, row + x, v);
+        total += v;
+      }
+    } else if (surveyed) {
+      for (let i = 0; i < count; i++) {
+        const x = i32At(emitSupport, base + i);
+        const c = x * k;
+        let v = 0.0;
+        for (let j = 0; j < previous; j++) {
+          const a = i32At(support, before + j);
+          v += f64At(filter, before + a) * f64At(pT, c + a);
+        }
+        v *= f64At(emit, base + x);
+        setF64(filter, row + x, v);
+        total += v;
+      }
+    } else {
+      for (let x = 0; x < k; x++) {
+        const c = x * k;
+        let v = 0.0;
+        for (let j = 0; j < previous; j++) {
+          const a = i32At(support, before + j);
+          v += f64At(filter, before + a) * f64At(pT, c + a);
+        }
+        setF64(filter, row + x, v);
+        total += v;
+      }
+    }
+    if (!(total > 0)) return n;
+    let positive = 0;
+    for (let i = 0; i < count; i++) {
+      const x = surveyed ? i32At(emitSupport, base + i) : i;
+      const v = f64At(filter, row + x) / total;
+      setF64(filter, row + x, v);
+      if (v > 0) {
+        store<i32>(support + (<usize>(row + positive) << 2), x);
+        positive++;
+      }
+    }
+    store<i32>(supportCount + (<usize>n << 2), positive);
+  }
+  return -1;
+}
+
+/**
+ * The backward draws of one-path.ts for patterns from `from` on, while they are of one site;
+ * returns the first pattern of several sites (the host draws it) or the pattern count.
+ * `blockPosition`: the uniforms' position in the block on entry; read it back with `uniformPosition`.
+ */
+export function paths(from: i32, blockPosition: i32): i32 {
+  position = blockPosition;
+  const k = K, filter = filterAt, support = supportAt, supportCount = supportCountAt, pT = pTAt, p = pAt, pLast = pLastAt;
+  const weights = weightsAt, single = singleAt, start = startAt, at = atAt, recorded = recordedAt, extend = extendAt;
+  const nodeStart = nodeStartAt, nodeOf = nodeOfAt, transitions = transitionsAt, recordedCounts = recordedCountsAt;
+  const patterns = patternCount;
+  for (let q = from; q < patterns; q++) {
+    if (i32At(single, q) == 0) return q;
+    const firstSurvey = i32At(start, q);
+    const steps0 = i32At(nodeStart, q);
+    const lastSurvey = i32At(start, q + 1) - 1;
+    const T = i32At(at, lastSurvey) + 1;
+    const lastNode = i32At(nodeOf, steps0 + T - 1);
+    const lastRow = lastNode * k;
+    let b = categorical(filter, lastRow, i32At(support, lastRow + i32At(supportCount, lastNode) - 1) + 1);
+    const steps = i32At(extend, q);
+    if (steps >= 0) {
+      let now = b;
+      for (let t = 0; t < steps; t++) {
+        const after = categorical(p, now * k, i32At(pLast, now) + 1);
+        addF64(transitions, now * k + after, 1);
+        now = after;
+      }
+      addF64(latestAt, now, 1);
+    }
+    let s = lastSurvey;
+    for (let t = T - 1; ; t--) {
+      if (s >= firstSurvey && i32At(at, s) == t) {
+        addF64(recordedCounts, i32At(recorded, s) + b * k, 1);
+        s -= 1;
+      }
+      if (t == 0) break;
+      // The weights α̂_{t−1}(a)·P[a, b] over the positive states of α̂_{t−1} only (the others are 0·P[a, b]
+      // = 0, which adds nothing to the total and which the draw passes over while mass is left),
+      // kept by their place i in the support.
+      const node = i32At(nodeOf, steps0 + t - 1);
+      const row = node * k;
+      const n = i32At(supportCount, node);
+      const col = b * k;
+      let total = 0.0;
+      for (let i = 0; i < n; i++) {
+        const a = i32At(support, row + i);
+        const w = f64At(filter, row + a) * f64At(pT, col + a);
+        setF64(weights, i, w);
+        total += w;
+      }
+      // The last state whose share is positive (one-path.ts: 0 when none).
+      let lastI = -1;
+      for (let i = n - 1; i >= 0; i--) {
+        const w = f64At(weights, i);
+        if (w > 0 && w / total > 0) {
+          lastI = i;
+          break;
+        }
+      }
+      const last = lastI < 0 ? 0 : i32At(support, row + lastI);
+      let drawn = last;
+      let mass = 1.0;
+      // The first state after the previous one visited: a share of 0 there is taken when no mass is left (0 ≥ mass).
+      let gap = 0;
+      let placed = false;
+      for (let i = 0; i < lastI; i++) {
+        const a = i32At(support, row + i);
+        if (a > gap && mass <= 0) {
+          drawn = gap;
+          placed = true;
+          break;
+        }
+        const w = f64At(weights, i) / total;
+        if (w >= mass) {
+          drawn = a;
+          placed = true;
+          break;
+        }
+        if (w > 0) {
+          const chance = w / mass;
+          if (chance >= 1 || uniform() < chance) {
+            drawn = a;
+            placed = true;
+            break;
+          }
+        }
+        mass -= w;
+        gap = a + 1;
+      }
+      if (!placed && last > gap && mass <= 0) drawn = gap;
+      addF64(transitions, drawn * k + b, 1);
+      b = drawn;
+    }
+    addF64(firstAt, b, 1);
+  }
+  return patterns;
+}
+
+/** The uniforms' position in the block after `paths`. */
+export function uniformPosition(): i32 {
+  return position;
+}
