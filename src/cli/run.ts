@@ -1,15 +1,40 @@
 import { Command, CommanderError } from 'commander';
 import { SereError, escapeUnprintable, formatError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
-import { registerFit } from './fit-command.js';
-import { registerForecast } from './forecast-command.js';
-import { registerCompare } from './compare-command.js';
-import { registerCheck } from './check-command.js';
-import { registerSeason } from './season-command.js';
-import { registerHindcast } from './hindcast-command.js';
-import { registerEffort } from './effort-command.js';
-import { registerCount } from './count-command.js';
 import type { Io } from './io.js';
+
+type Register = (program: Command, io: Io) => void;
+
+/**
+ * Each command's module, in the order `sere --help` lists them, loaded only when needed: a run
+ * names one command, and only that command's code (and the libraries it uses) is compiled and
+ * evaluated — `sere --version` and `sere forecast` do not pay for the fit table, the diagnostics,
+ * workspaces or counting. Measured with `node --cpu-prof` (DEVELOPERS.md, Benchmarks). `init` and
+ * `season` share a module.
+ */
+const COMMANDS: readonly (readonly [names: readonly string[], load: () => Promise<Register>])[] = [
+  [['fit'], async () => (await import('./fit-command.js')).registerFit],
+  [['forecast'], async () => (await import('./forecast-command.js')).registerForecast],
+  [['compare'], async () => (await import('./compare-command.js')).registerCompare],
+  [['check'], async () => (await import('./check-command.js')).registerCheck],
+  [['init', 'season'], async () => (await import('./season-command.js')).registerSeason],
+  [['hindcast'], async () => (await import('./hindcast-command.js')).registerHindcast],
+  [['effort'], async () => (await import('./effort-command.js')).registerEffort],
+  [['count'], async () => (await import('./count-command.js')).registerCount],
+];
+
+/**
+ * The commands to register for `argv`: the one it names (the first word that is not an option:
+ * the program's own options take no values), none for `--version` alone, and every one otherwise
+ * (help, an unknown command, no command), so usage and help read as they always did.
+ */
+async function commandsFor(argv: readonly string[]): Promise<Register[]> {
+  const word = argv.find((a) => !a.startsWith('-'));
+  const named = COMMANDS.find(([names]) => word !== undefined && names.includes(word));
+  if (named) return [await named[1]()];
+  if (argv.length > 0 && argv.every((a) => a === '--version' || a === '-V')) return [];
+  return Promise.all(COMMANDS.map(([, load]) => load()));
+}
 
 /** Exit codes: the public surface, documented in the README. */
 export const EXIT = { ok: 0, badInput: 1, usage: 2, internal: 70 } as const;
@@ -30,14 +55,7 @@ export async function run(argv: readonly string[], outer: Io): Promise<number> {
     .exitOverride()
     .configureOutput(output)
     .showHelpAfterError('(run sere --help for usage)');
-  registerFit(program, io);
-  registerForecast(program, io);
-  registerCompare(program, io);
-  registerCheck(program, io);
-  registerSeason(program, io);
-  registerHindcast(program, io);
-  registerEffort(program, io);
-  registerCount(program, io);
+  for (const register of await commandsFor(argv)) register(program, io);
   for (const command of program.commands) command.exitOverride().configureOutput(output);
 
   try {

@@ -115,10 +115,15 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     inputs: run.inputs, state: run.state, outcomes: run.outcomes, level: run.scenario.level, buffer: sharedFloat64(perChunk * k * D),
   }));
   // A year matrix costs a gamma variate per cell, about VARIATION_WORK multiply-adds' time: count it
-  // as that much work when deciding whether worker threads pay for their start — once, as the runs
-  // share each draw's year matrices (project-chunk.ts); plot counts PLOT_WORK per run with plots.
+  // as that much work when deciding whether worker threads pay for their start — once per zone, as
+  // the runs share each draw's year matrices (project-chunk.ts); each run projects one mix per
+  // sub-population (a zone, or a treated part of one: plan.ts); plot counts PLOT_WORK per run with
+  // plots. (Counting one mix per run, the zoned demo — 3 zones, a treated part — looked like a third
+  // of its work and ran on one thread.)
   const plotRuns = switches.noPlots ? 0 : scenarios.filter((s) => s.plots).length;
-  const pool = makePool(threadsFor(options.threads, D, steps * (runs.length + (variation ? VARIATION_WORK : 0) + plotRuns * PLOT_WORK), k, 1));
+  const mixes = runs.reduce((n, run) => n + run.plan.subPopulations.length, 0);
+  const yearWork = variation ? VARIATION_WORK * (matrices.zones ?? 1) : 0;
+  const pool = makePool(threadsFor(options.threads, D, steps * (mixes + yearWork + plotRuns * PLOT_WORK), k, 1));
   pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 // zod's int() admits only safe integers (|n| ≤ 2^53 − 1), so no count or time is silently rounded.
 const count = z.number().int().nonnegative();

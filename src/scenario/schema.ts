@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { MAX_SEED } from '../uncertainty/random.js';
 
 import { LIMITS } from '../limits.js';

@@ -1,6 +1,6 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { z } from 'zod';
+import * as z from 'zod';
 import { SereError } from '../errors.js';
 import { formatKeyPath } from '../data/read-structured.js';
 import { LIMITS } from '../limits.js';

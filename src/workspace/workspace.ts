@@ -1,6 +1,6 @@
 import { existsSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
-import { z } from 'zod';
+import * as z from 'zod';
 import { SereError } from '../errors.js';
 import { readStructured } from '../data/read-structured.js';
 import { fitSettingsSchema } from '../scenario/schema.js';

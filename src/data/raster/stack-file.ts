@@ -1,6 +1,6 @@
 import { existsSync, readdirSync } from 'node:fs';
 import { basename, dirname, join, relative, resolve } from 'node:path';
-import { z } from 'zod';
+import * as z from 'zod';
 import { SereError, quote } from '../../errors.js';
 import { readStructured, type KeyPath } from '../read-structured.js';
 import { labelProblem, normaliseLabel } from '../labels.js';
