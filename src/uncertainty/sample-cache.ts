@@ -102,14 +102,14 @@ function readEntry(file: string, key: string): Found {
 
 /** Written to a temporary name and renamed, so a reader never sees half a file; failures only cost the cache. */
 function writeEntry(dir: string, file: string, key: string, value: unknown): void {
-  let payload: Buffer;
+  let payload: Buffer | undefined;
   try {
-    payload = packValue(value);
+    payload = packValue(value, MAX_ENTRY_BYTES);
   } catch (err) {
     if (err instanceof NotData) return;
     throw err;
   }
-  if (payload.length > MAX_ENTRY_BYTES) return;
+  if (!payload) return;
   const header = Buffer.from(`${JSON.stringify({ format: CACHE_FORMAT, key, bytes: payload.length,
     sha256: createHash('sha256').update(payload).digest('hex') })}\n`, 'utf8');
   const temporary = `${file}.${process.pid}.tmp`;

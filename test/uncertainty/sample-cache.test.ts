@@ -11,7 +11,7 @@ import { randomStreams } from '../../src/uncertainty/random.js';
 import type { MatrixDraws } from '../../src/uncertainty/draws.js';
 
 /** Everything a set of draws holds, as bytes: two sets are the same when these are. */
-const bytesOf = (draws: MatrixDraws): Buffer => packValue(draws);
+const bytesOf = (draws: MatrixDraws): Buffer => packValue(draws)!;
 
 let dir = '';
 let warnings: string[] = [];
@@ -128,10 +128,17 @@ describe('value digest and packing', () => {
   it('packs and unpacks a tree bit for bit', () => {
     const tree = { k: 2, list: [1.5, -0, NaN, -Infinity, 'x', null, true], nested: { f: new Float64Array([0.1, Infinity, NaN]),
       i: new Int32Array([-3, 7]), u: new Uint8Array([1, 2, 3]) }, empty: new Float64Array(0) };
-    const back = unpackValue(packValue(tree)) as typeof tree;
+    const back = unpackValue(packValue(tree)!) as typeof tree;
     expect(digestOf(back)).toBe(digestOf(tree));
     expect(Object.is(back.list[1], -0)).toBe(true);
     expect(back.nested.f.buffer).toBeInstanceOf(SharedArrayBuffer);
-    expect(packValue(back).equals(packValue(tree))).toBe(true);
+    expect(packValue(back)!.equals(packValue(tree)!)).toBe(true);
+  });
+
+  it('does not pack a value past its size limit (nothing copied for a cache entry too large to keep)', () => {
+    const tree = { f: new Float64Array(1000) };
+    const size = packValue(tree)!.length;
+    expect(packValue(tree, size)!.length).toBe(size);
+    expect(packValue(tree, size - 1)).toBeUndefined();
   });
 });
