@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import gammaln from '@stdlib/math-base-special-gammaln';
-import { BTPE_FROM, binomialSampler } from '../../src/uncertainty/binomial.js';
+import { BTPE_FROM, binomialSampler, logRatioToMode } from '../../src/uncertainty/binomial.js';
 import { drawCategorical } from '../../src/uncertainty/categorical.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import { chiSquareUpperTail } from '../../src/chain/chi-square.js';
@@ -112,6 +112,26 @@ describe('binomialSampler (exact: inversion below n·min(p, 1 − p) = 10, BTPE 
         w[1] = 1 - p;
         // Multinomial(1, (p, 1 − p)) lands in state 0 exactly when Binomial(1, p) is 1.
         expect(draw(1, p)).toBe(drawCategorical(u.uniform, w, 0, 2) === 0 ? 1 : 0);
+      }
+    }
+  });
+});
+
+describe('BTPE step 5.3: ln f(y)/f(M) by Stirling\'s formula', () => {
+  it('matches the exact log-ratio from log-gamma (@stdlib gammaln 0.3.1) to 2e-9, on both sides of the mode', () => {
+    // The exact value at n = 200, p = ½, y = 79 is −4.4205250668 (scipy.stats.binom.logpmf, by the
+    // independent audit); the paper's printed signs gave −4.41708, 3.5·10⁻³ high.
+    const exact = (n: number, p: number, m: number, y: number): number =>
+      gammaln(m + 1) + gammaln(n - m + 1) - gammaln(y + 1) - gammaln(n - y + 1) + (y - m) * (Math.log(p) - Math.log1p(-p));
+    expect(logRatioToMode(200, 0.5, 100, 79)).toBeCloseTo(-4.4205250668, 9);
+    for (const [n, p] of [[200, 0.5], [1000, 0.1], [5000, 0.37], [10 ** 6, 0.02]] as const) {
+      const m = Math.floor(n * p + p);
+      const sd = Math.sqrt(n * p * (1 - p));
+      for (const d of [-3, -2, -1, -0.5, 0.5, 1, 2, 3]) {
+        const y = Math.max(0, Math.min(n, m + Math.round(d * sd)));
+        // 2e-9: at n = 10⁶ the reference itself differences log-gammas near 1.3·10⁷ (about 10⁻⁹ of
+        // rounding); the printed signs were off by 2–6·10⁻³.
+        expect(Math.abs(logRatioToMode(n, p, m, y) - exact(n, p, m, y))).toBeLessThan(2e-9);
       }
     }
   });
