@@ -45,6 +45,11 @@ export function readSpreadsheet(file: string, sheet: string | undefined, sink: R
     throw new SereError('BAD_SPREADSHEET', `cannot be read as an .xlsx workbook (${unreadableReason(reply.message)})`, { file },
       'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
   }
+  if (reply.kind === 'no-sheet' && sheet === undefined && reply.sheets.length === 0) {
+    // A zip archive with no worksheet in it (another zip renamed .xlsx, or an empty workbook): the file is the problem, not --sheet.
+    throw new SereError('BAD_SPREADSHEET', 'cannot be read as an .xlsx workbook (it holds no worksheet)', { file },
+      'save it from the spreadsheet program as an Excel workbook (.xlsx), or as CSV');
+  }
   if (reply.kind === 'no-sheet') {
     throw new SereError('UNKNOWN_SHEET', sheet === undefined ? 'the workbook has no worksheet'
       : `no sheet ${quote(sheet)} in the workbook (its sheets: ${reply.sheets.map(quote).join(', ')})`,

@@ -1,5 +1,6 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
+import ExcelJS from 'exceljs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { surveysCsv, writeWorkbooks } from '../../scripts/make-workbooks.js';
@@ -98,6 +99,14 @@ describe('survey tables in .xlsx workbooks (exceljs)', () => {
     writeFileSync(ods, 'x');
     expect(errorOf(() => readSurveyCsv(ods, { columns })).code).toBe('BAD_SPREADSHEET');
     expect(errorOf(() => readSurveyCsv(csv, { columns, sheet: 'Plots' })).code).toBe('BAD_OPTION');
+  });
+
+  it('refuses a workbook with no worksheet as the file, not as --sheet', async () => {
+    const empty = join(dir, 'empty.xlsx');
+    writeFileSync(empty, Buffer.from(await new ExcelJS.Workbook().xlsx.writeBuffer()));
+    const err = errorOf(() => readSurveyCsv(empty, { columns }));
+    expect(err).toMatchObject({ code: 'BAD_SPREADSHEET', place: { file: empty } });
+    expect(err.place?.path).toBeUndefined();
   });
 
   it('sere fit reads a workbook: the same counts as from the CSV, and one line for an unknown sheet', async () => {
