@@ -46,6 +46,12 @@ export const EXIT = { ok: 0, badInput: 1, usage: 2, internal: 70 } as const;
 export async function run(argv: readonly string[], outer: Io): Promise<number> {
   const notices: string[] = [];
   const io: Io = { ...outer, notice: (text) => { notices.push(text); } };
+  // `sere help NAME` for a name that is no command: commander would print the whole usage without saying why.
+  const words = argv.filter((a) => !a.startsWith('-'));
+  if (words[0] === 'help' && words[1] !== undefined && !COMMANDS.some(([names]) => names.includes(words[1]!))) {
+    io.stderr(`sere: error: unknown command '${escapeUnprintable(words[1].slice(0, 60))}'\n(run sere --help for usage)\n`);
+    return EXIT.usage;
+  }
   // Usage errors read like bad-input errors: "sere: error: option '--seed <n>' …" (exit 2).
   const output = { writeOut: (s: string) => io.stdout(s), writeErr: (s: string) => io.stderr(s.startsWith('error:') ? `sere: ${s}` : s) };
   const program = new Command('sere')

@@ -59,7 +59,7 @@ export function augmentationWarnings(a: LatentSample, states: readonly string[],
     `${states[Math.floor((c % (k * k)) / k)]}→${states[c % k]}`;
   const lines: string[] = [];
   if (a.chains < 2) lines.push('sampler: one chain only, so convergence cannot be checked (R̂ compares chains): refit with --chains 4');
-  if (worstRhat >= 0) lines.push(`sampler: R̂ ${rhat[worstRhat]!.toFixed(4)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with more warm-up and retained draws`);
-  if (worstEss >= 0) lines.push(`sampler: effective sample size ${Math.round(ess[worstEss]!)} for ${cell(worstEss)} (below ${ESS_WARNING}): refit with more retained draws`);
+  if (worstRhat >= 0) lines.push(`sampler: R̂ ${rhat[worstRhat]!.toFixed(4)} for ${cell(worstRhat)} (above ${RHAT_WARNING}): the chains disagree; refit with a larger --warm-up and --retained (sere fit)`);
+  if (worstEss >= 0) lines.push(`sampler: effective sample size ${Math.round(ess[worstEss]!)} for ${cell(worstEss)} (below ${ESS_WARNING}): refit with a larger --retained (sere fit)`);
   return lines;
 }

@@ -39,5 +39,10 @@ describe('sere command dispatch (built binary)', () => {
     expect(sere(['forcast', 'x.yaml']).code).toBe(2);
     expect(sere(['--debug']).code).toBe(2);
     expect(sere(['--bogus']).code).toBe(2);
+    // help for a name that is no command says so in one line (it printed the whole usage).
+    const help = sere(['help', 'frobnicate']);
+    expect(help.code).toBe(2);
+    expect(help.stderr.split('\n').filter(Boolean)).toHaveLength(2);
+    expect(help.stdout).toBe('');
   });
 });
