@@ -68,7 +68,7 @@ function inversion(uniform: () => number, n: number, p: number): number {
 /**
  * One term of Stirling's series for ln x! beyond its leading terms, 1/(12x) − 1/(360x³) + 1/(1260x⁵)
  * − 1/(1680x⁷) + 1/(1188x⁹), nested over 166320 = lcm of the denominators as the paper writes it
- * (13860 = 166320/12; some transcriptions have 13680).
+ * (13860 = 166320/12; some later copies of the method print 13680).
  */
 function stirlingTail(x: number): number {
   const x2 = x * x;
