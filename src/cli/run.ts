@@ -29,11 +29,15 @@ const COMMANDS: readonly (readonly [names: readonly string[], load: () => Promis
  * (help, an unknown command, no command), so usage and help read as they always did.
  */
 async function commandsFor(argv: readonly string[]): Promise<Register[]> {
-  const word = argv.find((a) => !a.startsWith('-'));
-  const named = COMMANDS.find(([names]) => word !== undefined && names.includes(word));
+  const named = commandNamed(argv.find((a) => !a.startsWith('-')));
   if (named) return [await named[1]()];
   if (argv.length > 0 && argv.every((a) => a === '--version' || a === '-V')) return [];
   return Promise.all(COMMANDS.map(([, load]) => load()));
+}
+
+/** The entry of COMMANDS that answers to `word`, if any. */
+function commandNamed(word: string | undefined): (typeof COMMANDS)[number] | undefined {
+  return word === undefined ? undefined : COMMANDS.find(([names]) => names.includes(word));
 }
 
 /** Exit codes: the public surface, documented in the README. */
@@ -48,7 +52,7 @@ export async function run(argv: readonly string[], outer: Io): Promise<number> {
   const io: Io = { ...outer, notice: (text) => { notices.push(text); } };
   // `sere help NAME` for a name that is no command: commander would print the whole usage without saying why.
   const words = argv.filter((a) => !a.startsWith('-'));
-  if (words[0] === 'help' && words[1] !== undefined && !COMMANDS.some(([names]) => names.includes(words[1]!))) {
+  if (words[0] === 'help' && words[1] !== undefined && !commandNamed(words[1])) {
     io.stderr(`sere: error: unknown command '${escapeUnprintable(words[1].slice(0, 60))}'\n(run sere --help for usage)\n`);
     return EXIT.usage;
   }

@@ -63,4 +63,3 @@ export function effortTable(scenario: Scenario, effort: SurveyEffort | ZoneEffor
     "Only the part of the band due to the fitted matrix shrinks; the scenario's events stay in it and do not shrink (plot counts and year-to-year variation are left out)."));
   return lines.join('\n') + '\n';
 }
-

@@ -151,8 +151,7 @@ let projectionView: Float64Array | undefined;
 export function projectSteps(P: Float64Array, pOffset: number, k: number, x: Float64Array, xOffset: number, n: number, into: Float64Array): void {
   const inst = kernelInstance();
   const k2 = k * k;
-  const at = inst.projection / 8;
-  const mAt = at;
+  const mAt = inst.projection / 8;
   const xAt = mAt + k2;
   const yAt = xAt + k;
   const outAt = yAt + k;
