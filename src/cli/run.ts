@@ -56,6 +56,11 @@ export async function run(argv: readonly string[], outer: Io): Promise<number> {
     io.stderr(`sere: error: unknown command '${escapeUnprintable(words[1].slice(0, 60))}'\n(run sere --help for usage)\n`);
     return EXIT.usage;
   }
+  // `sere version`: commander's nearest name is `season`, which is no help to someone asking for the version.
+  if (words[0] === 'version') {
+    io.stderr(`sere: error: unknown command 'version' — the version is printed by: sere --version\n`);
+    return EXIT.usage;
+  }
   // Usage errors read like bad-input errors: "sere: error: option '--seed <n>' …" (exit 2).
   const output = { writeOut: (s: string) => io.stdout(s), writeErr: (s: string) => io.stderr(s.startsWith('error:') ? `sere: ${s}` : s) };
   const program = new Command('sere')

@@ -44,5 +44,10 @@ describe('sere command dispatch (built binary)', () => {
     expect(help.code).toBe(2);
     expect(help.stderr.split('\n').filter(Boolean)).toHaveLength(2);
     expect(help.stdout).toBe('');
+    // `sere version` names the flag that prints it (commander suggested `season`).
+    const version = sere(['version']);
+    expect(version.code).toBe(2);
+    expect(version.stderr).toContain('sere --version');
+    expect(version.stderr).not.toContain('season');
   });
 });
