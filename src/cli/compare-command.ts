@@ -10,6 +10,7 @@ import { makeStyle } from '../report/style.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { countScenarioStacks } from './scenario-stacks.js';
+import { workspaceScenarios } from './workspace-scenario.js';
 import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } from './scenario-run.js';
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
@@ -45,7 +46,7 @@ export function registerCompare(program: Command, io: Io): void {
     .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
     .option('--maps <folder>', 'with a raster stack as data: write each alternative\'s probability maps and expected-area.csv into its own folder FOLDER/<alternative>')
     .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
-      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress), workspace: workspaceScenarios(io) });
       if (scenarios.length < 2) {
         throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },
           'name two or more scenario files, or list alternatives in the file');

@@ -7,6 +7,7 @@ import { effortTable } from '../report/effort-table.js';
 import { effortJson } from '../report/effort-json.js';
 import { makeStyle } from '../report/style.js';
 import { chooseSeed } from './seed.js';
+import { workspaceScenarios } from './workspace-scenario.js';
 import { randomStreams } from '../uncertainty/random.js';
 import type { Io } from './io.js';
 import { drawsFlag, replicatesFlag, seedFlag, wholeNumber, wholeNumberList } from './parse-options.js';
@@ -28,7 +29,7 @@ export function registerEffort(program: Command, io: Io): void {
     .option('--thin <n>', 'with fit.errors: keep every n-th sweep after the warm-up', wholeNumber(1000), EFFORT_SAMPLER.thin)
     .option('--json', 'print the documented JSON on stdout instead of tables')
     .action((file: string, opts: { sites?: number[]; seasons: number[]; replicates: number; draws: number; seed?: number; json?: boolean; chains: number; warmUp: number; retained: number; thin: number }) => {
-      const scenario = loadScenario(file);
+      const scenario = loadScenario(file, { workspace: workspaceScenarios(io) });
       const model = scenario.fit.errorModel;
       if (model && !model.records) {
         // The error model's posterior is rerun on the extended site records, which a fit file does not keep.

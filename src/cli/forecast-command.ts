@@ -10,6 +10,7 @@ import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } f
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { countScenarioStacks } from './scenario-stacks.js';
+import { workspaceScenarios } from './workspace-scenario.js';
 
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
@@ -18,7 +19,7 @@ export function registerForecast(program: Command, io: Io): void {
     .option('--maps <folder>', 'with a raster stack as data: write per-pixel probability maps (GeoTIFF, one per state and shown year) and expected-area.csv')
     .action(async (files: string[], opts: RunOptions & { maps?: string; zones?: boolean }) => {
       // Raster stacks named as data are counted first: reading them is asynchronous.
-      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress) });
+      const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress), workspace: workspaceScenarios(io) });
       const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');
       maps?.checkMapsScenario(scenarios, opts.maps!, Boolean(opts.force));
       // A file's alternatives share one seed, and so the same draws and event years.

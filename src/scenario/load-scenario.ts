@@ -31,6 +31,11 @@ export interface LoadOptions {
   readonly rasters?: ReadonlyMap<string, RasterCounts>;
   /** `--variation`: replaces the file's `variation` before anything that depends on it (the draw count). */
   readonly variation?: 'none' | 'estimated';
+  /**
+   * For a file that names no data: the fit of the workspace holding it, and the workspace's seed for a
+   * file naming none (cli/workspace-scenario.ts), or undefined when it is in no workspace.
+   */
+  readonly workspace?: (file: string) => { readonly fit: Fit; readonly seed?: number } | undefined;
 }
 
 /** Load a scenario file that describes exactly one scenario (no `alternatives`). */
@@ -54,7 +59,8 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
   const fail = (code: 'BAD_SCENARIO' | 'UNKNOWN_STATE' | 'BAD_SHARES', what: string, path: KeyPath, hint: string): never => {
     throw new SereError(code, what, locate(path), hint);
   };
-  const data = options.fit ?? fitOfData(s, file, fail, locate, options.rasters);
+  const fromWorkspace = options.fit === undefined && s.data === undefined ? options.workspace?.(file) : undefined;
+  const data = options.fit ?? fromWorkspace?.fit ?? fitOfData(s, file, fail, locate, options.rasters);
   const fit = s.uncertainty.block_size === undefined ? data : withBlockSize(data, s.uncertainty.block_size, locate(['uncertainty', 'block_size']));
   if (s.uncertainty.source === 'bootstrap' && !fit.blockSites) needPerSite(fit, 'the site bootstrap (uncertainty.source: bootstrap)', locate(['uncertainty', 'source']));
   if (s.uncertainty.source === 'bootstrap' && fit.errorModel) {
@@ -141,7 +147,7 @@ export function loadScenarios(file: string, options: LoadOptions = {}): Scenario
       variation,
       // Year matrices are random too: the MLE with variation needs replicates like events do.
       draws: s.uncertainty.source === 'point' && !random && variation.kind === 'none' ? 1 : s.uncertainty.draws,
-      seed: s.uncertainty.seed,
+      seed: s.uncertainty.seed ?? fromWorkspace?.seed,
       start,
       horizonSteps,
       showSteps,
@@ -256,7 +262,7 @@ function fitOfData(s: ScenarioFile, file: string,
   rasters?: ReadonlyMap<string, RasterCounts>): Fit {
   if (s.data === undefined) {
     return fail('BAD_SCENARIO', 'data is required: name a fit file (.json), or a survey table or counts table (.csv)', ['data'],
-      'add "data: surveys.csv" (relative to this file), or run the scenario from a workspace');
+      'add "data: surveys.csv" (relative to this file), or keep the scenario in a workspace folder (sere init), whose surveys it then uses');
   }
   // Relative to the scenario file; shown and recorded relative to the working folder, so output
   // does not carry this machine's absolute paths.

@@ -1,14 +1,8 @@
 import { readFileSync } from 'node:fs';
-import { surveyReadOptions } from '../fit/settings.js';
-import { join, relative } from 'node:path';
-import { readSurveyTables } from '../data/read-survey-tables.js';
+import { join } from 'node:path';
 import { WORKBOOK } from '../data/read-spreadsheet.js';
 import { recordsOf } from '../data/survey-rows.js';
-import { fitSurvey, needsSampler, type Fit } from '../fit/fit.js';
-import { DEFAULT_AUGMENT, sampleLatent } from '../uncertainty/augment.js';
-import { cachedSample } from '../uncertainty/sample-cache.js';
-import { groupOf, zonedPooling } from '../fit/fit-from-file.js';
-import { fitZoned } from '../fit/zones.js';
+import type { Fit } from '../fit/fit.js';
 import { estimateFit, type FitEstimates } from '../fit/estimate.js';
 import { loadScenarios } from '../scenario/load-scenario.js';
 import { checkComparable } from '../scenario/comparable.js';
@@ -19,6 +13,7 @@ import { runComparison, type Comparison } from '../engine/compare.js';
 import { SereError } from '../errors.js';
 import { randomStreams } from '../uncertainty/random.js';
 import { WORKSPACE_FILE, type Workspace } from './workspace.js';
+import { fitWorkspace, sampledForSeason } from './workspace-fit.js';
 import { movedStart, rerunFromStart } from './rerun-from-start.js';
 import { changesSince, type Changes, type StoredForecast } from './changes.js';
 import { scoreRecord, type RecordScores, type ScorableRecord } from './score-records.js';
@@ -66,20 +61,7 @@ export interface SeasonRun {
  * Paths inside outputs are relative to the workspace, so a record reruns identically elsewhere.
  */
 export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<SeasonRun> {
-  const settings = ws.fitSettings;
-  const surveyPaths = ws.surveys.map((s) => relative(process.cwd(), join(ws.root, s)) || s);
-  const pooling = zonedPooling(surveyPaths[0]!, settings);
-  let table = readSurveyTables(surveyPaths, surveyReadOptions(settings));
-  if (settings.group !== undefined) table = groupOf(table, settings.group, settings.columns.group);
-  // With fit.pooling partial or none the record keeps each zone's fit (and counts) beside the pooled one.
-  const fitted = pooling ? fitZoned(table, settings, pooling, settings.places?.pooling ?? { file: ws.file, path: 'fit.pooling' }) : fitSurvey(table, settings);
-  // Paths as the workspace names them, so a record replayed from its own inputs/ writes the same fit.
-  // The zones' own fits too: each names the same input.
-  const asNamed = (f: Fit): Fit => ({ ...f, input: { file: ws.surveys.join(', '), sha256: f.input.sha256 },
-    ...(f.labels && ws.labels !== undefined ? { labels: { ...f.labels, file: ws.labels } } : {}),
-    ...(f.errorModel && ws.errors !== undefined ? { errorModel: { ...f.errorModel, file: ws.errors } } : {}) });
-  const unsampled: Fit = { ...asNamed(fitted),
-    ...(fitted.zones ? { zones: { ...fitted.zones, zones: fitted.zones.zones.map((z) => ({ ...z, fit: asNamed(z.fit) })) } } : {}) };
+  const { table, fit: unsampled } = fitWorkspace(ws);
 
   const seeds: Record<string, number> = {};
   const byFile = ws.scenarios.map((rel) => {
@@ -91,16 +73,8 @@ export async function runSeason(ws: Workspace, options: SeasonOptions): Promise<
     seeds[rel] = seed;
     return { file: rel, scenarios };
   });
-  // With pairs further apart than one step, or an error table, one run of the posterior sampler (on
-  // the first scenario file's seed, so a replay repeats it) serves the record's fit summary and
-  // every scenario; the record's fit.json keeps its sweeps, so a later season scores this record
-  // with the same posterior (score-records.ts). Kept between runs by the sample cache when the
-  // same fit was sampled on the same seed before.
-  const sampler = needsSampler(unsampled) && byFile.length > 0 ? randomStreams(seeds[byFile[0]!.file]!).stream('fit-sampler') : undefined;
-  const fit: Fit = sampler
-    ? { ...unsampled, latentSample: cachedSample({ sample: 'season-latent', fit: unsampled, settings: DEFAULT_AUGMENT, seed: sampler.seed, stream: sampler.name },
-      () => sampleLatent(unsampled, DEFAULT_AUGMENT, sampler)) }
-    : unsampled;
+  // One run of the posterior sampler, when the fit needs one, serves the record's fit summary and every scenario (workspace-fit.ts).
+  const fit = byFile.length > 0 ? sampledForSeason(unsampled, seeds[byFile[0]!.file]!) : unsampled;
   for (const b of byFile) b.scenarios = b.scenarios.map((s) => ({ ...s, fit }));
   const estimates = estimateFit(fit, 0.9);
   for (const { scenarios } of byFile) {

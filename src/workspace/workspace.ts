@@ -1,5 +1,5 @@
 import { existsSync } from 'node:fs';
-import { join, relative, resolve } from 'node:path';
+import { dirname, join, relative, resolve } from 'node:path';
 import * as z from 'zod';
 import { SereError } from '../errors.js';
 import { readStructured } from '../data/read-structured.js';
@@ -86,3 +86,11 @@ export function workspaceRoot(dir: string | undefined): string {
   return resolve(dir ?? '.');
 }
 
+
+/** The nearest folder at or above `dir` that holds `sere-workspace.yaml`, or undefined. */
+export function workspaceAbove(dir: string): string | undefined {
+  for (let at = resolve(dir); ; at = dirname(at)) {
+    if (existsSync(join(at, WORKSPACE_FILE))) return at;
+    if (dirname(at) === at) return undefined;
+  }
+}
