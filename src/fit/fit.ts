@@ -136,6 +136,10 @@ export function checkTransitions(c: CountedTransitions): void {
   if (c.transitions === 0) {
     // Pairs further apart alone speak of Pᵍ, whose g-th roots are many: the one-step chain is not identified.
     const guess = likelyStep(c.pairsByGap);
+    if (!c.pairsByGap.some((s) => s.pairs > 0)) {
+      throw new SereError('NO_TRANSITIONS', 'no site is surveyed twice: a transition needs the same site at two survey times', { file: c.file },
+        'add the sites\' later surveys, with the same name in the site column each time');
+    }
     throw new SereError('NO_TRANSITIONS',
       `no two surveys of the same site are ${c.step} time unit${c.step === 1 ? '' : 's'} apart`,
       { file: c.file },

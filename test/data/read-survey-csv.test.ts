@@ -53,6 +53,14 @@ describe('counting a hand-countable survey table', () => {
     expect(gaps.singleSurveySites).toBe(0);
   });
 
+  it('a table where no site is surveyed twice says so (not "no surveys one step apart")', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'sere-once-'));
+    writeFileSync(join(dir, 'once.csv'), 'site,time,state\na,2020,x\nb,2020,y\nc,2021,x\n');
+    const err = errorOf(() => fitSurvey(readSurveyCsv(join(dir, 'once.csv'), { columns: DEFAULT_COLUMNS }), DEFAULT_FIT_SETTINGS));
+    expect(err.code).toBe('NO_TRANSITIONS');
+    expect(err.message).toContain('no site is surveyed twice');
+  });
+
   it('refuses a gap that is not a whole number of steps, at the later survey, suggesting the step that divides every gap', () => {
     // gap.csv: site A at 1, 2, 4, 7. With --step 2 the first pair (1 → 2, ending on line 3) is half a step.
     const err = errorOf(() => fitSurvey(read('gap.csv'), { ...DEFAULT_FIT_SETTINGS, step: 2 }));
