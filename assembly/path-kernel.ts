@@ -192,6 +192,58 @@ export function refill(): void {
 }
 
 /**
+ * The one-step prediction of a prefix from its parent's filtered law, v[x] = Σ_j α̂(a_j)·P[a_j, x] over
+ * the parent's positive states a_j in ascending order, for every x, into out[0 … k). forwardFilter
+ * sums over a for each x in turn (x outside, a inside); here a is outside and x inside, eight x at a
+ * time in four f64x2 accumulators (then two, then one), so that the k sums run side by side instead of
+ * one dependent chain after another. Every v[x] is still +0 plus the same products (one IEEE multiply
+ * of α̂(a)·P[a, x], then one add; nothing fused) in the same order of a, so the bits are the same.
+ * P untransposed: the x of row a are contiguous.
+ */
+// @ts-ignore: decorator
+@inline function predict(k: i32, p: usize, parentRow: usize, supportRow: usize, previous: i32, out: usize): void {
+  const stride = <usize>k << 3;
+  let x = 0;
+  for (; x + 8 <= k; x += 8) {
+    const column = p + (<usize>x << 3);
+    let v0 = f64x2.splat(0);
+    let v1 = v0, v2 = v0, v3 = v0;
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      const f = f64x2.splat(load<f64>(parentRow + (a << 3)));
+      const at = column + a * stride;
+      v0 = f64x2.add(v0, f64x2.mul(f, v128.load(at)));
+      v1 = f64x2.add(v1, f64x2.mul(f, v128.load(at, 16)));
+      v2 = f64x2.add(v2, f64x2.mul(f, v128.load(at, 32)));
+      v3 = f64x2.add(v3, f64x2.mul(f, v128.load(at, 48)));
+    }
+    const o = out + (<usize>x << 3);
+    v128.store(o, v0);
+    v128.store(o, v1, 16);
+    v128.store(o, v2, 32);
+    v128.store(o, v3, 48);
+  }
+  for (; x + 2 <= k; x += 2) {
+    const column = p + (<usize>x << 3);
+    let v = f64x2.splat(0);
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      v = f64x2.add(v, f64x2.mul(f64x2.splat(load<f64>(parentRow + (a << 3))), v128.load(column + a * stride)));
+    }
+    v128.store(out + (<usize>x << 3), v);
+  }
+  if (x < k) {
+    const column = p + (<usize>x << 3);
+    let v = 0.0;
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      v += load<f64>(parentRow + (a << 3)) * load<f64>(column + a * stride);
+    }
+    store<f64>(out + (<usize>x << 3), v);
+  }
+}
+
+/**
  * The filtered law of every record prefix, in order (a prefix's parent comes before it), as
  * error-sampler.ts forwardFilter computes each step. Returns −1, or the first prefix whose law has
  * no mass (the host throws forwardFilter's error).
@@ -199,21 +251,19 @@ export function refill(): void {
 export function filterAll(): i32 {
   // The globals in locals: V8 keeps a module's mutable globals in memory (year-kernel.ts).
   const k = K, parent = parentAt, column = columnAt, emitCount = emitCountAt, emitSupport = emitSupportAt;
-  const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, pT = pTAt, emit = emitAt;
+  const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, p = pAt, emit = emitAt;
   const nodes = nodeCount;
   for (let n = 0; n < nodes; n++) {
     const up = i32At(parent, n);
     const col = i32At(column, n);
     const row = n * k;
-    const before = up * k;
     const surveyed = col >= 0;
     const base = col * k;
     const count = surveyed ? i32At(emitCount, col) : k;
-    const previous = up < 0 ? 0 : i32At(supportCount, up);
-    for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
     let total = 0.0;
-    // The three kinds of step written apart, so that no choice is made inside the sums.
+    // The first step, from π; a later one, from the parent prefix by predict (then the emission at a survey).
     if (up < 0) {
+      for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
       for (let i = 0; i < count; i++) {
         const x = surveyed ? i32At(emitSupport, base + i) : i;
         let v = f64At(pi, x);
@@ -221,30 +271,25 @@ export function filterAll(): i32 {
         setF64(filter, row + x, v);
         total += v;
       }
-    } else if (surveyed) {
-      for (let i = 0; i < count; i++) {
-        const x = i32At(emitSupport, base + i);
-        const c = x * k;
-        let v = 0.0;
-        for (let j = 0; j < previous; j++) {
-          const a = i32At(support, before + j);
-          v += f64At(filter, before + a) * f64At(pT, c + a);
-        }
-        v *= f64At(emit, base + x);
-        setF64(filter, row + x, v);
-        total += v;
-      }
     } else {
-      for (let x = 0; x < k; x++) {
-        const c = x * k;
-        let v = 0.0;
-        for (let j = 0; j < previous; j++) {
-          const a = i32At(support, before + j);
-          v += f64At(filter, before + a) * f64At(pT, c + a);
+      const before = up * k;
+      const out = filter + (<usize>row << 3);
+      predict(k, p, filter + (<usize>before << 3), support + (<usize>before << 2), i32At(supportCount, up), out);
+      if (surveyed) {
+        // The emission, for every x at once: v·E[x, r] + 0. On E's support that is v·E[x, r] (v ≥ 0, so
+        // v·E[x, r] is never −0, and y + 0 = y); elsewhere E[x, r] is ±0 and v·(±0) + 0 = +0, the 0
+        // forwardFilter leaves there.
+        const column = emit + (<usize>base << 3);
+        const zero = f64x2.splat(0);
+        let x = 0;
+        for (; x + 2 <= k; x += 2) {
+          const at = out + (<usize>x << 3);
+          v128.store(at, f64x2.add(f64x2.mul(v128.load(at), v128.load(column + (<usize>x << 3))), zero));
         }
-        setF64(filter, row + x, v);
-        total += v;
+        if (x < k) setF64(filter, row + x, f64At(filter, row + x) * f64At(column, x) + 0.0);
       }
+      // The total over the same x in the same order as forwardFilter.
+      for (let i = 0; i < count; i++) total += f64At(filter, row + (surveyed ? i32At(emitSupport, base + i) : i));
     }
     if (!(total > 0)) return n;
     let positive = 0;
