@@ -7,6 +7,14 @@
  * states, 3,000–4,000 sweeps), the sweep was the forward filter's multiply-adds (~45%), the
  * backward draws (~30%) and the uniforms (~11%): small loops over k whose bounds checks, property
  * loads and 32-bit-halves xoshiro256** cost more than the arithmetic (DEVELOPERS.md, Benchmarks).
+ * In this module, timed one export at a time at that size (CPU, best of 20-call blocks, the machine
+ * loaded): the backward draws are about two thirds of a sweep (`paths` ~5–6 ms), the forward filter
+ * about one third (~2.8 ms before its prediction was made in f64x2 below, ~2.35 ms after); the
+ * Dirichlet draws and copies on the host are ~1%. The draws are a chain of dependent steps (each
+ * state drawn decides the next step's weights, and each trial a division and a uniform), which
+ * SIMD cannot shorten without changing the numbers: precomputing every trial's chance before the
+ * first uniform was tried and was slower. The filter is made pattern by pattern just before the
+ * pattern's draws (filterTo), so that its laws are read back from cache.
  *
  * The numbers are those of the JavaScript sampler, bit for bit (test/uncertainty/path-kernel.test.ts):
  * the forward filter is src/uncertainty/error-sampler.ts's forwardFilter, computed once per distinct
@@ -243,17 +251,26 @@ export function refill(): void {
   }
 }
 
+/** How many prefixes (from the first) have their filtered law this sweep: `paths` makes them as it needs them. */
+let filtered: i32 = 0;
+
+/** A new sweep: every prefix's law to be made again (from this sweep's P, E and π). */
+export function startSweep(): void {
+  filtered = 0;
+}
+
 /**
- * The filtered law of every record prefix, in order (a prefix's parent comes before it), as
- * error-sampler.ts forwardFilter computes each step. Returns −1, or the first prefix whose law has
- * no mass (the host throws forwardFilter's error).
+ * The filtered law of the record prefixes from `filtered` to `end` (exclusive), in order (a
+ * prefix's parent comes before it), as error-sampler.ts forwardFilter computes each step. Returns
+ * −1, or the first prefix whose law has no mass (the host throws forwardFilter's error).
  */
-export function filterAll(): i32 {
+function filterTo(end: i32): i32 {
   // The globals in locals: V8 keeps a module's mutable globals in memory (year-kernel.ts).
   const k = K, parent = parentAt, column = columnAt, emitCount = emitCountAt, emitSupport = emitSupportAt;
   const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, p = pAt, emit = emitAt;
-  const nodes = nodeCount;
-  for (let n = 0; n < nodes; n++) {
+  const from = filtered;
+  filtered = end;
+  for (let n = from; n < end; n++) {
     const up = i32At(parent, n);
     const col = i32At(column, n);
     const row = n * k;
@@ -309,7 +326,9 @@ export function filterAll(): i32 {
 
 /**
  * The backward draws of one-path.ts for patterns from `from` on, while they are of one site;
- * returns the first pattern of several sites (the host draws it) or the pattern count.
+ * returns the first pattern of several sites (the host draws it, its laws made), the pattern count, or −1
+ * when a prefix's law has no mass (the host throws forwardFilter's error). Each pattern's prefixes are
+ * filtered (filterTo) just before its draws.
  * `blockPosition`: the uniforms' position in the block on entry; read it back with `uniformPosition`.
  */
 export function paths(from: i32, blockPosition: i32): i32 {
@@ -319,6 +338,11 @@ export function paths(from: i32, blockPosition: i32): i32 {
   const nodeStart = nodeStartAt, nodeOf = nodeOfAt, transitions = transitionsAt, recordedCounts = recordedCountsAt;
   const patterns = patternCount;
   for (let q = from; q < patterns; q++) {
+    // Pattern q's prefixes filtered first (its deepest step has the largest number of them,
+    // chain/record-prefixes.ts), so that most laws are made just before the draws that read them, while
+    // they are still in cache; each once a sweep, in the same order as before.
+    const deepest = i32At(nodeOf, i32At(nodeStart, q + 1) - 1);
+    if (deepest >= filtered && filterTo(deepest + 1) >= 0) return -1;
     if (i32At(single, q) == 0) return q;
     const firstSurvey = i32At(start, q);
     const steps0 = i32At(nodeStart, q);
