@@ -7,6 +7,14 @@
  * states, 3,000–4,000 sweeps), the sweep was the forward filter's multiply-adds (~45%), the
  * backward draws (~30%) and the uniforms (~11%): small loops over k whose bounds checks, property
  * loads and 32-bit-halves xoshiro256** cost more than the arithmetic (DEVELOPERS.md, Benchmarks).
+ * In this module, timed one export at a time at that size (CPU, best of 20-call blocks, the machine
+ * loaded): the backward draws are about two thirds of a sweep (`paths` ~5–6 ms), the forward filter
+ * about one third (~2.8 ms before its prediction was made in f64x2 below, ~2.35 ms after); the
+ * Dirichlet draws and copies on the host are ~1%. The draws are a chain of dependent steps (each
+ * state drawn decides the next step's weights, and each trial a division and a uniform), which
+ * SIMD cannot shorten without changing the numbers: precomputing every trial's chance before the
+ * first uniform was tried and was slower. The filter is made pattern by pattern just before the
+ * pattern's draws (filterTo), so that its laws are read back from cache.
  *
  * The numbers are those of the JavaScript sampler, bit for bit (test/uncertainty/path-kernel.test.ts):
  * the forward filter is src/uncertainty/error-sampler.ts's forwardFilter, computed once per distinct
@@ -192,28 +200,87 @@ export function refill(): void {
 }
 
 /**
- * The filtered law of every record prefix, in order (a prefix's parent comes before it), as
- * error-sampler.ts forwardFilter computes each step. Returns −1, or the first prefix whose law has
- * no mass (the host throws forwardFilter's error).
+ * The one-step prediction of a prefix from its parent's filtered law, v[x] = Σ_j α̂(a_j)·P[a_j, x] over
+ * the parent's positive states a_j in ascending order, for every x, into out[0 … k). forwardFilter
+ * sums over a for each x in turn (x outside, a inside); here a is outside and x inside, eight x at a
+ * time in four f64x2 accumulators (then two, then one), so that the k sums run side by side instead of
+ * one dependent chain after another. Every v[x] is still +0 plus the same products (one IEEE multiply
+ * of α̂(a)·P[a, x], then one add; nothing fused) in the same order of a, so the bits are the same.
+ * P untransposed: the x of row a are contiguous.
  */
-export function filterAll(): i32 {
+// @ts-ignore: decorator
+@inline function predict(k: i32, p: usize, parentRow: usize, supportRow: usize, previous: i32, out: usize): void {
+  const stride = <usize>k << 3;
+  let x = 0;
+  for (; x + 8 <= k; x += 8) {
+    const column = p + (<usize>x << 3);
+    let v0 = f64x2.splat(0);
+    let v1 = v0, v2 = v0, v3 = v0;
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      const f = f64x2.splat(load<f64>(parentRow + (a << 3)));
+      const at = column + a * stride;
+      v0 = f64x2.add(v0, f64x2.mul(f, v128.load(at)));
+      v1 = f64x2.add(v1, f64x2.mul(f, v128.load(at, 16)));
+      v2 = f64x2.add(v2, f64x2.mul(f, v128.load(at, 32)));
+      v3 = f64x2.add(v3, f64x2.mul(f, v128.load(at, 48)));
+    }
+    const o = out + (<usize>x << 3);
+    v128.store(o, v0);
+    v128.store(o, v1, 16);
+    v128.store(o, v2, 32);
+    v128.store(o, v3, 48);
+  }
+  for (; x + 2 <= k; x += 2) {
+    const column = p + (<usize>x << 3);
+    let v = f64x2.splat(0);
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      v = f64x2.add(v, f64x2.mul(f64x2.splat(load<f64>(parentRow + (a << 3))), v128.load(column + a * stride)));
+    }
+    v128.store(out + (<usize>x << 3), v);
+  }
+  if (x < k) {
+    const column = p + (<usize>x << 3);
+    let v = 0.0;
+    for (let j = 0; j < previous; j++) {
+      const a = <usize>load<i32>(supportRow + (<usize>j << 2));
+      v += load<f64>(parentRow + (a << 3)) * load<f64>(column + a * stride);
+    }
+    store<f64>(out + (<usize>x << 3), v);
+  }
+}
+
+/** How many prefixes (from the first) have their filtered law this sweep: `paths` makes them as it needs them. */
+let filtered: i32 = 0;
+
+/** A new sweep: every prefix's law to be made again (from this sweep's P, E and π). */
+export function startSweep(): void {
+  filtered = 0;
+}
+
+/**
+ * The filtered law of the record prefixes from `filtered` to `end` (exclusive), in order (a
+ * prefix's parent comes before it), as error-sampler.ts forwardFilter computes each step. Returns
+ * −1, or the first prefix whose law has no mass (the host throws forwardFilter's error).
+ */
+function filterTo(end: i32): i32 {
   // The globals in locals: V8 keeps a module's mutable globals in memory (year-kernel.ts).
   const k = K, parent = parentAt, column = columnAt, emitCount = emitCountAt, emitSupport = emitSupportAt;
-  const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, pT = pTAt, emit = emitAt;
-  const nodes = nodeCount;
-  for (let n = 0; n < nodes; n++) {
+  const supportCount = supportCountAt, filter = filterAt, support = supportAt, pi = piAt, p = pAt, emit = emitAt;
+  const from = filtered;
+  filtered = end;
+  for (let n = from; n < end; n++) {
     const up = i32At(parent, n);
     const col = i32At(column, n);
     const row = n * k;
-    const before = up * k;
     const surveyed = col >= 0;
     const base = col * k;
     const count = surveyed ? i32At(emitCount, col) : k;
-    const previous = up < 0 ? 0 : i32At(supportCount, up);
-    for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
     let total = 0.0;
-    // The three kinds of step written apart, so that no choice is made inside the sums.
+    // The first step, from π; a later one, from the parent prefix by predict (then the emission at a survey).
     if (up < 0) {
+      for (let x = 0; x < k; x++) setF64(filter, row + x, 0);
       for (let i = 0; i < count; i++) {
         const x = surveyed ? i32At(emitSupport, base + i) : i;
         let v = f64At(pi, x);
@@ -221,30 +288,25 @@ export function filterAll(): i32 {
         setF64(filter, row + x, v);
         total += v;
       }
-    } else if (surveyed) {
-      for (let i = 0; i < count; i++) {
-        const x = i32At(emitSupport, base + i);
-        const c = x * k;
-        let v = 0.0;
-        for (let j = 0; j < previous; j++) {
-          const a = i32At(support, before + j);
-          v += f64At(filter, before + a) * f64At(pT, c + a);
-        }
-        v *= f64At(emit, base + x);
-        setF64(filter, row + x, v);
-        total += v;
-      }
     } else {
-      for (let x = 0; x < k; x++) {
-        const c = x * k;
-        let v = 0.0;
-        for (let j = 0; j < previous; j++) {
-          const a = i32At(support, before + j);
-          v += f64At(filter, before + a) * f64At(pT, c + a);
+      const before = up * k;
+      const out = filter + (<usize>row << 3);
+      predict(k, p, filter + (<usize>before << 3), support + (<usize>before << 2), i32At(supportCount, up), out);
+      if (surveyed) {
+        // The emission, for every x at once: v·E[x, r] + 0. On E's support that is v·E[x, r] (v ≥ 0, so
+        // v·E[x, r] is never −0, and y + 0 = y); elsewhere E[x, r] is ±0 and v·(±0) + 0 = +0, the 0
+        // forwardFilter leaves there.
+        const column = emit + (<usize>base << 3);
+        const zero = f64x2.splat(0);
+        let x = 0;
+        for (; x + 2 <= k; x += 2) {
+          const at = out + (<usize>x << 3);
+          v128.store(at, f64x2.add(f64x2.mul(v128.load(at), v128.load(column + (<usize>x << 3))), zero));
         }
-        setF64(filter, row + x, v);
-        total += v;
+        if (x < k) setF64(filter, row + x, f64At(filter, row + x) * f64At(column, x) + 0.0);
       }
+      // The total over the same x in the same order as forwardFilter.
+      for (let i = 0; i < count; i++) total += f64At(filter, row + (surveyed ? i32At(emitSupport, base + i) : i));
     }
     if (!(total > 0)) return n;
     let positive = 0;
@@ -264,7 +326,9 @@ export function filterAll(): i32 {
 
 /**
  * The backward draws of one-path.ts for patterns from `from` on, while they are of one site;
- * returns the first pattern of several sites (the host draws it) or the pattern count.
+ * returns the first pattern of several sites (the host draws it, its laws made), the pattern count, or −1
+ * when a prefix's law has no mass (the host throws forwardFilter's error). Each pattern's prefixes are
+ * filtered (filterTo) just before its draws.
  * `blockPosition`: the uniforms' position in the block on entry; read it back with `uniformPosition`.
  */
 export function paths(from: i32, blockPosition: i32): i32 {
@@ -274,6 +338,11 @@ export function paths(from: i32, blockPosition: i32): i32 {
   const nodeStart = nodeStartAt, nodeOf = nodeOfAt, transitions = transitionsAt, recordedCounts = recordedCountsAt;
   const patterns = patternCount;
   for (let q = from; q < patterns; q++) {
+    // Pattern q's prefixes filtered first (its deepest step has the largest number of them,
+    // chain/record-prefixes.ts), so that most laws are made just before the draws that read them, while
+    // they are still in cache; each once a sweep, in the same order as before.
+    const deepest = i32At(nodeOf, i32At(nodeStart, q + 1) - 1);
+    if (deepest >= filtered && filterTo(deepest + 1) >= 0) return -1;
     if (i32At(single, q) == 0) return q;
     const firstSurvey = i32At(start, q);
     const steps0 = i32At(nodeStart, q);

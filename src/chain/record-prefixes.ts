@@ -9,7 +9,9 @@ import { patternLength, type RecordPatterns } from './record-patterns.js';
  *
  * Prefix n extends prefix `parent[n]` (−1: a first survey) by one step, surveyed with emission
  * column `column[n]` = matrix · k + recorded state, or not surveyed (−1); a parent always comes
- * before its children. Pattern q's step t is prefix `nodeOf[nodeStart[q] + t]`.
+ * before its children, so pattern q's last step has the largest number of q's prefixes (the path
+ * kernel filters every prefix up to it just before drawing q). Pattern q's step t is prefix
+ * `nodeOf[nodeStart[q] + t]`.
  */
 export interface RecordPrefixes {
   readonly count: number;

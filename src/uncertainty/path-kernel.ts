@@ -15,7 +15,7 @@ import { xoshiroStart } from './xoshiro.js';
  * time per thread, as chain-runner.ts runs them). A sweep's true paths are drawn exactly as
  * error-sampler.ts samplePatternPaths draws them pattern by pattern (test/uncertainty/path-kernel.test.ts),
  * several times faster (DEVELOPERS.md, Benchmarks): the forward filter once per record prefix
- * (chain/record-prefixes.ts) and the one-site patterns' backward draws in the kernel, the patterns
+ * (chain/record-prefixes.ts), made as the patterns reach it, and the one-site patterns' backward draws in the kernel, the patterns
  * of several sites by samplePathsTogether here, in pattern order.
  *
  * The chain's uniforms come from the kernel's block, so `random` — the chain stream's uniforms and
@@ -43,7 +43,7 @@ interface Exports {
   setPatterns(count: number, single: number, start: number, at: number, recorded: number, extend: number, nodeStart: number, nodeOf: number): void;
   setOutputs(transitions: number, recorded: number, first: number, latest: number): void;
   refill(): void;
-  filterAll(): number;
+  startSweep(): void;
   paths(from: number, position: number): number;
   uniformPosition(): number;
 }
@@ -149,8 +149,9 @@ export function pathKernel(k: number, m: number, records: RecordPatterns, key: U
       done.recorded.fill(0);
       done.first.fill(0);
       done.latest.fill(0);
-      if (exports.filterAll() >= 0) throw new Error('a record pattern has probability 0 under the sampler\'s parameters (checked at fit time)');
+      exports.startSweep();
       for (let q = exports.paths(0, position); q < records.count; q = exports.paths(q + 1, position)) {
+        if (q < 0) throw new Error('a record pattern has probability 0 under the sampler\'s parameters (checked at fit time)');
         position = exports.uniformPosition();
         // A pattern of several sites: its filtered laws gathered from its prefixes, its paths drawn together.
         const T = patternLength(records, q);
