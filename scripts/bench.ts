@@ -70,6 +70,7 @@ import { benchObserver } from './bench/observer.js';
 import { benchSamplerThreads } from './bench/sampler-threads.js';
 import { benchRecordedScores } from './bench/recorded-scores.js';
 import { benchYearKernel } from './bench/year-kernel.js';
+import { benchPlotKernel } from './bench/plot-kernel.js';
 import { benchEffortErrors } from './bench/effort-errors.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
@@ -115,6 +116,7 @@ if (want('engine')) {
 }
 
 if (only === 'kernel') benchYearKernel();
+if (only === 'plot-kernel') benchPlotKernel();
 
 if (only === 'variation') {
   const draws = randomDraws(D, K, 1);
