@@ -10,6 +10,8 @@
  * 1c. The year kernel alone (`npm run bench -- kernel`, only when named; scripts/bench/year-kernel.ts):
  *    ns of CPU per gamma variate on a dense k = 10 matrix at κ = 50, a demo-like k = 5 matrix and
  *    small shapes (κ = 5, the boost).
+ * 1d. One plot step (`npm run bench -- plot-kernel`, only when named; scripts/bench/plot-kernel.ts):
+ *    5,000 plots in 6 states by multinomial.ts and by the WebAssembly kernel, µs of CPU.
  * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by
  *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
  * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random

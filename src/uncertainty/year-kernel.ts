@@ -8,6 +8,8 @@ import { YEAR_KERNEL_WASM } from './year-kernel-wasm.js';
  * draws year matrices — Dirichlet(κᵢ·Pᵢ) rows — from xoshiro256** streams whose state lives in that
  * memory, giving exactly the numbers `generatorOfKey(key).gamma` and `sampleDirichlet` give in
  * JavaScript (test/uncertainty/year-kernel.test.ts), several times faster (DEVELOPERS.md, Benchmarks).
+ * The plot step's multinomials run in the same module on the caller's room of that area
+ * (`moveRows`, `multinomial`), as multinomial.ts draws them (test/uncertainty/plot-kernel.test.ts).
  */
 export interface YearKernel {
   /** Start stream n (0 … streams − 1) from its key, `keys[at … at + 8)` (random.ts keyOf). */
