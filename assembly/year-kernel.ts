@@ -322,3 +322,169 @@ export function projectSteps(m: usize, k: i32, x: usize, y: usize, n: i32, out: 
     memory.copy(out + (<usize>(s * k) << 3), y, <usize>k << 3);
   }
 }
+
+// ————— Plot counts: Multinomial(n, row) by sequential binomials, as src/uncertainty/multinomial.ts —————
+//
+// Why here: the plot step draws some 3.6 M binomials a forecast of 5,000 plots (4,000 draws × 30
+// years); in JavaScript the 32-bit-halves xoshiro refill, BTPE and inversion were about half its CPU
+// (DEVELOPERS.md, Benchmarks). The numbers are those of binomial.ts and multinomial.ts bit for bit
+// (test/uncertainty/plot-kernel.test.ts): the same uniforms of the same stream, every operation in
+// the same order in doubles, exp, log and log1p the host's; floor, sqrt, abs, min are exact in both.
+
+@external("env", "log1p") declare function log1p(x: f64): f64;
+
+/** binomial.ts BTPE_FROM: BTPE from n·min(p, 1 − p) = 10, inversion below. */
+const BTPE_FROM: f64 = 10;
+
+/** Binomial(n, p) as binomial.ts `binomialSampler`, from the stream in the globals. */
+function binomial(n: f64, p: f64): f64 {
+  if (n <= 0 || p <= 0) return 0;
+  if (p >= 1) return n;
+  if (n == 1) return uniform() < p ? 1 : 0;
+  const flip = p > 0.5;
+  const r = flip ? 1 - p : p;
+  const x = n * r < BTPE_FROM ? inversion(n, r) : btpe(n, r);
+  return flip ? n - x : x;
+}
+
+/** binomial.ts `inversion`: sequential search through the pmf from f(0) = qⁿ, for p ≤ ½, n·p < 10. */
+function inversion(n: f64, p: f64): f64 {
+  const q = 1 - p;
+  const ratio = p / q;
+  const first = exp(n * log1p(-p));
+  while (true) {
+    let u = uniform();
+    let f = first;
+    let x: f64 = 0;
+    while (u >= f) {
+      u -= f;
+      x += 1;
+      if (x > n) break;
+      f *= ((n - x + 1) / x) * ratio;
+    }
+    if (x <= n) return x;
+  }
+  return 0;
+}
+
+/** binomial.ts `stirlingTail`. */
+function stirlingTail(x: f64): f64 {
+  const x2 = x * x;
+  return (13860.0 - (462.0 - (132.0 - (99.0 - 140.0 / x2) / x2) / x2) / x2) / x / 166320.0;
+}
+
+/** binomial.ts `logRatioToMode`: ln(f(y)/f(M)) by Stirling's formula (BTPE step 5.3, with its sign fix). */
+function logRatioToMode(n: f64, p: f64, m: f64, y: f64): f64 {
+  const q = 1 - p;
+  const xm = m + 0.5;
+  const x1 = y + 1;
+  const f1 = m + 1;
+  const z = n + 1 - m;
+  const w = n - y + 1;
+  return xm * log(f1 / x1) + (n - m + 0.5) * log(z / w) + (y - m) * log((w * p) / (x1 * q)) +
+    stirlingTail(f1) + stirlingTail(z) - stirlingTail(x1) - stirlingTail(w);
+}
+
+/** binomial.ts `btpe`: Kachitvichyanukul & Schmeiser (1988), steps 0–5.3, for p ≤ ½, n·p ≥ 10. */
+function btpe(n: f64, p: f64): f64 {
+  const q = 1 - p;
+  const fm = n * p + p;
+  const m = Math.floor(fm);
+  const npq = n * p * q;
+  const p1 = Math.floor(2.195 * Math.sqrt(npq) - 4.6 * q) + 0.5;
+  const xm = m + 0.5;
+  const xl = xm - p1;
+  const xr = xm + p1;
+  const c = 0.134 + 20.5 / (15.3 + m);
+  let a = (fm - xl) / (fm - xl * p);
+  const lambdaL = a * (1 + a / 2);
+  a = (xr - fm) / (xr * q);
+  const lambdaR = a * (1 + a / 2);
+  const p2 = p1 * (1 + 2 * c);
+  const p3 = p2 + c / lambdaL;
+  const p4 = p3 + c / lambdaR;
+  while (true) {
+    const u = uniform() * p4;
+    let v = uniform();
+    if (u <= p1) return Math.floor(xm - p1 * v + u);
+    let y: f64;
+    if (u <= p2) {
+      const x = xl + (u - p1) / c;
+      v = v * c + 1 - Math.abs(m - x + 0.5) / p1;
+      if (v > 1) continue;
+      y = Math.floor(x);
+    } else if (u <= p3) {
+      y = Math.floor(xl + log(v) / lambdaL);
+      if (y < 0) continue;
+      v *= (u - p2) * lambdaL;
+    } else {
+      y = Math.floor(xr - log(v) / lambdaR);
+      if (y > n) continue;
+      v *= (u - p3) * lambdaR;
+    }
+    const k = Math.abs(y - m);
+    if (k <= 20 || k >= npq / 2 - 1) {
+      const s = p / q;
+      const as = s * (n + 1);
+      let f: f64 = 1;
+      if (m < y) for (let i = m + 1; i <= y; i++) f *= as / i - s;
+      else if (m > y) for (let i = y + 1; i <= m; i++) f /= as / i - s;
+      if (v <= f) return y;
+      continue;
+    }
+    const rho = (k / npq) * ((k * (k / 3 + 0.625) + 1.0 / 6.0) / npq + 0.5);
+    const t = -k * k / (2 * npq);
+    const logV = log(v);
+    if (logV < t - rho) return y;
+    if (logV > t + rho) continue;
+    if (logV <= logRatioToMode(n, p, m, y)) return y;
+  }
+  return 0;
+}
+
+/** multinomial.ts: Multinomial(n, p[0 … k)) by sequential binomials, *added* to the i32 counts at `out`. */
+function multinomial(n: f64, p: usize, k: i32, out: usize): void {
+  let left = n;
+  let mass: f64 = 1;
+  for (let j = 0; j < k && left > 0; j++) {
+    const pj = load<f64>(p + (<usize>j << 3));
+    const x: f64 = j == k - 1 || pj >= mass ? left : pj <= 0 ? 0 : binomial(left, Math.min(1, pj / mass));
+    const at = out + (<usize>j << 2);
+    store<i32>(at, load<i32>(at) + <i32>x);
+    left -= x;
+    mass -= pj;
+  }
+}
+
+/** One Multinomial(n, p[0 … k)) added to the counts at `out`, from the stream whose state is at `state` (advanced in place). */
+export function multinomialInto(state: usize, n: i32, p: usize, k: i32, out: usize): void {
+  s0 = load<u64>(state);
+  s1 = load<u64>(state, 8);
+  s2 = load<u64>(state, 16);
+  s3 = load<u64>(state, 24);
+  multinomial(<f64>n, p, k, out);
+  store<u64>(state, s0);
+  store<u64>(state, s1, 8);
+  store<u64>(state, s2, 16);
+  store<u64>(state, s3, 24);
+}
+
+/**
+ * One step of plots in k states (plot-counts.ts): the counts at `from` (k i32) each move on as
+ * Multinomial(nᵢ, row i of the k × k matrix at `m`), added to the counts at `to`, rows in order and
+ * empty rows skipped; from the stream at `state` (advanced in place).
+ */
+export function moveRows(state: usize, m: usize, k: i32, from: usize, to: usize): void {
+  s0 = load<u64>(state);
+  s1 = load<u64>(state, 8);
+  s2 = load<u64>(state, 16);
+  s3 = load<u64>(state, 24);
+  for (let i = 0; i < k; i++) {
+    const n = load<i32>(from + (<usize>i << 2));
+    if (n > 0) multinomial(<f64>n, m + (<usize>(i * k) << 3), k, to);
+  }
+  store<u64>(state, s0);
+  store<u64>(state, s1, 8);
+  store<u64>(state, s2, 16);
+  store<u64>(state, s3, 24);
+}

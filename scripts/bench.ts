@@ -10,6 +10,8 @@
  * 1c. The year kernel alone (`npm run bench -- kernel`, only when named; scripts/bench/year-kernel.ts):
  *    ns of CPU per gamma variate on a dense k = 10 matrix at κ = 50, a demo-like k = 5 matrix and
  *    small shapes (κ = 5, the boost).
+ * 1d. One plot step (`npm run bench -- plot-kernel`, only when named; scripts/bench/plot-kernel.ts):
+ *    5,000 plots in 6 states by multinomial.ts and by the WebAssembly kernel, µs of CPU.
  * 2. Bands: the three quantiles of 101 years × 10 states = 1,010 columns of 100,000 draws, by
  *    Hoare selection (the method before) and by bucket counting (now), alternating, best of 5 each.
  * 3. Posterior sampling: 100,000 draws of a 10-state matrix (1e6 Dirichlet rows), with the random
@@ -70,6 +72,7 @@ import { benchObserver } from './bench/observer.js';
 import { benchSamplerThreads } from './bench/sampler-threads.js';
 import { benchRecordedScores } from './bench/recorded-scores.js';
 import { benchYearKernel } from './bench/year-kernel.js';
+import { benchPlotKernel } from './bench/plot-kernel.js';
 import { benchEffortErrors } from './bench/effort-errors.js';
 
 function randomDraws(count: number, k: number, seed: number): MatrixDraws {
@@ -115,6 +118,7 @@ if (want('engine')) {
 }
 
 if (only === 'kernel') benchYearKernel();
+if (only === 'plot-kernel') benchPlotKernel();
 
 if (only === 'variation') {
   const draws = randomDraws(D, K, 1);

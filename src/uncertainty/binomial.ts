@@ -28,6 +28,11 @@ export const BTPE_FROM = 10;
  * refill, the splitting loop and the gamma variates were about two thirds of the CPU profile; the
  * forecast's CPU fell from 11.6–13.5 s to 3.7–4.6 s, the bench's warm wall from 23.4 s to 5.3 s
  * (DEVELOPERS.md, Benchmarks).
+ *
+ * The plot step (engine/plot-counts.ts) draws these same binomials in WebAssembly
+ * (assembly/year-kernel.ts `binomial`, `inversion`, `btpe`: every operation here in the same order,
+ * the host's exp, log and log1p), bit for bit (test/uncertainty/plot-kernel.test.ts); a change here
+ * is a change there. This one serves every other multinomial and is the kernel's reference.
  */
 export function binomialSampler(random: Pick<RandomStream, 'uniform'>): (n: number, p: number) => number {
   const { uniform } = random;

@@ -8,6 +8,8 @@ import { YEAR_KERNEL_WASM } from './year-kernel-wasm.js';
  * draws year matrices — Dirichlet(κᵢ·Pᵢ) rows — from xoshiro256** streams whose state lives in that
  * memory, giving exactly the numbers `generatorOfKey(key).gamma` and `sampleDirichlet` give in
  * JavaScript (test/uncertainty/year-kernel.test.ts), several times faster (DEVELOPERS.md, Benchmarks).
+ * The plot step's multinomials run in the same module on the caller's room of that area
+ * (`moveRows`, `multinomial`), as multinomial.ts draws them (test/uncertainty/plot-kernel.test.ts).
  */
 export interface YearKernel {
   /** Start stream n (0 … streams − 1) from its key, `keys[at … at + 8)` (random.ts keyOf). */
@@ -27,6 +29,27 @@ export interface YearKernel {
   sample(n: number, z: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
+  /** The caller's own doubles in the kernel's memory (`room.matrices` of them), e.g. matrices for `moveRows`. */
+  readonly matrices: Float64Array;
+  /** The caller's own counts in the kernel's memory (`room.counts` of them), which `multinomial` and `moveRows` add to. */
+  readonly counts: Int32Array;
+  /**
+   * Multinomial(count, p[pOffset … pOffset + width)) from stream n, added to `counts[outOffset …]`:
+   * the numbers of multinomial.ts's sampler on the same stream, bit for bit. `p` is `years` or `matrices`.
+   */
+  multinomial(n: number, count: number, p: Float64Array, pOffset: number, width: number, outOffset: number): void;
+  /**
+   * One step of plots in k states from stream n: each `counts[from + i]` moves on as
+   * Multinomial(·, row i of the k × k matrix at `m[mOffset …]`), added to `counts[to …]` — as
+   * plot-counts.ts calls the multinomial, row by row. `m` is `years` or `matrices`.
+   */
+  moveRows(n: number, m: Float64Array, mOffset: number, from: number, to: number): void;
+}
+
+/** Room a caller asks of a year kernel for its own use: doubles and 32-bit counts. */
+export interface KernelRoom {
+  readonly matrices?: number;
+  readonly counts?: number;
 }
 
 interface Exports {
@@ -37,6 +60,8 @@ interface Exports {
   yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
   projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
+  multinomialInto(state: number, n: number, p: number, k: number, out: number): void;
+  moveRows(state: number, m: number, k: number, from: number, to: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -66,7 +91,7 @@ function kernelInstance(): Instance {
   if (instance) return instance;
   const module = new WebAssembly.Module(Buffer.from(YEAR_KERNEL_WASM, 'base64'));
   // exp and log are the host's own, so both generators round them the same (see the kernel).
-  const imports = { env: { exp: Math.exp, log: Math.log, abort: () => { throw new Error('the year kernel ran out of memory'); } } };
+  const imports = { env: { exp: Math.exp, log: Math.log, log1p: Math.log1p, abort: () => { throw new Error('the year kernel ran out of memory'); } } };
   const exports = new WebAssembly.Instance(module, imports).exports as unknown as Exports;
   const tables = exports.reserve((X.length + F.length + RATIO.length) * 8);
   const view = new Float64Array(exports.memory.buffer);
@@ -79,14 +104,18 @@ function kernelInstance(): Instance {
 }
 
 /**
- * A kernel for k states, `streams` streams and `slots` drawn matrices (one per zone). It owns this thread's area until the next call:
- * the engine makes one per call of its kernels, which run synchronously one at a time.
+ * A kernel for k states, `streams` streams, `slots` drawn matrices (one per zone) and the caller's
+ * `room`. It owns this thread's area until the next call: the engine makes one per call of its
+ * kernels, which run synchronously one at a time.
  */
-export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
+export function yearKernel(k: number, streams: number, slots = 1, room: KernelRoom = {}): YearKernel {
   const inst = kernelInstance();
   const k2 = k * k;
-  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch and their one cell.
-  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3;
+  const ownDoubles = room.matrices ?? 0;
+  const ownCounts = room.counts ?? 0;
+  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices;
+  // the gammas' scratch and their one cell; the caller's doubles and counts (two a word).
+  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3 + ownDoubles + Math.ceil(ownCounts / 2);
   if (inst.bytes < words * 8) {
     inst.bytes = Math.max(words * 8, 2 * inst.bytes);
     inst.at = inst.exports.reserve(inst.bytes);
@@ -100,6 +129,8 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const cellsAt = kappaAt + slots * k;
   const yearsAt = cellsAt + slots * 3 * k2;
   const gammaAt = yearsAt + slots * k2;
+  const ownAt = gammaAt + GAMMA_CHUNK + 3;
+  const countsAt = ownAt + ownDoubles;
   // The memory grows only in reserve, so these views stay attached until the next yearKernel.
   const f64 = new Float64Array(exports.memory.buffer);
   const u32 = new Uint32Array(exports.memory.buffer);
@@ -109,6 +140,19 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   };
   const checkSlot = (z: number): void => {
     if (!(z >= 0 && z < slots)) throw new Error(`slot ${z} is outside 0 … ${slots - 1}`);
+  };
+  const years = f64.subarray(yearsAt, yearsAt + slots * k2);
+  const matrices = f64.subarray(ownAt, ownAt + ownDoubles);
+  const counts = new Int32Array(exports.memory.buffer, countsAt * 8, ownCounts);
+  /** The byte address of `view[offset]`, for a view that is `years` or `matrices`, checked to hold `n` doubles from there. */
+  const addressOf = (view: Float64Array, offset: number, n: number): number => {
+    if (view !== years && view !== matrices) throw new Error('a kernel reads matrices from its own years or matrices only');
+    if (!(offset >= 0 && offset + n <= view.length)) throw new Error(`doubles ${offset} … ${offset + n - 1} are outside 0 … ${view.length - 1}`);
+    return view.byteOffset + offset * 8;
+  };
+  const countsAddress = (offset: number, n: number): number => {
+    if (!(offset >= 0 && offset + n <= ownCounts)) throw new Error(`counts ${offset} … ${offset + n - 1} are outside 0 … ${ownCounts - 1}`);
+    return counts.byteOffset + offset * 4;
   };
   return {
     startStream(n, keys, at) {
@@ -122,7 +166,9 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
       f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
       exports.prepare((pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, (cellsAt + 3 * z * k2) * 8);
     },
-    years: f64.subarray(yearsAt, yearsAt + slots * k2),
+    years,
+    matrices,
+    counts,
     sample(n, z) {
       check(n);
       checkSlot(z);
@@ -135,6 +181,14 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
         exports.gammas((states + 4 * n) * 8, shape, count, gammaAt * 8);
         out.set(f64.subarray(gammaAt, gammaAt + count), m);
       }
+    },
+    multinomial(n, count, p, pOffset, width, outOffset) {
+      check(n);
+      exports.multinomialInto((states + 4 * n) * 8, count, addressOf(p, pOffset, width), width, countsAddress(outOffset, width));
+    },
+    moveRows(n, m, mOffset, from, to) {
+      check(n);
+      exports.moveRows((states + 4 * n) * 8, addressOf(m, mOffset, k2), k, countsAddress(from, k), countsAddress(to, k));
     },
   };
 }
