@@ -211,7 +211,10 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
@@ -379,7 +382,10 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
@@ -459,7 +465,10 @@ function plainProjector(c: {
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
