@@ -330,10 +330,12 @@ export function projectSteps(m: usize, k: i32, x: usize, y: usize, n: i32, out: 
 }
 
 /**
- * The plain projection of `nd` draws (each its own matrix, every step the same: no treatment,
- * event, zone or year matrix) through steps from … to − 1, with the tracking the JavaScript
+ * The plain projection of `nd` draws (no treatment, event or zone: each step the draw's matrix,
+ * or with year-to-year variation that step's year matrix) through steps from … to − 1, with the tracking the JavaScript
  * projector does at each step (project-chunk.ts; the same comparisons and sums in the same order,
- * so the same numbers): draw d's matrix at `p + d·k²`, its mix at `xs + d·k` (already the start
+ * so the same numbers): draw d's matrix for step t at `p + d·drawStride + (t − from)·stepStride`
+ * (doubles: its one drawn matrix with drawStride k², stepStride 0; its year matrices with
+ * drawStride (to − from)·k², stepStride k²), its mix at `xs + d·k` (already the start
  * when from = 0; step 0 is not projected), the first step each state is the most common at
  * `firstMostCommon + d·k` (i32, −1: not yet), the start of the current run of steps meeting the
  * target and the first step it was reached at `runStart + d`, `firstAtTarget + d` (i32). A step t
@@ -344,13 +346,12 @@ export function projectSteps(m: usize, k: i32, x: usize, y: usize, n: i32, out: 
  * before V8 had optimised it (unoptimised code, boxed doubles for the collector), several times over
  * after deoptimisations; WebAssembly is compiled before its first call (DEVELOPERS.md, Benchmarks).
  */
-export function projectTracked(p: usize, xs: usize, firstMostCommon: usize, runStart: usize, firstAtTarget: usize,
+export function projectTracked(p: usize, drawStride: i32, stepStride: i32, xs: usize, firstMostCommon: usize, runStart: usize, firstAtTarget: usize,
   nd: i32, k: i32, from: i32, to: i32, slotOf: usize, block: usize,
   members: usize, nMembers: i32, hasTarget: i32, metLow: f64, metHigh: f64, staysMet: i32, y: usize): void {
-  const k2 = k * k;
   const firstStep = max(from, 1);
   for (let d = 0; d < nd; d++) {
-    const m = p + (<usize>(d * k2) << 3);
+    const m = p + (<usize>(d * drawStride) << 3);
     const x = xs + (<usize>(d * k) << 3);
     const fmc = firstMostCommon + (<usize>(d * k) << 2);
     let pending = 0;
@@ -358,7 +359,7 @@ export function projectTracked(p: usize, xs: usize, firstMostCommon: usize, runS
     let run = load<i32>(runStart + (<usize>d << 2));
     let reached = load<i32>(firstAtTarget + (<usize>d << 2));
     for (let t = from; t < to; t++) {
-      if (t >= firstStep) step(m, k, x, y);
+      if (t >= firstStep) step(m + (<usize>((t - from) * stepStride) << 3), k, x, y);
       const slot = load<i32>(slotOf + (<usize>(t - from) << 2));
       if (slot >= 0) {
         for (let s = 0; s < k; s++) store<f64>(block + (<usize>((slot * k + s) * nd + d) << 3), load<f64>(x + (<usize>s << 3)));

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { randomStreams } from '../../src/uncertainty/random.js';
-import { projectDraws, projectionState, MOST_COMMON_TOLERANCE, type ProjectionInputs } from '../../src/engine/project-chunk.js';
+import { projectDraws, projectDrawsTogether, projectionState, MOST_COMMON_TOLERANCE, type ProjectionInputs } from '../../src/engine/project-chunk.js';
+import { yearStreamKeys } from '../../src/engine/year-matrix.js';
 import { targetBounds } from '../../src/engine/target.js';
 import { yearKernel } from '../../src/uncertainty/year-kernel.js';
 import type { LandscapeTarget } from '../../src/scenario/scenario.js';
@@ -100,6 +101,36 @@ describe('the plain projection in WebAssembly (projectTracked, through projectDr
         const met = want.firstAtTarget.filter((t) => t >= 0).length;
         if (k > 1) expect(met > 0 && met < D).toBe(true);
       }
+    }
+  });
+
+  it('with year matrices, run alone (WebAssembly) gives the bits and first steps it gives beside another run (the JavaScript projector)', () => {
+    const horizon = 25;
+    for (const k of [2, 5]) {
+      const D = 1300; // across a block of draws' year streams (1,024) and the kernel's 256-draw calls
+      const P = draws(D, k, 70 + k);
+      const concentration = Float64Array.from({ length: D * k }, (_, c) => (c % k === k - 1 ? Infinity : 5 + (c % 7)));
+      const variation = { concentration, keys: yearStreamKeys(randomStreams(9).stream('years'), D, horizon) };
+      const start = Float64Array.from({ length: k }, (_, s) => (s + 1) / ((k * (k + 1)) / 2));
+      const target: LandscapeTarget = { states: [k - 1], bound: 'at-least', threshold: 0.5, staysMet: 2 };
+      const inputs: ProjectionInputs = { P, k, draws: D, horizon, start, hits: [], target, variation };
+      const run = () => ({ inputs, state: projectionState(D, k, 1), out: new Float64Array(3 * k * D) });
+      const alone = run();
+      const pair = [run(), run()];
+      for (const [from, to, kept] of [[0, 8, [0, 7]], [8, horizon + 1, [horizon]]] as const) {
+        const slotOf = new Int32Array(horizon + 1).fill(-1);
+        kept.forEach((t, r) => { slotOf[t] = r; });
+        for (const [d0, d1] of [[0, 1024], [1024, D]] as const) {
+          projectDrawsTogether([alone], d0, d1, from, to, slotOf);
+          projectDrawsTogether(pair, d0, d1, from, to, slotOf);
+        }
+        expect(Array.from(alone.out)).toEqual(Array.from(pair[0]!.out));
+      }
+      for (const key of ['xs', 'firstMostCommon', 'firstAtTarget', 'targetRunAtHorizon'] as const) {
+        expect(Array.from(alone.state[key])).toEqual(Array.from(pair[0]!.state[key]));
+      }
+      const met = alone.state.firstAtTarget.filter((t) => t >= 0).length;
+      expect(met > 0 && met < D).toBe(true);
     }
   });
 
