@@ -299,26 +299,8 @@ function dirichlet(cells: usize, n: i32, out: usize): void {
  * of the same loop compiled to WebAssembly (DEVELOPERS.md, Benchmarks: 2·10⁸ multiply-adds).
  */
 export function projectSteps(m: usize, k: i32, x: usize, y: usize, n: i32, out: usize): void {
-  const pairs = k >> 1;
-  const last = <usize>(k - 1) << 3;
-  const odd = (k & 1) == 1;
   for (let s = 0; s < n; s++) {
-    const first = load<f64>(x);
-    const x0 = f64x2.splat(first);
-    for (let j = 0; j < pairs; j++) v128.store(y + (<usize>j << 4), f64x2.mul(x0, v128.load(m + (<usize>j << 4))));
-    if (odd) store<f64>(y + last, first * load<f64>(m + last));
-    for (let i = 1; i < k; i++) {
-      const xs = load<f64>(x + (<usize>i << 3));
-      if (xs == 0) continue;
-      const xi = f64x2.splat(xs);
-      const row = m + (<usize>(i * k) << 3);
-      for (let j = 0; j < pairs; j++) {
-        const at = y + (<usize>j << 4);
-        v128.store(at, f64x2.add(v128.load(at), f64x2.mul(xi, v128.load(row + (<usize>j << 4)))));
-      }
-      if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
-    }
-    memory.copy(x, y, <usize>k << 3);
+    step(m, k, x, y);
     memory.copy(out + (<usize>(s * k) << 3), y, <usize>k << 3);
   }
 }
@@ -488,3 +470,93 @@ export function moveRows(state: usize, m: usize, k: i32, from: usize, to: usize)
   store<u64>(state, s2, 16);
   store<u64>(state, s3, 24);
 }
+/** One step x ← x·M of projectSteps (y: k of scratch, left holding the new mix too). */
+// @ts-ignore: decorator
+@inline function step(m: usize, k: i32, x: usize, y: usize): void {
+  const pairs = k >> 1;
+  const last = <usize>(k - 1) << 3;
+  const odd = (k & 1) == 1;
+  const first = load<f64>(x);
+  const x0 = f64x2.splat(first);
+  for (let j = 0; j < pairs; j++) v128.store(y + (<usize>j << 4), f64x2.mul(x0, v128.load(m + (<usize>j << 4))));
+  if (odd) store<f64>(y + last, first * load<f64>(m + last));
+  for (let i = 1; i < k; i++) {
+    const xs = load<f64>(x + (<usize>i << 3));
+    if (xs == 0) continue;
+    const xi = f64x2.splat(xs);
+    const row = m + (<usize>(i * k) << 3);
+    for (let j = 0; j < pairs; j++) {
+      const at = y + (<usize>j << 4);
+      v128.store(at, f64x2.add(v128.load(at), f64x2.mul(xi, v128.load(row + (<usize>j << 4)))));
+    }
+    if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
+  }
+  memory.copy(x, y, <usize>k << 3);
+}
+
+/**
+ * The plain projection of `nd` draws (no treatment, event or zone: each step the draw's matrix,
+ * or with year-to-year variation that step's year matrix) through steps from … to − 1, with the tracking the JavaScript
+ * projector does at each step (project-chunk.ts; the same comparisons and sums in the same order,
+ * so the same numbers): draw d's matrix for step t at `p + d·drawStride + (t − from)·stepStride`
+ * (doubles: its one drawn matrix with drawStride k², stepStride 0; its year matrices with
+ * drawStride (to − from)·k², stepStride k²), its mix at `xs + d·k` (already the start
+ * when from = 0; step 0 is not projected), the first step each state is the most common at
+ * `firstMostCommon + d·k` (i32, −1: not yet), the start of the current run of steps meeting the
+ * target and the first step it was reached at `runStart + d`, `firstAtTarget + d` (i32). A step t
+ * with `slotOf[t − from] = r ≥ 0` stores the mix at `block + (r·k + s)·nd + d`. The target is met
+ * when the sum of the shares of the `nMembers` states at `members` (i32) lies in [metLow, metHigh].
+ *
+ * Why: a small forecast runs this loop only a few thousand times, and in JavaScript most of them ran
+ * before V8 had optimised it (unoptimised code, boxed doubles for the collector), several times over
+ * after deoptimisations; WebAssembly is compiled before its first call (DEVELOPERS.md, Benchmarks).
+ */
+export function projectTracked(p: usize, drawStride: i32, stepStride: i32, xs: usize, firstMostCommon: usize, runStart: usize, firstAtTarget: usize,
+  nd: i32, k: i32, from: i32, to: i32, slotOf: usize, block: usize,
+  members: usize, nMembers: i32, hasTarget: i32, metLow: f64, metHigh: f64, staysMet: i32, y: usize): void {
+  const firstStep = max(from, 1);
+  for (let d = 0; d < nd; d++) {
+    const m = p + (<usize>(d * drawStride) << 3);
+    const x = xs + (<usize>(d * k) << 3);
+    const fmc = firstMostCommon + (<usize>(d * k) << 2);
+    let pending = 0;
+    for (let s = 0; s < k; s++) if (load<i32>(fmc + (<usize>s << 2)) == -1) pending += 1;
+    let run = load<i32>(runStart + (<usize>d << 2));
+    let reached = load<i32>(firstAtTarget + (<usize>d << 2));
+    for (let t = from; t < to; t++) {
+      if (t >= firstStep) step(m + (<usize>((t - from) * stepStride) << 3), k, x, y);
+      const slot = load<i32>(slotOf + (<usize>(t - from) << 2));
+      if (slot >= 0) {
+        for (let s = 0; s < k; s++) store<f64>(block + (<usize>((slot * k + s) * nd + d) << 3), load<f64>(x + (<usize>s << 3)));
+      }
+      if (pending > 0) {
+        let largest: f64 = 0;
+        for (let s = 0; s < k; s++) {
+          const v = load<f64>(x + (<usize>s << 3));
+          if (v > largest) largest = v;
+        }
+        for (let s = 0; s < k; s++) {
+          const at = fmc + (<usize>s << 2);
+          if (load<i32>(at) == -1 && load<f64>(x + (<usize>s << 3)) >= largest - MOST_COMMON_TOLERANCE) {
+            store<i32>(at, t);
+            pending -= 1;
+          }
+        }
+      }
+      if (hasTarget) {
+        let sum: f64 = 0;
+        for (let n = 0; n < nMembers; n++) sum += load<f64>(x + (<usize>load<i32>(members + (<usize>n << 2)) << 3));
+        if (!(sum >= metLow && sum <= metHigh)) run = -1;
+        else {
+          if (run < 0) run = t;
+          if (reached == -1 && t - run + 1 >= staysMet) reached = run;
+        }
+      }
+    }
+    store<i32>(runStart + (<usize>d << 2), run);
+    store<i32>(firstAtTarget + (<usize>d << 2), reached);
+  }
+}
+
+/** project-chunk.ts MOST_COMMON_TOLERANCE: a share within this of the largest counts as most common too. */
+const MOST_COMMON_TOLERANCE: f64 = 1e-12;

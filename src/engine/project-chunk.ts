@@ -5,7 +5,7 @@ import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js'
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
-import { projectSteps, yearKernel } from '../uncertainty/year-kernel.js';
+import { projectTracked, reserveTracked, TRACKED_DRAWS, yearKernel } from '../uncertainty/year-kernel.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
@@ -115,21 +115,22 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
   const events = landscape.length;
   const ws = plan && !trivial ? planWorkspace(plan) : undefined;
-  const total = new Float64Array(k);
-  const y = new Float64Array(k);
-  const z = new Float64Array(k);
   // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
   // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
   // line for every number (measured: a third of a comparison's time).
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
-  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
   if (!ws && !variation && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
-    const project = plainProjector({ P, k, horizon, start, startByDraw: Boolean(startByDraw), years: undefined, from, to, slotOf, block, out, D,
-      xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
-    for (let d = d0; d < d1; d++) project(d, d0, d1);
+    // The plain projection with its tracking in WebAssembly (year-kernel.ts projectTracked).
+    projectTracked({ P, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out, xs, runStart, firstAtTarget, firstMostCommon,
+      members, hasTarget: Boolean(target), metLow, metHigh, staysMet }, d0, d1, from, to);
+    if (to === steps) for (let d = d0; d < d1; d++) if (runStart[d]! >= 0) targetRunAtHorizon[d] = horizon - runStart[d]! + 1;
     return;
   }
+  const total = new Float64Array(k);
+  const y = new Float64Array(k);
+  const z = new Float64Array(k);
+  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
 
   for (let d = d0; d < d1; d++) {
     const b = (d - d0) % OUTPUT_BLOCK;
@@ -210,7 +211,10 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
@@ -242,6 +246,10 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
 export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array): void {
   const { P, k, draws: D, variation } = runs[0]!.inputs;
+  if (variation && runs.length === 1 && isPlain(runs[0]!.inputs)) {
+    projectYearsTracked(runs[0]!, d0, d1, from, to, slotOf);
+    return;
+  }
   const k2 = k * k;
   const Z = runs[0]!.inputs.plan ? runs[0]!.inputs.plan.zones : 1;
   const zoneStride = D * k2;
@@ -261,6 +269,56 @@ export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, 
       }
     }
     for (const project of projectors) project(d, d0, d1);
+  }
+}
+
+/** No treatment, landscape event, zone or parcel: every step the draw's matrix (or year matrix) alone. */
+function isPlain(inputs: ProjectionInputs): boolean {
+  const { plan } = inputs;
+  return !plan || (plan.trivial && plan.landscapeEvents.length === 0 && plan.zones === 1 && plan.subPopulations.length === 1 &&
+    plan.subPopulations[0]!.weight === 1);
+}
+
+/**
+ * The plain projection of one run with year-to-year variation (the demo's case): the year matrices
+ * of TRACKED_DRAWS draws at a time, drawn as projectDrawsTogether draws them (the same streams, in
+ * the same order), then projected with the tracking in WebAssembly (year-kernel.ts projectTracked:
+ * the same bits as plainProjector, which this replaces for one run). Measured on the demo with
+ * variation (`node --cpu-prof`, load 9): plainProjector's loop took 310 ms of the main thread and
+ * 128 ms of the worker, most of it before V8 had optimised it.
+ */
+function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: number, to: number, slotOf: Int32Array): void {
+  const { inputs, state, out } = run;
+  const { P, k, draws: D, horizon, start, startByDraw, target } = inputs;
+  const variation = inputs.variation!;
+  const k2 = k * k;
+  const steps = to - from;
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
+  const most = Math.min(TRACKED_DRAWS, d1 - d0);
+  const years = new Float64Array(most * steps * k2);
+  const tracked = { P: years, years: true, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out,
+    xs: state.xs, runStart: state.runStart, firstAtTarget: state.firstAtTarget, firstMostCommon: state.firstMostCommon,
+    members: target ? Int32Array.from(target.states) : new Int32Array(0), hasTarget: Boolean(target), metLow, metHigh,
+    staysMet: target ? target.staysMet : 1 };
+  // The area first, then the year kernel: a reserve may grow the memory under a kernel's views.
+  reserveTracked(tracked, most, steps);
+  const kernel = yearKernel(k, steps, 1);
+  for (let first = d0; first < d1; first += TRACKED_DRAWS) {
+    const nd = Math.min(TRACKED_DRAWS, d1 - first);
+    for (let d = first; d < first + nd; d++) {
+      if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
+      kernel.setDraw(0, P, d * k2, variation.concentration, d * k);
+      for (let t = Math.max(from, 1); t < to; t++) {
+        kernel.sample(t - from, 0);
+        years.set(kernel.years, ((d - first) * steps + t - from) * k2);
+      }
+    }
+    projectTracked(tracked, first, first + nd, from, to);
+  }
+  if (to === horizon + 1) {
+    for (let d = d0; d < d1; d++) if (state.runStart[d]! >= 0) state.targetRunAtHorizon[d] = horizon - state.runStart[d]! + 1;
   }
 }
 
@@ -299,8 +357,8 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
   const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
-  if (!ws && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
-    return plainProjector({ P, k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
+  if (years && !ws && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
+    return plainProjector({ k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
       xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
   }
 
@@ -378,7 +436,10 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }
@@ -386,59 +447,41 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
 }
 
 /**
- * The projection of one draw when every step is the drawn (or year) matrix alone — no treatment,
- * event, zone or parcel: the demo's and most forecasts' case. The same operations in the same
- * order as the general projector (so the same bits), in a function a fraction of its size: V8
- * compiles the general one several times a run (on-stack replacement at each loop), which cost a
- * small forecast more CPU than its arithmetic (`node --trace-opt`: 0.1–0.3 s each under load).
+ * The projection of one draw when every step is the year matrix alone — no treatment, event, zone
+ * or parcel: the demo's case with year-to-year variation. The same operations in the same order as
+ * the general projector (so the same bits), in a function a fraction of its size: V8 compiles the
+ * general one several times a run (on-stack replacement at each loop), which cost a small forecast
+ * more CPU than its arithmetic (`node --trace-opt`: 0.1–0.3 s each under load). Without year
+ * matrices the same projection runs in WebAssembly (projectTracked, from projectDraws).
  */
 function plainProjector(c: {
-  readonly P: Float64Array; readonly k: number; readonly horizon: number; readonly start: ArrayLike<number>; readonly startByDraw: boolean;
-  readonly years: Float64Array | undefined; readonly from: number; readonly to: number; readonly slotOf: Int32Array;
+  readonly k: number; readonly horizon: number; readonly start: ArrayLike<number>; readonly startByDraw: boolean;
+  readonly years: Float64Array; readonly from: number; readonly to: number; readonly slotOf: Int32Array;
   readonly block: Float64Array; readonly out: Float64Array; readonly D: number;
   readonly xs: Float64Array; readonly runStart: Int32Array; readonly firstAtTarget: Int32Array; readonly targetRunAtHorizon: Int32Array;
   readonly firstMostCommon: Int32Array; readonly members: Int32Array; readonly staysMet: number; readonly metLow: number; readonly metHigh: number;
   readonly hasTarget: boolean;
 }): (d: number, d0: number, d1: number) => void {
-  const { P, k, horizon, start, startByDraw, years, from, to, slotOf, block, out, D, xs, runStart, firstAtTarget, targetRunAtHorizon,
+  const { k, horizon, start, startByDraw, years: M, from, to, slotOf, block, out, D, xs, runStart, firstAtTarget, targetRunAtHorizon,
     firstMostCommon, members, staysMet, metLow, metHigh, hasTarget } = c;
   const k2 = k * k;
   const steps = horizon + 1;
   const nMembers = members.length;
-  const M = years ?? P;
   const y = new Float64Array(k);
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
-  // Without year matrices a draw's steps all take its one matrix: the chunk's multiply-adds run in
-  // the WebAssembly kernel (projectSteps, the same bits), its mixes [t − from][state] read back here.
-  const mixes = years ? undefined : new Float64Array((to - from) * k);
-  const projected = mixes?.subarray(from === 0 ? k : 0);
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
     const x = d * k;
     let pending = 0;
     for (let s = 0; s < k; s++) if (firstMostCommon[x + s] === -1) pending += 1;
     let run = runStart[d]!;
-    if (mixes) {
-      if (from === 0) {
-        const so = startByDraw ? x : 0;
-        for (let s = 0; s < k; s++) { xs[x + s] = start[so + s]!; mixes[s] = start[so + s]!; }
-      }
-      const first = Math.max(from, 1);
-      if (to > first) projectSteps(P, d * k2, k, xs, x, to - first, projected!);
-    }
     for (let t = from; t < to; t++) {
-      // This step's mix: src[at …].
-      let src = xs;
-      let at = x;
-      if (mixes) {
-        src = mixes;
-        at = (t - from) * k;
-      } else if (t === 0) {
+      if (t === 0) {
         const so = startByDraw ? x : 0;
         for (let s = 0; s < k; s++) xs[x + s] = start[so + s]!;
       } else {
-        const base = years ? (t - from) * k2 : d * k2;
+        const base = (t - from) * k2;
         const x0 = xs[x]!;
         for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
         for (let i = 1; i < k; i++) {
@@ -452,13 +495,13 @@ function plainProjector(c: {
       const slot = slotOf[t]!;
       if (slot >= 0) {
         const into = slot * k * OUTPUT_BLOCK + b;
-        for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = src[at + s]!;
+        for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = xs[x + s]!;
       }
       if (pending > 0) {
         let largest = 0;
-        for (let s = 0; s < k; s++) if (src[at + s]! > largest) largest = src[at + s]!;
+        for (let s = 0; s < k; s++) if (xs[x + s]! > largest) largest = xs[x + s]!;
         for (let s = 0; s < k; s++) {
-          if (firstMostCommon[x + s] === -1 && src[at + s]! >= largest - MOST_COMMON_TOLERANCE) {
+          if (firstMostCommon[x + s] === -1 && xs[x + s]! >= largest - MOST_COMMON_TOLERANCE) {
             firstMostCommon[x + s] = t;
             pending -= 1;
           }
@@ -466,7 +509,7 @@ function plainProjector(c: {
       }
       if (hasTarget) {
         let sum = 0;
-        for (let n = 0; n < nMembers; n++) sum += src[at + members[n]!]!;
+        for (let n = 0; n < nMembers; n++) sum += xs[x + members[n]!]!;
         if (!(sum >= metLow && sum <= metHigh)) run = -1;
         else {
           if (run < 0) run = t;
@@ -476,7 +519,10 @@ function plainProjector(c: {
     }
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {
+    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
+    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
+    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
+    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
       const first = d - b;
       for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
     }

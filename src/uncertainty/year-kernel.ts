@@ -62,6 +62,9 @@ interface Exports {
   projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
   multinomialInto(state: number, n: number, p: number, k: number, out: number): void;
   moveRows(state: number, m: number, k: number, from: number, to: number): void;
+  projectTracked(p: number, drawStride: number, stepStride: number, xs: number, firstMostCommon: number, runStart: number, firstAtTarget: number,
+    nd: number, k: number, from: number, to: number, slotOf: number, block: number,
+    members: number, nMembers: number, hasTarget: number, metLow: number, metHigh: number, staysMet: number, y: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -76,6 +79,9 @@ interface Instance {
   owner: number;
   /** The projection's own scratch (`projectSteps`), PROJECTION_WORDS doubles reserved with the instance. */
   readonly projection: number;
+  /** `projectTracked`'s area (bytes): its start and size, reserved anew (doubled) when a call needs more. */
+  trackedAt: number;
+  trackedBytes: number;
 }
 
 /**
@@ -99,7 +105,7 @@ function kernelInstance(): Instance {
   view.set(F, tables / 8 + X.length);
   view.set(RATIO, tables / 8 + X.length + F.length);
   exports.setTables(tables, tables + X.length * 8, tables + (X.length + F.length) * 8, ZIGGURAT_R);
-  instance = { exports, at: 0, bytes: 0, owner: 0, projection: exports.reserve(PROJECTION_WORDS * 8) };
+  instance = { exports, at: 0, bytes: 0, owner: 0, projection: exports.reserve(PROJECTION_WORDS * 8), trackedAt: 0, trackedBytes: 0 };
   return instance;
 }
 
@@ -222,4 +228,110 @@ export function projectSteps(P: Float64Array, pOffset: number, k: number, x: Flo
     into.set(f64.subarray(outAt, outAt + m * k), s * k);
   }
   x.set(f64.subarray(xAt, xAt + k), xOffset);
+}
+
+/** What `projectTracked` projects and where its results go: a run's arrays (project-chunk.ts ProjectionInputs and ProjectionState). */
+export interface TrackedRun {
+  /**
+   * Matrix draws, D × k × k; with `years`, the year matrices of the draws of this call instead:
+   * draw d's for step t at ((d − d0)·(to − from) + t − from)·k² (step `from` unused when it is 0).
+   */
+  readonly P: Float64Array;
+  readonly years?: boolean;
+  readonly k: number;
+  readonly D: number;
+  /** One start for every draw, or with `startByDraw` one per draw (draw d at d·k). */
+  readonly start: ArrayLike<number>;
+  readonly startByDraw: boolean;
+  /** Per step, the slot of `out` its mixes go to (`out[(r·k + s)·D + d]`), or −1; `slots` of them in this chunk. */
+  readonly slotOf: Int32Array;
+  readonly slots: number;
+  readonly out: Float64Array;
+  readonly xs: Float64Array;
+  readonly runStart: Int32Array;
+  readonly firstAtTarget: Int32Array;
+  readonly firstMostCommon: Int32Array;
+  /** The target's states; `hasTarget` false: no target. */
+  readonly members: Int32Array;
+  readonly hasTarget: boolean;
+  readonly metLow: number;
+  readonly metHigh: number;
+  readonly staysMet: number;
+}
+
+/** Draws per call of the kernel's `projectTracked`: its mixes of a chunk, slots × k × 256 doubles, stay in cache. */
+export const TRACKED_DRAWS = 256;
+
+/**
+ * Steps from … to − 1 of draws d0 … d1 − 1 of a plain projection (every step the draw's own matrix)
+ * with its tracking — the first step each state is the most common, the runs of steps meeting the
+ * target — in WebAssembly (assembly/year-kernel.ts `projectTracked`, the same numbers as the
+ * JavaScript projector): each run of TRACKED_DRAWS draws' matrices, mixes and tracks copied in,
+ * projected, and copied back, the recorded mixes into `out`.
+ */
+export function projectTracked(run: TrackedRun, d0: number, d1: number, from: number, to: number): void {
+  const inst = kernelInstance();
+  const { P, k, D, start, startByDraw, slotOf, slots, out, xs, runStart, firstAtTarget, firstMostCommon, members } = run;
+  const k2 = k * k;
+  const steps = to - from;
+  const drawStride = run.years ? steps * k2 : k2;
+  const pFirst = run.years ? d0 : 0;
+  const { pAt, xsAt, yAt, blockAt, fmcAt, runAt, reachedAt, slotAt, membersAt } = reserveTracked(run, Math.min(TRACKED_DRAWS, d1 - d0), steps);
+  const base = inst.trackedAt;
+  // Views made after the reserve, which is what may grow the memory.
+  const f64 = new Float64Array(inst.exports.memory.buffer);
+  const i32 = new Int32Array(inst.exports.memory.buffer);
+  i32.set(slotOf.subarray(from, to), (base + slotAt) / 4);
+  i32.set(members, (base + membersAt) / 4);
+  for (let first = d0; first < d1; first += TRACKED_DRAWS) {
+    const nd = Math.min(TRACKED_DRAWS, d1 - first);
+    f64.set(P.subarray((first - pFirst) * drawStride, (first - pFirst + nd) * drawStride), (base + pAt) / 8);
+    if (from === 0) {
+      const x = (base + xsAt) / 8;
+      for (let d = 0; d < nd; d++) {
+        const so = startByDraw ? (first + d) * k : 0;
+        for (let s = 0; s < k; s++) f64[x + d * k + s] = start[so + s]!;
+      }
+    } else f64.set(xs.subarray(first * k, (first + nd) * k), (base + xsAt) / 8);
+    i32.set(firstMostCommon.subarray(first * k, (first + nd) * k), (base + fmcAt) / 4);
+    i32.set(runStart.subarray(first, first + nd), (base + runAt) / 4);
+    i32.set(firstAtTarget.subarray(first, first + nd), (base + reachedAt) / 4);
+    inst.exports.projectTracked(base + pAt, drawStride, run.years ? k2 : 0, base + xsAt, base + fmcAt, base + runAt, base + reachedAt, nd, k, from, to, base + slotAt,
+      base + blockAt, base + membersAt, members.length, run.hasTarget ? 1 : 0, run.metLow, run.metHigh, run.staysMet, base + yAt);
+    xs.set(f64.subarray((base + xsAt) / 8, (base + xsAt) / 8 + nd * k), first * k);
+    firstMostCommon.set(i32.subarray((base + fmcAt) / 4, (base + fmcAt) / 4 + nd * k), first * k);
+    runStart.set(i32.subarray((base + runAt) / 4, (base + runAt) / 4 + nd), first);
+    firstAtTarget.set(i32.subarray((base + reachedAt) / 4, (base + reachedAt) / 4 + nd), first);
+    const block = (base + blockAt) / 8;
+    for (let rs = 0; rs < slots * k; rs++) out.set(f64.subarray(block + rs * nd, block + (rs + 1) * nd), rs * D + first);
+  }
+}
+
+/**
+ * Lay out `projectTracked`'s area for `most` draws a call over `steps` steps, reserving more of the
+ * memory if it is short. In bytes from the area's start, each part 8-aligned: matrices, mixes,
+ * scratch row, recorded mixes; then the i32 parts. A caller that also holds a year kernel calls it
+ * before making that kernel (a reserve may grow the memory under the kernel's views).
+ */
+export function reserveTracked(run: Pick<TrackedRun, 'k' | 'slots' | 'members' | 'years'>, most: number, steps: number) {
+  const inst = kernelInstance();
+  const { k, slots, members } = run;
+  const round8 = (n: number): number => Math.ceil(n / 8) * 8;
+  const pAt = 0;
+  const xsAt = pAt + most * k * k * (run.years ? steps : 1) * 8;
+  const yAt = xsAt + most * k * 8;
+  const blockAt = yAt + k * 8;
+  const fmcAt = blockAt + Math.max(1, slots) * k * most * 8;
+  const runAt = fmcAt + round8(most * k * 4);
+  const reachedAt = runAt + round8(most * 4);
+  const slotAt = reachedAt + round8(most * 4);
+  const membersAt = slotAt + round8(steps * 4);
+  const bytes = membersAt + round8(members.length * 4);
+  if (inst.trackedBytes < bytes) {
+    inst.trackedBytes = Math.max(bytes, 2 * inst.trackedBytes);
+    inst.trackedAt = inst.exports.reserve(inst.trackedBytes);
+    // The reserve may have grown the memory, leaving a year kernel's views empty: make it refuse to run.
+    inst.owner += 1;
+  }
+  return { pAt, xsAt, yAt, blockAt, fmcAt, runAt, reachedAt, slotAt, membersAt };
 }
