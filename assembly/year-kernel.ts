@@ -322,3 +322,63 @@ export function projectSteps(m: usize, k: i32, x: usize, y: usize, n: i32, out: 
     memory.copy(out + (<usize>(s * k) << 3), y, <usize>k << 3);
   }
 }
+
+/**
+ * One step of a run with treatments, zones, parcels or landscape events (project-chunk.ts, the
+ * general projector), for its G sub-populations: sub-population g's mix (k at `x + g·k`) becomes
+ * y = x_g·M_g with M_g the matrix whose byte address is the u32 at `mats + 4g`, then for each
+ * landscape event e with the byte at `flags + e·G + g` set, y ← y·E_e (E_e at `eventMats + e·k²`):
+ * z = 0, z += yᵢ·E_e,i for each i with yᵢ ≠ 0. The landscape's mix `total` (k) is the sum over
+ * sub-populations, assigned for the first and added for the rest. Exactly the JavaScript
+ * projector's operations in its order (the multiply-adds two lanes at a time, as projectSteps),
+ * so the same bits.
+ */
+export function planStep(G: i32, k: i32, x: usize, y: usize, z: usize, mats: usize, events: i32, eventMats: usize,
+  flags: usize, total: usize): void {
+  const pairs = k >> 1;
+  const last = <usize>(k - 1) << 3;
+  const odd = (k & 1) == 1;
+  const rowBytes = <usize>k << 3;
+  for (let g = 0; g < G; g++) {
+    const m = <usize>load<u32>(mats + (<usize>g << 2));
+    const xg = x + <usize>(g * k) * 8;
+    const first = load<f64>(xg);
+    const x0 = f64x2.splat(first);
+    for (let j = 0; j < pairs; j++) v128.store(y + (<usize>j << 4), f64x2.mul(x0, v128.load(m + (<usize>j << 4))));
+    if (odd) store<f64>(y + last, first * load<f64>(m + last));
+    for (let i = 1; i < k; i++) {
+      const xs = load<f64>(xg + (<usize>i << 3));
+      if (xs == 0) continue;
+      const xi = f64x2.splat(xs);
+      const row = m + <usize>i * rowBytes;
+      for (let j = 0; j < pairs; j++) {
+        const at = y + (<usize>j << 4);
+        v128.store(at, f64x2.add(v128.load(at), f64x2.mul(xi, v128.load(row + (<usize>j << 4)))));
+      }
+      if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
+    }
+    for (let e = 0; e < events; e++) {
+      if (load<u8>(flags + <usize>(e * G + g)) == 0) continue;
+      const E = eventMats + <usize>(e * k * k) * 8;
+      memory.fill(z, 0, rowBytes);
+      for (let i = 0; i < k; i++) {
+        const yi = load<f64>(y + (<usize>i << 3));
+        if (yi == 0) continue;
+        const row = E + <usize>i * rowBytes;
+        for (let j = 0; j < k; j++) {
+          const at = z + (<usize>j << 3);
+          store<f64>(at, load<f64>(at) + yi * load<f64>(row + (<usize>j << 3)));
+        }
+      }
+      memory.copy(y, z, rowBytes);
+    }
+    memory.copy(xg, y, rowBytes);
+    if (g == 0) memory.copy(total, y, rowBytes);
+    else {
+      for (let s = 0; s < k; s++) {
+        const at = total + (<usize>s << 3);
+        store<f64>(at, load<f64>(at) + load<f64>(y + (<usize>s << 3)));
+      }
+    }
+  }
+}

@@ -27,6 +27,16 @@ export interface YearKernel {
   sample(n: number, z: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
+  /**
+   * The caller's own `work` words of the area (yearKernel's last argument), at byte address `workAt`,
+   * for what the kernel's `planStep` reads and writes: the general projector's matrices and mixes
+   * (project-chunk.ts). Laid out with the year kernel's, so no second reservation can move the memory
+   * under either's views.
+   */
+  readonly work: Float64Array;
+  readonly workAt: number;
+  /** The kernel's planStep (assembly/year-kernel.ts): one step of G sub-populations; every argument but G, k and events a byte address in the area. */
+  planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
 }
 
 interface Exports {
@@ -37,6 +47,7 @@ interface Exports {
   yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
   projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
+  planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -79,14 +90,15 @@ function kernelInstance(): Instance {
 }
 
 /**
- * A kernel for k states, `streams` streams and `slots` drawn matrices (one per zone). It owns this thread's area until the next call:
+ * A kernel for k states, `streams` streams and `slots` drawn matrices (one per zone), with `work`
+ * words for the caller. It owns this thread's area until the next call:
  * the engine makes one per call of its kernels, which run synchronously one at a time.
  */
-export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
+export function yearKernel(k: number, streams: number, slots = 1, work = 0): YearKernel {
   const inst = kernelInstance();
   const k2 = k * k;
-  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch and their one cell.
-  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3;
+  // In 8-byte words: stream states (4 each); P, κ and the cells' (a, d, c) per slot; the year matrices; the gammas' scratch and their one cell; the caller's work.
+  const words = 4 * streams + slots * (k2 + k + 3 * k2) + slots * k2 + GAMMA_CHUNK + 3 + work;
   if (inst.bytes < words * 8) {
     inst.bytes = Math.max(words * 8, 2 * inst.bytes);
     inst.at = inst.exports.reserve(inst.bytes);
@@ -100,6 +112,7 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
   const cellsAt = kappaAt + slots * k;
   const yearsAt = cellsAt + slots * 3 * k2;
   const gammaAt = yearsAt + slots * k2;
+  const workAt = gammaAt + GAMMA_CHUNK + 3;
   // The memory grows only in reserve, so these views stay attached until the next yearKernel.
   const f64 = new Float64Array(exports.memory.buffer);
   const u32 = new Uint32Array(exports.memory.buffer);
@@ -123,6 +136,9 @@ export function yearKernel(k: number, streams: number, slots = 1): YearKernel {
       exports.prepare((pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, (cellsAt + 3 * z * k2) * 8);
     },
     years: f64.subarray(yearsAt, yearsAt + slots * k2),
+    work: f64.subarray(workAt, workAt + work),
+    workAt: workAt * 8,
+    planStep: exports.planStep,
     sample(n, z) {
       check(n);
       checkSlot(z);
