@@ -28,11 +28,23 @@ export function fillPlanMatrices(plan: RunPlan, base: Float64Array, baseOffset: 
 /** Build recipe p's matrix alone from `base` (a year's matrix, with year-to-year variation), as fillPlanMatrices does. */
 export function fillRecipe(plan: RunPlan, p: number, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
   onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
+  const at = p * plan.k * plan.k;
+  for (let c = 0; c < plan.k * plan.k; c++) ws.matrices[at + c] = base[baseOffset + c]!;
+  changeRecipe(plan, p, ws, onOutcome);
+}
+
+/** A recipe with nothing to change: every step it names is the drawn (or year) matrix itself, read in place. */
+export function unchangedRecipe(plan: RunPlan, p: number): boolean {
+  return plan.plans[p]!.changes.length === 0 && plan.plans[p]!.siteEvents.length === 0;
+}
+
+/** Recipe p's changes, applied to the matrix already copied to `ws.matrices[p·k² …]` (fillRecipe's second half). */
+export function changeRecipe(plan: RunPlan, p: number, ws: PlanWorkspace,
+  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
   const { k } = plan;
   const k2 = k * k;
   const recipe = plan.plans[p]!;
   const at = p * k2;
-  for (let c = 0; c < k2; c++) ws.matrices[at + c] = base[baseOffset + c]!;
   for (const { treatment, weight } of recipe.changes) {
     const tr = plan.treatments[treatment]!;
     const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);

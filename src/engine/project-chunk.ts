@@ -1,7 +1,7 @@
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RunPlan } from './plan.js';
-import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
+import { changeRecipe, fillPlanMatrices, fillRecipe, planWorkspace, unchangedRecipe } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
@@ -342,8 +342,24 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   at += (G + 3) * k;
   const mats = new Uint32Array(area.buffer, area.byteOffset + at * 8, G);
   const flags = new Uint8Array(area.buffer, area.byteOffset + at * 8 + Math.ceil(G / 2) * 8, events * G);
+  // Byte addresses in the kernel's memory, read once (a view's byteOffset is a property read per use).
   const yearsAt = years ? years.byteOffset : 0;
+  const ownAt = own.byteOffset;
+  const mixesAt = mixes.byteOffset;
+  const yAt = y.byteOffset;
+  const zAt = z.byteOffset;
+  const matsAt = mats.byteOffset;
+  const eventsAt = eventMats.byteOffset;
+  const flagsAt = flags.byteOffset;
+  const totalAt = total.byteOffset;
   const { planStep } = kernel;
+  // With variation, a recipe that changes nothing (untreated land, a year without treatment) reads
+  // the year matrix in place; the others copy it within the kernel's memory (copyWithin: no
+  // allocation) and then apply their changes (changeRecipe).
+  const unchanged = plan && ws ? Uint8Array.from(plan.plans, (_, p) => (unchangedRecipe(plan, p) ? 1 : 0)) : new Uint8Array(0);
+  const memory = new Float64Array(area.buffer);
+  const ownWord = ownAt / 8;
+  const yearsWord = yearsAt / 8;
 
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
@@ -374,14 +390,25 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
         const yearAt = (t - from) * Z * k2;
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, years, yearAt + plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
-          mats[g] = ws ? own.byteOffset + recipe * k2 * 8 : variation ? yearsAt + yearAt * 8 : own.byteOffset;
+          if (variation && ws) {
+            const from = yearAt + plan!.plans[recipe]!.zone * k2;
+            if (unchanged[recipe] === 1) {
+              mats[g] = yearsAt + from * 8;
+              continue;
+            }
+            if (built[recipe] !== t) {
+              memory.copyWithin(ownWord + recipe * k2, yearsWord + from, yearsWord + from + k2);
+              changeRecipe(plan!, recipe, ws, heard);
+              built[recipe] = t;
+            }
+          }
+          mats[g] = ws ? ownAt + recipe * k2 * 8 : variation ? yearsAt + yearAt * 8 : ownAt;
         }
         for (let e = 0; e < events; e++) {
           const hit = hits[e]![hitRow + t] !== 0;
           for (let g = 0; g < G; g++) flags[e * G + g] = hit && !(eventIn && eventIn[e * G + g] === 0) ? 1 : 0;
         }
-        planStep(G, k, mixes.byteOffset, y.byteOffset, z.byteOffset, mats.byteOffset, events, eventMats.byteOffset, flags.byteOffset, total.byteOffset);
+        planStep(G, k, mixesAt, yAt, zAt, matsAt, events, eventsAt, flagsAt, totalAt);
       }
       const slot = slotOf[t]!;
       if (slot >= 0) {
