@@ -131,8 +131,9 @@ export function yearKernel(k: number, streams: number, slots = 1, work = 0): Yea
     setDraw(z, P, pOffset, concentration, cOffset) {
       check(0);
       checkSlot(z);
-      f64.set(P.subarray(pOffset, pOffset + k2), pAt + z * k2);
-      f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
+      // Element by element, not through subarray views: this runs once per draw and zone, and the views were garbage.
+      for (let c = 0; c < k2; c++) f64[pAt + z * k2 + c] = P[pOffset + c]!;
+      for (let i = 0; i < k; i++) f64[kappaAt + z * k + i] = concentration[cOffset + i]!;
       exports.prepare((pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, (cellsAt + 3 * z * k2) * 8);
     },
     years: f64.subarray(yearsAt, yearsAt + slots * k2),
