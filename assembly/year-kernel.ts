@@ -382,3 +382,46 @@ export function planStep(G: i32, k: i32, x: usize, y: usize, z: usize, mats: usi
     }
   }
 }
+
+/** A share within this of the largest counts as "most common" too (project-chunk.ts MOST_COMMON_TOLERANCE). */
+const MOST_COMMON_TOLERANCE: f64 = 1e-12;
+
+/**
+ * The general projector's tracking at step t of one draw, on the landscape mix `total` (k), as its
+ * JavaScript did it (project-chunk.ts), the same comparisons in the same order: while `state[0]`
+ * (i32: states not yet the most common) is above 0, each state whose first step as the most common
+ * (`first`, k i32, −1: not yet) is unset and whose share is within MOST_COMMON_TOLERANCE of the
+ * largest takes step t; with a target (`hasTarget`), the sum of the members' shares (`members`,
+ * `count` i32) met or not within [low, high] moves the run's start `state[1]` and, after `staysMet`
+ * steps, the first step at the target `state[2]`.
+ */
+export function trackStep(t: i32, k: i32, total: usize, first: usize, state: usize, hasTarget: i32, members: usize, count: i32,
+  low: f64, high: f64, staysMet: i32): void {
+  let pending = load<i32>(state);
+  if (pending > 0) {
+    let largest: f64 = 0;
+    for (let s = 0; s < k; s++) {
+      const v = load<f64>(total + (<usize>s << 3));
+      if (v > largest) largest = v;
+    }
+    for (let s = 0; s < k; s++) {
+      const at = first + (<usize>s << 2);
+      if (load<i32>(at) == -1 && load<f64>(total + (<usize>s << 3)) >= largest - MOST_COMMON_TOLERANCE) {
+        store<i32>(at, t);
+        pending -= 1;
+      }
+    }
+    store<i32>(state, pending);
+  }
+  if (hasTarget != 0) {
+    let sum: f64 = 0;
+    for (let n = 0; n < count; n++) sum += load<f64>(total + (<usize>load<i32>(members + (<usize>n << 2)) << 3));
+    let run = load<i32>(state, 4);
+    if (!(sum >= low && sum <= high)) run = -1;
+    else {
+      if (run < 0) run = t;
+      if (load<i32>(state, 8) == -1 && t - run + 1 >= staysMet) store<i32>(state, run, 8);
+    }
+    store<i32>(state, run, 4);
+  }
+}

@@ -45,12 +45,15 @@ export function changeRecipe(plan: RunPlan, p: number, ws: PlanWorkspace,
   const k2 = k * k;
   const recipe = plan.plans[p]!;
   const at = p * k2;
-  for (const { treatment, weight } of recipe.changes) {
+  // Indexed loops, not for…of with destructuring: with variation this runs every treated year of every draw.
+  for (let c = 0; c < recipe.changes.length; c++) {
+    const { treatment, weight } = recipe.changes[c]!;
     const tr = plan.treatments[treatment]!;
     const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);
     if (outcome !== 'ok') onOutcome?.(treatment, outcome);
   }
-  for (const { event, chance } of recipe.siteEvents) {
+  for (let c = 0; c < recipe.siteEvents.length; c++) {
+    const { event, chance } = recipe.siteEvents[c]!;
     const E = plan.events[event]!.matrix;
     for (let i = 0; i < k; i++) {
       for (let j = 0; j < k; j++) {

@@ -286,13 +286,17 @@ function runShape(inputs: ProjectionInputs): { readonly plain: boolean; readonly
 /**
  * Words of the kernel's area a general run takes (none for a plain one): its recipes' matrices (or
  * the draw's matrix, without them), the landscape events' matrices, the G mixes and y, z and the
- * total (k each), then the matrix addresses (G u32) and the events' flags (events × G bytes).
+ * total (k each), then the matrix addresses (G u32), the events' flags (events × G bytes) and the
+ * tracking's integers (trackStep: each state's first step as the most common, pending, the run's
+ * start and the first step at the target, the target's members).
  */
 function generalWords(inputs: ProjectionInputs): number {
   const { k } = inputs;
   const { plain, G, events, recipes } = runShape(inputs);
   if (plain) return 0;
-  return Math.max(recipes, 1) * k * k + events * k * k + (G + 3) * k + Math.ceil(G / 2) + Math.ceil((events * G) / 8);
+  const members = inputs.target ? inputs.target.states.length : 0;
+  return Math.max(recipes, 1) * k * k + events * k * k + (G + 3) * k + Math.ceil(G / 2) + Math.ceil((events * G) / 8) +
+    Math.ceil((k + 3 + members) / 2);
 }
 
 /** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
@@ -342,6 +346,12 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   at += (G + 3) * k;
   const mats = new Uint32Array(area.buffer, area.byteOffset + at * 8, G);
   const flags = new Uint8Array(area.buffer, area.byteOffset + at * 8 + Math.ceil(G / 2) * 8, events * G);
+  at += Math.ceil(G / 2) + Math.ceil((events * G) / 8);
+  const tracked = new Int32Array(area.buffer, area.byteOffset + at * 8, k + 3 + nMembers);
+  const firstAt = tracked.byteOffset;
+  const stateAt = firstAt + k * 4;
+  const membersAt = stateAt + 3 * 4;
+  tracked.set(members, k + 3);
   // Byte addresses in the kernel's memory, read once (a view's byteOffset is a property read per use).
   const yearsAt = years ? years.byteOffset : 0;
   const ownAt = own.byteOffset;
@@ -352,27 +362,39 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const eventsAt = eventMats.byteOffset;
   const flagsAt = flags.byteOffset;
   const totalAt = total.byteOffset;
-  const { planStep } = kernel;
+  const { planStep, trackStep } = kernel;
+  const hasTarget = target ? 1 : 0;
   // With variation, a recipe that changes nothing (untreated land, a year without treatment) reads
   // the year matrix in place; the others copy it within the kernel's memory (copyWithin: no
   // allocation) and then apply their changes (changeRecipe).
   const unchanged = plan && ws ? Uint8Array.from(plan.plans, (_, p) => (unchangedRecipe(plan, p) ? 1 : 0)) : new Uint8Array(0);
   const memory = new Float64Array(area.buffer);
+  // The draw being run, for the one `heard` made here (a closure per draw was garbage).
+  let drawNow = 0;
+  const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(drawNow, tr, outcome));
   const ownWord = ownAt / 8;
   const yearsWord = yearsAt / 8;
 
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
-    const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
+    drawNow = d;
     if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
     else if (!ws && !variation) for (let c = 0; c < k2; c++) own[c] = P[d * k2 + c]!;
     built.fill(-1);
     const hitRow = d * steps;
     const x = d * G * k;
     for (let c = 0; c < G * k; c++) mixes[c] = xs[x + c]!;
-    let pending = 0; // states not yet seen as the most common
-    for (let s = 0; s < k; s++) if (firstMostCommon[d * k + s] === -1) pending += 1;
-    let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
+    // The tracking's integers for trackStep: each state's first step as the most common; how many
+    // states are not yet seen as the most common; the first step of the current run of steps meeting
+    // the target (−1 when not met); the first step at the target.
+    let pending = 0;
+    for (let s = 0; s < k; s++) {
+      tracked[s] = firstMostCommon[d * k + s]!;
+      if (tracked[s] === -1) pending += 1;
+    }
+    tracked[k] = pending;
+    tracked[k + 1] = runStart[d]!;
+    tracked[k + 2] = firstAtTarget[d]!;
     for (let t = from; t < to; t++) {
       if (t === 0) {
         const so = startByDraw ? d * Z * k : 0;
@@ -415,27 +437,13 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
         const into = slot * k * OUTPUT_BLOCK + b;
         for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = total[s]!;
       }
-      if (pending > 0) {
-        let largest = 0;
-        for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
-        for (let s = 0; s < k; s++) {
-          if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) {
-            firstMostCommon[d * k + s] = t;
-            pending -= 1;
-          }
-        }
-      }
-      if (target) {
-        let sum = 0;
-        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
-        if (!(sum >= metLow && sum <= metHigh)) run = -1;
-        else {
-          if (run < 0) run = t;
-          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
-        }
-      }
+      // The first times, in the kernel (the plain projector's comparisons, in its order).
+      trackStep(t, k, totalAt, firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);
     }
     for (let c = 0; c < G * k; c++) xs[x + c] = mixes[c]!;
+    for (let s = 0; s < k; s++) firstMostCommon[d * k + s] = tracked[s]!;
+    const run = tracked[k + 1]!;
+    firstAtTarget[d] = tracked[k + 2]!;
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
     if (b === OUTPUT_BLOCK - 1 || d === d1 - 1) {

@@ -35,8 +35,13 @@ export interface YearKernel {
    */
   readonly work: Float64Array;
   readonly workAt: number;
-  /** The kernel's planStep (assembly/year-kernel.ts): one step of G sub-populations; every argument but G, k and events a byte address in the area. */
+  /**
+   * The kernel's planStep and trackStep (assembly/year-kernel.ts): one step of G sub-populations, and
+   * the first times tracked on its landscape mix; the arguments named for arrays are byte addresses in the area.
+   */
   planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
+  trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
+    low: number, high: number, staysMet: number): void;
 }
 
 interface Exports {
@@ -48,6 +53,8 @@ interface Exports {
   gammas(state: number, shape: number, n: number, out: number): void;
   projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
   planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
+  trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
+    low: number, high: number, staysMet: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -140,6 +147,7 @@ export function yearKernel(k: number, streams: number, slots = 1, work = 0): Yea
     work: f64.subarray(workAt, workAt + work),
     workAt: workAt * 8,
     planStep: exports.planStep,
+    trackStep: exports.trackStep,
     sample(n, z) {
       check(n);
       checkSlot(z);
