@@ -235,7 +235,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
  *
  * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
  * once per call, no allocation inside. A general run's step and tracking run in the WebAssembly
- * kernel (planStep, trackStep: about a quarter of the CPU of the JavaScript loop they replaced in
+ * kernel (planStep, trackStep: with the JavaScript left around them, about a third of the CPU of the loop they replaced in
  * a comparison; DEVELOPERS.md, Benchmarks) on matrices and mixes in the kernel's area. Shares are not renormalised: every matrix row sums to 1
  * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
  * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
