@@ -235,11 +235,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
  *
  * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
  * once per call, no allocation inside. A general run's step and tracking run in the WebAssembly
- * kernel (planStep, trackStep: with the JavaScript left around them, about a third of the CPU of the loop they replaced in
- * a comparison; DEVELOPERS.md, Benchmarks) on matrices and mixes in the kernel's area. Shares are not renormalised: every matrix row sums to 1
- * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
- * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
- * memory budget.
+ * kernel (planStep, trackStep), on matrices and mixes in the kernel's area: with the JavaScript
+ * left around them, about a third of the CPU of the loop they replaced in a comparison
+ * (DEVELOPERS.md, Benchmarks). Shares are not renormalised: every matrix row sums to 1 within a
+ * few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is the same
+ * whichever chunks and blocks its steps are run in, so the numbers do not depend on the memory
+ * budget.
  */
 export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array): void {
