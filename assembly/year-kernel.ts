@@ -529,28 +529,10 @@ export function projectTracked(p: usize, drawStride: i32, stepStride: i32, xs: u
       if (slot >= 0) {
         for (let s = 0; s < k; s++) store<f64>(block + (<usize>((slot * k + s) * nd + d) << 3), load<f64>(x + (<usize>s << 3)));
       }
-      if (pending > 0) {
-        let largest: f64 = 0;
-        for (let s = 0; s < k; s++) {
-          const v = load<f64>(x + (<usize>s << 3));
-          if (v > largest) largest = v;
-        }
-        for (let s = 0; s < k; s++) {
-          const at = fmc + (<usize>s << 2);
-          if (load<i32>(at) == -1 && load<f64>(x + (<usize>s << 3)) >= largest - MOST_COMMON_TOLERANCE) {
-            store<i32>(at, t);
-            pending -= 1;
-          }
-        }
-      }
+      if (pending > 0) pending = mostCommonAt(t, k, x, fmc, pending);
       if (hasTarget) {
-        let sum: f64 = 0;
-        for (let n = 0; n < nMembers; n++) sum += load<f64>(x + (<usize>load<i32>(members + (<usize>n << 2)) << 3));
-        if (!(sum >= metLow && sum <= metHigh)) run = -1;
-        else {
-          if (run < 0) run = t;
-          if (reached == -1 && t - run + 1 >= staysMet) reached = run;
-        }
+        run = targetRunAt(t, x, members, nMembers, metLow, metHigh, run);
+        if (run >= 0 && reached == -1 && t - run + 1 >= staysMet) reached = run;
       }
     }
     store<i32>(runStart + (<usize>d << 2), run);
@@ -560,3 +542,118 @@ export function projectTracked(p: usize, drawStride: i32, stepStride: i32, xs: u
 
 /** project-chunk.ts MOST_COMMON_TOLERANCE: a share within this of the largest counts as most common too. */
 const MOST_COMMON_TOLERANCE: f64 = 1e-12;
+/**
+ * One step of a run with treatments, zones, parcels or landscape events (project-chunk.ts, the
+ * general projector), for its G sub-populations: sub-population g's mix (k at `x + g·k`) becomes
+ * y = x_g·M_g with M_g the matrix whose byte address is the u32 at `mats + 4g`, then for each
+ * landscape event e with the byte at `flags + e·G + g` set, y ← y·E_e (E_e at `eventMats + e·k²`):
+ * z = 0, z += yᵢ·E_e,i for each i with yᵢ ≠ 0. The landscape's mix `total` (k) is the sum over
+ * sub-populations, assigned for the first and added for the rest. Exactly the JavaScript
+ * projector's operations in its order (the multiply-adds two lanes at a time, as projectSteps),
+ * so the same bits.
+ */
+export function planStep(G: i32, k: i32, x: usize, y: usize, z: usize, mats: usize, events: i32, eventMats: usize,
+  flags: usize, total: usize): void {
+  const pairs = k >> 1;
+  const last = <usize>(k - 1) << 3;
+  const odd = (k & 1) == 1;
+  const rowBytes = <usize>k << 3;
+  for (let g = 0; g < G; g++) {
+    const m = <usize>load<u32>(mats + (<usize>g << 2));
+    const xg = x + <usize>(g * k) * 8;
+    const first = load<f64>(xg);
+    const x0 = f64x2.splat(first);
+    for (let j = 0; j < pairs; j++) v128.store(y + (<usize>j << 4), f64x2.mul(x0, v128.load(m + (<usize>j << 4))));
+    if (odd) store<f64>(y + last, first * load<f64>(m + last));
+    for (let i = 1; i < k; i++) {
+      const xs = load<f64>(xg + (<usize>i << 3));
+      if (xs == 0) continue;
+      const xi = f64x2.splat(xs);
+      const row = m + <usize>i * rowBytes;
+      for (let j = 0; j < pairs; j++) {
+        const at = y + (<usize>j << 4);
+        v128.store(at, f64x2.add(v128.load(at), f64x2.mul(xi, v128.load(row + (<usize>j << 4)))));
+      }
+      if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
+    }
+    for (let e = 0; e < events; e++) {
+      if (load<u8>(flags + <usize>(e * G + g)) == 0) continue;
+      const E = eventMats + <usize>(e * k * k) * 8;
+      memory.fill(z, 0, rowBytes);
+      for (let i = 0; i < k; i++) {
+        const yi = load<f64>(y + (<usize>i << 3));
+        if (yi == 0) continue;
+        const row = E + <usize>i * rowBytes;
+        for (let j = 0; j < k; j++) {
+          const at = z + (<usize>j << 3);
+          store<f64>(at, load<f64>(at) + yi * load<f64>(row + (<usize>j << 3)));
+        }
+      }
+      memory.copy(y, z, rowBytes);
+    }
+    memory.copy(xg, y, rowBytes);
+    if (g == 0) memory.copy(total, y, rowBytes);
+    else {
+      for (let s = 0; s < k; s++) {
+        const at = total + (<usize>s << 3);
+        store<f64>(at, load<f64>(at) + load<f64>(y + (<usize>s << 3)));
+      }
+    }
+  }
+}
+
+
+/**
+ * The general projector's tracking at step t of one draw, on the landscape mix `total` (k), as its
+ * JavaScript did it (project-chunk.ts), the same comparisons in the same order: while `state[0]`
+ * (i32: states not yet the most common) is above 0, each state whose first step as the most common
+ * (`first`, k i32, −1: not yet) is unset and whose share is within MOST_COMMON_TOLERANCE of the
+ * largest takes step t; with a target (`hasTarget`), the sum of the members' shares (`members`,
+ * `count` i32) met or not within [low, high] moves the run's start `state[1]` and, after `staysMet`
+ * steps, the first step at the target `state[2]`.
+ */
+export function trackStep(t: i32, k: i32, total: usize, first: usize, state: usize, hasTarget: i32, members: usize, count: i32,
+  low: f64, high: f64, staysMet: i32): void {
+  const pending = load<i32>(state);
+  if (pending > 0) store<i32>(state, mostCommonAt(t, k, total, first, pending));
+  if (hasTarget != 0) {
+    const run = targetRunAt(t, total, members, count, low, high, load<i32>(state, 4));
+    if (run >= 0 && load<i32>(state, 8) == -1 && t - run + 1 >= staysMet) store<i32>(state, run, 8);
+    store<i32>(state, run, 4);
+  }
+}
+
+/**
+ * The first times' rule, one owner for projectTracked and trackStep (project-chunk.ts's, in its
+ * order): each state whose first step as the most common (`first`, k i32, −1: not yet) is unset and
+ * whose share of `mix` is within MOST_COMMON_TOLERANCE of the largest takes step t. Returns the
+ * states still pending.
+ */
+// @ts-ignore: decorator
+@inline function mostCommonAt(t: i32, k: i32, mix: usize, first: usize, pending: i32): i32 {
+  let largest: f64 = 0;
+  for (let s = 0; s < k; s++) {
+    const v = load<f64>(mix + (<usize>s << 3));
+    if (v > largest) largest = v;
+  }
+  for (let s = 0; s < k; s++) {
+    const at = first + (<usize>s << 2);
+    if (load<i32>(at) == -1 && load<f64>(mix + (<usize>s << 3)) >= largest - MOST_COMMON_TOLERANCE) {
+      store<i32>(at, t);
+      pending -= 1;
+    }
+  }
+  return pending;
+}
+
+/**
+ * The target's run at step t: −1 when the members' summed share of `mix` (`count` i32 at `members`)
+ * lies outside [low, high], else the run's first step (t when it starts here).
+ */
+// @ts-ignore: decorator
+@inline function targetRunAt(t: i32, mix: usize, members: usize, count: i32, low: f64, high: f64, run: i32): i32 {
+  let sum: f64 = 0;
+  for (let n = 0; n < count; n++) sum += load<f64>(mix + (<usize>load<i32>(members + (<usize>n << 2)) << 3));
+  if (!(sum >= low && sum <= high)) return -1;
+  return run < 0 ? t : run;
+}

@@ -57,18 +57,23 @@ function rescaleAround(row: Float64Array, k: number, change: Extract<RowChange, 
     row[to] = change.kind === 'multiply' ? row[to]! * value : value;
     listed += row[to]!;
   }
-  const isListed = (j: number): boolean => change.cells.some((c) => c.to === j);
   if (listed > 1 + ROW_CHANGE_TOLERANCE) {
-    for (let j = 0; j < k; j++) row[j] = isListed(j) ? row[j]! / listed : 0;
+    for (let j = 0; j < k; j++) row[j] = listedIn(change.cells, j) ? row[j]! / listed : 0;
     return 'capped';
   }
   // `others` was found by subtraction: clear rounding dust before deciding it is empty.
   if (others <= ROW_CHANGE_TOLERANCE) {
     if (Math.abs(listed - 1) > ROW_CHANGE_TOLERANCE) return 'unmet';
-    for (let j = 0; j < k; j++) if (!isListed(j)) row[j] = 0;
+    for (let j = 0; j < k; j++) if (!listedIn(change.cells, j)) row[j] = 0;
     return 'ok';
   }
   const scale = Math.max(0, 1 - listed) / others;
-  for (let j = 0; j < k; j++) if (!isListed(j)) row[j] *= scale;
+  for (let j = 0; j < k; j++) if (!listedIn(change.cells, j)) row[j] *= scale;
   return 'ok';
+}
+
+/** Whether destination j is one of `cells`: a loop, not `cells.some` with a fresh callback, as this runs every treated year of every draw with year-to-year variation. */
+function listedIn(cells: readonly { readonly to: number }[], j: number): boolean {
+  for (let c = 0; c < cells.length; c++) if (cells[c]!.to === j) return true;
+  return false;
 }

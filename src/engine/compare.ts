@@ -100,7 +100,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   return {
     baseline: results[0]!,
     alternatives: results.slice(1).map((result, n) =>
-      compareTo(first, sims[0]!, sims[n + 1]!, result, first.showSteps.map((t) => paired.get(t)![n]!))),
+      compareTo(first, sims[0]!, sims[n + 1]!, result, first.showSteps.map((t) => paired.get(t)![n]!), paired.get(first.horizonSteps)?.[n])),
   };
 }
 
@@ -133,7 +133,7 @@ function differencesAt(base: Float64Array, alt: Float64Array, baseline: Scenario
 }
 
 function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result: ForecastResult,
-  byYear: readonly YearDifferences[]): AlternativeComparison {
+  byYear: readonly YearDifferences[], horizon: YearDifferences | undefined): AlternativeComparison {
   const k = baseline.fit.states.length;
   const difference: ShareBands[] = [];
   const odds: Odds[][] = [];
@@ -143,7 +143,8 @@ function compareTo(baseline: Scenario, base: Simulation, alt: Simulation, result
     difference.push(bands);
     odds.push(byYear.map((year) => year.odds[s]!));
   }
-  const atHorizon = differencesAt(base.horizonShares, alt.horizonShares, baseline, new Float64Array(base.tracks.draws))
+  // The horizon is usually a shown year, whose differences were already made from the same mixes: taken as they are.
+  const atHorizon = (horizon ?? differencesAt(base.horizonShares, alt.horizonShares, baseline, new Float64Array(base.tracks.draws)))
     .bands.map(({ band: { median, low, high } }) => ({ median, low, high }));
   return { result, difference, odds, dominance: baseline.target ? dominanceDifference(base, alt, baseline) : null, atHorizon };
 }

@@ -28,17 +28,32 @@ export function fillPlanMatrices(plan: RunPlan, base: Float64Array, baseOffset: 
 /** Build recipe p's matrix alone from `base` (a year's matrix, with year-to-year variation), as fillPlanMatrices does. */
 export function fillRecipe(plan: RunPlan, p: number, base: Float64Array, baseOffset: number, ws: PlanWorkspace,
   onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
+  const at = p * plan.k * plan.k;
+  for (let c = 0; c < plan.k * plan.k; c++) ws.matrices[at + c] = base[baseOffset + c]!;
+  changeRecipe(plan, p, ws, onOutcome);
+}
+
+/** A recipe with nothing to change: every step it names is the drawn (or year) matrix itself, read in place. */
+export function unchangedRecipe(plan: RunPlan, p: number): boolean {
+  return plan.plans[p]!.changes.length === 0 && plan.plans[p]!.siteEvents.length === 0;
+}
+
+/** Recipe p's changes, applied to the matrix already copied to `ws.matrices[p·k² …]` (fillRecipe's second half). */
+export function changeRecipe(plan: RunPlan, p: number, ws: PlanWorkspace,
+  onOutcome?: (treatment: number, outcome: RowChangeOutcome) => void): void {
   const { k } = plan;
   const k2 = k * k;
   const recipe = plan.plans[p]!;
   const at = p * k2;
-  for (let c = 0; c < k2; c++) ws.matrices[at + c] = base[baseOffset + c]!;
-  for (const { treatment, weight } of recipe.changes) {
+  // Indexed loops, not for…of with destructuring: with variation this runs every treated year of every draw.
+  for (let c = 0; c < recipe.changes.length; c++) {
+    const { treatment, weight } = recipe.changes[c]!;
     const tr = plan.treatments[treatment]!;
     const outcome = changeRow(ws.matrices, at + tr.row * k, k, tr.change, weight, ws.row);
     if (outcome !== 'ok') onOutcome?.(treatment, outcome);
   }
-  for (const { event, chance } of recipe.siteEvents) {
+  for (let c = 0; c < recipe.siteEvents.length; c++) {
+    const { event, chance } = recipe.siteEvents[c]!;
     const E = plan.events[event]!.matrix;
     for (let i = 0; i < k; i++) {
       for (let j = 0; j < k; j++) {

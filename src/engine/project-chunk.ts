@@ -1,11 +1,11 @@
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RunPlan } from './plan.js';
-import { fillPlanMatrices, fillRecipe, planWorkspace } from './plan-matrices.js';
+import { changeRecipe, fillPlanMatrices, fillRecipe, planWorkspace, unchangedRecipe } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
-import { projectTracked, reserveTracked, TRACKED_DRAWS, yearKernel } from '../uncertainty/year-kernel.js';
+import { projectTracked, reserveTracked, TRACKED_DRAWS, yearKernel, type YearKernel } from '../uncertainty/year-kernel.js';
 
 /** A share within this of the largest counts as "most common" too (ties after rounding). */
 export const MOST_COMMON_TOLERANCE = 1e-12;
@@ -120,7 +120,7 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   // line for every number (measured: a third of a comparison's time).
   let slots = 0;
   for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
-  if (!ws && !variation && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
+  if (!variation && runShape(inputs).plain) {
     // The plain projection with its tracking in WebAssembly (year-kernel.ts projectTracked).
     projectTracked({ P, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out, xs, runStart, firstAtTarget, firstMostCommon,
       members, hasTarget: Boolean(target), metLow, metHigh, staysMet }, d0, d1, from, to);
@@ -238,29 +238,40 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
  * and each run's numbers are the same bits as when it ran alone.
  *
  * The hot loop of sere: D × H × G × k² multiply-adds over flat typed arrays with scratch rows made
- * once per call, no allocation inside. Shares are not renormalised: every matrix row sums to 1
- * within a few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is
- * the same whichever chunks and blocks its steps are run in, so the numbers do not depend on the
- * memory budget.
+ * once per call, no allocation inside. A general run's step and tracking run in the WebAssembly
+ * kernel (planStep, trackStep), on matrices and mixes in the kernel's area: with the JavaScript
+ * left around them, about a third of the CPU of the loop they replaced in a comparison
+ * (DEVELOPERS.md, Benchmarks). Shares are not renormalised: every matrix row sums to 1 within a
+ * few ulps, so the total share drifts by about horizon × 1e-16. Each draw's arithmetic is the same
+ * whichever chunks and blocks its steps are run in, so the numbers do not depend on the memory
+ * budget.
  */
 export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array): void {
   const { P, k, draws: D, variation } = runs[0]!.inputs;
-  if (variation && runs.length === 1 && isPlain(runs[0]!.inputs)) {
+  if (variation && runs.length === 1 && runShape(runs[0]!.inputs).plain) {
     projectYearsTracked(runs[0]!, d0, d1, from, to, slotOf);
     return;
   }
   const k2 = k * k;
   const Z = runs[0]!.inputs.plan ? runs[0]!.inputs.plan.zones : 1;
   const zoneStride = D * k2;
-  // The chunk's year matrices of one draw, `years[((t − from)*Z + zone)*k2 + c]`, drawn once for every run.
-  const years = variation ? new Float64Array((to - from) * Z * k2) : undefined;
-  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
-  const projectors = runs.map((run) => runProjector(run, from, to, slotOf, years));
+  // One area of the kernel's memory holds the chunk's year matrices of one draw, `years[((t − from)*Z + zone)*k2 + c]`,
+  // drawn once for every run, and each general run's matrices and mixes, which its kernel step reads (generalWords).
+  const yearWords = variation ? (to - from) * Z * k2 : 0;
+  const words = runs.map((run) => generalWords(run.inputs));
+  const kernel = yearKernel(k, variation ? to - from : 0, variation ? Z : 0, { matrices: yearWords + words.reduce((a, b) => a + b, 0) });
+  const years = variation ? kernel.matrices.subarray(0, yearWords) : undefined;
+  let at = yearWords;
+  const projectors = runs.map((run, n) => {
+    const area = kernel.matrices.subarray(at, at + words[n]!);
+    at += words[n]!;
+    return runProjector(run, from, to, slotOf, years, kernel, area);
+  });
   for (let d = d0; d < d1; d++) {
-    if (kernel) {
-      if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), runs[0]!.inputs.horizon, from, to);
-      for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
+    if (variation) {
+      if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation.keys, Math.floor(d / DRAW_BLOCK), runs[0]!.inputs.horizon, from, to);
+      for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation.concentration, (zone * D + d) * k);
       // Each zone's year matrix around its own draw, from the same stream one zone after another.
       for (let t = Math.max(from, 1); t < to; t++) {
         for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone);
@@ -272,11 +283,33 @@ export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, 
   }
 }
 
-/** No treatment, landscape event, zone or parcel: every step the draw's matrix (or year matrix) alone. */
-function isPlain(inputs: ProjectionInputs): boolean {
+/** What shape a run's steps take: the plain projector's (one matrix, nothing else) or the general one's, and its sizes. */
+function runShape(inputs: ProjectionInputs): { readonly plain: boolean; readonly G: number; readonly events: number; readonly recipes: number } {
   const { plan } = inputs;
-  return !plan || (plan.trivial && plan.landscapeEvents.length === 0 && plan.zones === 1 && plan.subPopulations.length === 1 &&
-    plan.subPopulations[0]!.weight === 1);
+  const trivial = !plan || plan.trivial;
+  const Z = plan ? plan.zones : 1;
+  const G = plan ? plan.subPopulations.length : 1;
+  const events = plan ? plan.landscapeEvents.length : 0;
+  const weight = plan ? plan.subPopulations[0]!.weight : 1;
+  return { plain: trivial && events === 0 && G === 1 && Z === 1 && weight === 1, G, events, recipes: trivial ? 0 : plan!.plans.length };
+}
+
+/**
+ * Words of the kernel's area a general run takes (none for a plain one): its recipes' matrices (or
+ * the draw's matrix, without them), the landscape events' matrices, the G mixes and y, z and the
+ * total (k each), then the matrix addresses (G u32), the events' flags (events × G bytes) and the
+ * tracking's integers (trackStep: each state's first step as the most common, pending, the run's
+ * start and the first step at the target, the target's members).
+ */
+function generalWords(inputs: ProjectionInputs): number {
+  const { k } = inputs;
+  const { plain, G, events, recipes } = runShape(inputs);
+  // A plain run with year matrices takes plainProjector, which needs no area; without them (not a
+  // case projectDrawsTogether is given today) the general step's area.
+  if (plain && inputs.variation) return 0;
+  const members = inputs.target ? inputs.target.states.length : 0;
+  return Math.max(recipes, 1) * k * k + events * k * k + (G + 3) * k + Math.ceil(G / 2) + Math.ceil((events * G) / 8) +
+    Math.ceil((k + 3 + members) / 2);
 }
 
 /**
@@ -323,7 +356,8 @@ function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: nu
 }
 
 /** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
-function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32Array, years: Float64Array | undefined): (d: number, d0: number, d1: number) => void {
+function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32Array, years: Float64Array | undefined,
+  kernel: YearKernel, area: Float64Array): (d: number, d0: number, d1: number) => void {
   const { inputs, state, out } = run;
   const { P, k, draws: D, horizon, start, startByDraw, plan, hits, target, onOutcome } = inputs;
   const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
@@ -333,8 +367,18 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const staysMet = target ? target.staysMet : 1;
   const nMembers = members.length;
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
-  const trivial = !plan || plan.trivial;
   const variation = years !== undefined;
+  const { plain, G, events, recipes } = runShape(inputs);
+  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
+  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
+  // line for every number (measured: a third of a comparison's time).
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
+  if (plain && years) {
+    return plainProjector({ k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
+      xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
+  }
   // Zones (MatrixDraws.zones): sub-population g runs on zone zoneOf[g]'s draws, Z·D matrices in all.
   const Z = plan ? plan.zones : 1;
   const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
@@ -342,98 +386,120 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const eventIn = plan?.eventIn;
   /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
   const built = new Int32Array(plan ? plan.plans.length : 0);
-  const G = plan ? plan.subPopulations.length : 1;
   const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
   const planOf = plan?.planOf;
-  const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
-  const events = landscape.length;
-  const ws = plan && !trivial ? planWorkspace(plan) : undefined;
-  const total = new Float64Array(k);
-  const y = new Float64Array(k);
-  const z = new Float64Array(k);
-  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
-  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
-  // line for every number (measured: a third of a comparison's time).
-  let slots = 0;
-  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
-  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
-  if (years && !ws && events === 0 && G === 1 && Z === 1 && weights[0] === 1) {
-    return plainProjector({ k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
-      xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
-  }
+  // The area (generalWords): what the kernel's planStep reads and writes, addressed by byte offset in its memory.
+  const own = area.subarray(0, Math.max(recipes, 1) * k2);
+  const ws = recipes > 0 ? { ...planWorkspace(plan!), matrices: own } : undefined;
+  let at = own.length;
+  const eventMats = area.subarray(at, at + events * k2);
+  plan?.landscapeEvents.forEach((e, n) => eventMats.set(plan.events[e]!.matrix, n * k2));
+  at += events * k2;
+  const mixes = area.subarray(at, at + G * k);
+  const y = area.subarray(at + G * k, at + (G + 1) * k);
+  const z = area.subarray(at + (G + 1) * k, at + (G + 2) * k);
+  const total = area.subarray(at + (G + 2) * k, at + (G + 3) * k);
+  at += (G + 3) * k;
+  const mats = new Uint32Array(area.buffer, area.byteOffset + at * 8, G);
+  const flags = new Uint8Array(area.buffer, area.byteOffset + at * 8 + Math.ceil(G / 2) * 8, events * G);
+  at += Math.ceil(G / 2) + Math.ceil((events * G) / 8);
+  const tracked = new Int32Array(area.buffer, area.byteOffset + at * 8, k + 3 + nMembers);
+  const firstAt = tracked.byteOffset;
+  const stateAt = firstAt + k * 4;
+  const membersAt = stateAt + 3 * 4;
+  tracked.set(members, k + 3);
+  // Byte addresses in the kernel's memory, read once (a view's byteOffset is a property read per use).
+  const yearsAt = years ? years.byteOffset : 0;
+  const ownAt = own.byteOffset;
+  const mixesAt = mixes.byteOffset;
+  const yAt = y.byteOffset;
+  const zAt = z.byteOffset;
+  const matsAt = mats.byteOffset;
+  const eventsAt = eventMats.byteOffset;
+  const flagsAt = flags.byteOffset;
+  const totalAt = total.byteOffset;
+  const { planStep, trackStep } = kernel;
+  const hasTarget = target ? 1 : 0;
+  // With variation, a recipe that changes nothing (untreated land, a year without treatment) reads
+  // the year matrix in place; the others copy it within the kernel's memory (copyWithin: no
+  // allocation) and then apply their changes (changeRecipe).
+  const unchanged = plan && ws ? Uint8Array.from(plan.plans, (_, p) => (unchangedRecipe(plan, p) ? 1 : 0)) : new Uint8Array(0);
+  const memory = new Float64Array(area.buffer);
+  // The draw being run, for the one `heard` made here (a closure per draw was garbage).
+  let drawNow = 0;
+  const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(drawNow, tr, outcome));
+  const ownWord = ownAt / 8;
+  const yearsWord = yearsAt / 8;
 
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
-    const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
+    drawNow = d;
     if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
+    else if (!ws && !variation) for (let c = 0; c < k2; c++) own[c] = P[d * k2 + c]!;
     built.fill(-1);
-    const M = ws ? ws.matrices : variation ? years! : P;
     const hitRow = d * steps;
     const x = d * G * k;
-    let pending = 0; // states not yet seen as the most common
-    for (let s = 0; s < k; s++) if (firstMostCommon[d * k + s] === -1) pending += 1;
-    let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
+    for (let c = 0; c < G * k; c++) mixes[c] = xs[x + c]!;
+    // The tracking's integers for trackStep: each state's first step as the most common; how many
+    // states are not yet seen as the most common; the first step of the current run of steps meeting
+    // the target (−1 when not met); the first step at the target.
+    let pending = 0;
+    for (let s = 0; s < k; s++) {
+      tracked[s] = firstMostCommon[d * k + s]!;
+      if (tracked[s] === -1) pending += 1;
+    }
+    tracked[k] = pending;
+    tracked[k + 1] = runStart[d]!;
+    tracked[k + 2] = firstAtTarget[d]!;
     for (let t = from; t < to; t++) {
       if (t === 0) {
         const so = startByDraw ? d * Z * k : 0;
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) mixes[g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
         if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
         else {
           total.fill(0);
-          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
+          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += mixes[g * k + s]!;
         }
       } else {
+        // Each sub-population's matrix this step: its recipe's (built from the year matrix, with
+        // variation), the year matrix, or the draw's; then the kernel steps every sub-population
+        // and strikes the landscape events (planStep: the same operations in the same order as the
+        // JavaScript loop it replaced, so the same bits).
         const yearAt = (t - from) * Z * k2;
         for (let g = 0; g < G; g++) {
           const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, years!, yearAt + plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
-          const base = ws ? recipe * k2 : variation ? yearAt : d * k2;
-          const xo = x + g * k;
-          const x0 = xs[xo]!;
-          for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
-          for (let i = 1; i < k; i++) {
-            const xi = xs[xo + i]!;
-            if (xi === 0) continue;
-            const row = base + i * k;
-            for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
+          if (variation && ws) {
+            const from = yearAt + plan!.plans[recipe]!.zone * k2;
+            if (unchanged[recipe] === 1) {
+              mats[g] = yearsAt + from * 8;
+              continue;
+            }
+            if (built[recipe] !== t) {
+              memory.copyWithin(ownWord + recipe * k2, yearsWord + from, yearsWord + from + k2);
+              changeRecipe(plan!, recipe, ws, heard);
+              built[recipe] = t;
+            }
           }
-          for (let e = 0; e < events; e++) {
-            if (hits[e]![hitRow + t] === 0 || (eventIn && eventIn[e * G + g] === 0)) continue;
-            const E = landscape[e]!;
-            z.fill(0);
-            for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }
-            y.set(z);
-          }
-          // The landscape's mix is the sum over sub-populations: assign for the first, add after.
-          if (g === 0) for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] = y[s]!; }
-          else for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] += y[s]!; }
+          mats[g] = ws ? ownAt + recipe * k2 * 8 : variation ? yearsAt + yearAt * 8 : ownAt;
         }
+        for (let e = 0; e < events; e++) {
+          const hit = hits[e]![hitRow + t] !== 0;
+          for (let g = 0; g < G; g++) flags[e * G + g] = hit && !(eventIn && eventIn[e * G + g] === 0) ? 1 : 0;
+        }
+        planStep(G, k, mixesAt, yAt, zAt, matsAt, events, eventsAt, flagsAt, totalAt);
       }
       const slot = slotOf[t]!;
       if (slot >= 0) {
-        const at = slot * k * OUTPUT_BLOCK + b;
-        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = total[s]!;
+        const into = slot * k * OUTPUT_BLOCK + b;
+        for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = total[s]!;
       }
-      if (pending > 0) {
-        let largest = 0;
-        for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
-        for (let s = 0; s < k; s++) {
-          if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) {
-            firstMostCommon[d * k + s] = t;
-            pending -= 1;
-          }
-        }
-      }
-      if (target) {
-        let sum = 0;
-        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
-        if (!(sum >= metLow && sum <= metHigh)) run = -1;
-        else {
-          if (run < 0) run = t;
-          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
-        }
-      }
+      // The first times, in the kernel (the plain projector's comparisons, in its order).
+      trackStep(t, k, totalAt, firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);
     }
+    for (let c = 0; c < G * k; c++) xs[x + c] = mixes[c]!;
+    for (let s = 0; s < k; s++) firstMostCommon[d * k + s] = tracked[s]!;
+    const run = tracked[k + 1]!;
+    firstAtTarget[d] = tracked[k + 2]!;
     runStart[d] = run;
     if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
     // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):

@@ -105,7 +105,9 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   const variation = matrices.concentration
     ? { concentration: matrices.concentration, keys: yearStreamKeys(random.stream('years'), D, H) }
     : undefined;
-  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches, variation));
+  // Alternatives that share an event (its name and chances) share its years: drawn once, not per run.
+  const hitsByEvent = new Map<string, Uint8Array>();
+  const runs = scenarios.map((scenario) => prepare(scenario, matrices, random, switches, variation, hitsByEvent));
   // Kept: the recorded steps and the horizon, whose mixes every run keeps.
   const kept = [...new Set([...recorded, H])].sort((a, b) => a - b);
   const isRecorded = new Uint8Array(steps);
@@ -200,14 +202,24 @@ interface Prepared {
 }
 
 function prepare(scenario: Scenario, matrices: MatrixDraws, random: RandomStream, switches: Switches,
-  variation: ProjectionInputs['variation']): Prepared {
+  variation: ProjectionInputs['variation'], hitsByEvent: Map<string, Uint8Array>): Prepared {
   const runScenario = switches.expectedEvents
     ? { ...scenario, events: scenario.events.map((e) => ({ ...e, scope: 'site' as const })) }
     : scenario;
   const plan = buildPlan(runScenario);
   const D = matrices.count;
   const H = scenario.horizonSteps;
-  const hits = plan.landscapeEvents.map((e) => eventHits(random.stream(`event:${plan.events[e]!.name}`), plan.events[e]!, D, H));
+  // An event's years depend only on its stream (named after it) and its chances (eventHits), read-only after.
+  const hits = plan.landscapeEvents.map((e) => {
+    const event = plan.events[e]!;
+    const key = JSON.stringify([event.name, Array.from(event.chances)]);
+    let drawn = hitsByEvent.get(key);
+    if (!drawn) {
+      drawn = eventHits(random.stream(`event:${event.name}`), event, D, H);
+      hitsByEvent.set(key, drawn);
+    }
+    return drawn;
+  });
   const byDraw = carriedStarts(scenario, matrices);
   const inputs = { P: matrices.data, k: matrices.k, draws: D, horizon: H, start: byDraw ?? Array.from(scenario.zones ? scenario.zones.starts : scenario.start.shares), startByDraw: byDraw !== undefined,
     plan, hits, target: scenario.target, variation };

@@ -29,7 +29,7 @@ export interface YearKernel {
   sample(n: number, z: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
-  /** The caller's own doubles in the kernel's memory (`room.matrices` of them), e.g. matrices for `moveRows`. */
+  /** The caller's own doubles in the kernel's memory (`room.matrices` of them): matrices for `moveRows`, the general projector's matrices and mixes for `planStep` (project-chunk.ts). */
   readonly matrices: Float64Array;
   /** The caller's own counts in the kernel's memory (`room.counts` of them), which `multinomial` and `moveRows` add to. */
   readonly counts: Int32Array;
@@ -44,6 +44,14 @@ export interface YearKernel {
    * plot-counts.ts calls the multinomial, row by row. `m` is `years` or `matrices`.
    */
   moveRows(n: number, m: Float64Array, mOffset: number, from: number, to: number): void;
+  /**
+   * The kernel's planStep and trackStep (assembly/year-kernel.ts): one step of G sub-populations, and
+   * the first times tracked on its landscape mix; the arguments named for arrays are byte addresses in
+   * the kernel's memory (in `matrices`, or `years`).
+   */
+  planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
+  trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
+    low: number, high: number, staysMet: number): void;
 }
 
 /** Room a caller asks of a year kernel for its own use: doubles and 32-bit counts. */
@@ -65,6 +73,9 @@ interface Exports {
   projectTracked(p: number, drawStride: number, stepStride: number, xs: number, firstMostCommon: number, runStart: number, firstAtTarget: number,
     nd: number, k: number, from: number, to: number, slotOf: number, block: number,
     members: number, nMembers: number, hasTarget: number, metLow: number, metHigh: number, staysMet: number, y: number): void;
+  planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
+  trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
+    low: number, high: number, staysMet: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -168,13 +179,16 @@ export function yearKernel(k: number, streams: number, slots = 1, room: KernelRo
     setDraw(z, P, pOffset, concentration, cOffset) {
       check(0);
       checkSlot(z);
-      f64.set(P.subarray(pOffset, pOffset + k2), pAt + z * k2);
-      f64.set(concentration.subarray(cOffset, cOffset + k), kappaAt + z * k);
+      // Element by element, not through subarray views: this runs once per draw and zone, and the views were garbage.
+      for (let c = 0; c < k2; c++) f64[pAt + z * k2 + c] = P[pOffset + c]!;
+      for (let i = 0; i < k; i++) f64[kappaAt + z * k + i] = concentration[cOffset + i]!;
       exports.prepare((pAt + z * k2) * 8, (kappaAt + z * k) * 8, k, (cellsAt + 3 * z * k2) * 8);
     },
     years,
     matrices,
     counts,
+    planStep: exports.planStep,
+    trackStep: exports.trackStep,
     sample(n, z) {
       check(n);
       checkSlot(z);

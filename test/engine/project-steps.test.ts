@@ -78,3 +78,68 @@ describe('the projection kernel (WebAssembly SIMD, projectSteps)', () => {
     expect(() => kernel.setDraw(0, P, 0, new Float64Array(k).fill(Infinity), 0)).not.toThrow();
   });
 });
+
+/**
+ * One step of the general projector as JavaScript did it before planStep (project-chunk.ts at
+ * 344ab62): per sub-population y = x_g·M_g, then each striking event z = Σᵢ yᵢ·Eᵢ (yᵢ ≠ 0), and the
+ * total assigned for the first sub-population and added for the rest.
+ */
+function jsPlanStep(G: number, k: number, xs: Float64Array, M: readonly Float64Array[], E: readonly Float64Array[],
+  strikes: (e: number, g: number) => boolean, total: Float64Array): void {
+  const y = new Float64Array(k);
+  const z = new Float64Array(k);
+  for (let g = 0; g < G; g++) {
+    const x0 = xs[g * k]!;
+    for (let j = 0; j < k; j++) y[j] = x0 * M[g]![j]!;
+    for (let i = 1; i < k; i++) {
+      const xi = xs[g * k + i]!;
+      if (xi === 0) continue;
+      for (let j = 0; j < k; j++) y[j] += xi * M[g]![i * k + j]!;
+    }
+    for (let e = 0; e < E.length; e++) {
+      if (!strikes(e, g)) continue;
+      z.fill(0);
+      for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[e]![i * k + j]!; }
+      y.set(z);
+    }
+    for (let s = 0; s < k; s++) { xs[g * k + s] = y[s]!; total[s] = g === 0 ? y[s]! : total[s]! + y[s]!; }
+  }
+}
+
+describe('the general projector\'s step in the kernel (planStep)', () => {
+  it('gives the bits of the JavaScript loop: 1–3 sub-populations, 0–2 landscape events striking some of them, k odd and even, 40 steps', () => {
+    for (const k of [1, 2, 5, 6, 9]) {
+      for (const G of [1, 2, 3]) {
+        for (const events of [0, 1, 2]) {
+          // Area: G matrices, the events' matrices, mixes, y, z, total (k each), then G u32 addresses and events × G flags.
+          const work = (G + events) * k * k + (G + 3) * k + G + events * G;
+          const kernel = yearKernel(k, 0, 0, { matrices: work });
+          const area = kernel.matrices;
+          const M = Array.from({ length: G }, (_, g) => stochastic(k, 31 * k + 7 * g + events));
+          const E = Array.from({ length: events }, (_, e) => stochastic(k, 1000 + 13 * k + e));
+          M.forEach((m, g) => area.set(m, g * k * k));
+          E.forEach((m, e) => area.set(m, (G + e) * k * k));
+          const mixesAt = (G + events) * k * k;
+          const mixes = area.subarray(mixesAt, mixesAt + G * k);
+          const total = area.subarray(mixesAt + (G + 2) * k, mixesAt + (G + 3) * k);
+          const mats = new Uint32Array(area.buffer, area.byteOffset + (mixesAt + (G + 3) * k) * 8, G);
+          const flags = new Uint8Array(area.buffer, mats.byteOffset + G * 4, events * G);
+          M.forEach((_, g) => { mats[g] = area.byteOffset + g * k * k * 8; });
+          const xs = new Float64Array(G * k);
+          for (let g = 0; g < G; g++) xs[g * k + ((g + k) % k)] = 1 / G; // one state each: zeros in the mix
+          mixes.set(xs);
+          const want = new Float64Array(k);
+          for (let t = 0; t < 40; t++) {
+            const strikes = (e: number, g: number): boolean => (t * 7 + e * 3 + g) % 4 === 0;
+            for (let e = 0; e < events; e++) for (let g = 0; g < G; g++) flags[e * G + g] = strikes(e, g) ? 1 : 0;
+            jsPlanStep(G, k, xs, M, E, strikes, want);
+            kernel.planStep(G, k, mixes.byteOffset, mixes.byteOffset + G * k * 8, mixes.byteOffset + (G + 1) * k * 8, mats.byteOffset,
+              events, area.byteOffset + G * k * k * 8, flags.byteOffset, total.byteOffset);
+            expect(Array.from(total)).toEqual(Array.from(want));
+            expect(Array.from(mixes)).toEqual(Array.from(xs));
+          }
+        }
+      }
+    }
+  });
+});

@@ -83,5 +83,5 @@ describe('scores on the recorded scale with one error matrix per observer are ca
     // the per-observer forecasts is lower in the mean over the 500 paired cases, by more than 3
     // standard errors of the paired difference (one-sided false alarm about 0.1%).
     expect(gain).toBeGreaterThan(3 * se);
-  }, 60_000);
+  }, 240_000);
 });
