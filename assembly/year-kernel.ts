@@ -470,9 +470,12 @@ export function moveRows(state: usize, m: usize, k: i32, from: usize, to: usize)
   store<u64>(state, s2, 16);
   store<u64>(state, s3, 24);
 }
-/** One step x ← x·M of projectSteps (y: k of scratch, left holding the new mix too). */
+/**
+ * y = x·M, two lanes at a time, skipping a zero share: the multiply-adds of projectSteps, planStep
+ * and projectTracked, one owner (the JavaScript projector's operations in its order, so its bits).
+ */
 // @ts-ignore: decorator
-@inline function step(m: usize, k: i32, x: usize, y: usize): void {
+@inline function multiply(m: usize, k: i32, x: usize, y: usize): void {
   const pairs = k >> 1;
   const last = <usize>(k - 1) << 3;
   const odd = (k & 1) == 1;
@@ -491,6 +494,12 @@ export function moveRows(state: usize, m: usize, k: i32, from: usize, to: usize)
     }
     if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
   }
+}
+
+/** One step x ← x·M of projectSteps (y: k of scratch, left holding the new mix too). */
+// @ts-ignore: decorator
+@inline function step(m: usize, k: i32, x: usize, y: usize): void {
+  multiply(m, k, x, y);
   memory.copy(x, y, <usize>k << 3);
 }
 
@@ -554,28 +563,11 @@ const MOST_COMMON_TOLERANCE: f64 = 1e-12;
  */
 export function planStep(G: i32, k: i32, x: usize, y: usize, z: usize, mats: usize, events: i32, eventMats: usize,
   flags: usize, total: usize): void {
-  const pairs = k >> 1;
-  const last = <usize>(k - 1) << 3;
-  const odd = (k & 1) == 1;
   const rowBytes = <usize>k << 3;
   for (let g = 0; g < G; g++) {
     const m = <usize>load<u32>(mats + (<usize>g << 2));
     const xg = x + <usize>(g * k) * 8;
-    const first = load<f64>(xg);
-    const x0 = f64x2.splat(first);
-    for (let j = 0; j < pairs; j++) v128.store(y + (<usize>j << 4), f64x2.mul(x0, v128.load(m + (<usize>j << 4))));
-    if (odd) store<f64>(y + last, first * load<f64>(m + last));
-    for (let i = 1; i < k; i++) {
-      const xs = load<f64>(xg + (<usize>i << 3));
-      if (xs == 0) continue;
-      const xi = f64x2.splat(xs);
-      const row = m + <usize>i * rowBytes;
-      for (let j = 0; j < pairs; j++) {
-        const at = y + (<usize>j << 4);
-        v128.store(at, f64x2.add(v128.load(at), f64x2.mul(xi, v128.load(row + (<usize>j << 4)))));
-      }
-      if (odd) store<f64>(y + last, load<f64>(y + last) + xs * load<f64>(row + last));
-    }
+    multiply(m, k, xg, y);
     for (let e = 0; e < events; e++) {
       if (load<u8>(flags + <usize>(e * G + g)) == 0) continue;
       const E = eventMats + <usize>(e * k * k) * 8;

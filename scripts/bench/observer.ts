@@ -8,60 +8,25 @@
  * Reports retained draws per second and the smallest bulk ESS (P and E) per second of sampler
  * time. One run; the target is under 20 s wall for all of it.
  */
-import { writeFileSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
-import type { SurveyRecord } from '../../src/data/survey.js';
 import { fitMle, fitSurvey } from '../../src/fit/fit.js';
 import { DEFAULT_FIT_SETTINGS } from '../../src/fit/fit-from-file.js';
 import { DEFAULT_AUGMENT, sampleLatent } from '../../src/uncertainty/augment.js';
 import { posteriorDraws } from '../../src/uncertainty/posterior.js';
-import { randomStreams, type RandomStream } from '../../src/uncertainty/random.js';
+import { randomStreams } from '../../src/uncertainty/random.js';
+import { OBSERVER_MISSED as MISSED, OBSERVER_SURVEYS as SURVEYS, observerCase } from '../observer-case.js';
 
 const SITES = 10_000;
-const SURVEYS = 12;
 const K = 8;
-const MISSED = 0.3;
-const ASSESSED = 100;
-
-function pick(random: RandomStream, row: Float64Array, offset: number): number {
-  let u = random.uniform();
-  let next = 0;
-  while (next < K - 1 && u >= row[offset + next]!) { u -= row[offset + next]!; next += 1; }
-  return next;
-}
 
 export function benchObserver(): void {
-  const random = randomStreams(41);
-  const p = new Float64Array(K * K);
-  const e = new Float64Array(K * K);
-  for (let i = 0; i < K; i++) {
-    for (let j = 0; j < K; j++) p[i * K + j] = i === j ? 20 : Math.abs(i - j) === 1 ? 3 : 0.5;
-    for (let j = 0; j < K; j++) e[i * K + j] = i === j ? 0.92 : Math.abs(i - j) === 1 ? 0.04 : 0;
-    const total = p.subarray(i * K, (i + 1) * K).reduce((a, b) => a + b, 0);
-    const errors = e.subarray(i * K, (i + 1) * K).reduce((a, b) => a + b, 0);
-    for (let j = 0; j < K; j++) { p[i * K + j] /= total; e[i * K + j] /= errors; }
-  }
-  const states = Array.from({ length: K }, (_, s) => `s${s}`);
-  const records: SurveyRecord[] = [];
-  for (let s = 0; s < SITES; s++) {
-    let state = random.integer(K);
-    for (let t = 0; t < SURVEYS; t++) {
-      if (t > 0) state = pick(random, p, state * K);
-      if (t === 0 || random.uniform() >= MISSED) records.push({ site: `site${s}`, time: 2000 + t, state: pick(random, e, state * K), line: records.length + 2 });
-    }
-  }
   const dir = mkdtempSync(join(tmpdir(), 'sere-bench-observer-'));
-  const errors = join(dir, 'errors.csv');
-  const cells = new Map<string, number>();
-  for (let x = 0; x < K; x++) for (let n = 0; n < ASSESSED; n++) {
-    const key = `${states[pick(random, e, x * K)]},${states[x]}`;
-    cells.set(key, (cells.get(key) ?? 0) + 1);
-  }
-  writeFileSync(errors, ['recorded,verified,n', ...[...cells].map(([key, n]) => `${key},${n}`)].join('\n') + '\n');
+  const { states, records, errors } = observerCase(SITES, K, dir);
   try {
     const start = performance.now();
     let t = performance.now();
