@@ -118,13 +118,12 @@ export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d
   // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
   // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
   // line for every number (measured: a third of a comparison's time).
-  let slots = 0;
-  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const slots = slotCount(slotOf, from, to);
   if (!variation && runShape(inputs).plain) {
     // The plain projection with its tracking in WebAssembly (year-kernel.ts projectTracked).
     projectTracked({ P, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out, xs, runStart, firstAtTarget, firstMostCommon,
       members, hasTarget: Boolean(target), metLow, metHigh, staysMet }, d0, d1, from, to);
-    if (to === steps) for (let d = d0; d < d1; d++) if (runStart[d]! >= 0) targetRunAtHorizon[d] = horizon - runStart[d]! + 1;
+    if (to === steps) targetRunsAtHorizon(runStart, targetRunAtHorizon, horizon, d0, d1);
     return;
   }
   const total = new Float64Array(k);
@@ -283,6 +282,18 @@ export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, 
   }
 }
 
+/** Recorded slots among steps from … to − 1 (slotOf[t] ≥ 0: step t is recorded in that slot). */
+function slotCount(slotOf: Int32Array, from: number, to: number): number {
+  let slots = 0;
+  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  return slots;
+}
+
+/** After a tracked projection reaches the horizon: each draw's run at the target, in steps, where one is going on. */
+function targetRunsAtHorizon(runStart: Int32Array, targetRunAtHorizon: Int32Array, horizon: number, d0: number, d1: number): void {
+  for (let d = d0; d < d1; d++) if (runStart[d]! >= 0) targetRunAtHorizon[d] = horizon - runStart[d]! + 1;
+}
+
 /** What shape a run's steps take: the plain projector's (one matrix, nothing else) or the general one's, and its sizes. */
 function runShape(inputs: ProjectionInputs): { readonly plain: boolean; readonly G: number; readonly events: number; readonly recipes: number } {
   const { plan } = inputs;
@@ -326,8 +337,7 @@ function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: nu
   const variation = inputs.variation!;
   const k2 = k * k;
   const steps = to - from;
-  let slots = 0;
-  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const slots = slotCount(slotOf, from, to);
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const most = Math.min(TRACKED_DRAWS, d1 - d0);
   const years = new Float64Array(most * steps * k2);
@@ -350,9 +360,7 @@ function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: nu
     }
     projectTracked(tracked, first, first + nd, from, to);
   }
-  if (to === horizon + 1) {
-    for (let d = d0; d < d1; d++) if (state.runStart[d]! >= 0) state.targetRunAtHorizon[d] = horizon - state.runStart[d]! + 1;
-  }
+  if (to === horizon + 1) targetRunsAtHorizon(state.runStart, state.targetRunAtHorizon, horizon, d0, d1);
 }
 
 /** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
@@ -372,8 +380,7 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
   // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
   // line for every number (measured: a third of a comparison's time).
-  let slots = 0;
-  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const slots = slotCount(slotOf, from, to);
   const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
   if (plain && years) {
     return plainProjector({ k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
@@ -534,8 +541,7 @@ function plainProjector(c: {
   const steps = horizon + 1;
   const nMembers = members.length;
   const y = new Float64Array(k);
-  let slots = 0;
-  for (let t = from; t < to; t++) if (slotOf[t]! >= 0) slots = Math.max(slots, slotOf[t]! + 1);
+  const slots = slotCount(slotOf, from, to);
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
     const x = d * k;
