@@ -31,10 +31,10 @@ export const ERROR_EM_MAX_ITERATIONS = 5000;
  *
  * Likelihood: Σ_patterns n · log P(record | π, P, E) + Σ A[x, r] · log E[x, r]; each site's path
  * runs from its first survey to its last, one step at a time, unsurveyed steps emitting all ones.
- * E-step: forward–backward per pattern (chain/forward-backward.ts; error-e-step.ts, run in WebAssembly by em-kernel.ts). M-step: P from the expected
- * transitions (maximumLikelihood: structural zeros stay zero, a row never entered takes the prior
- * mean and is flagged), E row by row from A + expected true→recorded counts, π from the expected
- * first true states.
+ * E-step: forward–backward per pattern (chain/forward-backward.ts; error-e-step.ts, run in
+ * WebAssembly by em-kernel.ts). M-step: P from the expected transitions (maximumLikelihood:
+ * structural zeros stay zero, a row never entered takes the prior mean and is flagged), E row by
+ * row from A + expected true→recorded counts, π from the expected first true states.
  *
  * With one error matrix per observer, `assessment` holds M matrices of counts one after another
  * (matrix m's counts are complete data on E_m alone) and each survey's emission is its own
