@@ -6,12 +6,13 @@
  * possibility check), EM for the MLE, the data-augmentation sampler (DEFAULT_AUGMENT: 4 chains ×
  * 500 warm-up + 250 kept every second = 1,000 retained sweeps), and 1,000 posterior matrix draws.
  * Reports retained draws per second and the smallest bulk ESS (P and E) per second of sampler
- * time. One run; the target is under 20 s wall for all of it.
+ * time, and the sampler's CPU over all its threads beside its wall time (which of the two a slow run lost).
+ * One run; the target is under 20 s wall for all of it.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { availableParallelism } from 'node:os';
+import { availableParallelism, loadavg } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { tableFromRecords } from '../../src/data/survey-rows.js';
 import { fitMle, fitSurvey } from '../../src/fit/fit.js';
@@ -36,8 +37,11 @@ export function benchObserver(): void {
     const mle = fitMle(fit);
     const emMs = performance.now() - t;
     t = performance.now();
+    const cpu = process.cpuUsage();
     const sample = sampleLatent(fit, DEFAULT_AUGMENT, randomStreams(42).stream('augment'));
     const samplerMs = performance.now() - t;
+    const samplerCpu = process.cpuUsage(cpu);
+    const samplerCpuMs = (samplerCpu.user + samplerCpu.system) / 1000;
     t = performance.now();
     posteriorDraws(fit, 1000, randomStreams(43), sample);
     const drawsMs = performance.now() - t;
@@ -52,6 +56,11 @@ export function benchObserver(): void {
       `1,000 matrix draws ${(drawsMs / 1000).toFixed(3)} s · wall ${(wallMs / 1000).toFixed(2)} s (target: under 20 s)`);
     console.log(`  retained sweeps per second ${(sample.retained / (samplerMs / 1000)).toFixed(1)} (all sweeps ${(sweeps / (samplerMs / 1000)).toFixed(1)}/s) · ` +
       `smallest bulk ESS ${Math.min(...ess).toFixed(0)}, ESS per second ${(Math.min(...ess) / (samplerMs / 1000)).toFixed(1)} · largest R̂ ${Math.max(...rhat).toFixed(4)}`);
+    // The sampler's CPU over all threads against its wall time: the work is the same every run (seeded), so
+    // a slow run with the same CPU was short of cores, and one with more CPU ran slower per sweep (DEVELOPERS.md, Benchmarks).
+    const threads = Math.min(DEFAULT_AUGMENT.chains, availableParallelism());
+    console.log(`  sampler CPU ${(samplerCpuMs / 1000).toFixed(2)} s over all threads · ${(samplerCpuMs / samplerMs / threads * 100).toFixed(0)}% of ${threads} threads' wall · ` +
+      `load ${loadavg().map((x) => x.toFixed(2)).join(' ')}`);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

@@ -1,7 +1,8 @@
 import { maximumLikelihood } from './estimates.js';
 import type { GapEstimate } from './gap-em.js';
 import { EM_TOLERANCE } from './gap-em.js';
-import { patternEmissions, patternLength, type RecordPatterns } from './record-patterns.js';
+import { errorEStepKernel } from './em-kernel.js';
+import type { RecordPatterns } from './record-patterns.js';
 import { acceleratedEm } from './squarem.js';
 
 /** The maximum-likelihood fit of a chain seen through observer error. */
@@ -30,10 +31,10 @@ export const ERROR_EM_MAX_ITERATIONS = 5000;
  *
  * Likelihood: Σ_patterns n · log P(record | π, P, E) + Σ A[x, r] · log E[x, r]; each site's path
  * runs from its first survey to its last, one step at a time, unsurveyed steps emitting all ones.
- * E-step: forward–backward per pattern (chain/forward-backward.ts). M-step: P from the expected
- * transitions (maximumLikelihood: structural zeros stay zero, a row never entered takes the prior
- * mean and is flagged), E row by row from A + expected true→recorded counts, π from the expected
- * first true states.
+ * E-step: forward–backward per pattern (chain/forward-backward.ts; error-e-step.ts, run in
+ * WebAssembly by em-kernel.ts). M-step: P from the expected transitions (maximumLikelihood:
+ * structural zeros stay zero, a row never entered takes the prior mean and is flagged), E row by
+ * row from A + expected true→recorded counts, π from the expected first true states.
  *
  * With one error matrix per observer, `assessment` holds M matrices of counts one after another
  * (matrix m's counts are complete data on E_m alone) and each survey's emission is its own
@@ -60,8 +61,10 @@ export function errorMaximumLikelihood(records: RecordPatterns, assessment: Floa
   rowNormalise(startingErrorCounts(assessment, kk), rows, theta.subarray(kk, kk + assessment.length), k);
   theta.fill(1 / k, kk + assessment.length);
   const parts = (t: Float64Array) => ({ p: t.subarray(0, kk), e: t.subarray(kk, kk + assessment.length), pi: t.subarray(kk + assessment.length) });
+  // The E-step in WebAssembly (em-kernel.ts): error-e-step.ts errorEStep's numbers, bit for bit.
+  const kernel = errorEStepKernel(records, k, rows / k);
   const run = acceleratedEm(
-    (t) => { const { p, e, pi } = parts(t); return eStep(records, assessment, pi, p, e, k); },
+    (t) => { const { p, e, pi } = parts(t); return kernel.eStep(assessment, pi, p, e); },
     (step) => {
       const next = new Float64Array(theta.length);
       next.set(maximumLikelihood(step.transitions, alpha, k).p, 0);
@@ -77,115 +80,6 @@ export function errorMaximumLikelihood(records: RecordPatterns, assessment: Floa
     p: p.slice(), rowsFromPrior: estimate.rowsFromPrior, rowsNeverLeft: estimate.rowsNeverLeft, expected: run.step.transitions,
     logLikelihood: run.step.logLikelihood, iterations: run.iterations, converged: run.converged, emission: e.slice(), initial: pi.slice(),
   };
-}
-
-/** Expected completed counts at (π, P, E): transitions, true→recorded (assessment included) and first true states. */
-function eStep(records: RecordPatterns, assessment: Float64Array, pi: Float64Array, p: Float64Array, e: Float64Array, k: number):
-  { transitions: Float64Array; records: Float64Array; first: Float64Array; logLikelihood: number } {
-  const out = { transitions: new Float64Array(k * k), records: Float64Array.from(assessment), first: new Float64Array(k), logLikelihood: 0 };
-  for (let c = 0; c < assessment.length; c++) if (assessment[c]! > 0) out.logLikelihood += assessment[c]! * Math.log(e[c]!);
-  let longest = 0;
-  for (let q = 0; q < records.count; q++) longest = Math.max(longest, patternLength(records, q));
-  const work = { emissions: new Float64Array(longest * k), alpha: new Float64Array(longest * k), beta: new Float64Array(longest * k), scale: new Float64Array(longest),
-    support: new Int32Array(longest * k), supportCount: new Int32Array(longest) };
-  for (let q = 0; q < records.count; q++) addPattern(records, q, pi, p, e, k, work, out);
-  return out;
-}
-
-/**
- * One pattern's share of the E-step: the scaled forward–backward of forward-backward.ts (Rabiner
- * 1989, eqs. 91–93 and 37), written again here into buffers made once per E-step and adding
- * straight into the totals — forwardBackward allocates its marginals per call, which took most of
- * an EM iteration over 3,000 short records. The brute-force test checks both against enumeration.
- *
- * Each step's sums run over its support only — the true states its record allows (emission
- * likelihood above 0; every state at an unsurveyed step) — and over the previous step's: every term
- * left out is an exact +0 (a factor of 0 times finite numbers) added to a sum of non-negative terms
- * that started at +0, so the sums, and every number EM returns, are the same bits as over all k
- * states (test/chain/error-em-support.test.ts). Why: with an error matrix that confuses a state with its
- * neighbours only, a surveyed step allows about 3 of 8 states, and the E-step over all k was most of
- * the observer bench's EM (DEVELOPERS.md, Benchmarks).
- */
-function addPattern(records: RecordPatterns, q: number, pi: Float64Array, p: Float64Array, e: Float64Array, k: number,
-  work: { emissions: Float64Array; alpha: Float64Array; beta: Float64Array; scale: Float64Array; support: Int32Array; supportCount: Int32Array },
-  out: { transitions: Float64Array; records: Float64Array; first: Float64Array; logLikelihood: number }): void {
-  const T = patternLength(records, q);
-  const n = records.sites[q]!;
-  const { alpha, beta, scale, support, supportCount } = work;
-  const em = patternEmissions(records, q, e, k, work.emissions);
-  // support[t·k …]: the states s with em[t·k + s] > 0, increasing; supportCount[t] of them.
-  for (let t = 0; t < T; t++) {
-    let m = 0;
-    for (let s = 0; s < k; s++) if (em[t * k + s]! > 0) support[t * k + m++] = s;
-    supportCount[t] = m;
-  }
-  for (let t = 0; t < T; t++) {
-    let c = 0;
-    const row = t * k;
-    for (let s = 0; s < k; s++) alpha[row + s] = 0;
-    const m = supportCount[t]!;
-    const before = (t - 1) * k;
-    const m0 = t === 0 ? 0 : supportCount[t - 1]!;
-    for (let i = 0; i < m; i++) {
-      const s = support[row + i]!;
-      let x: number;
-      if (t === 0) x = pi[s]!;
-      else {
-        x = 0;
-        for (let j = 0; j < m0; j++) {
-          const r = support[before + j]!;
-          x += alpha[before + r]! * p[r * k + s]!;
-        }
-      }
-      x *= em[row + s]!;
-      alpha[row + s] = x;
-      c += x;
-    }
-    for (let i = 0; i < m; i++) alpha[row + support[row + i]!] /= c;
-    scale[t] = c;
-    out.logLikelihood += n * Math.log(c);
-  }
-  for (let i = 0; i < supportCount[T - 1]!; i++) beta[(T - 1) * k + support[(T - 1) * k + i]!] = 1;
-  for (let t = T - 2; t >= 0; t--) {
-    const next = (t + 1) * k;
-    const m1 = supportCount[t + 1]!;
-    const m = supportCount[t]!;
-    for (let i = 0; i < m; i++) {
-      const r = support[t * k + i]!;
-      let x = 0;
-      for (let j = 0; j < m1; j++) {
-        const s = support[next + j]!;
-        x += p[r * k + s]! * em[next + s]! * beta[next + s]!;
-      }
-      beta[t * k + r] = x / scale[t + 1]!;
-    }
-  }
-  for (let i = 0; i < supportCount[0]!; i++) {
-    const s = support[i]!;
-    out.first[s] += n * alpha[s]! * beta[s]!;
-  }
-  for (let v = records.start[q]!; v < records.start[q + 1]!; v++) {
-    const t = records.at[v]!;
-    const cell = records.matrix[v]! * k * k + records.state[v]!;
-    for (let i = 0; i < supportCount[t]!; i++) {
-      const x = support[t * k + i]!;
-      out.records[cell + x * k] += n * alpha[t * k + x]! * beta[t * k + x]!;
-    }
-  }
-  for (let t = 0; t + 1 < T; t++) {
-    const inv = n / scale[t + 1]!;
-    const next = (t + 1) * k;
-    const m1 = supportCount[t + 1]!;
-    for (let i = 0; i < supportCount[t]!; i++) {
-      const a = support[t * k + i]!;
-      const from = alpha[t * k + a]!;
-      if (from === 0) continue;
-      for (let j = 0; j < m1; j++) {
-        const b = support[next + j]!;
-        out.transitions[a * k + b] += from * p[a * k + b]! * em[next + b]! * beta[next + b]! * inv;
-      }
-    }
-  }
 }
 
 /**
@@ -217,5 +111,5 @@ function rowNormalise(m: Float64Array, rows: number, out: Float64Array, width = 
  * independent optimiser and brute force.
  */
 export function errorLogLikelihood(records: RecordPatterns, assessment: Float64Array, pi: Float64Array, p: Float64Array, e: Float64Array, k: number): number {
-  return eStep(records, assessment, pi, p, e, k).logLikelihood;
+  return errorEStepKernel(records, k, assessment.length / (k * k)).eStep(assessment, pi, p, e).logLikelihood;
 }
