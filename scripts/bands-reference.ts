@@ -7,7 +7,7 @@
 
 /** Columns this short are sorted outright: a typed-array sort beats counting on a few dozen values. */
 const SORT_AT_MOST = 64;
-/** Buckets per counting round: one per 8 values, at most this many (16 KB of counts, in L1 cache). */
+/** Buckets per counting round: one per 8 values, at most this many (8 KB of counts, in L1 cache). */
 const MAX_BUCKETS = 2048;
 /** Counting rounds before a bucket that stays crowded (values piled near one point) goes to Hoare selection. */
 const MAX_ROUNDS = 4;

@@ -26,17 +26,17 @@ export type Phase =
    */
   | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
   /**
-   * Bands of a year's states, task = one (run, slot) pair of `years`: results [median, low, high,
+   * Bands of a year's states, task = one (run, slot) pair of `runSlots`: results [median, low, high,
    * mean] of its k states at `results[4k·task …]`, state by state — one call of the band kernel per
    * task, as a slot's k columns lie end to end.
    */
-  | { readonly kind: 'bands'; readonly years: Int32Array; readonly results: Float64Array }
+  | { readonly kind: 'bands'; readonly runSlots: Int32Array; readonly results: Float64Array }
   /** Plot counts of every block of draws of one run (plot-counts.ts): task = block. */
   | { readonly kind: 'plots'; readonly job: PlotJob };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
   if (phase.kind === 'plots') return blockCount(phase.job.draws);
-  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.years.length / 2;
+  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.runSlots.length / 2;
 }
 
 /** Groups of runs projected together: one (all runs) when they share year matrices, else one per run. */
@@ -73,9 +73,9 @@ export function runTask(runs: readonly SharedRun[], phase: Phase, task: number):
     simulatePlotBlock(phase.job, task);
     return;
   }
-  const { years, results } = phase;
-  const run = runs[years[2 * task]!]!;
-  const slot = years[2 * task + 1]!;
+  const { runSlots, results } = phase;
+  const run = runs[runSlots[2 * task]!]!;
+  const slot = runSlots[2 * task + 1]!;
   const { draws: D, k } = run.inputs;
   bandsInto(run.buffer.subarray(slot * k * D, (slot + 1) * k * D), D, run.level, results, 4 * k * task);
 }

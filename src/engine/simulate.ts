@@ -139,17 +139,17 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     work += (chunk.to - chunk.from) * runs.length;
     onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
     // The bands of every recorded year of the chunk, one task per (run, year): its k states.
-    const years: number[] = [];
+    const runSlots: number[] = [];
     chunk.kept.forEach((t, r) => {
-      if (isRecorded[t]) runs.forEach((_, n) => { years.push(n, r); });
+      if (isRecorded[t]) runs.forEach((_, n) => { runSlots.push(n, r); });
     });
-    const results = sharedFloat64((years.length / 2) * k * 4);
-    pool.phase({ kind: 'bands', years: Int32Array.from(years), results });
-    for (let y = 0; y < years.length / 2; y++) {
+    const results = sharedFloat64((runSlots.length / 2) * k * 4);
+    pool.phase({ kind: 'bands', runSlots: Int32Array.from(runSlots), results });
+    for (let y = 0; y < runSlots.length / 2; y++) {
       for (let s = 0; s < k; s++) {
         const c = y * k + s;
         const band = { median: results[4 * c]!, low: results[4 * c + 1]!, high: results[4 * c + 2]! };
-        appendBand(shares[years[2 * y]!]![s]!, band, results[4 * c + 3]!);
+        appendBand(shares[runSlots[2 * y]!]![s]!, band, results[4 * c + 3]!);
       }
     }
     chunk.kept.forEach((t, r) => {
