@@ -3,7 +3,7 @@
  * side by side: type-7 quantiles by Hoare's selection rank by rank on the column, reordering it,
  * with the upper neighbour of each rank found as the minimum of everything right of it.
  */
-import { select } from '../src/engine/select.js';
+import { select } from './bands-reference.js';
 
 export function quantilesBySelection(sample: Float64Array, probabilities: readonly number[]): number[] {
   const n = sample.length;

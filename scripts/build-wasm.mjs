@@ -10,6 +10,7 @@ const kernels = [
   { source: 'assembly/year-kernel.ts', target: 'src/uncertainty/year-kernel-wasm.ts', name: 'YEAR_KERNEL_WASM' },
   { source: 'assembly/path-kernel.ts', target: 'src/uncertainty/path-kernel-wasm.ts', name: 'PATH_KERNEL_WASM' },
   { source: 'assembly/em-kernel.ts', target: 'src/chain/em-kernel-wasm.ts', name: 'EM_KERNEL_WASM' },
+  { source: 'assembly/band-kernel.ts', target: 'src/engine/band-kernel-wasm.ts', name: 'BAND_KERNEL_WASM' },
 ];
 for (const { source, target, name } of kernels) {
   let binary;

@@ -1,6 +1,6 @@
 import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { projectDraws, projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
-import { bandOf } from './quantiles.js';
+import { bandsInto } from './band-kernel.js';
 import { simulatePlotBlock, type PlotJob } from './plot-counts.js';
 
 /**
@@ -25,14 +25,18 @@ export type Phase =
    * (project-chunk.ts).
    */
   | { readonly kind: 'project'; readonly from: number; readonly to: number; readonly slotOf: Int32Array }
-  /** Bands of columns (run, slot, state), three numbers each; results [median, low, high, mean] per column. */
-  | { readonly kind: 'bands'; readonly columns: Int32Array; readonly results: Float64Array }
+  /**
+   * Bands of a year's states, task = one (run, slot) pair of `runSlots`: results [median, low, high,
+   * mean] of its k states at `results[4k·task …]`, state by state — one call of the band kernel per
+   * task, as a slot's k columns lie end to end.
+   */
+  | { readonly kind: 'bands'; readonly runSlots: Int32Array; readonly results: Float64Array }
   /** Plot counts of every block of draws of one run (plot-counts.ts): task = block. */
   | { readonly kind: 'plots'; readonly job: PlotJob };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
   if (phase.kind === 'plots') return blockCount(phase.job.draws);
-  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.columns.length / 3;
+  return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.runSlots.length / 2;
 }
 
 /** Groups of runs projected together: one (all runs) when they share year matrices, else one per run. */
@@ -69,12 +73,9 @@ export function runTask(runs: readonly SharedRun[], phase: Phase, task: number):
     simulatePlotBlock(phase.job, task);
     return;
   }
-  const { columns, results } = phase;
-  const run = runs[columns[3 * task]!]!;
-  const slot = columns[3 * task + 1]!;
-  const s = columns[3 * task + 2]!;
+  const { runSlots, results } = phase;
+  const run = runs[runSlots[2 * task]!]!;
+  const slot = runSlots[2 * task + 1]!;
   const { draws: D, k } = run.inputs;
-  const at = (slot * k + s) * D;
-  const band = bandOf(run.buffer.subarray(at, at + D), run.level);
-  results.set([band.median, band.low, band.high, band.mean], 4 * task);
+  bandsInto(run.buffer.subarray(slot * k * D, (slot + 1) * k * D), D, run.level, results, 4 * k * task);
 }

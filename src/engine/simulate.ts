@@ -138,16 +138,19 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     pool.phase({ kind: 'project', from: chunk.from, to: chunk.to, slotOf });
     work += (chunk.to - chunk.from) * runs.length;
     onProgress?.(Math.floor((total * work) / (steps * runs.length)), total);
-    // The bands of every recorded year of the chunk, one task per (run, year, state).
-    const columns: number[] = [];
+    // The bands of every recorded year of the chunk, one task per (run, year): its k states.
+    const runSlots: number[] = [];
     chunk.kept.forEach((t, r) => {
-      if (isRecorded[t]) runs.forEach((_, n) => { for (let s = 0; s < k; s++) columns.push(n, r, s); });
+      if (isRecorded[t]) runs.forEach((_, n) => { runSlots.push(n, r); });
     });
-    const results = sharedFloat64((columns.length / 3) * 4);
-    pool.phase({ kind: 'bands', columns: Int32Array.from(columns), results });
-    for (let c = 0; c < columns.length / 3; c++) {
-      const band = { median: results[4 * c]!, low: results[4 * c + 1]!, high: results[4 * c + 2]! };
-      appendBand(shares[columns[3 * c]!]![columns[3 * c + 2]!]!, band, results[4 * c + 3]!);
+    const results = sharedFloat64((runSlots.length / 2) * k * 4);
+    pool.phase({ kind: 'bands', runSlots: Int32Array.from(runSlots), results });
+    for (let y = 0; y < runSlots.length / 2; y++) {
+      for (let s = 0; s < k; s++) {
+        const c = y * k + s;
+        const band = { median: results[4 * c]!, low: results[4 * c + 1]!, high: results[4 * c + 2]! };
+        appendBand(shares[runSlots[2 * y]!]![s]!, band, results[4 * c + 3]!);
+      }
     }
     chunk.kept.forEach((t, r) => {
       const mixes = shared.map((run) => run.buffer.subarray(r * k * D, (r + 1) * k * D));

@@ -1,8 +1,13 @@
-import { select } from './select.js';
+/**
+ * The bands in JavaScript: the reference the WebAssembly band kernel (assembly/band-kernel.ts) is
+ * held to, bit for bit (test/engine/band-kernel.test.ts), and the bench's warm JavaScript timing
+ * (`npm run bench -- bands`). The engine computed its bands with this code until the kernel took
+ * over (DEVELOPERS.md, Benchmarks: in a fresh process it ran mostly before V8 had optimised it).
+ */
 
 /** Columns this short are sorted outright: a typed-array sort beats counting on a few dozen values. */
 const SORT_AT_MOST = 64;
-/** Buckets per counting round: one per 8 values, at most this many (16 KB of counts, in L1 cache). */
+/** Buckets per counting round: one per 8 values, at most this many (8 KB of counts, in L1 cache). */
 const MAX_BUCKETS = 2048;
 /** Counting rounds before a bucket that stays crowded (values piled near one point) goes to Hoare selection. */
 const MAX_ROUNDS = 4;
@@ -115,5 +120,88 @@ function selected(values: Float64Array, ranks: Int32Array): number[] {
     select(a, r, from, a.length - 1);
     from = r;
     return a[r]!;
+  });
+}
+
+/**
+ * Hoare's selection (quickselect, Hoare 1961) with a median-of-three pivot: afterwards a[k] holds
+ * the k-th smallest of a[lo…hi], everything before it is ≤ and everything after is ≥.
+ *
+ * The order statistics above use it only where bucket counting cannot narrow a column: a value
+ * range that is not finite, or buckets that stay crowded after a few rounds. It used to select
+ * every band directly (measured 2× faster than sorting); bucket counting replaced that.
+ */
+export function select(a: Float64Array, k: number, lo: number, hi: number): void {
+  while (hi > lo) {
+    const x = a[lo]!;
+    const y = a[(lo + hi) >> 1]!;
+    const z = a[hi]!;
+    const pivot = x < y ? (y < z ? y : x < z ? z : x) : x < z ? x : y < z ? z : y;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) {
+        const t = a[i]!;
+        a[i] = a[j]!;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return;
+  }
+}
+
+/**
+ * Equal-tailed band of a sample: the (1 − level)/2, 0.5 and (1 + level)/2 quantiles by linear
+ * interpolation between order statistics (Hyndman & Fan 1996, type 7 — the default of R and
+ * numpy). Leaves `sample` as it was. One pass gives the sum, the smallest and the largest value;
+ * the order statistics of all three quantiles then come from one bucket count (`orderStatistics`).
+ */
+export function bandOfReference(sample: Float64Array, level: number): { median: number; low: number; high: number; mean: number } {
+  const tail = (1 - level) / 2;
+  let sum = 0;
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < sample.length; i++) {
+    const x = sample[i]!;
+    sum += x;
+    if (x < min) min = x;
+    if (x > max) max = x;
+  }
+  const [low, median, high] = type7Quantiles(sample, [tail, 0.5, 1 - tail], min, max) as [number, number, number];
+  return { median, low, high, mean: sum / sample.length };
+}
+
+/**
+ * Type-7 quantiles (Hyndman & Fan 1996) at each probability, computed as d3-array's
+ * `quantileSorted` computes them on the sorted sample — x₍ᵢ₎ + (x₍ᵢ₊₁₎ − x₍ᵢ₎)·(h − i) with
+ * h = (n − 1)p, i = ⌊h⌋; the smallest value for p ≤ 0 or n = 1, the largest for p ≥ 1 — so the
+ * results are the same numbers, bit for bit (tested). `min` and `max` are the sample's extremes.
+ * (Where (n − 1)p rounds up to n − 1 for some p < 1, d3 reads past the end and returns NaN; here
+ * the upper order statistic is clamped to the largest value.)
+ */
+export function type7Quantiles(sample: Float64Array, probabilities: readonly number[], min: number, max: number): number[] {
+  const n = sample.length;
+  if (n === 0) throw new Error('quantiles of an empty sample');
+  const below = (p: number): number => (p <= 0 || n < 2 ? 0 : p >= 1 ? n - 1 : Math.floor((n - 1) * p));
+  const ranks = new Set<number>();
+  for (const p of probabilities) {
+    const i = below(p);
+    ranks.add(i);
+    if (p > 0 && p < 1 && n > 1) ranks.add(Math.min(i + 1, n - 1));
+  }
+  const wanted = [...ranks].sort((a, b) => a - b);
+  const values = orderStatistics(sample, wanted, min, max);
+  const at = (rank: number): number => values[wanted.indexOf(rank)]!;
+  return probabilities.map((p) => {
+    const i = below(p);
+    if (p <= 0 || p >= 1 || n < 2) return at(i);
+    const v0 = at(i);
+    return v0 + (at(Math.min(i + 1, n - 1)) - v0) * ((n - 1) * p - i);
   });
 }
