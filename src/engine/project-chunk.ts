@@ -1,7 +1,7 @@
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RunPlan } from './plan.js';
-import { changeRecipe, fillPlanMatrices, fillRecipe, planWorkspace, unchangedRecipe } from './plan-matrices.js';
+import { changeRecipe, fillPlanMatrices, planWorkspace, unchangedRecipe } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
@@ -81,143 +81,26 @@ export interface ProjectedRun {
 }
 
 /**
- * Steps `from` … `to − 1` of draws `d0` … `d1 − 1` of one run, as projectDrawsTogether does for
- * several: the same operations in the same order, so the same bits. Kept as one top-level function
- * for runs without year matrices (nothing to share): measured, the closures of the shared version
- * ran the numpy job's projection (100,000 draws × 100 years × 10 states, one thread, in-process)
- * in 8.5–9.2 s of CPU against 6.5–6.9 s for this function.
+ * Steps `from` … `to − 1` of draws `d0` … `d1 − 1` of one run. The plain projection (one matrix,
+ * nothing else) and its tracking run in WebAssembly (year-kernel.ts projectTracked); any other run
+ * is projectDrawsTogether's with itself alone — the general step in the kernel (planStep), the same
+ * bits as the JavaScript loop that ran runs without year matrices here until it was measured slower:
+ * the uncertainty split's rerun without variation of the zoned demo, its projection on the main
+ * thread (DEVELOPERS.md, Benchmarks).
  */
 export function projectDraws(inputs: ProjectionInputs, state: ProjectionState, d0: number, d1: number,
   from: number, to: number, slotOf: Int32Array, out: Float64Array): void {
-  const { P, k, draws: D, horizon, start, startByDraw, plan, hits, target, onOutcome } = inputs;
-  const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
-  const k2 = k * k;
-  const steps = horizon + 1;
-  const members = target ? Int32Array.from(target.states) : new Int32Array(0);
-  const staysMet = target ? target.staysMet : 1;
-  const nMembers = members.length;
-  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
-  const trivial = !plan || plan.trivial;
-  const { variation } = inputs;
-  // Zones (MatrixDraws.zones): sub-population g runs on zone zoneOf[g]'s draws, Z·D matrices in all.
-  const Z = plan ? plan.zones : 1;
-  const zoneOf = plan ? Int32Array.from(plan.subPopulations, (g) => g.zone) : new Int32Array(1);
-  const zoneStride = D * k2;
-  const eventIn = plan?.eventIn;
-  const kernel = variation ? yearKernel(k, to - from, Z) : undefined;
-  /** Each zone's year matrix, read where the kernel draws it. */
-  const year = kernel?.years;
-  /** `built[p]`: the step recipe p's matrix was last built for, with variation (a year's recipes are built from its year matrix). */
-  const built = new Int32Array(plan ? plan.plans.length : 0);
-  const G = plan ? plan.subPopulations.length : 1;
-  const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
-  const planOf = plan?.planOf;
-  const landscape = plan ? plan.landscapeEvents.map((e) => plan.events[e]!.matrix) : [];
-  const events = landscape.length;
-  const ws = plan && !trivial ? planWorkspace(plan) : undefined;
-  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
-  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
-  // line for every number (measured: a third of a comparison's time).
-  const slots = slotCount(slotOf, from, to);
-  if (!variation && runShape(inputs).plain) {
-    // The plain projection with its tracking in WebAssembly (year-kernel.ts projectTracked).
-    projectTracked({ P, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out, xs, runStart, firstAtTarget, firstMostCommon,
-      members, hasTarget: Boolean(target), metLow, metHigh, staysMet }, d0, d1, from, to);
-    if (to === steps) targetRunsAtHorizon(runStart, targetRunAtHorizon, horizon, d0, d1);
+  if (inputs.variation || !runShape(inputs).plain) {
+    projectDrawsTogether([{ inputs, state, out }], d0, d1, from, to, slotOf);
     return;
   }
-  const total = new Float64Array(k);
-  const y = new Float64Array(k);
-  const z = new Float64Array(k);
-  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
-
-  for (let d = d0; d < d1; d++) {
-    const b = (d - d0) % OUTPUT_BLOCK;
-    const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(d, tr, outcome));
-    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
-    if (kernel && (d === d0 || d % DRAW_BLOCK === 0)) startYearStreams(kernel, variation!.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
-    if (kernel) for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation!.concentration, (zone * D + d) * k);
-    built.fill(-1);
-    const M = ws ? ws.matrices : variation ? year! : P;
-    const hitRow = d * steps;
-    const x = d * G * k;
-    let pending = 0; // states not yet seen as the most common
-    for (let s = 0; s < k; s++) if (firstMostCommon[d * k + s] === -1) pending += 1;
-    let run = runStart[d]!; // first step of the current run of steps meeting the target, −1 when not met
-    for (let t = from; t < to; t++) {
-      if (t === 0) {
-        const so = startByDraw ? d * Z * k : 0;
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) xs[x + g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
-        if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
-        else {
-          total.fill(0);
-          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += xs[x + g * k + s]!;
-        }
-      } else {
-        if (kernel) {
-          // Each zone's year matrix around its own draw, from the same stream one zone after another.
-          for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone);
-        }
-        for (let g = 0; g < G; g++) {
-          const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws && built[recipe] !== t) { fillRecipe(plan!, recipe, year!, plan!.plans[recipe]!.zone * k2, ws, heard); built[recipe] = t; }
-          const base = ws ? recipe * k2 : variation ? 0 : d * k2;
-          const xo = x + g * k;
-          const x0 = xs[xo]!;
-          for (let j = 0; j < k; j++) y[j] = x0 * M[base + j]!;
-          for (let i = 1; i < k; i++) {
-            const xi = xs[xo + i]!;
-            if (xi === 0) continue;
-            const row = base + i * k;
-            for (let j = 0; j < k; j++) y[j] += xi * M[row + j]!;
-          }
-          for (let e = 0; e < events; e++) {
-            if (hits[e]![hitRow + t] === 0 || (eventIn && eventIn[e * G + g] === 0)) continue;
-            const E = landscape[e]!;
-            z.fill(0);
-            for (let i = 0; i < k; i++) { const yi = y[i]!; if (yi !== 0) for (let j = 0; j < k; j++) z[j] += yi * E[i * k + j]!; }
-            y.set(z);
-          }
-          // The landscape's mix is the sum over sub-populations: assign for the first, add after.
-          if (g === 0) for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] = y[s]!; }
-          else for (let s = 0; s < k; s++) { xs[xo + s] = y[s]!; total[s] += y[s]!; }
-        }
-      }
-      const slot = slotOf[t]!;
-      if (slot >= 0) {
-        const at = slot * k * OUTPUT_BLOCK + b;
-        for (let s = 0; s < k; s++) block[at + s * OUTPUT_BLOCK] = total[s]!;
-      }
-      if (pending > 0) {
-        let largest = 0;
-        for (let s = 0; s < k; s++) if (total[s]! > largest) largest = total[s]!;
-        for (let s = 0; s < k; s++) {
-          if (firstMostCommon[d * k + s] === -1 && total[s]! >= largest - MOST_COMMON_TOLERANCE) {
-            firstMostCommon[d * k + s] = t;
-            pending -= 1;
-          }
-        }
-      }
-      if (target) {
-        let sum = 0;
-        for (let n = 0; n < nMembers; n++) sum += total[members[n]!]!;
-        if (!(sum >= metLow && sum <= metHigh)) run = -1;
-        else {
-          if (run < 0) run = t;
-          if (firstAtTarget[d] === -1 && t - run + 1 >= staysMet) firstAtTarget[d] = run;
-        }
-      }
-    }
-    runStart[d] = run;
-    if (to === steps && run >= 0) targetRunAtHorizon[d] = horizon - run + 1;
-    // Also after a call's first draw (the copy is of that one draw, rewritten with the rest later):
-    // so the copy has run before V8 optimises the loop — seen first at the 256th draw, it threw the
-    // optimised code away again and again (`node --trace-deopt`: "insufficient type feedback").
-    if (b === OUTPUT_BLOCK - 1 || d === d1 - 1 || d === d0) {
-      const first = d - b;
-      for (let rs = 0; rs < slots * k; rs++) out.set(block.subarray(rs * OUTPUT_BLOCK, rs * OUTPUT_BLOCK + b + 1), rs * D + first);
-    }
-  }
+  const { P, k, horizon, start, startByDraw, target } = inputs;
+  const { xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon } = state;
+  const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
+  projectTracked({ P, k, D: inputs.draws, start, startByDraw: Boolean(startByDraw), slotOf, slots: slotCount(slotOf, from, to), out, xs, runStart,
+    firstAtTarget, firstMostCommon, members: target ? Int32Array.from(target.states) : new Int32Array(0), hasTarget: Boolean(target),
+    metLow, metHigh, staysMet: target ? target.staysMet : 1 }, d0, d1, from, to);
+  if (to === horizon + 1) targetRunsAtHorizon(runStart, targetRunAtHorizon, horizon, d0, d1);
 }
 
 /**
