@@ -15,7 +15,6 @@ import { loadAndCheck, withRunOptions, writeChart, writeCsv, type RunOptions } f
 import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { chooseSeed } from './seed.js';
-import { bootWorkers } from '../engine/thread-pool.js';
 
 /** The comparison's name in chart titles: the file's name when every alternative shares it, else the files'. */
 function chartTitle(results: readonly { scenario: { name: string; alternative?: string } }[]): string {
@@ -47,7 +46,6 @@ export function registerCompare(program: Command, io: Io): void {
     .option('--difference-chart <file.svg>', "also draw each alternative's difference from the baseline at the horizon (SVG), by state")
     .option('--maps <folder>', 'with a raster stack as data: write each alternative\'s probability maps and expected-area.csv into its own folder FOLDER/<alternative>')
     .action(async (files: string[], opts: RunOptions & { maps?: string }) => {
-      bootWorkers(opts.threads);
       const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress), workspace: workspaceScenarios(io) });
       if (scenarios.length < 2) {
         throw new SereError('BAD_SCENARIO', 'only one alternative to compare', { file: files[0], path: 'alternatives' },

@@ -11,7 +11,6 @@ import { tidyCsv } from '../report/tidy-csv.js';
 import { progressReporter } from './progress.js';
 import { countScenarioStacks } from './scenario-stacks.js';
 import { workspaceScenarios } from './workspace-scenario.js';
-import { bootWorkers } from '../engine/thread-pool.js';
 
 export function registerForecast(program: Command, io: Io): void {
   withRunOptions(program.command('forecast')
@@ -19,7 +18,6 @@ export function registerForecast(program: Command, io: Io): void {
     .option('--zones', 'with a zoned fit (pooling partial or none): also each zone\'s own forecast, in the tables and JSON')
     .option('--maps <folder>', 'with a raster stack as data: write per-pixel probability maps (GeoTIFF, one per state and shown year) and expected-area.csv')
     .action(async (files: string[], opts: RunOptions & { maps?: string; zones?: boolean }) => {
-      bootWorkers(opts.threads);
       // Raster stacks named as data are counted first: reading them is asynchronous.
       const scenarios = loadAndCheck(files, opts, { rasters: await countScenarioStacks(files, io.progress), workspace: workspaceScenarios(io) });
       const maps = opts.maps === undefined ? undefined : await import('./raster-data.js');

@@ -1,4 +1,3 @@
-import { availableParallelism } from 'node:os';
 import { startWatched, waitWhile, type WatchedWorker } from '../watched-worker.js';
 import { drainTasks, DONE, FAILED, NEXT } from './drain-tasks.js';
 import { taskCount, runTask, type Phase, type SharedRun } from './engine-tasks.js';
@@ -53,20 +52,6 @@ export function makePool(threads: number): Pool {
  * uncertainty split's reruns); their watchers are unref'd so they never keep it alive.
  */
 let kept: WatchedWorker[] = [];
-
-/**
- * Boot now the workers a run on `requested` threads (`--threads`; unset: every core) would use, while
- * the calling thread still reads the scenario, fits and draws. A worker takes about 0.1 s to start (a
- * fresh V8 isolate loading the engine, under its watcher); started by the first simulation, that
- * time fell inside the projection, the calling thread alone on the first blocks of draws while the
- * other core booted (the zoned demo's `--cpu-prof` timeline: DEVELOPERS.md, Benchmarks).
- * Speculative: a run too small for threads (threads.ts) never posts to them, and unref'd they do not
- * hold the process open. Results do not depend on it (any thread count gives the same bits).
- */
-export function bootWorkers(requested: number | undefined): void {
-  const threads = requested ?? availableParallelism();
-  if (threads > 1) workersFor(threads - 1);
-}
 
 function workersFor(n: number): WatchedWorker[] {
   if (kept.length !== n) {
