@@ -1,6 +1,7 @@
 import { EM_KERNEL_WASM } from './em-kernel-wasm.js';
 import type { ErrorEStep } from './error-e-step.js';
 import { patternLength, type RecordPatterns } from './record-patterns.js';
+import { layOut, type KernelInstance } from '../kernel-memory.js';
 
 /**
  * The host of the WebAssembly E-step (assembly/em-kernel.ts): one instance per thread, made on first
@@ -23,12 +24,7 @@ interface Exports {
   eStep(logLikelihood: number): number;
 }
 
-interface Instance {
-  readonly exports: Exports;
-  at: number;
-  bytes: number;
-  owner: number;
-}
+type Instance = KernelInstance<Exports>;
 
 let instance: Instance | undefined;
 
@@ -56,32 +52,8 @@ export function errorEStepKernel(records: RecordPatterns, k: number, matrices: n
     em: longest * k, alpha: longest * k, beta: longest * k, scale: longest,
   };
   const i32Sizes = { start: records.count + 1, at: surveys, column: surveys, support: longest * k, supportCount: longest };
-  const f64Words = Object.values(f64Sizes).reduce((a, b) => a + b, 0);
-  const i32Words = Object.values(i32Sizes).reduce((a, b) => a + b, 0);
-  const bytes = 8 * f64Words + 4 * i32Words;
-  if (inst.bytes < bytes) {
-    inst.bytes = Math.max(bytes, 2 * inst.bytes);
-    inst.at = inst.exports.reserve(inst.bytes + 8);
-    inst.at += (8 - (inst.at % 8)) % 8;
-  }
-  const owner = ++inst.owner;
+  const { f64, f64At, i32, i32At, owner } = layOut(inst, f64Sizes, i32Sizes);
   const { exports } = inst;
-  const buffer = exports.memory.buffer;
-  let next = inst.at;
-  const f64 = {} as Record<keyof typeof f64Sizes, Float64Array>;
-  const f64At = {} as Record<keyof typeof f64Sizes, number>;
-  for (const [name, n] of Object.entries(f64Sizes) as [keyof typeof f64Sizes, number][]) {
-    f64At[name] = next;
-    f64[name] = new Float64Array(buffer, next, n);
-    next += 8 * n;
-  }
-  const i32 = {} as Record<keyof typeof i32Sizes, Int32Array>;
-  const i32At = {} as Record<keyof typeof i32Sizes, number>;
-  for (const [name, n] of Object.entries(i32Sizes) as [keyof typeof i32Sizes, number][]) {
-    i32At[name] = next;
-    i32[name] = new Int32Array(buffer, next, n);
-    next += 4 * n;
-  }
   f64.sites.set(records.sites);
   i32.start.set(records.start);
   i32.at.set(records.at.subarray(0, surveys));

@@ -1,5 +1,6 @@
 import { patternLength, type RecordPatterns } from '../chain/record-patterns.js';
 import { recordPrefixes } from '../chain/record-prefixes.js';
+import { layOut, type KernelInstance } from '../kernel-memory.js';
 import { samplePathsTogether, type CompletedRecords, type PathScratch } from './error-sampler.js';
 import { gammaVariates } from './gamma.js';
 import type { Multinomial } from './multinomial.js';
@@ -51,12 +52,7 @@ interface Exports {
 /** Uniforms per refill of the kernel's block (assembly/path-kernel.ts BLOCK). */
 const BLOCK = 256;
 
-interface Instance {
-  readonly exports: Exports;
-  at: number;
-  bytes: number;
-  owner: number;
-}
+type Instance = KernelInstance<Exports>;
 
 let instance: Instance | undefined;
 
@@ -84,32 +80,8 @@ export function pathKernel(k: number, m: number, records: RecordPatterns, key: U
     supportCount: prefixes.count, single: records.count, start: records.count + 1, at: surveys, recordedColumn: surveys, extend: records.count,
     nodeStart: records.count + 1, nodeOf: prefixes.nodeOf.length,
   };
-  const f64Words = Object.values(f64Sizes).reduce((a, b) => a + b, 0);
-  const i32Words = Object.values(i32Sizes).reduce((a, b) => a + b, 0);
-  const bytes = 8 * f64Words + 4 * i32Words;
-  if (inst.bytes < bytes) {
-    inst.bytes = Math.max(bytes, 2 * inst.bytes);
-    inst.at = inst.exports.reserve(inst.bytes + 8);
-    inst.at += (8 - (inst.at % 8)) % 8;
-  }
-  const owner = ++inst.owner;
+  const { f64, f64At, i32, i32At, owner } = layOut(inst, f64Sizes, i32Sizes);
   const { exports } = inst;
-  const buffer = exports.memory.buffer;
-  let next = inst.at;
-  const f64 = {} as Record<keyof typeof f64Sizes, Float64Array>;
-  const f64At = {} as Record<keyof typeof f64Sizes, number>;
-  for (const [name, n] of Object.entries(f64Sizes) as [keyof typeof f64Sizes, number][]) {
-    f64At[name] = next;
-    f64[name] = new Float64Array(buffer, next, n);
-    next += 8 * n;
-  }
-  const i32 = {} as Record<keyof typeof i32Sizes, Int32Array>;
-  const i32At = {} as Record<keyof typeof i32Sizes, number>;
-  for (const [name, n] of Object.entries(i32Sizes) as [keyof typeof i32Sizes, number][]) {
-    i32At[name] = next;
-    i32[name] = new Int32Array(buffer, next, n);
-    next += 4 * n;
-  }
   i32.parent.set(prefixes.parent);
   i32.column.set(prefixes.column);
   i32.nodeStart.set(prefixes.nodeStart);
