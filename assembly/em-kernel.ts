@@ -1,3 +1,4 @@
+import { i32At, setI32, f64At, setF64, addF64 } from './memory-access';
 /**
  * The E-step of EM with observer error in WebAssembly (AssemblyScript, compiled by `npm run build`
  * through scripts/build-wasm.mjs into src/chain/em-kernel-wasm.ts): for every record pattern, the
@@ -74,32 +75,6 @@ export function setWork(em: usize, alpha: usize, beta: usize, scale: usize, supp
   scaleAt = scale;
   supportAt = support;
   supportCountAt = supportCount;
-}
-
-// @ts-ignore: decorator
-@inline function i32At(base: usize, i: i32): i32 {
-  return load<i32>(base + (<usize>i << 2));
-}
-
-// @ts-ignore: decorator
-@inline function setI32(base: usize, i: i32, v: i32): void {
-  store<i32>(base + (<usize>i << 2), v);
-}
-
-// @ts-ignore: decorator
-@inline function f64At(base: usize, i: i32): f64 {
-  return load<f64>(base + (<usize>i << 3));
-}
-
-// @ts-ignore: decorator
-@inline function setF64(base: usize, i: i32, v: f64): void {
-  store<f64>(base + (<usize>i << 3), v);
-}
-
-// @ts-ignore: decorator
-@inline function addF64(base: usize, i: i32, v: f64): void {
-  const p = base + (<usize>i << 3);
-  store<f64>(p, load<f64>(p) + v);
 }
 
 /**

@@ -1,3 +1,4 @@
+import { i32At, f64At, setF64, addF64 } from './memory-access';
 /**
  * The true paths of one sweep of the observer-error sampler in WebAssembly (AssemblyScript,
  * compiled by `npm run build` through scripts/build-wasm.mjs into src/uncertainty/path-kernel-wasm.ts):
@@ -120,27 +121,6 @@ export function setOutputs(transitions: usize, recorded: usize, first: usize, la
   recordedCountsAt = recorded;
   firstAt = first;
   latestAt = latest;
-}
-
-// @ts-ignore: decorator
-@inline function i32At(base: usize, i: i32): i32 {
-  return load<i32>(base + (<usize>i << 2));
-}
-
-// @ts-ignore: decorator
-@inline function f64At(base: usize, i: i32): f64 {
-  return load<f64>(base + (<usize>i << 3));
-}
-
-// @ts-ignore: decorator
-@inline function setF64(base: usize, i: i32, v: f64): void {
-  store<f64>(base + (<usize>i << 3), v);
-}
-
-// @ts-ignore: decorator
-@inline function addF64(base: usize, i: i32, v: f64): void {
-  const p = base + (<usize>i << 3);
-  store<f64>(p, load<f64>(p) + v);
 }
 
 /** Fill the block with the next BLOCK uniforms of the stream (xoshiro.ts: the top 53 bits · 2⁻⁵³). */
