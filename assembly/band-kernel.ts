@@ -9,7 +9,7 @@
  * (DEVELOPERS.md, Benchmarks). WebAssembly is compiled before it runs, so the first column runs
  * at the speed of the last.
  *
- * The method is that of the JavaScript reference (test/engine/order-statistics-reference.ts), step
+ * The method is that of the JavaScript reference (scripts/bands-reference.ts), step
  * for step, so every result has the same bits (test/engine/band-kernel.test.ts): selection by
  * distributive partitioning (Allison & Noga 1980, after Dobosiewicz 1978) — one pass counts the
  * values in B equal-width buckets over [min, max], a second copies out only the buckets holding a

@@ -25,7 +25,7 @@ export interface KernelLayout<F extends string, I extends string> {
  * Lay arrays of the given lengths out in the kernel's reserved area, the 8-byte ones first, then
  * the 4-byte ones (so every array is aligned), growing the area by doubling when it is too small
  * (the kernel's stub allocator never frees: a reserve is taken once and reused by later users).
- * The EM and path kernels' hosts lay out their arrays by it.
+ * The EM, path and band kernels' hosts lay out their arrays by it.
  */
 export function layOut<F extends string, I extends string, E extends { readonly memory: WebAssembly.Memory; reserve(bytes: number): number }>(
   inst: KernelInstance<E>, f64Sizes: Record<F, number>, i32Sizes: Record<I, number>): KernelLayout<F, I> {

@@ -1,11 +1,13 @@
 import { BAND_KERNEL_WASM } from './band-kernel-wasm.js';
+import { layOut, type KernelInstance } from '../kernel-memory.js';
 
 /**
  * The host of the WebAssembly band kernel (assembly/band-kernel.ts): one instance per thread, made on
  * first use, and one area of its memory — the columns, their results and the kernel's scratch —
- * reserved anew (doubled) when a call needs more. The kernel gives the bands that the bucket-counting
- * selection of the JavaScript reference gives (test/engine/order-statistics-reference.ts), bit for
- * bit (test/engine/band-kernel.test.ts), without V8's warm-up (DEVELOPERS.md, Benchmarks).
+ * laid out for each call by `layOut` (kernel-memory.ts), which grows it when a call needs more. The
+ * kernel gives the bands that the bucket-counting selection of the JavaScript reference gives
+ * (scripts/bands-reference.ts), bit for bit (test/engine/band-kernel.test.ts), without V8's
+ * warm-up (DEVELOPERS.md, Benchmarks).
  */
 interface Exports {
   readonly memory: WebAssembly.Memory;
@@ -17,17 +19,14 @@ interface Exports {
 /** Doubles of columns copied in per call at most (8 MB): longer runs of columns go in several calls. */
 const BATCH_WORDS = 1 << 20;
 
-let exports: Exports | undefined;
-/** The area's start and size (bytes). */
-let areaAt = 0;
-let areaBytes = 0;
+let instance: KernelInstance<Exports> | undefined;
 
-function kernel(): Exports {
-  if (exports) return exports;
+function kernel(): KernelInstance<Exports> {
+  if (instance) return instance;
   const module = new WebAssembly.Module(Buffer.from(BAND_KERNEL_WASM, 'base64'));
   const imports = { env: { abort: () => { throw new Error('the band kernel ran out of memory'); } } };
-  exports = new WebAssembly.Instance(module, imports).exports as unknown as Exports;
-  return exports;
+  instance = { exports: new WebAssembly.Instance(module, imports).exports as unknown as Exports, at: 0, bytes: 0, owner: 0 };
+  return instance;
 }
 
 /**
@@ -40,21 +39,13 @@ function kernel(): Exports {
 export function bandsInto(columns: Float64Array, n: number, level: number, out: Float64Array, outOffset = 0): void {
   if (n === 0) throw new Error('quantiles of an empty sample');
   const count = columns.length / n;
-  const k = kernel();
+  const inst = kernel();
   const batch = Math.max(1, Math.min(count, Math.floor(BATCH_WORDS / n)));
-  const scratch = k.scratchBytes(n);
-  const bytes = batch * n * 8 + batch * 32 + scratch;
-  if (areaBytes < bytes) {
-    areaBytes = Math.max(bytes, 2 * areaBytes);
-    areaAt = k.reserve(areaBytes);
-  }
-  const dataAt = areaAt;
-  const outAt = dataAt + batch * n * 8;
-  const heap = new Float64Array(k.memory.buffer);
+  const { f64, f64At } = layOut(inst, { data: batch * n, out: batch * 4, scratch: Math.ceil(inst.exports.scratchBytes(n) / 8) }, {});
   for (let from = 0; from < count; from += batch) {
     const m = Math.min(batch, count - from);
-    heap.set(columns.subarray(from * n, (from + m) * n), dataAt / 8);
-    k.bands(dataAt, n, m, level, outAt, outAt + batch * 32);
-    out.set(heap.subarray(outAt / 8, outAt / 8 + 4 * m), outOffset + 4 * from);
+    f64.data.set(columns.subarray(from * n, (from + m) * n));
+    inst.exports.bands(f64At.data, n, m, level, f64At.out, f64At.scratch);
+    out.set(f64.out.subarray(0, 4 * m), outOffset + 4 * from);
   }
 }
