@@ -11,18 +11,23 @@
  * the same 256-strip ziggurat (Marsaglia & Tsang 2000; its tables are src/uncertainty/normal.ts's,
  * copied in by the host), the same Marsaglia & Tsang (2000) gamma with the boost exp(ln U / a) for
  * shape a < 1 (gamma.ts), the same Dirichlet redraws (dirichlet.ts) — every operation in the same
- * order, and exp and log imported from the host's Math, so no libm of our own can round differently.
- * sqrt, +, −, ×, ÷ are correctly rounded IEEE 754 operations in both.
+ * order. The boost's exp and log are AssemblyScript's NativeMath — the table-driven methods of musl's
+ * libm (from ARM's optimized routines) — not the host's: the two calls out to V8's Math.exp and
+ * Math.log were about half of a small shape's variate (60 → 35 ns), and year matrices of small
+ * transition chances are mostly small shapes. They can round a last bit differently from V8's, so
+ * the JavaScript reference of these variates takes this module's `nativeExp` and `nativeLog` for
+ * the boost (test/uncertainty/year-kernel.test.ts). Everything else keeps the host's exp and log:
+ * the acceptance test the squeeze leaves (NativeMath's log there, inlined into the gamma loop,
+ * slowed dense rows 15 → 24 ns a variate), the normal's rare wedge and tail, and the multinomials
+ * below. sqrt, +, −, ×, ÷ are correctly rounded IEEE 754 operations in both.
  *
  * Where the time goes, and what was done about it (2026-12-03; DEVELOPERS.md, Benchmarks, for the
  * figures): a draw's cells are made ready once (`prepare`: the shape and Marsaglia–Tsang's d and c),
  * the gamma loop of a row is one function with the stream in locals and the ziggurat's common path
  * inline, the strip taken from the uniform's integer bits. What is left, by perf: on dense rows of
- * shapes near 5, the uniform → strip → acceptance chain itself, and the host's log for the ~5% of
- * variates the squeeze does not accept; on small shapes, the host's exp and log of the boost — about
- * half of such a variate's time. AssemblyScript's own exp/log (NativeMath) measured 1.7–1.9× on small
- * shapes and 1.1–1.4× on dense rows, but rounds differently from V8's, so every seeded forecast with
- * variation would move (not done: see DEVELOPERS.md).
+ * shapes near 5, the uniform → strip → acceptance chain itself, and the log for the ~5% of
+ * variates the squeeze does not accept; on small shapes, the boost's exp and log — once the host's,
+ * about half of such a variate's time, now NativeMath's (above).
  *
  * Memory is laid out by the host (src/uncertainty/year-kernel.ts); this module only computes.
  */
@@ -41,6 +46,16 @@ let s0: u64 = 0;
 let s1: u64 = 0;
 let s2: u64 = 0;
 let s3: u64 = 0;
+
+/** The boost's exp, for the JavaScript reference of the gamma variates (tests). */
+export function nativeExp(x: f64): f64 {
+  return NativeMath.exp(x);
+}
+
+/** The boost's log, for the JavaScript reference of the gamma variates (tests). */
+export function nativeLog(x: f64): f64 {
+  return NativeMath.log(x);
+}
 
 /** Bytes for the host's arrays (never freed: the host keeps one area per thread and grows it by doubling). */
 export function reserve(bytes: usize): usize {
@@ -141,7 +156,8 @@ function wedgeOrTail(m: u64): f64 {
  * n Gamma variates into `out`, cell m's shape a and its d = a' − 1/3 and c = 1/√(9d) (a' = a, or
  * a + 1 when a < 1) at `cells + m·stride` (`prepare`), a ≤ 0 giving 0; returns their sum. As gamma.ts:
  * Marsaglia & Tsang (2000) at a', boosted by exp(ln U / a) when a < 1 — the same operations on the
- * same uniforms. d and c are worked out once per cell and draw, not per variate.
+ * same uniforms, the boost's exp and log NativeMath's (see the top). d and c are worked out once
+ * per cell and draw, not per variate.
  */
 function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
   // The stream in locals on the common path (V8 keeps a module's globals in memory: each uniform
@@ -191,7 +207,7 @@ function gammaRow(cells: usize, stride: usize, n: i32, out: usize): f64 {
         const r = rotl<u64>(t1 * 5, 7) * 9;
         const q = t1 << 17;
         t2 ^= t0; t3 ^= t1; t1 ^= t2; t0 ^= t3; t2 ^= q; t3 = rotl<u64>(t3, 45);
-        g = g * exp(log(<f64>(r >> 11) * 1.1102230246251565e-16) / a);
+        g = g * NativeMath.exp(NativeMath.log(<f64>(r >> 11) * 1.1102230246251565e-16) / a);
       }
     }
     store<f64>(out + (<usize>j << 3), g);

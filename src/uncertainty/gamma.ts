@@ -10,7 +10,15 @@
  * ziggurat through its generic generator interface), because posterior sampling draws one variate
  * per cell of every matrix draw; measured, see `random.ts`.
  */
-export function gammaVariates(uniform: () => number, normal: () => number): (shape: number) => number {
+/** The exp and log of a gamma's boost, U^(1/a) = exp(ln U / a) for shape a < 1. */
+export interface Elementary {
+  readonly exp: (x: number) => number;
+  readonly log: (x: number) => number;
+}
+
+export function gammaVariates(uniform: () => number, normal: () => number, elementary: Elementary = Math): (shape: number) => number {
+  // Math's by default; the year kernel's own (year-kernel.ts kernelElementary) for the reference of its variates.
+  const { exp, log } = elementary;
   const atLeastOne = (shape: number): number => {
     const d = shape - 1 / 3;
     const c = 1 / Math.sqrt(9 * d);
@@ -32,5 +40,5 @@ export function gammaVariates(uniform: () => number, normal: () => number): (sha
   // against 60–85 ns for exp(ln U / a) (node 20, loaded 2-core machine), and a year matrix of small
   // transition chances takes the boost for most of its cells. The two differ by rounding only: an
   // error of an ulp in y = ln U / a is a relative error of |y|·2⁻⁵³ in exp(y), with |y| < 746.
-  return (shape) => (shape >= 1 ? atLeastOne(shape) : atLeastOne(shape + 1) * Math.exp(Math.log(uniform()) / shape));
+  return (shape) => (shape >= 1 ? atLeastOne(shape) : atLeastOne(shape + 1) * exp(log(uniform()) / shape));
 }

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import { gammaVariates } from './gamma.js';
+import { gammaVariates, type Elementary } from './gamma.js';
 import { zigguratNormals } from './normal.js';
 import { xoshiroUniforms } from './xoshiro.js';
 
@@ -85,10 +85,13 @@ export function keyOf(stream: RandomStream): Uint32Array {
   return streamKey(stream.seed, stream.name);
 }
 
-/** Uniforms and gamma variates of the stream whose key is `key[offset … offset+8)` (see keyOf). */
-export function generatorOfKey(key: Uint32Array, offset = 0): Pick<RandomStream, 'uniform' | 'gamma'> {
+/**
+ * Uniforms and gamma variates of the stream whose key is `key[offset … offset+8)` (see keyOf); the
+ * gamma's exp and log are Math's unless given (the year kernel's own, for the reference of its variates).
+ */
+export function generatorOfKey(key: Uint32Array, offset = 0, elementary?: Elementary): Pick<RandomStream, 'uniform' | 'gamma'> {
   const uniform = xoshiroUniforms(key.slice(offset, offset + 8));
-  return { uniform, gamma: gammaVariates(uniform, zigguratNormals(uniform)) };
+  return { uniform, gamma: gammaVariates(uniform, zigguratNormals(uniform), elementary) };
 }
 
 /** A fresh seed for a run that named none; it is printed so the run can be repeated. */

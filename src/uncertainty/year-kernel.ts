@@ -1,12 +1,14 @@
 import { F, RATIO, X, ZIGGURAT_R } from './normal.js';
 import { xoshiroStart } from './xoshiro.js';
+import type { Elementary } from './gamma.js';
 import { YEAR_KERNEL_WASM } from './year-kernel-wasm.js';
 
 /**
  * The host of the WebAssembly year kernel (assembly/year-kernel.ts): one instance per thread, made on
  * first use, and one area of its memory that the latest `yearKernel` lays out as its own. The kernel
  * draws year matrices — Dirichlet(κᵢ·Pᵢ) rows — from xoshiro256** streams whose state lives in that
- * memory, giving exactly the numbers `generatorOfKey(key).gamma` and `sampleDirichlet` give in
+ * memory, giving exactly the numbers gamma.ts's `gammaVariates` (on the stream's uniforms and ziggurat
+ * normals, with the kernel's own exp and log in the boost: `kernelElementary`) and `sampleDirichlet` give in
  * JavaScript (test/uncertainty/year-kernel.test.ts), several times faster (DEVELOPERS.md, Benchmarks).
  * The plot step's multinomials run in the same module on the caller's room of that area
  * (`moveRows`, `multinomial`), as multinomial.ts draws them (test/uncertainty/plot-kernel.test.ts).
@@ -67,6 +69,8 @@ interface Exports {
   prepare(p: number, kappa: number, k: number, cells: number): void;
   yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
+  nativeExp(x: number): number;
+  nativeLog(x: number): number;
   projectSteps(m: number, k: number, x: number, y: number, n: number, out: number): void;
   multinomialInto(state: number, n: number, p: number, k: number, out: number): void;
   moveRows(state: number, m: number, k: number, from: number, to: number): void;
@@ -211,6 +215,15 @@ export function yearKernel(k: number, streams: number, slots = 1, room: KernelRo
       exports.moveRows((states + 4 * n) * 8, addressOf(m, mOffset, k2), k, countsAddress(from, k), countsAddress(to, k));
     },
   };
+}
+
+/**
+ * The exp and log of the kernel's gamma boost (AssemblyScript's NativeMath, not the host's Math:
+ * assembly/year-kernel.ts), for a JavaScript reference of its variates.
+ */
+export function kernelElementary(): Elementary {
+  const { exports } = kernelInstance();
+  return { exp: exports.nativeExp, log: exports.nativeLog };
 }
 
 /** A view of the kernel's memory for `projectSteps`, remade when the memory has grown. */
