@@ -94,7 +94,7 @@ export function runComparison(scenarios: readonly Scenario[], random: RandomStre
   // The uncertainty split is a per-scenario question (sere forecast answers it); skipped here.
   // Every alternative shares the matrix draws, so their stationary mixes are worked out once.
   // (Alternatives of one file share its zones' areas too.)
-  const stationary = stationaryOfDraws(matrices, first.zones?.shares);
+  const stationary = stationaryOfDraws(matrices, first.zones?.shares, sims[0]!.threads);
   const observedRows = stationaryOfObservedRows(matrices, first.fit.counts);
   const results = scenarios.map((sc, n) => summarise(sc, matrices, sims[n]!, random, { split: false, stationary, observedRows, engine }));
   return {

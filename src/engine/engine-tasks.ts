@@ -2,6 +2,7 @@ import { blockCount, DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { projectDraws, projectDrawsTogether, type ProjectionInputs, type ProjectionState } from './project-chunk.js';
 import { bandsInto } from './band-kernel.js';
 import { simulatePlotBlock, type PlotJob } from './plot-counts.js';
+import { stationaryBlock, stationaryTaskCount, type StationaryJob } from './stationary-tasks.js';
 
 /**
  * The work of a run that threads share (thread-pool.ts), on shared memory only: what a worker
@@ -32,10 +33,13 @@ export type Phase =
    */
   | { readonly kind: 'bands'; readonly runSlots: Int32Array; readonly results: Float64Array }
   /** Plot counts of every block of draws of one run (plot-counts.ts): task = block. */
-  | { readonly kind: 'plots'; readonly job: PlotJob };
+  | { readonly kind: 'plots'; readonly job: PlotJob }
+  /** Long-run mixes of every block of draws (stationary-tasks.ts): task = block. */
+  | { readonly kind: 'stationary'; readonly job: StationaryJob };
 
 export function taskCount(runs: readonly SharedRun[], phase: Phase): number {
   if (phase.kind === 'plots') return blockCount(phase.job.draws);
+  if (phase.kind === 'stationary') return stationaryTaskCount(phase.job);
   return phase.kind === 'project' ? projectGroups(runs) * blockCount(runs[0]!.inputs.draws) : phase.runSlots.length / 2;
 }
 
@@ -71,6 +75,10 @@ export function runTask(runs: readonly SharedRun[], phase: Phase, task: number):
   }
   if (phase.kind === 'plots') {
     simulatePlotBlock(phase.job, task);
+    return;
+  }
+  if (phase.kind === 'stationary') {
+    stationaryBlock(phase.job, task);
     return;
   }
   const { runSlots, results } = phase;

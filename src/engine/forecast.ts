@@ -131,7 +131,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const k = fit.states.length;
   const paths = sim.tracks;
   const years = paths.recorded.map((t) => scenario.start.year + t * fit.step);
-  const stationary = options.stationary ?? stationaryOfDraws(matrices, scenario.zones?.shares);
+  const stationary = options.stationary ?? stationaryOfDraws(matrices, scenario.zones?.shares, sim.threads);
   const toYear = (step: number): number => scenario.start.year + step * fit.step;
   const priorChecks = options.priorChecks !== false;
   const observed = !priorChecks ? null
@@ -139,7 +139,7 @@ export function summarise(scenario: Scenario, matrices: MatrixDraws, sim: Simula
   const bandsOf = (st: StationaryDraws): Band[] | null => (st.unique > 0
     ? Array.from({ length: k }, (_, s) => bandOf(strided(st.mixes, s, k, st.unique), level))
     : null);
-  const treated = treatedStationary(scenario, matrices);
+  const treated = treatedStationary(scenario, matrices, sim.threads);
   // With observer error each draw starts from its own true mix: the start the forecast reports (and
   // judges "already met" by) is their mean, not the recorded mix.
   const trueStart = matrices.starts && scenario.start.from === 'latest' && !scenario.zones ? meanStart(matrices.starts, k, matrices.count) : undefined;

@@ -34,6 +34,8 @@ export interface Simulation {
   readonly horizonShares: Float64Array;
   readonly plots?: PlotCounts;
   readonly notes: readonly string[];
+  /** Threads the run took (threads.ts): what the summaries after it may use, its workers already started. */
+  readonly threads: number;
 }
 
 /** What to switch off, to see how much of the band each source of uncertainty makes (see uncertainty-split.ts). */
@@ -125,7 +127,8 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
   const plotRuns = switches.noPlots ? 0 : scenarios.filter((s) => s.plots).length;
   const mixes = runs.reduce((n, run) => n + run.plan.subPopulations.length, 0);
   const yearWork = variation ? VARIATION_WORK * (matrices.zones ?? 1) : 0;
-  const pool = makePool(threadsFor(options.threads, D, steps * (mixes + yearWork + plotRuns * PLOT_WORK), k, 1));
+  const threads = threadsFor(options.threads, D, steps * (mixes + yearWork + plotRuns * PLOT_WORK), k, 1);
+  const pool = makePool(threads);
   pool.start(shared);
   const slotOf = new Int32Array(steps);
   const shares = runs.map(() => Array.from({ length: k }, emptyBands));
@@ -190,7 +193,7 @@ export function simulateTogether(scenarios: readonly Scenario[], matrices: Matri
     }
     return {
       tracks: { draws: D, horizon: H, k, recorded, firstAtTarget, targetRunAtHorizon, firstMostCommon },
-      shares: shares[n]!, horizonShares: horizonShares[n]!, plots, notes,
+      shares: shares[n]!, horizonShares: horizonShares[n]!, plots, notes, threads,
     };
   });
 }

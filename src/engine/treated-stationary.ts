@@ -1,8 +1,8 @@
 import type { Scenario } from '../scenario/scenario.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
 import { buildPlan } from './plan.js';
-import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
-import { stationaryByPattern, type StationaryDraws } from './stationary-draws.js';
+import { stationaryOnThreads, type StationaryDraws } from './stationary-draws.js';
+import { stationaryOutputs } from './stationary-tasks.js';
 
 /** The long-run mix if the treatments acting in the horizon year went on for ever. */
 export interface TreatedStationary extends StationaryDraws {
@@ -26,29 +26,16 @@ export interface TreatedStationary extends StationaryDraws {
  * treatments differ between the two). Null when no treatment acts in the horizon year: the treated
  * land then carries on under the fitted chain, whose long-run mix is already reported.
  */
-export function treatedStationary(scenario: Scenario, matrices: MatrixDraws): TreatedStationary | null {
+export function treatedStationary(scenario: Scenario, matrices: MatrixDraws, threads = 1): TreatedStationary | null {
   if (scenario.treatments.length === 0) return null;
   const plan = buildPlan({ ...scenario, events: [] });
   const H = scenario.horizonSteps;
   const { k, count } = matrices;
   const G = plan.subPopulations.length;
-  const recipes = plan.subPopulations.map((_, g) => plan.planOf[H * G + g]!);
-  const acting = [...new Set(recipes.flatMap((p) => plan.plans[p]!.changes.map((c) => c.treatment)))].sort((a, b) => a - b);
+  const recipes = Int32Array.from(plan.subPopulations, (_, g) => plan.planOf[H * G + g]!);
+  const acting = [...new Set([...recipes].flatMap((p) => plan.plans[p]!.changes.map((c) => c.treatment)))].sort((a, b) => a - b);
   if (acting.length === 0) return null;
-  const ws = planWorkspace(plan);
-  const mixOf = stationaryByPattern(k);
-  const mixes = new Float64Array(count * k);
-  let unique = 0;
-  for (let d = 0; d < count; d++) {
-    fillPlanMatrices(plan, matrices.data, d * k * k, ws, undefined, count * k * k);
-    let ok = true;
-    for (let g = 0; g < G && ok; g++) {
-      const mix = mixOf(ws.matrices, recipes[g]! * k * k);
-      if (!mix) { ok = false; break; }
-      const w = plan.subPopulations[g]!.weight;
-      for (let s = 0; s < k; s++) mixes[unique * k + s] = (g === 0 ? 0 : mixes[unique * k + s]!) + w * mix[s]!;
-    }
-    if (ok) unique += 1;
-  }
-  return { step: H, treatments: acting, mixes: mixes.subarray(0, unique * k), unique, notUnique: count - unique };
+  const weights = Float64Array.from(plan.subPopulations, (g) => g.weight);
+  const mixes = stationaryOnThreads({ kind: 'treated', k, count, data: matrices.data, plan, recipes, weights, ...stationaryOutputs(count, k) }, threads);
+  return { step: H, treatments: acting, ...mixes };
 }
