@@ -44,36 +44,42 @@ export function stationaryBlock(job: StationaryJob, b: number): void {
   const k2 = k * k;
   const mixOf = stationaryByPattern(k);
   const d1 = Math.min(count, (b + 1) * DRAW_BLOCK);
-  if (job.kind === 'draws') {
-    const { shares } = job;
+  if (job.kind === 'draws' && !job.shares) {
     for (let d = b * DRAW_BLOCK; d < d1; d++) {
-      if (!shares) {
-        const mix = mixOf(data, d * k2);
-        if (mix) { mixes.set(mix, d * k); unique[d] = 1; }
-        continue;
-      }
-      let ok = true;
-      for (let z = 0; z < shares.length; z++) {
-        const mix = mixOf(data, (z * count + d) * k2);
-        if (!mix) { ok = false; break; }
-        for (let s = 0; s < k; s++) mixes[d * k + s] = (z === 0 ? 0 : mixes[d * k + s]!) + shares[z]! * mix[s]!;
-      }
-      unique[d] = ok ? 1 : 0;
+      const mix = mixOf(data, d * k2);
+      if (mix) { mixes.set(mix, d * k); unique[d] = 1; }
     }
     return;
   }
+  if (job.kind === 'draws') {
+    // Zone z's matrix of draw d at (z·count + d)·k².
+    const bases = Int32Array.from(job.shares!, (_, z) => z * count * k2);
+    for (let d = b * DRAW_BLOCK; d < d1; d++) unique[d] = mixtureInto(job, d, mixOf, data, bases, d * k2, job.shares!) ? 1 : 0;
+    return;
+  }
+  // Recipe g's matrix of the draw, built into the workspace, at recipes[g]·k².
   const { plan, recipes, weights } = job;
   const ws = planWorkspace(plan);
+  const bases = Int32Array.from(recipes, (p) => p * k2);
   for (let d = b * DRAW_BLOCK; d < d1; d++) {
     fillPlanMatrices(plan, data, d * k2, ws, undefined, count * k2);
-    let ok = true;
-    for (let g = 0; g < recipes.length; g++) {
-      const mix = mixOf(ws.matrices, recipes[g]! * k2);
-      if (!mix) { ok = false; break; }
-      for (let s = 0; s < k; s++) mixes[d * k + s] = (g === 0 ? 0 : mixes[d * k + s]!) + weights[g]! * mix[s]!;
-    }
-    unique[d] = ok ? 1 : 0;
+    unique[d] = mixtureInto(job, d, mixOf, ws.matrices, bases, 0, weights) ? 1 : 0;
   }
+}
+
+/**
+ * Σ_g weights[g]·π_g into `mixes[d·k …]`, π_g the mix of the k × k matrix at `source[bases[g] + shift …]`,
+ * added in order of g; false (the rest left as it is) when one of them has no unique mix.
+ */
+function mixtureInto(job: StationaryJob, d: number, mixOf: ReturnType<typeof stationaryByPattern>, source: Float64Array,
+  bases: Int32Array, shift: number, weights: Float64Array): boolean {
+  const { k, mixes } = job;
+  for (let g = 0; g < bases.length; g++) {
+    const mix = mixOf(source, bases[g]! + shift);
+    if (!mix) return false;
+    for (let s = 0; s < k; s++) mixes[d * k + s] = (g === 0 ? 0 : mixes[d * k + s]!) + weights[g]! * mix[s]!;
+  }
+  return true;
 }
 
 /** The unique draws' mixes, packed in draw order. */

@@ -1,3 +1,9 @@
+/** The exp and log of a gamma's boost, U^(1/a) = exp(ln U / a) for shape a < 1. */
+export interface Elementary {
+  readonly exp: (x: number) => number;
+  readonly log: (x: number) => number;
+}
+
 /**
  * Gamma(shape, rate 1) variates by Marsaglia & Tsang (2000, "A simple method for generating gamma
  * variables", ACM TOMS 26(3)). For shape a ≥ 1, with d = a − 1/3 and c = 1/√(9d): draw a standard
@@ -10,12 +16,6 @@
  * ziggurat through its generic generator interface), because posterior sampling draws one variate
  * per cell of every matrix draw; measured, see `random.ts`.
  */
-/** The exp and log of a gamma's boost, U^(1/a) = exp(ln U / a) for shape a < 1. */
-export interface Elementary {
-  readonly exp: (x: number) => number;
-  readonly log: (x: number) => number;
-}
-
 export function gammaVariates(uniform: () => number, normal: () => number, elementary: Elementary = Math): (shape: number) => number {
   // Math's by default; the year kernel's own (year-kernel.ts kernelElementary) for the reference of its variates.
   const { exp, log } = elementary;
