@@ -5,6 +5,7 @@ import { errorKernel } from './error-kernel.js';
 import { gapKernel } from './gap-kernel.js';
 import { convergence } from './mcmc-diagnostics.js';
 import { randomStreams, type RandomStream } from './random.js';
+import type { ZoneChainTask } from './zone-posterior.js';
 
 /** How long the data-augmentation sampler runs. */
 export interface AugmentSettings {
@@ -55,7 +56,7 @@ export function runChains(job: SamplerJob, settings: AugmentSettings, random: Ra
   const traces = shared(shape.traced * chains * perChain);
   const names = Array.from({ length: chains }, (_, c) => random.stream(`chain:${c}`).name);
   const task: ChainTask = { job, seed: random.seed, names, perChain, warmUp, thin, outputs, traces };
-  runTasks(task, samplerThreads(threads, job, settings));
+  runOnThreads(task, chains, samplerThreads(threads, job, settings), (c) => runChain(task, c));
   const rhat = new Float64Array(shape.traced);
   const ess = new Float64Array(shape.traced);
   for (let cell = 0; cell < shape.traced; cell++) {
@@ -134,17 +135,25 @@ export function samplerThreads(requested: number | undefined, job: SamplerJob, s
   return Math.max(1, Math.min(wanted, settings.chains));
 }
 
-/** Run every chain of the task on `threads` threads: this one and threads − 1 workers, taking chains from a shared counter. */
-function runTasks(task: ChainTask, threads: number): void {
-  const chains = task.names.length;
+/**
+ * What a sampler worker is posted (sampler-worker.ts runs its chains): a data-augmentation job's
+ * chains (runChain), or the partial-pooling sampler's (zone-posterior.ts).
+ */
+export type SamplerTask = ChainTask | ZoneChainTask;
+
+/**
+ * Run chains 0 … chains − 1 of a task on `threads` threads: this one (`runOne`) and threads − 1
+ * workers (which run the same chain of the same task), taking chains from a shared counter.
+ */
+export function runOnThreads(task: SamplerTask, chains: number, threads: number, runOne: (c: number) => void): void {
   if (threads <= 1) {
-    for (let c = 0; c < chains; c++) runChain(task, c);
+    for (let c = 0; c < chains; c++) runOne(c);
     return;
   }
   const workers = workersFor(threads - 1);
   const control = new Int32Array(new SharedArrayBuffer(3 * 4));
   for (const w of workers) w.post({ task, control });
-  for (let c = Atomics.add(control, NEXT, 1); c < chains; c = Atomics.add(control, NEXT, 1)) runChain(task, c);
+  for (let c = Atomics.add(control, NEXT, 1); c < chains; c = Atomics.add(control, NEXT, 1)) runOne(c);
   try {
     for (let done = Atomics.load(control, DONE); done < workers.length; done = Atomics.load(control, DONE)) waitWhile(control, DONE, done, workers);
   } catch (error) {
@@ -166,11 +175,10 @@ function workersFor(n: number): WatchedWorker[] {
   return kept.slice(0, n);
 }
 
-/** A worker's side of runTasks: take chains until none are left, then count itself done and wake the waiting thread. */
-export function drainChains(task: ChainTask, control: Int32Array): void {
-  const chains = task.names.length;
+/** A worker's side of runOnThreads: take chains until none are left, then count itself done and wake the waiting thread. */
+export function drainChains(control: Int32Array, chains: number, runOne: (c: number) => void): void {
   try {
-    for (let c = Atomics.add(control, NEXT, 1); c < chains; c = Atomics.add(control, NEXT, 1)) runChain(task, c);
+    for (let c = Atomics.add(control, NEXT, 1); c < chains; c = Atomics.add(control, NEXT, 1)) runOne(c);
   } catch (error) {
     Atomics.store(control, FAILED, 1);
     console.error(error);

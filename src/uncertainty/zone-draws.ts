@@ -130,11 +130,11 @@ export function zoneRowDraws(zoneCounts: readonly Float64Array[], mask: Uint8Arr
  * The partial-pooling sampler of a zoned fit run as a forecast runs it, kept for its diagnostics
  * (fit/zone-sampler.ts): what `sere fit` and `sere check` report, on `random` (their seed).
  */
-export function zoneSamplerRun(fit: Fit, random: RandomStream, settings?: ZoneChainSettings): ZoneSamplerRun {
+export function zoneSamplerRun(fit: Fit, random: RandomStream, settings?: ZoneChainSettings, threads?: number): ZoneSamplerRun {
   const zones = fit.zones!.zones;
   const k = fit.states.length;
   const counts = zones.map((z) => z.fit.counts);
   const mask = fitMask(fit);
-  const posterior = sampleZonePosterior(counts, mask, fitPrior(fit), k, random, zones.map((z) => z.fit.gapCounts ?? []), settings);
+  const posterior = sampleZonePosterior(counts, mask, fitPrior(fit), k, random, zones.map((z) => z.fit.gapCounts ?? []), settings, threads);
   return zonePosteriorDiagnostics(posterior, counts, mask, k, random.seed);
 }

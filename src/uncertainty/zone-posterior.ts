@@ -5,7 +5,9 @@ import type { Diagnostics, ZoneSamplerRun } from '../fit/zone-sampler.js';
 import { BURN_IN, KAPPA_PRIOR_SCALE, sampleRowConcentration, type ConcentrationState, type RowConcentrationSamples } from './concentration.js';
 import { sampleDirichlet } from './dirichlet.js';
 import { convergence } from './mcmc-diagnostics.js';
-import type { RandomStream } from './random.js';
+import { randomStreams, type RandomStream } from './random.js';
+import { runOnThreads } from './chain-runner.js';
+import { availableParallelism } from 'node:os';
 import { VARIATION_SAMPLES } from './variation.js';
 import { augmentZonesChain } from './zone-augment.js';
 
@@ -58,41 +60,93 @@ export interface ZonePosterior {
  * Dirichlet(α + 1) — near-uniform, far from where the data put it. Both from the chain's `start`
  * stream. A row never left by any zone is sampled all the same (from its prior: its diagnostics say
  * how well the sampler explores the prior).
+ *
+ * The chains run on `threads` threads (chain-runner.ts runOnThreads, the sampler's workers): the
+ * number asked, else every core when the work passes MIN_THREADED_ZONE_WORK, never more than the
+ * chains. Each chain writes only its own samples, so any number of threads gives the same bits.
  */
 export function sampleZonePosterior(zoneCounts: readonly Float64Array[], mask: Uint8Array, prior: Float64Array, k: number,
-  random: RandomStream, zoneGaps: readonly (readonly GapCell[])[] = [], settings?: ZoneChainSettings): ZonePosterior {
+  random: RandomStream, zoneGaps: readonly (readonly GapCell[])[] = [], settings?: ZoneChainSettings, threads?: number): ZonePosterior {
   const augmented = zoneGaps.some((g) => g.length > 0);
   const run = settings ?? zoneChainSettings(augmented);
-  const k2 = k * k;
   const Z = zoneCounts.length;
-  const cells = Array.from({ length: k }, (_, i) => possibleCells(mask, k, i));
   const total = run.chains * run.kept;
-  const rows = cells.map((c) => (c.length < 2 ? null : { kappa: new Float64Array(total), mean: new Float64Array(total * c.length) }));
-  const completed = augmented ? new Float64Array(total * Z * k2) : undefined;
-  const byRow = augmented ? undefined : zoneRows(zoneCounts, mask, k);
-  const root = random.stream('zones');
-  for (let c = 0; c < run.chains; c++) {
-    const chain = root.stream(`chain:${c}`);
-    const starts = chainStarts(cells, prior, k, chain.stream('start'));
-    let part: (RowConcentrationSamples | null)[];
-    if (augmented) {
-      const a = augmentZonesChain(zoneCounts, zoneGaps, mask, prior, k, run.warmUp, run.kept, run.thin, chain, starts);
-      part = a.rows;
-      completed!.set(a.completed, c * run.kept * Z * k2);
-    } else {
-      part = byRow!.map((r, i) => {
-        if (r.cells.length < 2) return null;
-        const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
-        return sampleRowConcentration(r, alpha, run.kept, chain.stream(`row:${i}`), { burnIn: run.warmUp, thin: run.thin, start: starts[i] });
-      });
-    }
-    part.forEach((p, i) => {
-      if (!p) return;
-      rows[i]!.kappa.set(p.kappa, c * run.kept);
-      rows[i]!.mean.set(p.mean, c * run.kept * cells[i]!.length);
+  const shared = (n: number): Float64Array => new Float64Array(new SharedArrayBuffer(n * 8));
+  const rows = Array.from({ length: k }, (_, i) => {
+    const m = possibleCells(mask, k, i).length;
+    return m < 2 ? null : { kappa: shared(total), mean: shared(total * m) };
+  });
+  const task: ZoneChainTask = {
+    zoneCounts, zoneGaps, mask, prior, k, run, seed: random.seed,
+    names: Array.from({ length: run.chains }, (_, c) => random.stream('zones').stream(`chain:${c}`).name),
+    rows, ...(augmented ? { completed: shared(total * Z * k * k) } : {}),
+  };
+  runOnThreads(task, run.chains, zoneThreads(threads, task), (c) => runZoneChain(task, c));
+  // Copied out of shared memory: a posterior is plain data (the sample cache packs it).
+  const own = (a: Float64Array): Float64Array => Float64Array.from(a);
+  return {
+    settings: run, rows: rows.map((r) => r && { kappa: own(r.kappa), mean: own(r.mean) }),
+    ...(task.completed ? { completed: own(task.completed) } : {}),
+  };
+}
+
+/**
+ * What any thread needs to run a chain of the partial-pooling sampler (runZoneChain), posted to the
+ * sampler's workers as it is (chain-runner.ts): the inputs, each chain's stream name, and the
+ * samples in shared memory, which chain c writes from sample c·kept on.
+ */
+export interface ZoneChainTask {
+  readonly zoneCounts: readonly Float64Array[];
+  readonly zoneGaps: readonly (readonly GapCell[])[];
+  readonly mask: Uint8Array;
+  readonly prior: Float64Array;
+  readonly k: number;
+  readonly run: ZoneChainSettings;
+  readonly seed: number;
+  /** Chain c's stream (`…/zones/chain:c`), rebuilt on any thread as randomStreams(seed).stream(name). */
+  readonly names: readonly string[];
+  readonly rows: (RowConcentrationSamples | null)[];
+  readonly completed?: Float64Array;
+}
+
+/**
+ * Least work (row-sweeps: chains × sweeps × rows × zones) worth starting a sampler worker for when
+ * no thread count is asked: the zoned demo's 3 zones × 5 rows took ~0.5 s on one thread without its
+ * gapped pairs (51,000 row-sweeps, ~10 µs each) and ~0.85 s with them, against 100–280 ms for a
+ * worker to start (chain-runner.ts); half the work must beat that, from about 30,000.
+ */
+export const MIN_THREADED_ZONE_WORK = 3e4;
+
+function zoneThreads(requested: number | undefined, task: ZoneChainTask): number {
+  const { chains, warmUp, kept, thin } = task.run;
+  const work = chains * (warmUp + kept * thin) * task.k * task.zoneCounts.length;
+  const wanted = requested ?? (work >= MIN_THREADED_ZONE_WORK ? availableParallelism() : 1);
+  return Math.max(1, Math.min(wanted, chains));
+}
+
+/** Chain c of the partial-pooling sampler, from its starts to its last kept sweep, into the task's samples. */
+export function runZoneChain(task: ZoneChainTask, c: number): void {
+  const { zoneCounts, zoneGaps, mask, prior, k, run, rows } = task;
+  const chain = randomStreams(task.seed).stream(task.names[c]!);
+  const cells = Array.from({ length: k }, (_, i) => possibleCells(mask, k, i));
+  const starts = chainStarts(cells, prior, k, chain.stream('start'));
+  let part: (RowConcentrationSamples | null)[];
+  if (task.completed) {
+    const a = augmentZonesChain(zoneCounts, zoneGaps, mask, prior, k, run.warmUp, run.kept, run.thin, chain, starts);
+    part = a.rows;
+    task.completed.set(a.completed, c * run.kept * zoneCounts.length * k * k);
+  } else {
+    part = zoneRows(zoneCounts, mask, k).map((r, i) => {
+      if (r.cells.length < 2) return null;
+      const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
+      return sampleRowConcentration(r, alpha, run.kept, chain.stream(`row:${i}`), { burnIn: run.warmUp, thin: run.thin, start: starts[i] });
     });
   }
-  return { settings: run, rows, ...(completed ? { completed } : {}) };
+  part.forEach((p, i) => {
+    if (!p) return;
+    rows[i]!.kappa.set(p.kappa, c * run.kept);
+    rows[i]!.mean.set(p.mean, c * run.kept * cells[i]!.length);
+  });
 }
 
 function chainStarts(cells: readonly Int32Array[], prior: Float64Array, k: number, random: RandomStream): (ConcentrationState | undefined)[] {
