@@ -268,6 +268,22 @@ export function yearMatrix(state: usize, p: usize, kappa: usize, cells: usize, k
   store<u64>(state, s3, 24);
 }
 
+/**
+ * yearMatrix for streams n = first … count − 1 (at `states + 32n`) and, within each, slots
+ * z = 0 … slots − 1 (drawn matrix, κ and cells as the host lays them out, a slot after another),
+ * in that order, into `out + 8·(n·slots + z)·k²`: one call for a draw's years where the host made
+ * one per year and slot (the zoned demo: 90 a draw) and copied each year out.
+ */
+export function yearMatrices(states: usize, p: usize, kappa: usize, cells: usize, k: i32, slots: i32, first: i32, count: i32, out: usize): void {
+  const k2 = <usize>(k * k);
+  for (let n = first; n < count; n++) {
+    for (let z = 0; z < slots; z++) {
+      yearMatrix(states + (<usize>n << 5), p + <usize>z * k2 * 8, kappa + <usize>(z * k) * 8, cells + <usize>z * 3 * k2 * 8, k,
+        out + (<usize>(n * slots + z) * k2 << 3));
+    }
+  }
+}
+
 /** n Gamma(shape) variates into `out` from the stream at `state` (advanced in place): for tests and the bench. */
 export function gammas(state: usize, shape: f64, n: i32, out: usize): void {
   s0 = load<u64>(state);

@@ -154,12 +154,9 @@ export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, 
     if (variation) {
       if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation.keys, Math.floor(d / DRAW_BLOCK), runs[0]!.inputs.horizon, from, to);
       for (let zone = 0; zone < Z; zone++) kernel.setDraw(zone, P, zone * zoneStride + d * k2, variation.concentration, (zone * D + d) * k);
-      // Each zone's year matrix around its own draw, from the same stream one zone after another.
-      for (let t = Math.max(from, 1); t < to; t++) {
-        for (let zone = 0; zone < Z; zone++) kernel.sample(t - from, zone);
-        // The kernel holds one year (slot z at z·k²): kept here, as every run reads every year of the chunk.
-        years!.set(kernel.years, (t - from) * Z * k2);
-      }
+      // Each zone's year matrix around its own draw, from the same stream one zone after another,
+      // every year of the chunk in one call, kept in `years` as every run reads every year of it.
+      kernel.sampleSteps(Math.max(from, 1) - from, to - from, kernel.matrices, 0);
     }
     for (const project of projectors) project(d, d0, d1);
   }
@@ -223,23 +220,20 @@ function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: nu
   const slots = slotCount(slotOf, from, to);
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const most = Math.min(TRACKED_DRAWS, d1 - d0);
-  const years = new Float64Array(most * steps * k2);
-  const tracked = { P: years, years: true, k, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out,
+  const layout = { k, slots, members: target ? Int32Array.from(target.states) : new Int32Array(0), years: true };
+  // The area first, then the year kernel: a reserve may grow the memory under a kernel's views. The
+  // kernel's own room holds the year matrices of `most` draws, `[((d − first)·steps + t − from)·k² …]`.
+  reserveTracked(layout, most, steps);
+  const kernel = yearKernel(k, steps, 1, { matrices: most * steps * k2 });
+  const tracked = { ...layout, P: kernel.matrices, D, start, startByDraw: Boolean(startByDraw), slotOf, slots, out,
     xs: state.xs, runStart: state.runStart, firstAtTarget: state.firstAtTarget, firstMostCommon: state.firstMostCommon,
-    members: target ? Int32Array.from(target.states) : new Int32Array(0), hasTarget: Boolean(target), metLow, metHigh,
-    staysMet: target ? target.staysMet : 1 };
-  // The area first, then the year kernel: a reserve may grow the memory under a kernel's views.
-  reserveTracked(tracked, most, steps);
-  const kernel = yearKernel(k, steps, 1);
+    hasTarget: Boolean(target), metLow, metHigh, staysMet: target ? target.staysMet : 1 };
   for (let first = d0; first < d1; first += TRACKED_DRAWS) {
     const nd = Math.min(TRACKED_DRAWS, d1 - first);
     for (let d = first; d < first + nd; d++) {
       if (d === d0 || d % DRAW_BLOCK === 0) startYearStreams(kernel, variation.keys, Math.floor(d / DRAW_BLOCK), horizon, from, to);
       kernel.setDraw(0, P, d * k2, variation.concentration, d * k);
-      for (let t = Math.max(from, 1); t < to; t++) {
-        kernel.sample(t - from, 0);
-        years.set(kernel.years, ((d - first) * steps + t - from) * k2);
-      }
+      kernel.sampleSteps(Math.max(from, 1) - from, steps, kernel.matrices, (d - first) * steps * k2);
     }
     projectTracked(tracked, first, first + nd, from, to);
   }

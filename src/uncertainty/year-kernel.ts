@@ -29,6 +29,12 @@ export interface YearKernel {
   readonly years: Float64Array;
   /** One year's matrix around slot z's draw, from stream n, into `years[z·k² …]`. */
   sample(n: number, z: number): void;
+  /**
+   * What `sample(n, z)` makes for n = first … count − 1 and, for each, every slot z in turn (the
+   * same draws from the same streams), written to `into[offset + (n·slots + z)·k² …]` rather than
+   * `years`: a draw's years of a chunk in one call. `into` is `matrices`.
+   */
+  sampleSteps(first: number, count: number, into: Float64Array, offset: number): void;
   /** Gamma(shape) variates of stream n into `out`, as the year matrices draw them (for tests and the bench). */
   gammas(n: number, shape: number, out: Float64Array): void;
   /** The caller's own doubles in the kernel's memory (`room.matrices` of them): matrices for `moveRows`, the general projector's matrices and mixes for `planStep` (project-chunk.ts). */
@@ -68,6 +74,7 @@ interface Exports {
   setTables(x: number, f: number, ratio: number, r: number): void;
   prepare(p: number, kappa: number, k: number, cells: number): void;
   yearMatrix(state: number, p: number, kappa: number, cells: number, k: number, out: number): void;
+  yearMatrices(states: number, p: number, kappa: number, cells: number, k: number, slots: number, first: number, count: number, out: number): void;
   gammas(state: number, shape: number, n: number, out: number): void;
   nativeExp(x: number): number;
   nativeLog(x: number): number;
@@ -197,6 +204,13 @@ export function yearKernel(k: number, streams: number, slots = 1, room: KernelRo
       check(n);
       checkSlot(z);
       exports.yearMatrix((states + 4 * n) * 8, (pAt + z * k2) * 8, (kappaAt + z * k) * 8, (cellsAt + 3 * z * k2) * 8, k, (yearsAt + z * k2) * 8);
+    },
+    sampleSteps(first, count, into, offset) {
+      if (count > first) {
+        check(first);
+        check(count - 1);
+      }
+      exports.yearMatrices(states * 8, pAt * 8, kappaAt * 8, cellsAt * 8, k, slots, first, count, addressOf(into, offset, Math.max(0, count * slots * k2)));
     },
     gammas(n, shape, out) {
       check(n);

@@ -60,6 +60,35 @@ describe('the WebAssembly year kernel', () => {
     expect(matrices).toBe(4800);
   });
 
+  it('sampleSteps draws what sample(n, z) draws, stream by stream and slot by slot, into the room asked', () => {
+    for (const k of [2, 5, 10]) {
+      const slots = 3;
+      const cases = [0, 1, 2].map((z) => caseOf(900 + 10 * k + z, k));
+      const keys = new Uint32Array(6 * 8);
+      for (let n = 0; n < 6; n++) keys.set(streamKey(77, `steps:${k}:${n}`), 8 * n);
+      const draw = (kernel: ReturnType<typeof yearKernel>): void => {
+        for (let n = 0; n < 6; n++) kernel.startStream(n, keys, 8 * n);
+        cases.forEach(({ P, kappa }, z) => kernel.setDraw(z, P, 0, kappa, 0));
+      };
+      // One by one, as the engine drew them before: streams 1 … 5 (step 0 is the start), each slot in turn.
+      const one = yearKernel(k, 6, slots);
+      draw(one);
+      const expected = new Float64Array(6 * slots * k * k);
+      for (let n = 1; n < 6; n++) {
+        for (let z = 0; z < slots; z++) one.sample(n, z);
+        expected.set(one.years, n * slots * k * k);
+      }
+      const room = 7 + 6 * slots * k * k;
+      const all = yearKernel(k, 6, slots, { matrices: room });
+      draw(all);
+      all.matrices.fill(-1);
+      all.sampleSteps(1, 6, all.matrices, 7);
+      expect(Array.from(all.matrices.subarray(0, 7 + slots * k * k))).toEqual(new Array(7 + slots * k * k).fill(-1));
+      expect(bitsEqual(all.matrices.subarray(7 + slots * k * k), expected.subarray(slots * k * k)), `k ${k}`).toBe(true);
+      expect(() => all.sampleSteps(1, 7, all.matrices, 7)).toThrow(/outside/);
+    }
+  });
+
   it('agrees where every variate of a row underflows (redraws, then the mode\'s corner) and from the all-zero key', () => {
     // α = 10⁻⁴: Gamma(α) = Gamma(1 + α)·U^(1/α) is 0 in doubles unless U > 0.93, so whole rows underflow.
     const k = 4;
