@@ -626,6 +626,26 @@ export function planStep(G: i32, k: i32, x: usize, y: usize, z: usize, mats: usi
   }
 }
 
+/**
+ * Steps t = first … to − 1 of one draw of the general projector (project-chunk.ts runProjector),
+ * each as it made them one call at a time: planStep on step t's matrices (G u32 byte addresses at
+ * `mats + 4·(t − from)·G`) and event flags (events·G bytes at `flags + (t − from)·events·G`); the
+ * landscape mix `total` stored at `block + 8·((slot·k + s)·blockDraws + b)` when the i32
+ * `slotOf[t − from]` is a slot ≥ 0; then trackStep. One call a draw where there were two a step.
+ */
+export function planSteps(first: i32, from: i32, to: i32, G: i32, k: i32, x: usize, y: usize, z: usize, mats: usize, events: i32,
+  eventMats: usize, flags: usize, total: usize, slotOf: usize, block: usize, blockDraws: i32, b: i32,
+  tracked: usize, state: usize, hasTarget: i32, members: usize, count: i32, low: f64, high: f64, staysMet: i32): void {
+  for (let t = first; t < to; t++) {
+    const n = t - from;
+    planStep(G, k, x, y, z, mats + (<usize>(n * G) << 2), events, eventMats, flags + <usize>(n * events * G), total);
+    const slot = load<i32>(slotOf + (<usize>n << 2));
+    if (slot >= 0) {
+      for (let s = 0; s < k; s++) store<f64>(block + (<usize>((slot * k + s) * blockDraws + b) << 3), load<f64>(total + (<usize>s << 3)));
+    }
+    trackStep(t, k, total, tracked, state, hasTarget, members, count, low, high, staysMet);
+  }
+}
 
 /**
  * The general projector's tracking at step t of one draw, on the landscape mix `total` (k), as its

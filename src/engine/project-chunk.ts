@@ -141,7 +141,7 @@ export function projectDrawsTogether(runs: readonly ProjectedRun[], d0: number, 
   // One area of the kernel's memory holds the chunk's year matrices of one draw, `years[((t − from)*Z + zone)*k2 + c]`,
   // drawn once for every run, and each general run's matrices and mixes, which its kernel step reads (generalWords).
   const yearWords = variation ? (to - from) * Z * k2 : 0;
-  const words = runs.map((run) => generalWords(run.inputs));
+  const words = runs.map((run) => generalWords(run.inputs, to - from, slotCount(slotOf, from, to)));
   const kernel = yearKernel(k, variation ? to - from : 0, variation ? Z : 0, { matrices: yearWords + words.reduce((a, b) => a + b, 0) });
   const years = variation ? kernel.matrices.subarray(0, yearWords) : undefined;
   let at = yearWords;
@@ -192,15 +192,21 @@ function runShape(inputs: ProjectionInputs): { readonly plain: boolean; readonly
  * tracking's integers (trackStep: each state's first step as the most common, pending, the run's
  * start and the first step at the target, the target's members).
  */
-function generalWords(inputs: ProjectionInputs): number {
+function generalWords(inputs: ProjectionInputs, steps: number, slots: number): number {
   const { k } = inputs;
-  const { plain, G, events, recipes } = runShape(inputs);
+  const { plain, G, events } = runShape(inputs);
   // A plain run with year matrices takes plainProjector, which needs no area; without them (not a
   // case projectDrawsTogether is given today) the general step's area.
   if (plain && inputs.variation) return 0;
   const members = inputs.target ? inputs.target.states.length : 0;
-  return Math.max(recipes, 1) * k * k + events * k * k + (G + 3) * k + Math.ceil(G / 2) + Math.ceil((events * G) / 8) +
-    Math.ceil((k + 3 + members) / 2);
+  return ownWords(inputs, steps) + events * k * k + (G + 3) * k + Math.ceil((steps * G) / 2) + Math.ceil((steps * events * G) / 8) +
+    Math.ceil((k + 3 + members) / 2) + Math.ceil(steps / 2) + Math.max(1, slots) * k * OUTPUT_BLOCK;
+}
+
+/** The general step's own matrices: each recipe's (with variation, each step's, as each is built from that step's year matrix), or the draw's. */
+function ownWords(inputs: ProjectionInputs, steps: number): number {
+  const { recipes } = runShape(inputs);
+  return (inputs.variation && recipes > 0 ? steps : 1) * Math.max(recipes, 1) * inputs.k * inputs.k;
 }
 
 /**
@@ -258,8 +264,8 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
   // line for every number (measured: a third of a comparison's time).
   const slots = slotCount(slotOf, from, to);
-  const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
   if (plain && years) {
+    const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
     return plainProjector({ k, horizon, start, startByDraw: Boolean(startByDraw), years, from, to, slotOf, block, out, D,
       xs, runStart, firstAtTarget, targetRunAtHorizon, firstMostCommon, members, staysMet, metLow, metHigh, hasTarget: Boolean(target) });
   }
@@ -272,9 +278,16 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const built = new Int32Array(plan ? plan.plans.length : 0);
   const weights = plan ? plan.subPopulations.map((g) => g.weight) : [1];
   const planOf = plan?.planOf;
-  // The area (generalWords): what the kernel's planStep reads and writes, addressed by byte offset in its memory.
-  const own = area.subarray(0, Math.max(recipes, 1) * k2);
-  const ws = recipes > 0 ? { ...planWorkspace(plan!), matrices: own } : undefined;
+  const n = to - from;
+  // The area (generalWords): what the kernel's planSteps reads and writes, addressed by byte offset
+  // in its memory. With variation each step's recipes have their own matrices (`stepOwn` doubles a
+  // step), built from that step's year matrix, as the kernel runs all of a draw's steps in one call.
+  const own = area.subarray(0, ownWords(inputs, n));
+  const stepOwn = variation && recipes > 0 ? recipes * k2 : 0;
+  const workspace = recipes > 0 ? planWorkspace(plan!) : undefined;
+  const wsOf = workspace && Array.from({ length: stepOwn > 0 ? n : 1 }, (_, s) =>
+    ({ ...workspace, matrices: own.subarray(s * stepOwn, s * stepOwn + recipes * k2) }));
+  const ws = wsOf?.[0];
   let at = own.length;
   const eventMats = area.subarray(at, at + events * k2);
   plan?.landscapeEvents.forEach((e, n) => eventMats.set(plan.events[e]!.matrix, n * k2));
@@ -284,14 +297,24 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const z = area.subarray(at + (G + 1) * k, at + (G + 2) * k);
   const total = area.subarray(at + (G + 2) * k, at + (G + 3) * k);
   at += (G + 3) * k;
-  const mats = new Uint32Array(area.buffer, area.byteOffset + at * 8, G);
-  const flags = new Uint8Array(area.buffer, area.byteOffset + at * 8 + Math.ceil(G / 2) * 8, events * G);
-  at += Math.ceil(G / 2) + Math.ceil((events * G) / 8);
+  // Step t's matrices (byte addresses) and event flags, at (t − from)·G and (t − from)·events·G.
+  const mats = new Uint32Array(area.buffer, area.byteOffset + at * 8, n * G);
+  at += Math.ceil((n * G) / 2);
+  const flags = new Uint8Array(area.buffer, area.byteOffset + at * 8, n * events * G);
+  at += Math.ceil((n * events * G) / 8);
   const tracked = new Int32Array(area.buffer, area.byteOffset + at * 8, k + 3 + nMembers);
+  at += Math.ceil((k + 3 + nMembers) / 2);
   const firstAt = tracked.byteOffset;
   const stateAt = firstAt + k * 4;
   const membersAt = stateAt + 3 * 4;
   tracked.set(members, k + 3);
+  const slotsOf = new Int32Array(area.buffer, area.byteOffset + at * 8, n);
+  slotsOf.set(slotOf.subarray(from, to));
+  at += Math.ceil(n / 2);
+  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
+  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
+  // line for every number (measured: a third of a comparison's time).
+  const block = area.subarray(at, at + Math.max(1, slots) * k * OUTPUT_BLOCK);
   // Byte addresses in the kernel's memory, read once (a view's byteOffset is a property read per use).
   const yearsAt = years ? years.byteOffset : 0;
   const ownAt = own.byteOffset;
@@ -302,7 +325,9 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const eventsAt = eventMats.byteOffset;
   const flagsAt = flags.byteOffset;
   const totalAt = total.byteOffset;
-  const { planStep, trackStep } = kernel;
+  const slotsAt = slotsOf.byteOffset;
+  const blockAt = block.byteOffset;
+  const { trackStep, planSteps } = kernel;
   const hasTarget = target ? 1 : 0;
   // With variation, a recipe that changes nothing (untreated land, a year without treatment) reads
   // the year matrix in place; the others copy it within the kernel's memory (copyWithin: no
@@ -314,6 +339,7 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const heard = onOutcome && ((tr: number, outcome: RowChangeOutcome) => onOutcome(drawNow, tr, outcome));
   const ownWord = ownAt / 8;
   const yearsWord = yearsAt / 8;
+  const firstStep = Math.max(from, 1);
 
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
@@ -335,51 +361,51 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
     tracked[k] = pending;
     tracked[k + 1] = runStart[d]!;
     tracked[k + 2] = firstAtTarget[d]!;
-    for (let t = from; t < to; t++) {
-      if (t === 0) {
-        const so = startByDraw ? d * Z * k : 0;
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) mixes[g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
-        if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
-        else {
-          total.fill(0);
-          for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += mixes[g * k + s]!;
-        }
-      } else {
-        // Each sub-population's matrix this step: its recipe's (built from the year matrix, with
-        // variation), the year matrix, or the draw's; then the kernel steps every sub-population
-        // and strikes the landscape events (planStep: the same operations in the same order as the
-        // JavaScript loop it replaced, so the same bits).
-        const yearAt = (t - from) * Z * k2;
-        for (let g = 0; g < G; g++) {
-          const recipe = ws ? planOf![t * G + g]! : -1;
-          if (variation && ws) {
-            const from = yearAt + plan!.plans[recipe]!.zone * k2;
-            if (unchanged[recipe] === 1) {
-              mats[g] = yearsAt + from * 8;
-              continue;
-            }
-            if (built[recipe] !== t) {
-              memory.copyWithin(ownWord + recipe * k2, yearsWord + from, yearsWord + from + k2);
-              changeRecipe(plan!, recipe, ws, heard);
-              built[recipe] = t;
-            }
-          }
-          mats[g] = ws ? ownAt + recipe * k2 * 8 : variation ? yearsAt + yearAt * 8 : ownAt;
-        }
-        for (let e = 0; e < events; e++) {
-          const hit = hits[e]![hitRow + t] !== 0;
-          for (let g = 0; g < G; g++) flags[e * G + g] = hit && !(eventIn && eventIn[e * G + g] === 0) ? 1 : 0;
-        }
-        planStep(G, k, mixesAt, yAt, zAt, matsAt, events, eventsAt, flagsAt, totalAt);
+    if (from === 0) {
+      const so = startByDraw ? d * Z * k : 0;
+      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) mixes[g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
+      if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
+      else {
+        total.fill(0);
+        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += mixes[g * k + s]!;
       }
-      const slot = slotOf[t]!;
-      if (slot >= 0) {
-        const into = slot * k * OUTPUT_BLOCK + b;
-        for (let s = 0; s < k; s++) block[into + s * OUTPUT_BLOCK] = total[s]!;
-      }
-      // The first times, in the kernel (the plain projector's comparisons, in its order).
-      trackStep(t, k, totalAt, firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);
+      const slot = slotOf[0]!;
+      if (slot >= 0) for (let s = 0; s < k; s++) block[(slot * k + s) * OUTPUT_BLOCK + b] = total[s]!;
+      trackStep(0, k, totalAt, firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);
     }
+    // Each step's matrices: its recipe's (built from the step's year matrix, with variation), the
+    // year matrix, or the draw's; and which landscape events strike which sub-population. Then the
+    // kernel runs the draw's steps (planSteps: planStep, the recorded mixes and trackStep at each,
+    // the same operations in the same order as the JavaScript loop they replaced, so the same bits).
+    for (let t = firstStep; t < to; t++) {
+      const step = t - from;
+      const yearAt = step * Z * k2;
+      for (let g = 0; g < G; g++) {
+        const recipe = ws ? planOf![t * G + g]! : -1;
+        if (variation && ws) {
+          const from2 = yearAt + plan!.plans[recipe]!.zone * k2;
+          if (unchanged[recipe] === 1) {
+            mats[step * G + g] = yearsAt + from2 * 8;
+            continue;
+          }
+          const word = step * stepOwn + recipe * k2;
+          if (built[recipe] !== t) {
+            memory.copyWithin(ownWord + word, yearsWord + from2, yearsWord + from2 + k2);
+            changeRecipe(plan!, recipe, wsOf![step]!, heard);
+            built[recipe] = t;
+          }
+          mats[step * G + g] = ownAt + word * 8;
+          continue;
+        }
+        mats[step * G + g] = ws ? ownAt + recipe * k2 * 8 : variation ? yearsAt + yearAt * 8 : ownAt;
+      }
+      for (let e = 0; e < events; e++) {
+        const hit = hits[e]![hitRow + t] !== 0;
+        for (let g = 0; g < G; g++) flags[(step * events + e) * G + g] = hit && !(eventIn && eventIn[e * G + g] === 0) ? 1 : 0;
+      }
+    }
+    planSteps(firstStep, from, to, G, k, mixesAt, yAt, zAt, matsAt, events, eventsAt, flagsAt, totalAt, slotsAt, blockAt, OUTPUT_BLOCK, b,
+      firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);
     for (let c = 0; c < G * k; c++) xs[x + c] = mixes[c]!;
     for (let s = 0; s < k; s++) firstMostCommon[d * k + s] = tracked[s]!;
     const run = tracked[k + 1]!;

@@ -54,12 +54,16 @@ export interface YearKernel {
   moveRows(n: number, m: Float64Array, mOffset: number, from: number, to: number): void;
   /**
    * The kernel's planStep and trackStep (assembly/year-kernel.ts): one step of G sub-populations, and
-   * the first times tracked on its landscape mix; the arguments named for arrays are byte addresses in
-   * the kernel's memory (in `matrices`, or `years`).
+   * the first times tracked on its landscape mix; planSteps, both for a draw's run of steps with
+   * the recorded mixes stored; the arguments named for arrays are byte addresses in the kernel's
+   * memory (in `matrices`, or `years`).
    */
   planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
   trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
     low: number, high: number, staysMet: number): void;
+  planSteps(first: number, from: number, to: number, G: number, k: number, x: number, y: number, z: number, mats: number, events: number,
+    eventMats: number, flags: number, total: number, slotOf: number, block: number, blockDraws: number, b: number,
+    tracked: number, state: number, hasTarget: number, members: number, count: number, low: number, high: number, staysMet: number): void;
 }
 
 /** Room a caller asks of a year kernel for its own use: doubles and 32-bit counts. */
@@ -87,6 +91,9 @@ interface Exports {
   planStep(G: number, k: number, x: number, y: number, z: number, mats: number, events: number, eventMats: number, flags: number, total: number): void;
   trackStep(t: number, k: number, total: number, first: number, state: number, hasTarget: number, members: number, count: number,
     low: number, high: number, staysMet: number): void;
+  planSteps(first: number, from: number, to: number, G: number, k: number, x: number, y: number, z: number, mats: number, events: number,
+    eventMats: number, flags: number, total: number, slotOf: number, block: number, blockDraws: number, b: number,
+    tracked: number, state: number, hasTarget: number, members: number, count: number, low: number, high: number, staysMet: number): void;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -200,6 +207,7 @@ export function yearKernel(k: number, streams: number, slots = 1, room: KernelRo
     counts,
     planStep: exports.planStep,
     trackStep: exports.trackStep,
+    planSteps: exports.planSteps,
     sample(n, z) {
       check(n);
       checkSlot(z);
