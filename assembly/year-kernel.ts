@@ -701,3 +701,72 @@ export function trackStep(t: i32, k: i32, total: usize, first: usize, state: usi
   if (!(sum >= low && sum <= high)) return -1;
   return run < 0 ? t : run;
 }
+
+/**
+ * The stationary mix of the k × k matrix at `p` whose one closed class is the m states at `members`
+ * (i32), as chain/stationary.ts (stationaryGivenClasses, then gth: Grassmann, Taksar & Heyman 1985)
+ * works it out, the same operations in the same order, so the same bits: the class's m × m block
+ * into `a`, its states censored from the last to the first, and the mix written to `mix` (k, zero
+ * off the class). `rowScale` and `pi`: m doubles of scratch each. Returns 0, or 1 + the state whose
+ * pivot was not positive (the block is not irreducible: the caller says so).
+ */
+export function stationaryMix(p: usize, k: i32, members: usize, m: i32, a: usize, rowScale: usize, pi: usize, mix: usize): i32 {
+  for (let r = 0; r < m; r++) {
+    const i = load<i32>(members + (<usize>r << 2));
+    for (let c = 0; c < m; c++) {
+      const j = load<i32>(members + (<usize>c << 2));
+      store<f64>(a + (<usize>(r * m + c) << 3), load<f64>(p + (<usize>(i * k + j) << 3)));
+    }
+    store<f64>(rowScale + (<usize>r << 3), 1);
+  }
+  for (let n = m - 1; n > 0; n--) {
+    let s: f64 = 0;
+    for (let j = 0; j < n; j++) s += load<f64>(a + (<usize>(n * m + j) << 3));
+    if (!(s > 0)) return n + 1;
+    let largest: f64 = 0;
+    for (let i = 0; i < n; i++) largest = max(largest, load<f64>(a + (<usize>(i * m + n) << 3)));
+    if (isFinite<f64>(largest / s)) {
+      for (let i = 0; i < n; i++) {
+        const at = a + (<usize>(i * m + n) << 3);
+        store<f64>(at, load<f64>(at) / s);
+      }
+    } else {
+      for (let j = 0; j < n; j++) {
+        const at = a + (<usize>(n * m + j) << 3);
+        store<f64>(at, load<f64>(at) / s);
+      }
+      store<f64>(rowScale + (<usize>n << 3), s);
+    }
+    for (let i = 0; i < n; i++) {
+      const ain = load<f64>(a + (<usize>(i * m + n) << 3));
+      if (ain == 0) continue;
+      for (let j = 0; j < n; j++) {
+        const at = a + (<usize>(i * m + j) << 3);
+        store<f64>(at, load<f64>(at) + ain * load<f64>(a + (<usize>(n * m + j) << 3)));
+      }
+    }
+  }
+  store<f64>(pi, 1);
+  for (let j = 1; j < m; j++) {
+    let x: f64 = 0;
+    for (let i = 0; i < j; i++) x += load<f64>(pi + (<usize>i << 3)) * load<f64>(a + (<usize>(i * m + j) << 3));
+    const scale = load<f64>(rowScale + (<usize>j << 3));
+    const share = x / scale;
+    if (isFinite<f64>(share)) store<f64>(pi + (<usize>j << 3), share);
+    else {
+      const f = scale / x;
+      for (let i = 0; i < j; i++) {
+        const at = pi + (<usize>i << 3);
+        store<f64>(at, load<f64>(at) * f);
+      }
+      store<f64>(pi + (<usize>j << 3), 1);
+    }
+  }
+  let total: f64 = 0;
+  for (let j = 0; j < m; j++) total += load<f64>(pi + (<usize>j << 3));
+  memory.fill(mix, 0, <usize>k << 3);
+  for (let r = 0; r < m; r++) {
+    store<f64>(mix + (<usize>load<i32>(members + (<usize>r << 2)) << 3), load<f64>(pi + (<usize>r << 3)) / total);
+  }
+  return 0;
+}

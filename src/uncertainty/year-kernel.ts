@@ -2,6 +2,7 @@ import { F, RATIO, X, ZIGGURAT_R } from './normal.js';
 import { xoshiroStart } from './xoshiro.js';
 import type { Elementary } from './gamma.js';
 import { YEAR_KERNEL_WASM } from './year-kernel-wasm.js';
+import { LIMITS } from '../limits.js';
 
 /**
  * The host of the WebAssembly year kernel (assembly/year-kernel.ts): one instance per thread, made on
@@ -94,6 +95,7 @@ interface Exports {
   planSteps(first: number, from: number, to: number, G: number, k: number, x: number, y: number, z: number, mats: number, events: number,
     eventMats: number, flags: number, total: number, slotOf: number, block: number, blockDraws: number, b: number,
     tracked: number, state: number, hasTarget: number, members: number, count: number, low: number, high: number, staysMet: number): void;
+  stationaryMix(p: number, k: number, members: number, m: number, a: number, rowScale: number, pi: number, mix: number): number;
 }
 
 /** Gamma variates made per call of the kernel's `gammas`, in the area's scratch. */
@@ -108,6 +110,8 @@ interface Instance {
   owner: number;
   /** The projection's own scratch (`projectSteps`), PROJECTION_WORDS doubles reserved with the instance. */
   readonly projection: number;
+  /** `stationaryMix`'s scratch, STATIONARY_WORDS doubles reserved with the instance. */
+  readonly stationary: number;
   /** `projectTracked`'s area (bytes): its start and size, reserved anew (doubled) when a call needs more. */
   trackedAt: number;
   trackedBytes: number;
@@ -119,6 +123,12 @@ interface Instance {
  * cannot move the memory under a year kernel's views.
  */
 const PROJECTION_WORDS = 16384;
+
+/**
+ * Doubles of scratch for `stationaryMix`: a matrix of up to LIMITS.states states and its mix, a
+ * class's block of as many, its pivots and shares, and the class's members (two to a double).
+ */
+const STATIONARY_WORDS = 2 * LIMITS.states ** 2 + 4 * LIMITS.states;
 
 let instance: Instance | undefined;
 
@@ -134,7 +144,8 @@ function kernelInstance(): Instance {
   view.set(F, tables / 8 + X.length);
   view.set(RATIO, tables / 8 + X.length + F.length);
   exports.setTables(tables, tables + X.length * 8, tables + (X.length + F.length) * 8, ZIGGURAT_R);
-  instance = { exports, at: 0, bytes: 0, owner: 0, projection: exports.reserve(PROJECTION_WORDS * 8), trackedAt: 0, trackedBytes: 0 };
+  instance = { exports, at: 0, bytes: 0, owner: 0, projection: exports.reserve(PROJECTION_WORDS * 8),
+    stationary: exports.reserve(STATIONARY_WORDS * 8), trackedAt: 0, trackedBytes: 0 };
   return instance;
 }
 
@@ -383,4 +394,43 @@ export function reserveTracked(run: Pick<TrackedRun, 'k' | 'slots' | 'members' |
     inst.owner += 1;
   }
   return { pAt, xsAt, yAt, blockAt, fmcAt, runAt, reachedAt, slotAt, membersAt };
+}
+
+/** Views of the kernel's memory for `stationaryInKernel`, remade when the memory has grown; and its mix's, for its k. */
+let stationaryF64: Float64Array | undefined;
+let stationaryI32: Int32Array | undefined;
+let stationaryOut: Float64Array | undefined;
+
+/**
+ * The stationary mix of `p[offset …]` (k × k) whose one closed class is `members` (chain/classes.ts),
+ * in the kernel: assembly/year-kernel.ts stationaryMix does stationaryGivenClasses's and gth's
+ * operations in their order (Grassmann, Taksar & Heyman 1985), so the same bits, without the
+ * JavaScript's arrays and closures per matrix or its warm-up — the zoned demo works out ~28,000 of
+ * them (each zone's, each treated part's), which took 80–90 ms of a first call and ~40 ms once V8
+ * had optimised it. The mix returned is a view of the kernel's scratch, valid until the next call.
+ */
+export function stationaryInKernel(p: ArrayLike<number>, k: number, offset: number, members: Int32Array): Float64Array {
+  const inst = kernelInstance();
+  const { memory } = inst.exports;
+  if (stationaryF64?.buffer !== memory.buffer) {
+    stationaryF64 = new Float64Array(memory.buffer);
+    stationaryI32 = new Int32Array(memory.buffer);
+    stationaryOut = undefined;
+  }
+  const f64 = stationaryF64;
+  const m = members.length;
+  const k2 = k * k;
+  // In doubles from the scratch's start: the matrix, its mix, the class's block, pivots, shares, then the members.
+  const pAt = inst.stationary / 8;
+  const mixAt = pAt + k2;
+  const aAt = mixAt + k;
+  const rowAt = aAt + m * m;
+  const piAt = rowAt + m;
+  const membersAt = piAt + m;
+  for (let c = 0; c < k2; c++) f64[pAt + c] = p[offset + c]!;
+  stationaryI32!.set(members, membersAt * 2);
+  const failed = inst.exports.stationaryMix(pAt * 8, k, membersAt * 8, m, aAt * 8, rowAt * 8, piAt * 8, mixAt * 8);
+  if (failed) throw new Error(`internal: GTH pivot not positive at state ${failed - 1}; the matrix is not irreducible`);
+  if (stationaryOut?.length !== k) stationaryOut = f64.subarray(mixAt, mixAt + k);
+  return stationaryOut;
 }
