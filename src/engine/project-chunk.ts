@@ -1,7 +1,7 @@
 import type { RowChangeOutcome } from '../chain/row-change.js';
 import type { LandscapeTarget } from '../scenario/scenario.js';
 import type { RunPlan } from './plan.js';
-import { changeRecipe, fillPlanMatrices, planWorkspace, unchangedRecipe } from './plan-matrices.js';
+import { changeRecipe, fillPlanMatrices, planWorkspace, unchangedRecipe, type PlanWorkspace } from './plan-matrices.js';
 import { targetBounds } from './target.js';
 import { DRAW_BLOCK } from '../uncertainty/draw-blocks.js';
 import { startYearStreams } from './year-matrix.js';
@@ -246,6 +246,30 @@ function projectYearsTracked(run: ProjectedRun, d0: number, d1: number, from: nu
   if (to === horizon + 1) targetRunsAtHorizon(state.runStart, state.targetRunAtHorizon, horizon, d0, d1);
 }
 
+/**
+ * A draw's own matrices without year-to-year variation: its recipes' (fillPlanMatrices), or the
+ * drawn matrix itself. Here, not in runProjector's closure, as are startMixes and the loops the
+ * kernel took over (planSteps): V8 compiled that closure four times a forecast (130 ms of its
+ * optimiser's time), throwing the code away whenever a run took a branch earlier runs had not
+ * (`--trace-deopt`: "insufficient type feedback").
+ */
+function drawMatrices(plan: RunPlan | undefined, P: Float64Array, at: number, ws: PlanWorkspace | undefined,
+  heard: ((tr: number, outcome: RowChangeOutcome) => void) | undefined, zoneStride: number, own: Float64Array): void {
+  if (ws) fillPlanMatrices(plan!, P, at, ws, heard, zoneStride);
+  else for (let c = 0; c < own.length; c++) own[c] = P[at + c]!;
+}
+
+/** Step 0 of a draw: sub-population g holds weights[g] of its zone's start, and the landscape's mix is their sum (the start itself with one zone). */
+function startMixes(start: ArrayLike<number>, so: number, weights: readonly number[], zoneOf: Int32Array, G: number, k: number, Z: number,
+  mixes: Float64Array, total: Float64Array): void {
+  for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) mixes[g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
+  if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
+  else {
+    total.fill(0);
+    for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += mixes[g * k + s]!;
+  }
+}
+
 /** One run's projection of one draw through steps from … to − 1, with its scratch made once (see projectDrawsTogether). */
 function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32Array, years: Float64Array | undefined,
   kernel: YearKernel, area: Float64Array): (d: number, d0: number, d1: number) => void {
@@ -344,8 +368,7 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   return (d, d0, d1) => {
     const b = (d - d0) % OUTPUT_BLOCK;
     drawNow = d;
-    if (ws && !variation) fillPlanMatrices(plan!, P, d * k2, ws, heard, zoneStride);
-    else if (!ws && !variation) for (let c = 0; c < k2; c++) own[c] = P[d * k2 + c]!;
+    if (!variation) drawMatrices(plan, P, d * k2, ws, heard, zoneStride, own);
     built.fill(-1);
     const hitRow = d * steps;
     const x = d * G * k;
@@ -362,13 +385,7 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
     tracked[k + 1] = runStart[d]!;
     tracked[k + 2] = firstAtTarget[d]!;
     if (from === 0) {
-      const so = startByDraw ? d * Z * k : 0;
-      for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) mixes[g * k + s] = weights[g]! * start[so + zoneOf[g]! * k + s]!;
-      if (Z === 1) for (let s = 0; s < k; s++) total[s] = start[so + s]!;
-      else {
-        total.fill(0);
-        for (let g = 0; g < G; g++) for (let s = 0; s < k; s++) total[s] += mixes[g * k + s]!;
-      }
+      startMixes(start, startByDraw ? d * Z * k : 0, weights, zoneOf, G, k, Z, mixes, total);
       const slot = slotOf[0]!;
       if (slot >= 0) for (let s = 0; s < k; s++) block[(slot * k + s) * OUTPUT_BLOCK + b] = total[s]!;
       trackStep(0, k, totalAt, firstAt, stateAt, hasTarget, membersAt, nMembers, metLow, metHigh, staysMet);

@@ -1,6 +1,6 @@
 import { restrictChain } from '../chain/restrict.js';
 import type { MatrixDraws } from '../uncertainty/draws.js';
-import { stationaryByPattern } from './stationary-by-pattern.js';
+import { StationaryByPattern } from './stationary-by-pattern.js';
 import { gathered, stationaryBlock, stationaryOutputs, stationaryTaskCount, type StationaryJob } from './stationary-tasks.js';
 import { makePool } from './thread-pool.js';
 
@@ -15,7 +15,7 @@ export interface StationaryDraws {
 /**
  * The stationary mix of every draw. A chain's classes depend only on which entries are positive,
  * and posterior draws nearly all share one pattern, so classes are worked out once per pattern
- * (stationaryByPattern). Zones exchange no land, so with zones the landscape's long-run mix is the
+ * (StationaryByPattern). Zones exchange no land, so with zones the landscape's long-run mix is the
  * area-weighted mixture Σ_z w_z·π_z of the zones' own, in each draw where every zone's is unique.
  * On `threads` threads (the run's: its workers are already started), a block of draws a task.
  */
@@ -80,13 +80,13 @@ export function stationaryOfObservedRows(matrices: MatrixDraws, counts: ArrayLik
   }
   if (dropped.length === 0) return null;
   const m = kept.length;
-  const mixOf = stationaryByPattern(m);
+  const stationary = new StationaryByPattern(m);
   const mixes = new Float64Array(count * k);
   let unique = 0; let undefinedDraws = 0;
   for (let d = 0; d < count; d++) {
     const restricted = restrictChain(matrices.data, k, kept, d * k * k);
     if (!restricted) { undefinedDraws += 1; continue; }
-    const mix = mixOf(restricted, 0);
+    const mix = stationary.mixOf(restricted, 0);
     if (!mix) continue;
     kept.forEach((s, a) => { mixes[unique * k + s] = mix[a]!; });
     unique += 1;

@@ -1,7 +1,7 @@
 import { blockCount, DRAW_BLOCK, sharedFloat64 } from '../uncertainty/draw-blocks.js';
 import type { RunPlan } from './plan.js';
 import { fillPlanMatrices, planWorkspace } from './plan-matrices.js';
-import { stationaryByPattern } from './stationary-by-pattern.js';
+import { StationaryByPattern } from './stationary-by-pattern.js';
 import type { StationaryDraws } from './stationary-draws.js';
 
 /**
@@ -42,11 +42,11 @@ export function stationaryTaskCount(job: StationaryJob): number {
 export function stationaryBlock(job: StationaryJob, b: number): void {
   const { k, count, data, mixes, unique } = job;
   const k2 = k * k;
-  const mixOf = stationaryByPattern(k);
+  const stationary = new StationaryByPattern(k);
   const d1 = Math.min(count, (b + 1) * DRAW_BLOCK);
   if (job.kind === 'draws' && !job.shares) {
     for (let d = b * DRAW_BLOCK; d < d1; d++) {
-      const mix = mixOf(data, d * k2);
+      const mix = stationary.mixOf(data, d * k2);
       if (mix) { mixes.set(mix, d * k); unique[d] = 1; }
     }
     return;
@@ -54,7 +54,7 @@ export function stationaryBlock(job: StationaryJob, b: number): void {
   if (job.kind === 'draws') {
     // Zone z's matrix of draw d at (z·count + d)·k².
     const bases = Int32Array.from(job.shares!, (_, z) => z * count * k2);
-    for (let d = b * DRAW_BLOCK; d < d1; d++) unique[d] = mixtureInto(job, d, mixOf, data, bases, d * k2, job.shares!) ? 1 : 0;
+    for (let d = b * DRAW_BLOCK; d < d1; d++) unique[d] = mixtureInto(job, d, stationary, data, bases, d * k2, job.shares!) ? 1 : 0;
     return;
   }
   // Recipe g's matrix of the draw, built into the workspace, at recipes[g]·k².
@@ -63,7 +63,7 @@ export function stationaryBlock(job: StationaryJob, b: number): void {
   const bases = Int32Array.from(recipes, (p) => p * k2);
   for (let d = b * DRAW_BLOCK; d < d1; d++) {
     fillPlanMatrices(plan, data, d * k2, ws, undefined, count * k2);
-    unique[d] = mixtureInto(job, d, mixOf, ws.matrices, bases, 0, weights) ? 1 : 0;
+    unique[d] = mixtureInto(job, d, stationary, ws.matrices, bases, 0, weights) ? 1 : 0;
   }
 }
 
@@ -71,11 +71,11 @@ export function stationaryBlock(job: StationaryJob, b: number): void {
  * Σ_g weights[g]·π_g into `mixes[d·k …]`, π_g the mix of the k × k matrix at `source[bases[g] + shift …]`,
  * added in order of g; false (the rest left as it is) when one of them has no unique mix.
  */
-function mixtureInto(job: StationaryJob, d: number, mixOf: ReturnType<typeof stationaryByPattern>, source: Float64Array,
+function mixtureInto(job: StationaryJob, d: number, stationary: StationaryByPattern, source: Float64Array,
   bases: Int32Array, shift: number, weights: Float64Array): boolean {
   const { k, mixes } = job;
   for (let g = 0; g < bases.length; g++) {
-    const mix = mixOf(source, bases[g]! + shift);
+    const mix = stationary.mixOf(source, bases[g]! + shift);
     if (!mix) return false;
     for (let s = 0; s < k; s++) mixes[d * k + s] = (g === 0 ? 0 : mixes[d * k + s]!) + weights[g]! * mix[s]!;
   }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { communicatingClasses } from '../../src/chain/classes.js';
 import { stationaryGivenClasses } from '../../src/chain/stationary.js';
-import { stationaryByPattern } from '../../src/engine/stationary-by-pattern.js';
+import { StationaryByPattern } from '../../src/engine/stationary-by-pattern.js';
 import { randomStreams } from '../../src/uncertainty/random.js';
 import { stationaryInKernel } from '../../src/uncertainty/year-kernel.js';
 
@@ -42,7 +42,7 @@ describe('the long-run mix in the kernel (year-kernel.ts stationaryInKernel)', (
       const classes = communicatingClasses(P, k, 0);
       const js = stationaryGivenClasses(P, k, 0, classes);
       const closed = classes.classes.filter((_, c) => classes.closed[c]);
-      const byPattern = stationaryByPattern(k)(P, 0);
+      const byPattern = new StationaryByPattern(k).mixOf(P, 0);
       if (!js.unique) {
         expect(byPattern).toBeNull();
         notUnique += 1;
