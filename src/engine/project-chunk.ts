@@ -284,9 +284,9 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const { low: metLow, high: metHigh } = target ? targetBounds(target) : { low: 0, high: 0 };
   const variation = years !== undefined;
   const { plain, G, events, recipes } = runShape(inputs);
-  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
-  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
-  // line for every number (measured: a third of a comparison's time).
+  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer (`block`) copied out as
+  // runs of OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new
+  // cache line for every number (measured: a third of a comparison's time).
   const slots = slotCount(slotOf, from, to);
   if (plain && years) {
     const block = new Float64Array(Math.max(1, slots) * k * OUTPUT_BLOCK);
@@ -335,9 +335,7 @@ function runProjector(run: ProjectedRun, from: number, to: number, slotOf: Int32
   const slotsOf = new Int32Array(area.buffer, area.byteOffset + at * 8, n);
   slotsOf.set(slotOf.subarray(from, to));
   at += Math.ceil(n / 2);
-  // Recorded slots in this chunk, and a [slot][state][draw-in-block] buffer copied out as runs of
-  // OUTPUT_BLOCK numbers: writing straight into the [slot][state][draw] layout touched a new cache
-  // line for every number (measured: a third of a comparison's time).
+  // The output block, in the kernel's memory here, as planSteps writes the recorded mixes into it.
   const block = area.subarray(at, at + Math.max(1, slots) * k * OUTPUT_BLOCK);
   // Byte addresses in the kernel's memory, read once (a view's byteOffset is a property read per use).
   const yearsAt = years ? years.byteOffset : 0;
