@@ -16,9 +16,14 @@ export function stationaryMix(p: ArrayLike<number>, k: number, offset = 0): Stat
   return stationaryGivenClasses(p, k, offset, communicatingClasses(p, k, offset));
 }
 
+/** The closed classes, in order: the long-run mix is unique exactly when there is one (stationaryMix). */
+export function closedClassesOf({ classes, closed }: ChainClasses): (readonly number[])[] {
+  return classes.filter((_, c) => closed[c]);
+}
+
 /** As stationaryMix, with the classes already known (they depend only on which entries are positive). */
-export function stationaryGivenClasses(p: ArrayLike<number>, k: number, offset: number, { classes, closed }: ChainClasses): StationaryResult {
-  const closedClasses = classes.filter((_, c) => closed[c]);
+export function stationaryGivenClasses(p: ArrayLike<number>, k: number, offset: number, classes: ChainClasses): StationaryResult {
+  const closedClasses = closedClassesOf(classes);
   if (closedClasses.length !== 1) return { unique: false, closedClasses };
   const members = closedClasses[0]!;
   const m = members.length;

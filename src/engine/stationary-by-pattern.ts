@@ -1,4 +1,5 @@
 import { communicatingClasses, type ChainClasses } from '../chain/classes.js';
+import { closedClassesOf } from '../chain/stationary.js';
 import { stationaryInKernel } from '../uncertainty/year-kernel.js';
 
 /**
@@ -48,8 +49,8 @@ export class StationaryByPattern {
   }
 }
 
-/** The states of the one closed class, or null when there are two or more (no unique long-run mix: stationaryGivenClasses). */
-function closedMembers({ classes, closed }: ChainClasses): Int32Array | null {
-  const closedClasses = classes.filter((_, c) => closed[c]);
-  return closedClasses.length === 1 ? Int32Array.from(closedClasses[0]!) : null;
+/** The states of the one closed class, or null when there are two or more (no unique long-run mix: chain/stationary.ts). */
+function closedMembers(classes: ChainClasses): Int32Array | null {
+  const closed = closedClassesOf(classes);
+  return closed.length === 1 ? Int32Array.from(closed[0]!) : null;
 }

@@ -56,7 +56,7 @@ export function runChains(job: SamplerJob, settings: AugmentSettings, random: Ra
   const traces = shared(shape.traced * chains * perChain);
   const names = Array.from({ length: chains }, (_, c) => random.stream(`chain:${c}`).name);
   const task: ChainTask = { job, seed: random.seed, names, perChain, warmUp, thin, outputs, traces };
-  runOnThreads(task, chains, samplerThreads(threads, job, settings), (c) => runChain(task, c));
+  runOnThreads(task, samplerThreads(threads, job, settings), (c) => runChain(task, c));
   const rhat = new Float64Array(shape.traced);
   const ess = new Float64Array(shape.traced);
   for (let cell = 0; cell < shape.traced; cell++) {
@@ -142,10 +142,11 @@ export function samplerThreads(requested: number | undefined, job: SamplerJob, s
 export type SamplerTask = ChainTask | ZoneChainTask;
 
 /**
- * Run chains 0 … chains − 1 of a task on `threads` threads: this one (`runOne`) and threads − 1
- * workers (which run the same chain of the same task), taking chains from a shared counter.
+ * Run every chain of a task (one per stream name) on `threads` threads: this one (`runOne`) and
+ * threads − 1 workers (which run the same chain of the same task), taking chains from a shared counter.
  */
-export function runOnThreads(task: SamplerTask, chains: number, threads: number, runOne: (c: number) => void): void {
+export function runOnThreads(task: SamplerTask, threads: number, runOne: (c: number) => void): void {
+  const chains = task.names.length;
   if (threads <= 1) {
     for (let c = 0; c < chains; c++) runOne(c);
     return;
@@ -176,7 +177,8 @@ function workersFor(n: number): WatchedWorker[] {
 }
 
 /** A worker's side of runOnThreads: take chains until none are left, then count itself done and wake the waiting thread. */
-export function drainChains(control: Int32Array, chains: number, runOne: (c: number) => void): void {
+export function drainChains(task: SamplerTask, control: Int32Array, runOne: (c: number) => void): void {
+  const chains = task.names.length;
   try {
     for (let c = Atomics.add(control, NEXT, 1); c < chains; c = Atomics.add(control, NEXT, 1)) runOne(c);
   } catch (error) {

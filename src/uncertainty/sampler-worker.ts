@@ -8,6 +8,5 @@ import { runZoneChain } from './zone-posterior.js';
  * sampler's) with its control words, runs chains until none are left, and says it is done through the control words.
  */
 (workerData as { port: MessagePort }).port.on('message', ({ task, control }: { task: SamplerTask; control: Int32Array }) => {
-  if ('job' in task) drainChains(control, task.names.length, (c) => runChain(task, c));
-  else drainChains(control, task.names.length, (c) => runZoneChain(task, c));
+  drainChains(task, control, 'job' in task ? (c) => runChain(task, c) : (c) => runZoneChain(task, c));
 });

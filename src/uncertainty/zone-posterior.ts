@@ -1,5 +1,5 @@
 import type { GapCell } from '../chain/counts.js';
-import { possibleCells } from '../chain/row-periods.js';
+import { possibleCells, type RowPeriods } from '../chain/row-periods.js';
 import { zoneRows } from '../chain/zone-pooling.js';
 import type { Diagnostics, ZoneSamplerRun } from '../fit/zone-sampler.js';
 import { BURN_IN, KAPPA_PRIOR_SCALE, sampleRowConcentration, type ConcentrationState, type RowConcentrationSamples } from './concentration.js';
@@ -79,9 +79,9 @@ export function sampleZonePosterior(zoneCounts: readonly Float64Array[], mask: U
   const task: ZoneChainTask = {
     zoneCounts, zoneGaps, mask, prior, k, run, seed: random.seed,
     names: Array.from({ length: run.chains }, (_, c) => random.stream('zones').stream(`chain:${c}`).name),
-    rows, ...(augmented ? { completed: shared(total * Z * k * k) } : {}),
+    rows, ...(augmented ? { completed: shared(total * Z * k * k) } : { periods: zoneRows(zoneCounts, mask, k) }),
   };
-  runOnThreads(task, run.chains, zoneThreads(threads, task), (c) => runZoneChain(task, c));
+  runOnThreads(task, zoneThreads(threads, task), (c) => runZoneChain(task, c));
   // Copied out of shared memory: a posterior is plain data (the sample cache packs it).
   const own = (a: Float64Array): Float64Array => Float64Array.from(a);
   return {
@@ -106,7 +106,10 @@ export interface ZoneChainTask {
   /** Chain c's stream (`…/zones/chain:c`), rebuilt on any thread as randomStreams(seed).stream(name). */
   readonly names: readonly string[];
   readonly rows: (RowConcentrationSamples | null)[];
+  /** With gapped pairs: the completed counts of every sample, `[(s·Z + z)·k² …]`. */
   readonly completed?: Float64Array;
+  /** Without them: each row's periods over the zones (zone-pooling.ts zoneRows), which every chain samples. */
+  readonly periods?: readonly RowPeriods[];
 }
 
 /**
@@ -136,7 +139,7 @@ export function runZoneChain(task: ZoneChainTask, c: number): void {
     part = a.rows;
     task.completed.set(a.completed, c * run.kept * zoneCounts.length * k * k);
   } else {
-    part = zoneRows(zoneCounts, mask, k).map((r, i) => {
+    part = task.periods!.map((r, i) => {
       if (r.cells.length < 2) return null;
       const alpha = Array.from(r.cells, (j) => prior[i * k + j]!);
       return sampleRowConcentration(r, alpha, run.kept, chain.stream(`row:${i}`), { burnIn: run.warmUp, thin: run.thin, start: starts[i] });
